@@ -1,0 +1,25 @@
+//! # oblique-core
+//!
+//! The physics of impact welding, with no IO: typed quantities and the unit parser
+//! ([`units`]), steady oblique-collision kinematics under an explicit velocity [`Convention`]
+//! ([`kinematics`]), linear Hugoniots and impedance matching ([`hugoniot`]), the jetting test
+//! from shock polars ([`jetting`]), and the weldability-window criteria with the evaluation of
+//! one process point ([`criteria`]). SI inside; every relation cites its source.
+#![deny(missing_docs)]
+
+pub mod criteria;
+pub mod error;
+pub mod hugoniot;
+pub mod jetting;
+pub mod kinematics;
+pub mod material;
+pub mod process;
+pub mod units;
+
+pub use criteria::{
+    evaluate, evaluate_with_jetting, CriteriaConfig, CriterionId, CriterionResult, Governing,
+    LimitKind, PairSetup, PointEvaluation, WittmanForm,
+};
+pub use error::PhysicsError;
+pub use kinematics::{Collision, Convention};
+pub use material::Material;
