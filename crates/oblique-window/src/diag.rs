@@ -1,0 +1,248 @@
+//! Problems found in a user's file, each with its place: `file:line:col: field: message`.
+
+use crate::ronpath::RonIndex;
+use oblique_core::units::{parse_quantity, QuantityKind};
+use std::fmt;
+
+/// One problem in one file.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Diagnostic {
+    /// The file as the user named it (or `built-in:NAME`).
+    pub file: String,
+    /// 1-based line.
+    pub line: usize,
+    /// 1-based column.
+    pub col: usize,
+    /// The field path, e.g. `observations[2].angle` (empty for syntax errors).
+    pub field: String,
+    /// What is wrong, lowercase, no trailing period.
+    pub message: String,
+    /// How to fix it, when obvious.
+    pub hint: Option<String>,
+}
+
+impl fmt::Display for Diagnostic {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}:{}:{}: ", self.file, self.line, self.col)?;
+        if !self.field.is_empty() {
+            write!(f, "field `{}`: ", self.field)?;
+        }
+        write!(f, "{}", self.message)?;
+        if let Some(h) = &self.hint {
+            write!(f, "\n  hint: {h}")?;
+        }
+        Ok(())
+    }
+}
+
+/// All problems of a load, reported together.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub struct Diagnostics(pub Vec<Diagnostic>);
+
+impl fmt::Display for Diagnostics {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        for (i, d) in self.0.iter().enumerate() {
+            if i > 0 {
+                writeln!(f)?;
+            }
+            write!(f, "{d}")?;
+        }
+        Ok(())
+    }
+}
+
+/// Collects diagnostics for one file while it is validated.
+pub(crate) struct Collector<'a> {
+    pub file: &'a str,
+    pub text: &'a str,
+    pub index: RonIndex,
+    pub problems: Vec<Diagnostic>,
+}
+
+impl<'a> Collector<'a> {
+    pub fn new(file: &'a str, text: &'a str) -> Self {
+        Self {
+            file,
+            text,
+            index: RonIndex::scan(text),
+            problems: Vec::new(),
+        }
+    }
+
+    pub fn push(&mut self, field: &str, message: impl Into<String>, hint: Option<String>) {
+        let (line, col) = self.index.locate(self.text, field);
+        self.problems.push(Diagnostic {
+            file: self.file.to_string(),
+            line,
+            col,
+            field: field.to_string(),
+            message: message.into(),
+            hint,
+        });
+    }
+
+    /// Parse a quantity field, recording a problem (and returning None) when it is bad.
+    pub fn quantity(&mut self, field: &str, text: &str, kind: QuantityKind) -> Option<f64> {
+        match parse_quantity(text, kind) {
+            Ok(v) => Some(v),
+            Err(e) => {
+                self.push(
+                    field,
+                    e.to_string(),
+                    Some(format!("write it like \"{}\"", kind.example())),
+                );
+                None
+            }
+        }
+    }
+
+    pub fn finish(self) -> Result<(), Diagnostics> {
+        if self.problems.is_empty() {
+            Ok(())
+        } else {
+            Err(Diagnostics(self.problems))
+        }
+    }
+}
+
+/// Deserialise RON text with the options every oblique file uses (implicit `Some`, so optional
+/// fields are written plainly).
+///
+/// # Errors
+/// The syntax or structure problem, with its place.
+pub fn parse_ron<T: serde::de::DeserializeOwned>(file: &str, text: &str) -> Result<T, Diagnostics> {
+    ron::Options::default()
+        .with_default_extension(ron::extensions::Extensions::IMPLICIT_SOME)
+        .from_str(text)
+        .map_err(|e| Diagnostics(vec![from_ron(file, text, &e)]))
+}
+
+/// Byte offset of a 1-based (line, column) in `text`.
+fn offset_of(text: &str, line: usize, col: usize) -> usize {
+    let mut off = 0;
+    for (i, l) in text.split_inclusive('\n').enumerate() {
+        if i + 1 == line {
+            return off
+                + l.char_indices()
+                    .nth(col.saturating_sub(1))
+                    .map_or(l.len(), |(b, _)| b);
+        }
+        off += l.len();
+    }
+    text.len()
+}
+
+/// Turn a ron deserialisation error into a diagnostic, with a suggestion for misspelt keys.
+pub(crate) fn from_ron(file: &str, text: &str, err: &ron::error::SpannedError) -> Diagnostic {
+    let message = err.code.to_string();
+    let hint = match &err.code {
+        ron::Error::NoSuchStructField {
+            expected, found, ..
+        } => closest(found, expected.iter().copied()).map(|c| format!("did you mean `{c}`?")),
+        ron::Error::NoSuchEnumVariant {
+            expected, found, ..
+        } => closest(found, expected.iter().copied()).map(|c| format!("did you mean `{c}`?")),
+        ron::Error::MissingStructField { field, .. } => Some(format!("add `{field}: ...`")),
+        _ => None,
+    };
+    let (mut line, mut col) = (err.span.start.line, err.span.start.col);
+    // ron points after an unknown key; point at the key itself, the last one of that name
+    // before the reported place.
+    if let ron::Error::NoSuchStructField { found, .. } = &err.code {
+        let here = offset_of(text, line, col).min(text.len());
+        let mut search = &text[..here];
+        while let Some(pos) = search.rfind(found.as_str()) {
+            let after = text[pos + found.len()..].trim_start();
+            let boundary_before = pos == 0
+                || !text.as_bytes()[pos - 1].is_ascii_alphanumeric()
+                    && text.as_bytes()[pos - 1] != b'_';
+            if after.starts_with(':') && boundary_before {
+                let before = &text[..pos];
+                line = before.matches('\n').count() + 1;
+                col = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+                break;
+            }
+            search = &text[..pos];
+        }
+    }
+    Diagnostic {
+        file: file.to_string(),
+        line,
+        col,
+        field: String::new(),
+        message: lowercase_first(&message),
+        hint,
+    }
+}
+
+fn lowercase_first(s: &str) -> String {
+    let mut c = s.chars();
+    match c.next() {
+        Some(f) => f.to_lowercase().collect::<String>() + c.as_str(),
+        None => String::new(),
+    }
+}
+
+/// The candidate closest to `word` by edit distance, if it is close enough to be a typo.
+pub fn closest<'b>(word: &str, candidates: impl IntoIterator<Item = &'b str>) -> Option<&'b str> {
+    candidates
+        .into_iter()
+        .map(|c| (edit_distance(word, c), c))
+        .filter(|(d, c)| *d <= (c.len().max(word.len()) / 3).max(2))
+        .min_by_key(|(d, _)| *d)
+        .map(|(_, c)| c)
+}
+
+/// All candidates within a typo's distance of `word`, or sharing a prefix with it, best first.
+pub fn close_matches<'b>(
+    word: &str,
+    candidates: impl IntoIterator<Item = &'b str>,
+) -> Vec<&'b str> {
+    let w = word.to_ascii_lowercase();
+    let mut scored: Vec<(usize, &str)> = candidates
+        .into_iter()
+        .filter_map(|c| {
+            let d = edit_distance(&w, &c.to_ascii_lowercase());
+            let prefix = w.len() >= 2 && c.to_ascii_lowercase().contains(&w);
+            (d <= (c.len().max(w.len()) / 3).max(2) || prefix).then_some((d, c))
+        })
+        .collect();
+    scored.sort();
+    scored.into_iter().map(|(_, c)| c).take(5).collect()
+}
+
+/// Levenshtein distance over characters.
+pub fn edit_distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.chars().collect();
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    let mut cur = vec![0; b.len() + 1];
+    for i in 1..=a.len() {
+        cur[0] = i;
+        for j in 1..=b.len() {
+            let cost = usize::from(a[i - 1] != b[j - 1]);
+            cur[j] = (prev[j] + 1).min(cur[j - 1] + 1).min(prev[j - 1] + cost);
+        }
+        std::mem::swap(&mut prev, &mut cur);
+    }
+    prev[b.len()]
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn suggestions() {
+        assert_eq!(
+            closest("velocty", ["velocity", "angle", "outcome"]),
+            Some("velocity")
+        );
+        assert_eq!(closest("zzz", ["velocity", "angle"]), None);
+        assert_eq!(
+            close_matches("aa6061", ["aa6061-t6", "aa1100-o", "cu-c11000"]),
+            vec!["aa6061-t6"]
+        );
+        assert_eq!(edit_distance("kitten", "sitting"), 3);
+    }
+}

@@ -1,0 +1,280 @@
+//! The library: the built-in files (embedded from `windows/` at build time) plus user folders
+//! given with `--library DIR` or the `OBLIQUE_LIBRARY` environment variable. User entries may
+//! add materials and pairs, and may shadow built-in ones (with a warning).
+
+use crate::diag::{Diagnostic, Diagnostics};
+use crate::materials::{parse_material_file, MaterialRecord};
+use crate::pair::{parse_pair_file, Origin, PairWindow};
+use sha2::{Digest, Sha256};
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+mod builtin {
+    include!(concat!(env!("OUT_DIR"), "/builtin.rs"));
+}
+
+pub use builtin::BUILTIN_FILES;
+
+/// The environment variable naming extra library folders, separated like PATH.
+pub const LIBRARY_ENV: &str = "OBLIQUE_LIBRARY";
+
+/// The file name of a folder's material file.
+pub const MATERIALS_FILE: &str = "materials.ron";
+
+/// A file the library was loaded from.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct LibraryFile {
+    /// As shown in messages.
+    pub display: String,
+    /// On disk, for user files.
+    pub path: Option<PathBuf>,
+    /// SHA-256 of the bytes, hex.
+    pub sha256: String,
+}
+
+/// The loaded library.
+#[derive(Debug, Clone, Default)]
+pub struct Library {
+    /// Materials by id.
+    pub materials: BTreeMap<String, MaterialRecord>,
+    /// Pair windows by name.
+    pub pairs: BTreeMap<String, PairWindow>,
+    /// Shadowing and other notes for the user.
+    pub warnings: Vec<String>,
+    /// Every file read, in load order.
+    pub files: Vec<LibraryFile>,
+    /// The user folders, in priority order.
+    pub user_dirs: Vec<PathBuf>,
+}
+
+/// Hex SHA-256 of bytes.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    let digest = Sha256::digest(bytes);
+    digest.iter().map(|b| format!("{b:02x}")).collect()
+}
+
+/// The user folders named by [`LIBRARY_ENV`].
+pub fn env_dirs() -> Vec<PathBuf> {
+    std::env::var_os(LIBRARY_ENV)
+        .map(|v| {
+            std::env::split_paths(&v)
+                .filter(|p| !p.as_os_str().is_empty())
+                .collect()
+        })
+        .unwrap_or_default()
+}
+
+struct Source {
+    display: String,
+    path: Option<PathBuf>,
+    text: String,
+}
+
+fn io_problem(display: &str, message: String) -> Diagnostic {
+    Diagnostic {
+        file: display.to_string(),
+        line: 1,
+        col: 1,
+        field: String::new(),
+        message,
+        hint: None,
+    }
+}
+
+/// The `.ron` files of a user folder: (materials file, pair files), sorted by name. Hidden files
+/// (such as interrupted temporary files) are skipped.
+fn user_files(dir: &Path, problems: &mut Vec<Diagnostic>) -> (Option<Source>, Vec<Source>) {
+    let display_dir = dir.display().to_string();
+    let entries = match std::fs::read_dir(dir) {
+        Ok(e) => e,
+        Err(e) => {
+            problems.push(Diagnostic {
+                file: display_dir,
+                line: 1,
+                col: 1,
+                field: String::new(),
+                message: format!("cannot read library folder: {e}"),
+                hint: Some("check the path given with --library or OBLIQUE_LIBRARY".into()),
+            });
+            return (None, Vec::new());
+        }
+    };
+    let mut paths: Vec<PathBuf> = entries.filter_map(Result::ok).map(|e| e.path()).collect();
+    paths.sort();
+    let mut materials = None;
+    let mut pairs = Vec::new();
+    for p in paths {
+        let name = p
+            .file_name()
+            .and_then(|n| n.to_str())
+            .unwrap_or_default()
+            .to_string();
+        if name.starts_with('.')
+            || !p.is_file()
+            || p.extension().and_then(|e| e.to_str()) != Some("ron")
+        {
+            continue;
+        }
+        let display = p.display().to_string();
+        match std::fs::read_to_string(&p) {
+            Ok(text) => {
+                let s = Source {
+                    display,
+                    path: Some(p.clone()),
+                    text,
+                };
+                if name == MATERIALS_FILE {
+                    materials = Some(s);
+                } else {
+                    pairs.push(s);
+                }
+            }
+            Err(e) => problems.push(io_problem(&display, format!("cannot read: {e}"))),
+        }
+    }
+    (materials, pairs)
+}
+
+impl Library {
+    /// Load the built-in library and then each user folder in `user_dirs` (earlier folders win
+    /// over later ones; all win over the built-in files).
+    ///
+    /// # Errors
+    /// Every problem in every file, together.
+    pub fn load(user_dirs: &[PathBuf]) -> Result<Library, Diagnostics> {
+        let mut lib = Library {
+            user_dirs: user_dirs.to_vec(),
+            ..Default::default()
+        };
+        let mut problems = Vec::new();
+        let mut material_sources = Vec::new();
+        let mut pair_sources = Vec::new();
+        for (rel, text) in BUILTIN_FILES {
+            if rel.starts_with("machines/") {
+                continue;
+            }
+            let s = Source {
+                display: format!("built-in:windows/{rel}"),
+                path: None,
+                text: (*text).to_string(),
+            };
+            if *rel == MATERIALS_FILE {
+                material_sources.push(s);
+            } else {
+                pair_sources.push(s);
+            }
+        }
+        // Lowest priority first, so later inserts shadow earlier ones.
+        for dir in user_dirs.iter().rev() {
+            let (m, p) = user_files(dir, &mut problems);
+            material_sources.extend(m);
+            pair_sources.extend(p);
+        }
+        for s in &material_sources {
+            lib.files.push(LibraryFile {
+                display: s.display.clone(),
+                path: s.path.clone(),
+                sha256: sha256_hex(s.text.as_bytes()),
+            });
+            match parse_material_file(&s.display, &s.text) {
+                Ok((_, records)) => {
+                    for r in records {
+                        if let Some(old) = lib.materials.get(&r.material.id) {
+                            lib.warnings.push(format!(
+                                "material '{}' from {} shadows the one from {}",
+                                r.material.id, r.origin, old.origin
+                            ));
+                        }
+                        lib.materials.insert(r.material.id.clone(), r);
+                    }
+                }
+                Err(d) => problems.extend(d.0),
+            }
+        }
+        for s in &pair_sources {
+            let sha = sha256_hex(s.text.as_bytes());
+            lib.files.push(LibraryFile {
+                display: s.display.clone(),
+                path: s.path.clone(),
+                sha256: sha.clone(),
+            });
+            let origin = Origin {
+                display: s.display.clone(),
+                path: s.path.clone(),
+                sha256: sha,
+            };
+            match parse_pair_file(origin, &s.text, &lib.materials) {
+                Ok((_, w)) => {
+                    if let Some(old) = lib.pairs.get(&w.name) {
+                        let same_folder = match (&old.origin.path, &w.origin.path) {
+                            (Some(a), Some(b)) => a.parent() == b.parent(),
+                            (None, None) => true,
+                            _ => false,
+                        };
+                        if same_folder {
+                            problems.push(Diagnostic {
+                                file: w.origin.display.clone(),
+                                line: 1,
+                                col: 1,
+                                field: "name".into(),
+                                message: format!(
+                                    "duplicate pair name '{}' (also in {})",
+                                    w.name, old.origin.display
+                                ),
+                                hint: Some("give each pair file its own name".into()),
+                            });
+                            continue;
+                        }
+                        lib.warnings.push(format!(
+                            "pair '{}' from {} shadows the one from {}",
+                            w.name, w.origin.display, old.origin.display
+                        ));
+                    }
+                    lib.pairs.insert(w.name.clone(), w);
+                }
+                Err(d) => problems.extend(d.0),
+            }
+        }
+        if problems.is_empty() {
+            Ok(lib)
+        } else {
+            Err(Diagnostics(problems))
+        }
+    }
+
+    /// A material by id, or a message with close ids.
+    ///
+    /// # Errors
+    /// A message naming close ids.
+    pub fn material(&self, id: &str) -> Result<&MaterialRecord, String> {
+        self.materials.get(id).ok_or_else(|| {
+            let near = crate::diag::close_matches(id, self.materials.keys().map(String::as_str));
+            if near.is_empty() {
+                format!("unknown material id '{id}'\n  hint: `oblique material list` shows the ids")
+            } else {
+                format!(
+                    "unknown material id '{id}'\n  hint: did you mean {}?",
+                    near.join(", ")
+                )
+            }
+        })
+    }
+
+    /// A pair by name, or a message with close names.
+    ///
+    /// # Errors
+    /// A message naming close pairs.
+    pub fn pair(&self, name: &str) -> Result<&PairWindow, String> {
+        self.pairs.get(name).ok_or_else(|| {
+            let near = crate::diag::close_matches(name, self.pairs.keys().map(String::as_str));
+            if near.is_empty() {
+                format!("unknown pair '{name}'\n  hint: `oblique pair list` shows the pairs")
+            } else {
+                format!(
+                    "unknown pair '{name}'\n  hint: did you mean {}?",
+                    near.join(", ")
+                )
+            }
+        })
+    }
+}

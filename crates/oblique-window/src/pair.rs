@@ -1,0 +1,878 @@
+//! Pair window files: one material pair and flyer thickness, the model criteria in use, the
+//! user's boundaries and the trial observations, with provenance. See `docs/window-format.md`.
+
+use crate::boundary::{self_crossing, Boundary, Plane, WeldSide};
+use crate::diag::{close_matches, parse_ron, Collector, Diagnostics};
+use crate::materials::{validate_entries, MaterialEntry, MaterialRecord, Revision};
+use oblique_core::units::{Angle, Length, QuantityKind, Velocity};
+use oblique_core::{Convention, CriteriaConfig, CriterionId, WittmanForm};
+use serde::{Deserialize, Serialize};
+use std::collections::BTreeMap;
+
+/// The format tag every pair window file carries.
+pub const WINDOW_FORMAT: &str = "oblique-window/1";
+
+fn yes() -> bool {
+    true
+}
+
+/// A criterion that has only a switch.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Switch {
+    /// On or off.
+    #[serde(default = "yes")]
+    pub enabled: bool,
+    /// Why it was changed from the default, if it was.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub reason: Option<String>,
+}
+
+impl Default for Switch {
+    fn default() -> Self {
+        Self {
+            enabled: true,
+            reason: None,
+        }
+    }
+}
+
+/// Deribas settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct DeribasEntry {
+    /// On or off.
+    #[serde(default = "yes")]
+    pub enabled: bool,
+    /// Constant k.
+    #[serde(default = "default_k")]
+    pub k: f64,
+    /// Why it was changed from the default, if it was.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub reason: Option<String>,
+}
+fn default_k() -> f64 {
+    0.6
+}
+impl Default for DeribasEntry {
+    fn default() -> Self {
+        Self {
+            enabled: true,
+            k: default_k(),
+            reason: None,
+        }
+    }
+}
+
+/// Pressure-limit settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PressureEntry {
+    /// On or off.
+    #[serde(default = "yes")]
+    pub enabled: bool,
+    /// Multiple of the Hugoniot elastic limit.
+    #[serde(default = "default_hel")]
+    pub hel_multiple: f64,
+    /// Why it was changed from the default, if it was.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub reason: Option<String>,
+}
+fn default_hel() -> f64 {
+    5.0
+}
+impl Default for PressureEntry {
+    fn default() -> Self {
+        Self {
+            enabled: true,
+            hel_multiple: default_hel(),
+            reason: None,
+        }
+    }
+}
+
+/// Melting-limit settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct MeltingEntry {
+    /// On or off.
+    #[serde(default = "yes")]
+    pub enabled: bool,
+    /// Wittman constant N.
+    #[serde(default = "default_n")]
+    pub n: f64,
+    /// `"a"` or `"b"` (see docs/theory.md).
+    #[serde(default = "default_form")]
+    pub form: String,
+    /// Why it was changed from the default, if it was.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub reason: Option<String>,
+}
+fn default_n() -> f64 {
+    0.11
+}
+fn default_form() -> String {
+    "a".into()
+}
+impl Default for MeltingEntry {
+    fn default() -> Self {
+        Self {
+            enabled: true,
+            n: default_n(),
+            form: default_form(),
+            reason: None,
+        }
+    }
+}
+
+/// Wavy-transition settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct WavyEntry {
+    /// On or off.
+    #[serde(default = "yes")]
+    pub enabled: bool,
+    /// Critical Reynolds number.
+    #[serde(default = "default_re")]
+    pub critical_reynolds: f64,
+    /// Why it was changed from the default, if it was.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub reason: Option<String>,
+}
+fn default_re() -> f64 {
+    10.6
+}
+impl Default for WavyEntry {
+    fn default() -> Self {
+        Self {
+            enabled: true,
+            critical_reynolds: default_re(),
+            reason: None,
+        }
+    }
+}
+
+/// The model criteria section.
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct CriteriaSection {
+    /// Deribas lower angle.
+    #[serde(default)]
+    pub deribas_lower: DeribasEntry,
+    /// Strength lower velocity.
+    #[serde(default)]
+    pub strength_lower: Switch,
+    /// Pressure lower.
+    #[serde(default)]
+    pub pressure_lower: PressureEntry,
+    /// Wittman melting upper.
+    #[serde(default)]
+    pub melting_upper: MeltingEntry,
+    /// Jetting.
+    #[serde(default)]
+    pub jetting: Switch,
+    /// Wavy transition (informational).
+    #[serde(default)]
+    pub wavy_transition: WavyEntry,
+}
+
+/// A boundary as written.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct BoundaryEntry {
+    /// Label.
+    pub label: String,
+    /// `angle-impact-velocity` or `angle-collision-velocity`.
+    pub plane: String,
+    /// `above`, `below`, `left` or `right`.
+    pub weld_side: String,
+    /// Points as (velocity, angle), units in the strings.
+    pub points: Vec<(String, String)>,
+    /// Where the line comes from.
+    pub provenance: String,
+}
+
+/// An observation as written.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ObservationEntry {
+    /// Impact velocity in the file's convention, with unit.
+    pub velocity: String,
+    /// Collision angle, with unit.
+    pub angle: String,
+    /// `welded`, `not-welded`, `partial` or `melted`.
+    pub outcome: String,
+    /// `magnetic-pulse`, `explosive`, `foil-actuator`, `laser`, `gas-gun` or `other`.
+    pub process: String,
+    /// How velocity and angle were obtained: `measured`, `simulated` or `estimated`.
+    pub method: String,
+    /// Standard uncertainty of the velocity, with unit.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub velocity_uncertainty: Option<String>,
+    /// Standard uncertainty of the angle, with unit.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub angle_uncertainty: Option<String>,
+    /// ISO date of the shot.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub date: Option<String>,
+    /// Source or report reference.
+    pub source: String,
+    /// Free note.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub note: Option<String>,
+}
+
+/// The whole pair window file.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PairFile {
+    /// Must be [`WINDOW_FORMAT`].
+    pub format: String,
+    /// Unique pair name.
+    pub name: String,
+    /// What the window is for.
+    #[serde(default)]
+    pub description: String,
+    /// Set when the data are invented (demo): says so in words.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub invented: Option<String>,
+    /// Flyer material id.
+    pub flyer: String,
+    /// Parent material id.
+    pub parent: String,
+    /// Flyer thickness with unit.
+    pub flyer_thickness: String,
+    /// Parent thickness with unit, if known.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub parent_thickness: Option<String>,
+    /// Velocity convention of the observations and of `angle-impact-velocity` boundaries.
+    pub convention: String,
+    /// Who maintains the file.
+    pub maintainer: String,
+    /// Revision notes.
+    #[serde(default)]
+    pub revisions: Vec<Revision>,
+    /// Model criteria in use.
+    #[serde(default)]
+    pub criteria: CriteriaSection,
+    /// User boundaries.
+    #[serde(default)]
+    pub boundaries: Vec<BoundaryEntry>,
+    /// Source keys for inline materials.
+    #[serde(default)]
+    pub sources: BTreeMap<String, String>,
+    /// Inline materials (used when not in the material library).
+    #[serde(default)]
+    pub materials: Vec<MaterialEntry>,
+    /// Trial observations.
+    #[serde(default)]
+    pub observations: Vec<ObservationEntry>,
+}
+
+/// Observed result of a trial.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Outcome {
+    /// Sound weld.
+    Welded,
+    /// No bond.
+    NotWelded,
+    /// Bond over part of the interface.
+    Partial,
+    /// Melted or brittle interface.
+    Melted,
+}
+
+impl Outcome {
+    /// All outcomes.
+    pub const ALL: [Outcome; 4] = [
+        Outcome::Welded,
+        Outcome::NotWelded,
+        Outcome::Partial,
+        Outcome::Melted,
+    ];
+    /// The word in files and flags.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Outcome::Welded => "welded",
+            Outcome::NotWelded => "not-welded",
+            Outcome::Partial => "partial",
+            Outcome::Melted => "melted",
+        }
+    }
+    /// Parse the word.
+    pub fn parse(s: &str) -> Option<Self> {
+        Self::ALL.into_iter().find(|o| o.as_str() == s)
+    }
+}
+
+/// The process of a trial.
+pub const PROCESSES: [&str; 6] = [
+    "magnetic-pulse",
+    "explosive",
+    "foil-actuator",
+    "laser",
+    "gas-gun",
+    "other",
+];
+/// How a trial's velocity and angle were obtained.
+pub const METHODS: [&str; 3] = ["measured", "simulated", "estimated"];
+
+/// A validated observation.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Observation {
+    /// Position in the file's list.
+    pub index: usize,
+    /// Impact velocity (file's convention).
+    pub velocity: Velocity,
+    /// Collision angle.
+    pub angle: Angle,
+    /// Observed outcome.
+    pub outcome: Outcome,
+    /// Process word.
+    pub process: String,
+    /// Method word.
+    pub method: String,
+    /// Velocity uncertainty.
+    pub velocity_uncertainty: Option<Velocity>,
+    /// Angle uncertainty.
+    pub angle_uncertainty: Option<Angle>,
+    /// Date.
+    pub date: Option<String>,
+    /// Source.
+    pub source: String,
+    /// Note.
+    pub note: Option<String>,
+}
+
+/// Where a pair window was loaded from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Origin {
+    /// The name used in messages: a path, or `built-in:windows/NAME.ron`.
+    pub display: String,
+    /// The file on disk, for user files.
+    pub path: Option<std::path::PathBuf>,
+    /// SHA-256 of the file's bytes, hex.
+    pub sha256: String,
+}
+
+/// A validated pair window.
+#[derive(Debug, Clone)]
+pub struct PairWindow {
+    /// Unique name.
+    pub name: String,
+    /// Description.
+    pub description: String,
+    /// Invented-data statement, if any.
+    pub invented: Option<String>,
+    /// Flyer.
+    pub flyer: MaterialRecord,
+    /// Parent.
+    pub parent: MaterialRecord,
+    /// Flyer thickness.
+    pub flyer_thickness: Length,
+    /// Parent thickness.
+    pub parent_thickness: Option<Length>,
+    /// Convention of the observations.
+    pub convention: Convention,
+    /// Maintainer.
+    pub maintainer: String,
+    /// Revisions.
+    pub revisions: Vec<Revision>,
+    /// Criteria configuration.
+    pub criteria: CriteriaConfig,
+    /// Reasons recorded for changed criteria.
+    pub criteria_reasons: BTreeMap<CriterionId, String>,
+    /// Boundaries.
+    pub boundaries: Vec<Boundary>,
+    /// Observations.
+    pub observations: Vec<Observation>,
+    /// Origin.
+    pub origin: Origin,
+}
+
+/// Resolve a material id against the library, falling back to the file's inline materials.
+fn resolve(
+    c: &mut Collector<'_>,
+    field: &str,
+    id: &str,
+    inline: &[MaterialRecord],
+    library: &BTreeMap<String, MaterialRecord>,
+) -> Option<MaterialRecord> {
+    if let Some(m) = inline.iter().find(|m| m.material.id == id) {
+        return Some(m.clone());
+    }
+    if let Some(m) = library.get(id) {
+        return Some(m.clone());
+    }
+    let near = close_matches(
+        id,
+        library
+            .keys()
+            .map(String::as_str)
+            .chain(inline.iter().map(|m| m.material.id.as_str())),
+    );
+    let hint = if near.is_empty() {
+        "run `oblique material list` for the ids, or add the material to the file's `materials` list".to_string()
+    } else {
+        format!("close ids: {}", near.join(", "))
+    };
+    c.push(field, format!("unknown material id '{id}'"), Some(hint));
+    None
+}
+
+fn check_constant(c: &mut Collector<'_>, field: &str, value: f64) {
+    if !(value.is_finite() && value > 0.0) {
+        c.push(
+            field,
+            format!("constant {value} must be a finite number above zero"),
+            None,
+        );
+    }
+}
+
+/// Parse and validate a pair window file. `materials` is the material library to resolve ids.
+///
+/// # Errors
+/// Every problem found, each with file, line, column and field.
+pub fn parse_pair_file(
+    origin: Origin,
+    text: &str,
+    materials: &BTreeMap<String, MaterialRecord>,
+) -> Result<(PairFile, PairWindow), Diagnostics> {
+    let file = origin.display.clone();
+    let parsed: PairFile = parse_ron(&file, text)?;
+    let mut c = Collector::new(&file, text);
+    if parsed.format != WINDOW_FORMAT {
+        c.push(
+            "format",
+            format!("unsupported format '{}'", parsed.format),
+            Some(format!("this version reads \"{WINDOW_FORMAT}\"")),
+        );
+    }
+    if parsed.name.trim().is_empty()
+        || parsed
+            .name
+            .chars()
+            .any(|ch| ch.is_whitespace() || ch == '/' || ch == '\\')
+    {
+        c.push(
+            "name",
+            format!(
+                "pair name '{}' must be non-empty, without spaces or slashes",
+                parsed.name
+            ),
+            Some("use names like \"al6061-on-cu\"".into()),
+        );
+    }
+    let inline = validate_entries(
+        &mut c,
+        "materials",
+        &parsed.materials,
+        &parsed.sources,
+        &file,
+    );
+    let flyer = resolve(&mut c, "flyer", &parsed.flyer, &inline, materials);
+    let parent = resolve(&mut c, "parent", &parsed.parent, &inline, materials);
+    let flyer_thickness = c.quantity(
+        "flyer_thickness",
+        &parsed.flyer_thickness,
+        QuantityKind::Length,
+    );
+    if let Some(t) = flyer_thickness {
+        if !(t > 0.0) {
+            c.push(
+                "flyer_thickness",
+                "flyer thickness must be above zero",
+                None,
+            );
+        }
+    }
+    let parent_thickness = match &parsed.parent_thickness {
+        Some(t) => {
+            let v = c.quantity("parent_thickness", t, QuantityKind::Length);
+            if let Some(v) = v {
+                if !(v > 0.0) {
+                    c.push(
+                        "parent_thickness",
+                        "parent thickness must be above zero",
+                        None,
+                    );
+                }
+            }
+            v
+        }
+        None => None,
+    };
+    let convention = match parsed.convention.parse::<Convention>() {
+        Ok(cv) => Some(cv),
+        Err(e) => {
+            c.push("convention", e.to_string(), None);
+            None
+        }
+    };
+
+    // Criteria.
+    let cs = &parsed.criteria;
+    check_constant(&mut c, "criteria.deribas_lower.k", cs.deribas_lower.k);
+    check_constant(
+        &mut c,
+        "criteria.pressure_lower.hel_multiple",
+        cs.pressure_lower.hel_multiple,
+    );
+    check_constant(&mut c, "criteria.melting_upper.n", cs.melting_upper.n);
+    check_constant(
+        &mut c,
+        "criteria.wavy_transition.critical_reynolds",
+        cs.wavy_transition.critical_reynolds,
+    );
+    let form = match cs.melting_upper.form.as_str() {
+        "a" => WittmanForm::A,
+        "b" => WittmanForm::B,
+        other => {
+            c.push(
+                "criteria.melting_upper.form",
+                format!("unknown form '{other}'"),
+                Some("use \"a\" or \"b\" (see docs/theory.md)".into()),
+            );
+            WittmanForm::A
+        }
+    };
+    let criteria = CriteriaConfig {
+        deribas_enabled: cs.deribas_lower.enabled,
+        deribas_k: cs.deribas_lower.k,
+        strength_enabled: cs.strength_lower.enabled,
+        pressure_enabled: cs.pressure_lower.enabled,
+        hel_multiple: cs.pressure_lower.hel_multiple,
+        melting_enabled: cs.melting_upper.enabled,
+        wittman_n: cs.melting_upper.n,
+        wittman_form: form,
+        jetting_enabled: cs.jetting.enabled,
+        wavy_enabled: cs.wavy_transition.enabled,
+        wavy_critical_reynolds: cs.wavy_transition.critical_reynolds,
+    };
+    let mut criteria_reasons = BTreeMap::new();
+    let defaults = CriteriaSection::default();
+    let changed = [
+        (
+            CriterionId::DeribasLower,
+            "deribas_lower",
+            cs.deribas_lower
+                != DeribasEntry {
+                    reason: cs.deribas_lower.reason.clone(),
+                    ..defaults.deribas_lower.clone()
+                },
+            &cs.deribas_lower.reason,
+        ),
+        (
+            CriterionId::StrengthLower,
+            "strength_lower",
+            !cs.strength_lower.enabled,
+            &cs.strength_lower.reason,
+        ),
+        (
+            CriterionId::PressureLower,
+            "pressure_lower",
+            cs.pressure_lower
+                != PressureEntry {
+                    reason: cs.pressure_lower.reason.clone(),
+                    ..defaults.pressure_lower.clone()
+                },
+            &cs.pressure_lower.reason,
+        ),
+        (
+            CriterionId::MeltingUpper,
+            "melting_upper",
+            cs.melting_upper
+                != MeltingEntry {
+                    reason: cs.melting_upper.reason.clone(),
+                    ..defaults.melting_upper.clone()
+                },
+            &cs.melting_upper.reason,
+        ),
+        (
+            CriterionId::Jetting,
+            "jetting",
+            !cs.jetting.enabled,
+            &cs.jetting.reason,
+        ),
+        (
+            CriterionId::WavyTransition,
+            "wavy_transition",
+            cs.wavy_transition
+                != WavyEntry {
+                    reason: cs.wavy_transition.reason.clone(),
+                    ..defaults.wavy_transition.clone()
+                },
+            &cs.wavy_transition.reason,
+        ),
+    ];
+    for (id, key, is_changed, reason) in changed {
+        match reason {
+            Some(r) if !r.trim().is_empty() => {
+                criteria_reasons.insert(id, r.clone());
+            }
+            _ if is_changed => c.push(
+                &format!("criteria.{key}"),
+                format!("{key} differs from the default but gives no reason"),
+                Some("add `reason: \"...\"` saying why (a trial series, a paper)".into()),
+            ),
+            _ => {}
+        }
+    }
+
+    // Boundaries.
+    let mut boundaries = Vec::new();
+    for (i, b) in parsed.boundaries.iter().enumerate() {
+        let base = format!("boundaries[{i}]");
+        let plane = Plane::parse(&b.plane);
+        if plane.is_none() {
+            c.push(
+                &format!("{base}.plane"),
+                format!("unknown plane '{}'", b.plane),
+                Some("use \"angle-impact-velocity\" or \"angle-collision-velocity\"".into()),
+            );
+        }
+        let side = WeldSide::parse(&b.weld_side);
+        if side.is_none() {
+            c.push(
+                &format!("{base}.weld_side"),
+                format!("unknown weld side '{}'", b.weld_side),
+                Some("use \"above\", \"below\", \"left\" or \"right\"".into()),
+            );
+        }
+        if b.label.trim().is_empty() {
+            c.push(&format!("{base}.label"), "a boundary needs a label", None);
+        }
+        if b.provenance.trim().is_empty() {
+            c.push(
+                &format!("{base}.provenance"),
+                "a boundary needs its provenance (who drew it, from which trials)",
+                None,
+            );
+        }
+        if b.points.len() < 2 {
+            c.push(
+                &format!("{base}.points"),
+                format!(
+                    "a boundary needs at least two points, found {}",
+                    b.points.len()
+                ),
+                None,
+            );
+            continue;
+        }
+        let mut pts = Vec::new();
+        for (j, (v, a)) in b.points.iter().enumerate() {
+            let v = c.quantity(&format!("{base}.points[{j}][0]"), v, QuantityKind::Velocity);
+            let a = c.quantity(&format!("{base}.points[{j}][1]"), a, QuantityKind::Angle);
+            if let (Some(v), Some(a)) = (v, a) {
+                let deg = a.to_degrees();
+                if !(v > 0.0) {
+                    c.push(
+                        &format!("{base}.points[{j}][0]"),
+                        "boundary velocity must be above zero",
+                        None,
+                    );
+                } else if !(deg > 0.0 && deg < 90.0) {
+                    c.push(
+                        &format!("{base}.points[{j}][1]"),
+                        format!("angle {deg} deg is outside (0, 90) deg"),
+                        None,
+                    );
+                } else {
+                    pts.push((Velocity::from_m_s(v), Angle::from_radians(a)));
+                }
+            }
+        }
+        if pts.len() != b.points.len() {
+            continue;
+        }
+        let xy: Vec<(f64, f64)> = pts
+            .iter()
+            .map(|(v, a)| (v.si() / 1000.0, a.degrees()))
+            .collect();
+        if let Some((s1, s2)) = self_crossing(&xy) {
+            c.push(
+                &format!("{base}.points"),
+                format!("the polyline crosses itself (segment {s1} and segment {s2})"),
+                Some("a boundary must be a simple line; split it into two boundaries".into()),
+            );
+            continue;
+        }
+        let (Some(plane), Some(side)) = (plane, side) else {
+            continue;
+        };
+        let along: Vec<f64> = if side.along_velocity() {
+            xy.iter().map(|p| p.0).collect()
+        } else {
+            xy.iter().map(|p| p.1).collect()
+        };
+        let increasing = along.windows(2).all(|w| w[1] > w[0]);
+        let decreasing = along.windows(2).all(|w| w[1] < w[0]);
+        if !(increasing || decreasing) {
+            let axis = if side.along_velocity() {
+                "velocity"
+            } else {
+                "angle"
+            };
+            c.push(
+                &format!("{base}.points"),
+                format!("with weld side '{}' the points must run one way in {axis}", side.as_str()),
+                Some(format!("use weld side above/below for a line that is a function of velocity, left/right for one that is a function of angle (here the {axis} turns back)")),
+            );
+            continue;
+        }
+        if decreasing {
+            pts.reverse();
+        }
+        boundaries.push(Boundary {
+            label: b.label.clone(),
+            plane,
+            weld_side: side,
+            points: pts,
+            provenance: b.provenance.clone(),
+        });
+    }
+
+    // Observations.
+    let mut observations = Vec::new();
+    for (i, o) in parsed.observations.iter().enumerate() {
+        let base = format!("observations[{i}]");
+        let v = c.quantity(
+            &format!("{base}.velocity"),
+            &o.velocity,
+            QuantityKind::Velocity,
+        );
+        if let Some(v) = v {
+            if !(v > 0.0) {
+                c.push(
+                    &format!("{base}.velocity"),
+                    format!("velocity '{}' must be above zero", o.velocity),
+                    None,
+                );
+            }
+        }
+        let a = c.quantity(&format!("{base}.angle"), &o.angle, QuantityKind::Angle);
+        if let Some(a) = a {
+            let deg = a.to_degrees();
+            if !(deg > 0.0 && deg < 90.0) {
+                c.push(
+                    &format!("{base}.angle"),
+                    format!("angle '{}' is outside (0, 90) deg", o.angle),
+                    Some("collision angles lie strictly between 0 and 90 deg".into()),
+                );
+            }
+        }
+        let outcome = Outcome::parse(&o.outcome);
+        if outcome.is_none() {
+            let near = crate::diag::closest(&o.outcome, Outcome::ALL.iter().map(|x| x.as_str()));
+            c.push(
+                &format!("{base}.outcome"),
+                format!("unknown outcome '{}'", o.outcome),
+                Some(match near {
+                    Some(n) => {
+                        format!("did you mean \"{n}\"? (welded, not-welded, partial, melted)")
+                    }
+                    None => "use welded, not-welded, partial or melted".into(),
+                }),
+            );
+        }
+        if !PROCESSES.contains(&o.process.as_str()) {
+            c.push(
+                &format!("{base}.process"),
+                format!("unknown process '{}'", o.process),
+                Some(format!("use one of {}", PROCESSES.join(", "))),
+            );
+        }
+        if !METHODS.contains(&o.method.as_str()) {
+            c.push(
+                &format!("{base}.method"),
+                format!("unknown method '{}'", o.method),
+                Some(format!("use one of {}", METHODS.join(", "))),
+            );
+        }
+        if o.source.trim().is_empty() {
+            c.push(
+                &format!("{base}.source"),
+                "an observation needs its source (report, shot log, paper)",
+                None,
+            );
+        }
+        let vu = o.velocity_uncertainty.as_ref().and_then(|t| {
+            c.quantity(
+                &format!("{base}.velocity_uncertainty"),
+                t,
+                QuantityKind::Velocity,
+            )
+        });
+        let au = o
+            .angle_uncertainty
+            .as_ref()
+            .and_then(|t| c.quantity(&format!("{base}.angle_uncertainty"), t, QuantityKind::Angle));
+        if let (Some(v), Some(a), Some(outcome)) = (v, a, outcome) {
+            observations.push(Observation {
+                index: i,
+                velocity: Velocity::from_m_s(v),
+                angle: Angle::from_radians(a),
+                outcome,
+                process: o.process.clone(),
+                method: o.method.clone(),
+                velocity_uncertainty: vu.map(Velocity::from_m_s),
+                angle_uncertainty: au.map(Angle::from_radians),
+                date: o.date.clone(),
+                source: o.source.clone(),
+                note: o.note.clone(),
+            });
+        }
+    }
+
+    let problems = c.problems.len();
+    c.finish()?;
+    let (Some(flyer), Some(parent), Some(ft), Some(convention)) =
+        (flyer, parent, flyer_thickness, convention)
+    else {
+        // Unreachable when there were no problems; kept as an error rather than a panic.
+        return Err(Diagnostics(vec![crate::diag::Diagnostic {
+            file,
+            line: 1,
+            col: 1,
+            field: String::new(),
+            message: format!("pair window incomplete ({problems} problems)"),
+            hint: None,
+        }]));
+    };
+    let window = PairWindow {
+        name: parsed.name.clone(),
+        description: parsed.description.clone(),
+        invented: parsed.invented.clone(),
+        flyer,
+        parent,
+        flyer_thickness: Length::from_m(ft),
+        parent_thickness: parent_thickness.map(Length::from_m),
+        convention,
+        maintainer: parsed.maintainer.clone(),
+        revisions: parsed.revisions.clone(),
+        criteria,
+        criteria_reasons,
+        boundaries,
+        observations,
+        origin,
+    };
+    Ok((parsed, window))
+}
+
+impl PairWindow {
+    /// The core's view of the pair.
+    ///
+    /// # Errors
+    /// Only if the validated materials were somehow not physical.
+    pub fn setup(&self) -> Result<oblique_core::PairSetup, oblique_core::PhysicsError> {
+        oblique_core::PairSetup::new(
+            self.flyer.material.clone(),
+            self.parent.material.clone(),
+            self.flyer_thickness,
+            self.parent_thickness,
+        )
+    }
+}
