@@ -1,0 +1,315 @@
+//! `oblique check`: one process point against the window criteria (or a pair window).
+
+use crate::cli::{CheckArgs, ConstantArgs};
+use crate::cmd::{load_library, need};
+use crate::fail::{CmdResult, Fail};
+use crate::output::{classification_json, emit, emit_json, fmt_margin, fmt_value, table, CAUTION};
+use oblique_core::units::{Angle, Length, Velocity};
+use oblique_core::{Collision, Convention, CriteriaConfig};
+use oblique_window::classify::{classify, limit_advice, limit_label, Classification};
+use oblique_window::pair::Origin;
+use oblique_window::{Library, PairWindow};
+use std::collections::BTreeMap;
+use std::path::PathBuf;
+
+/// Apply command-line constant overrides to a criteria configuration.
+pub fn apply_constants(mut cfg: CriteriaConfig, c: &ConstantArgs) -> CriteriaConfig {
+    if let Some(k) = c.deribas_k {
+        cfg.deribas_k = k;
+    }
+    if let Some(n) = c.wittman_n {
+        cfg.wittman_n = n;
+    }
+    if let Some(m) = c.hel_multiple {
+        cfg.hel_multiple = m;
+    }
+    cfg
+}
+
+/// A window made on the spot from two material ids and a thickness, with the default criteria.
+pub fn ad_hoc_window(
+    lib: &Library,
+    flyer: &str,
+    parent: &str,
+    flyer_thickness: f64,
+    parent_thickness: Option<f64>,
+    convention: Convention,
+) -> CmdResult<PairWindow> {
+    let f = lib
+        .material(flyer)
+        .map_err(|m| Fail::input(format!("--flyer: {m}")))?;
+    let p = lib
+        .material(parent)
+        .map_err(|m| Fail::input(format!("--parent: {m}")))?;
+    Ok(PairWindow {
+        name: format!("{flyer}-on-{parent}"),
+        description: "made from the command line with the published default criteria".into(),
+        invented: None,
+        flyer: f.clone(),
+        parent: p.clone(),
+        flyer_thickness: Length::from_m(flyer_thickness),
+        parent_thickness: parent_thickness.map(Length::from_m),
+        convention,
+        maintainer: String::new(),
+        revisions: Vec::new(),
+        criteria: CriteriaConfig::default(),
+        criteria_reasons: BTreeMap::new(),
+        boundaries: Vec::new(),
+        observations: Vec::new(),
+        origin: Origin {
+            display: "command line".into(),
+            path: None,
+            sha256: String::new(),
+        },
+    })
+}
+
+/// Build the collision from Vp or Vc.
+pub fn collision(
+    convention: Convention,
+    velocity: Option<f64>,
+    collision_velocity: Option<f64>,
+    angle: f64,
+) -> CmdResult<Collision> {
+    let beta = Angle::from_radians(angle);
+    let c = match (velocity, collision_velocity) {
+        (Some(vp), _) => Collision::from_impact(convention, Velocity::from_m_s(vp), beta),
+        (None, Some(vc)) => {
+            Collision::from_collision_velocity(convention, Velocity::from_m_s(vc), beta)
+        }
+        (None, None) => return Err(Fail::input("give --velocity or --collision-velocity")),
+    };
+    c.map_err(|e| Fail::input(e.to_string()))
+}
+
+pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
+    let lib = load_library(dirs)?;
+    let mut window = match &a.pair {
+        Some(name) => lib
+            .pair(name)
+            .map_err(|m| Fail::input(format!("--pair: {m}")))?
+            .clone(),
+        None => {
+            let convention = need(
+                a.convention,
+                "--convention",
+                "bisector, normal-to-flyer or normal-to-parent (the convention is never guessed)",
+            )?;
+            ad_hoc_window(
+                &lib,
+                &need(a.flyer.clone(), "--flyer", "a material id")?,
+                &need(a.parent.clone(), "--parent", "a material id")?,
+                need(
+                    a.flyer_thickness,
+                    "--flyer-thickness",
+                    "a length such as 1mm",
+                )?,
+                a.parent_thickness,
+                convention.into(),
+            )?
+        }
+    };
+    if let Some(t) = a.parent_thickness {
+        window.parent_thickness = Some(Length::from_m(t));
+    }
+    window.criteria = apply_constants(window.criteria.clone(), &a.constants);
+    let convention: Convention = a.convention.map_or(window.convention, Into::into);
+    let point = collision(
+        convention,
+        a.velocity.velocity,
+        a.velocity.collision_velocity,
+        a.angle,
+    )?;
+    let setup = window.setup()?;
+    let c = classify(&window, &setup, &point)?;
+    if a.json {
+        let mut v = classification_json(&window, &c);
+        if a.pair.is_none() {
+            if let Some(o) = v.as_object_mut() {
+                o.insert("pair".into(), serde_json::Value::Null);
+            }
+        }
+        return emit_json(&v);
+    }
+    emit(&human(&window, &c, a.pair.is_some()))
+}
+
+/// The human report of a classification.
+pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
+    let e = &c.evaluation;
+    let col = &e.collision;
+    let mut s = String::new();
+    let pair_note = if is_pair {
+        format!(" (pair window '{}')", window.name)
+    } else {
+        String::new()
+    };
+    s.push_str(&format!(
+        "{} flyer, {:.2} mm, on {} parent{}; convention {}\n\n",
+        window.flyer.material.id,
+        window.flyer_thickness.mm(),
+        window.parent.material.id,
+        pair_note,
+        col.convention
+    ));
+    let jet_note = match e.jetting.regime {
+        oblique_core::jetting::JettingRegime::SubsonicParent => {
+            "subsonic: Vc below C0 of the parent, jet at any angle"
+        }
+        oblique_core::jetting::JettingRegime::SubsonicFlyer => {
+            "subsonic: Vf below C0 of the flyer, jet at any angle"
+        }
+        oblique_core::jetting::JettingRegime::Supersonic => {
+            "supersonic inflow: shock-polar construction"
+        }
+    };
+    let rows = vec![
+        vec![
+            "impact velocity Vp".into(),
+            format!("{:.1} m/s", col.impact_velocity.si()),
+            String::new(),
+        ],
+        vec![
+            "collision angle beta".into(),
+            format!("{:.2} deg", col.angle.degrees()),
+            String::new(),
+        ],
+        vec![
+            "collision-point velocity Vc".into(),
+            format!("{:.1} m/s", col.collision_velocity.si()),
+            String::new(),
+        ],
+        vec![
+            "flow velocity Vf".into(),
+            format!("{:.1} m/s", col.flow_velocity.si()),
+            "flyer inflow, collision-point frame".into(),
+        ],
+        vec![
+            "impact pressure".into(),
+            format!("{:.2} GPa", e.impact.pressure.gpa()),
+            "1-D impedance matching at Vp".into(),
+        ],
+        vec![
+            "jetting critical angle".into(),
+            format!("{:.2} deg", e.jetting.critical_angle.degrees()),
+            jet_note.into(),
+        ],
+        vec![
+            "interface wavelength".into(),
+            format!("{:.3} mm", e.wavelength.mm()),
+            "26 h sin^2(beta/2)".into(),
+        ],
+        vec![
+            "dissipated energy".into(),
+            format!("{:.3e} J/m^2", e.dissipated_energy.si()),
+            if window.parent_thickness.is_some() {
+                "inelastic normal collision".into()
+            } else {
+                "massive parent assumed".into()
+            },
+        ],
+    ];
+    s.push_str(&table(&["quantity", "value", "note"], &rows));
+    s.push('\n');
+    let mut crit_rows = Vec::new();
+    for r in &e.criteria {
+        let consts: Vec<String> = r
+            .constants
+            .iter()
+            .filter(|(k, _)| *k != "form")
+            .map(|(k, v)| format!("{k}={v}"))
+            .collect();
+        crit_rows.push(vec![
+            r.id.as_str().to_string(),
+            fmt_value(r.value, r.unit),
+            format!(
+                "{} {}",
+                if r.kind == oblique_core::LimitKind::Lower {
+                    ">="
+                } else {
+                    "<="
+                },
+                fmt_value(r.limit, r.unit)
+            ),
+            fmt_margin(r.margin, r.unit),
+            if r.informational {
+                "info".into()
+            } else if r.satisfied {
+                "yes".into()
+            } else {
+                "NO".into()
+            },
+            r.governing.as_str().into(),
+            consts.join(" "),
+        ]);
+    }
+    for (r, b) in c.boundaries.iter().zip(&window.boundaries) {
+        crit_rows.push(vec![
+            format!("boundary \"{}\"", r.label),
+            String::new(),
+            r.limit.map_or("-".into(), |l| {
+                format!(
+                    "{} {}",
+                    if matches!(
+                        b.weld_side,
+                        oblique_window::boundary::WeldSide::Above
+                            | oblique_window::boundary::WeldSide::Right
+                    ) {
+                        ">="
+                    } else {
+                        "<="
+                    },
+                    fmt_value(l, r.unit)
+                )
+            }),
+            r.margin
+                .map_or("outside trial data".into(), |m| fmt_margin(m, r.unit)),
+            match r.satisfied {
+                Some(true) => "yes".into(),
+                Some(false) => "NO".into(),
+                None => "n/a".into(),
+            },
+            "user".into(),
+            b.plane.as_str().into(),
+        ]);
+    }
+    s.push_str(&table(
+        &[
+            "limit",
+            "value",
+            "limit",
+            "margin",
+            "ok",
+            "governs",
+            "constants",
+        ],
+        &crit_rows,
+    ));
+    s.push('\n');
+    let verdict = if c.inside {
+        "INSIDE the window"
+    } else {
+        "OUTSIDE the window"
+    };
+    s.push_str(&format!("verdict: {verdict}\n"));
+    if let Some(b) = &c.binding {
+        s.push_str(&format!(
+            "binding: {}: {}\n",
+            limit_label(window, b),
+            limit_advice(window, c, b)
+        ));
+    }
+    for f in c.failing.iter().filter(|f| Some(*f) != c.binding.as_ref()) {
+        s.push_str(&format!(
+            "also failing: {}: {}\n",
+            limit_label(window, f),
+            limit_advice(window, c, f)
+        ));
+    }
+    if c.outside_trial_data {
+        s.push_str("note: the point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated\n");
+    }
+    s.push_str(CAUTION);
+    s.push('\n');
+    s
+}

@@ -1,0 +1,80 @@
+//! `oblique material list|show`.
+
+use crate::cli::MaterialCommand;
+use crate::cmd::load_library;
+use crate::fail::{CmdResult, Fail};
+use crate::output::{emit, emit_json, material_json, table};
+use oblique_window::materials::PROPERTIES;
+use std::path::PathBuf;
+
+pub fn run(dirs: &[PathBuf], c: MaterialCommand) -> CmdResult {
+    let lib = load_library(dirs)?;
+    match c {
+        MaterialCommand::List { json } => {
+            if json {
+                let v: Vec<serde_json::Value> = lib
+                    .materials
+                    .values()
+                    .map(|m| material_json(m, true))
+                    .collect();
+                return emit_json(&serde_json::Value::Array(v));
+            }
+            let rows: Vec<Vec<String>> = lib
+                .materials
+                .values()
+                .map(|r| {
+                    let m = &r.material;
+                    vec![
+                        m.id.clone(),
+                        m.name.clone(),
+                        format!("{:.0}", m.density().si()),
+                        format!("{:.0}", m.sound_speed().si()),
+                        format!("{:.0}", m.vickers_hardness.vickers()),
+                        format!("{:.0}", m.tensile_strength.mpa()),
+                        format!("{:.0}", m.melting_temperature.si()),
+                    ]
+                })
+                .collect();
+            emit(&table(
+                &["id", "name", "rho kg/m3", "C0 m/s", "HV", "UTS MPa", "Tm K"],
+                &rows,
+            ))
+        }
+        MaterialCommand::Show { id, json } => {
+            let rec = lib.material(&id).map_err(Fail::input)?;
+            if json {
+                return emit_json(&material_json(rec, true));
+            }
+            let mut s = format!(
+                "{} ({}), {}\nfrom {}\n\n",
+                rec.material.name, rec.material.id, rec.condition, rec.origin
+            );
+            let rows: Vec<Vec<String>> = PROPERTIES
+                .iter()
+                .map(|(name, _)| {
+                    let p = rec.sources.get(name);
+                    vec![
+                        (*name).to_string(),
+                        p.map_or(String::new(), |p| p.as_written.clone()),
+                        p.map_or(String::new(), |p| p.key.clone()),
+                        p.and_then(|p| p.note.clone()).unwrap_or_default(),
+                    ]
+                })
+                .collect();
+            s.push_str(&table(&["property", "value", "source", "note"], &rows));
+            s.push_str("\nsources:\n");
+            let mut keys: Vec<&String> = rec.sources.values().map(|p| &p.key).collect();
+            keys.sort();
+            keys.dedup();
+            for k in keys {
+                if let Some(p) = rec.sources.values().find(|p| &p.key == k) {
+                    s.push_str(&format!("  [{k}] {}\n", p.reference));
+                }
+            }
+            if !rec.notes.is_empty() {
+                s.push_str(&format!("\nnotes: {}\n", rec.notes));
+            }
+            emit(&s)
+        }
+    }
+}

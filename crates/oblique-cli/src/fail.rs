@@ -1,0 +1,55 @@
+//! The binary's error: a message for the user and an exit code (2 for bad input, 1 otherwise).
+
+use std::process::ExitCode;
+
+/// A failure to show the user.
+#[derive(Debug)]
+pub struct Fail {
+    /// The message, already formatted (may span lines, with `hint:` lines).
+    pub message: String,
+    /// Exit code.
+    pub code: u8,
+}
+
+impl Fail {
+    /// Bad input from the user (exit 2).
+    pub fn input(message: impl Into<String>) -> Self {
+        Self {
+            message: message.into(),
+            code: 2,
+        }
+    }
+
+    /// Something else went wrong (exit 1).
+    pub fn other(message: impl Into<String>) -> Self {
+        Self {
+            message: message.into(),
+            code: 1,
+        }
+    }
+
+    /// Print and return the exit code.
+    pub fn report(self) -> ExitCode {
+        if self.code == 0 {
+            return ExitCode::SUCCESS;
+        }
+        eprintln!("error: {}", self.message);
+        ExitCode::from(self.code)
+    }
+}
+
+impl From<oblique_window::Diagnostics> for Fail {
+    fn from(d: oblique_window::Diagnostics) -> Self {
+        let n = d.0.len();
+        Fail::input(format!("{d}\n{n} problem(s) in the library files"))
+    }
+}
+
+impl From<oblique_core::PhysicsError> for Fail {
+    fn from(e: oblique_core::PhysicsError) -> Self {
+        Fail::input(e.to_string())
+    }
+}
+
+/// Result alias for commands.
+pub type CmdResult<T = ()> = Result<T, Fail>;
