@@ -31,6 +31,12 @@ pub enum Command {
     /// Pair windows: trials, boundaries, agreement.
     #[command(subcommand)]
     Pair(PairCommand),
+    /// Plot a weldability window with trials, proposed points and process curves (SVG).
+    Plot(crate::cmd::plot::PlotArgs),
+    /// Write a self-contained HTML decision report for a proposed set-up.
+    Report(crate::cmd::report::ReportArgs),
+    /// Run the invented demo scenario end to end and write its plots and report.
+    Demo(crate::cmd::demo::DemoArgs),
     /// Classify every point of an interface export (CSV or JSON lines): the weld map.
     Map(crate::cmd::map::MapArgs),
 }

@@ -7,7 +7,9 @@ mod cli;
 mod cmd;
 mod fail;
 mod output;
+mod plot;
 mod qarg;
+mod report;
 
 use clap::Parser;
 use std::process::ExitCode;

@@ -304,7 +304,7 @@ impl CriterionResult {
             ),
             (CriterionId::WavyTransition, false) => "interface expected flat (informational only)".to_string(),
             (CriterionId::WavyTransition, true) => "interface expected wavy (informational only)".to_string(),
-            (id, true) => format!("{} holds with {}", id.title(), self.margin_text()),
+            (_, true) => format!("holds with {} of margin", self.margin_text()),
         }
     }
 

@@ -202,8 +202,7 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
             let satisfied = r.satisfied.unwrap_or(true);
             match (b.weld_side, satisfied) {
                 (_, true) => format!(
-                    "boundary \"{}\" holds with {}",
-                    b.label,
+                    "holds with {} of margin",
                     oblique_core::criteria::format_in_unit(m, r.unit)
                 ),
                 (crate::boundary::WeldSide::Above, false) => format!(

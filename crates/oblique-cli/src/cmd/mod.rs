@@ -1,9 +1,12 @@
 //! One module per subcommand.
 
 pub mod check;
+pub mod demo;
 pub mod map;
 pub mod material;
 pub mod pair;
+pub mod plot;
+pub mod report;
 
 use crate::cli::{Cli, Command};
 use crate::fail::{CmdResult, Fail};
@@ -33,6 +36,9 @@ pub fn run(cli: Cli) -> CmdResult {
         Command::Material(c) => material::run(&cli.library, c),
         Command::Pair(c) => pair::run(&cli.library, c),
         Command::Map(a) => map::run(&cli.library, a),
+        Command::Plot(a) => plot::run(&cli.library, a),
+        Command::Report(a) => report::run(&cli.library, a),
+        Command::Demo(a) => demo::run(&cli.library, a),
     }
 }
 

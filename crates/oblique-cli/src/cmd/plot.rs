@@ -1,0 +1,242 @@
+//! `oblique plot`: the window with trials, proposed points and process curves, as SVG.
+
+use crate::cli::ConventionArg;
+use crate::cmd::check::ad_hoc_window;
+use crate::cmd::{load_library, need};
+use crate::fail::{CmdResult, Fail};
+use crate::plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
+use crate::qarg;
+use clap::{Args, ValueEnum};
+use oblique_core::units::{parse_quantity, QuantityKind};
+use oblique_window::boundary::Plane;
+use oblique_window::PairWindow;
+use std::path::{Path, PathBuf};
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum PlaneArg {
+    /// Collision angle against impact velocity Vp.
+    AngleVelocity,
+    /// Collision angle against collision-point velocity Vc.
+    AngleCollisionVelocity,
+}
+
+impl From<PlaneArg> for Plane {
+    fn from(p: PlaneArg) -> Self {
+        match p {
+            PlaneArg::AngleVelocity => Plane::AngleImpactVelocity,
+            PlaneArg::AngleCollisionVelocity => Plane::AngleCollisionVelocity,
+        }
+    }
+}
+
+/// Flags of `oblique plot`.
+#[derive(Debug, Args)]
+#[command(after_help = "Examples:
+  oblique plot --pair demo-al6061-on-cu --point 450m/s,10deg --point 380m/s,8deg -o window.svg
+  oblique plot --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --convention normal-to-flyer --plane angle-collision-velocity -o w.svg
+Points and curve files are CSV with units in the header: velocity[m/s],angle[deg],label
+(velocity is the impact velocity in the window's convention; label optional).
+PNG is not written directly (it would need system fonts): convert the SVG, e.g. rsvg-convert w.svg -o w.png")]
+pub struct PlotArgs {
+    /// Pair window from the library.
+    #[arg(long, value_name = "NAME", conflicts_with_all = ["flyer", "parent", "flyer_thickness"])]
+    pub pair: Option<String>,
+    /// Flyer material id (without --pair).
+    #[arg(long, value_name = "ID", required_unless_present = "pair")]
+    pub flyer: Option<String>,
+    /// Parent material id (without --pair).
+    #[arg(long, value_name = "ID", required_unless_present = "pair")]
+    pub parent: Option<String>,
+    /// Flyer thickness (without --pair), e.g. 1mm.
+    #[arg(long = "flyer-thickness", value_name = "LENGTH", value_parser = qarg::positive_length, required_unless_present = "pair")]
+    pub flyer_thickness: Option<f64>,
+    /// Convention (required without --pair).
+    #[arg(long, value_enum)]
+    pub convention: Option<ConventionArg>,
+    /// Which plane to draw.
+    #[arg(long, value_enum, default_value = "angle-velocity")]
+    pub plane: PlaneArg,
+    /// A proposed point VELOCITY,ANGLE, e.g. 320m/s,9deg (repeatable).
+    #[arg(long = "point", value_name = "V,ANGLE", value_parser = qarg::point)]
+    pub point: Vec<(f64, f64)>,
+    /// Proposed points from a CSV file.
+    #[arg(long, value_name = "FILE.csv")]
+    pub points: Option<PathBuf>,
+    /// A process curve from a CSV file (repeatable).
+    #[arg(long = "curve", value_name = "FILE.csv")]
+    pub curve: Vec<PathBuf>,
+    /// Output SVG file.
+    #[arg(short = 'o', long = "output", value_name = "OUT.svg")]
+    pub output: PathBuf,
+}
+
+/// Read `velocity[unit],angle[unit][,label]` rows.
+pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>> {
+    let display = path.display().to_string();
+    let mut rdr = csv::ReaderBuilder::new()
+        .trim(csv::Trim::All)
+        .from_path(path)
+        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
+    let headers = rdr
+        .headers()
+        .map_err(|e| Fail::input(format!("{display}: {e}")))?
+        .clone();
+    let mut vcol = None;
+    let mut acol = None;
+    let mut lcol = None;
+    for (i, h) in headers.iter().enumerate() {
+        let (name, unit) = match h.split_once('[') {
+            Some((n, u)) => (n.trim(), Some(u.trim_end_matches(']').trim().to_string())),
+            None => (h.trim(), None),
+        };
+        match name {
+            "velocity" => vcol = Some((i, unit)),
+            "angle" => acol = Some((i, unit)),
+            "label" => lcol = Some(i),
+            _ => {}
+        }
+    }
+    let (Some((vi, Some(vu))), Some((ai, Some(au)))) = (vcol, acol) else {
+        return Err(Fail::input(format!("{display}:1: the header needs velocity[UNIT] and angle[UNIT] columns, e.g. velocity[m/s],angle[deg],label")));
+    };
+    let mut out = Vec::new();
+    for (n, rec) in rdr.records().enumerate() {
+        let row = n + 2;
+        let rec = rec.map_err(|e| Fail::input(format!("{display}:{row}: {e}")))?;
+        let v = parse_quantity(
+            &format!("{} {vu}", rec.get(vi).unwrap_or("")),
+            QuantityKind::Velocity,
+        )
+        .map_err(|e| Fail::input(format!("{display}:{row}: field 'velocity': {e}")))?;
+        let a = parse_quantity(
+            &format!("{} {au}", rec.get(ai).unwrap_or("")),
+            QuantityKind::Angle,
+        )
+        .map_err(|e| Fail::input(format!("{display}:{row}: field 'angle': {e}")))?;
+        if !(v > 0.0) {
+            return Err(Fail::input(format!(
+                "{display}:{row}: field 'velocity': must be above zero"
+            )));
+        }
+        let d = a.to_degrees();
+        if !(d > 0.0 && d < 90.0) {
+            return Err(Fail::input(format!(
+                "{display}:{row}: field 'angle': {d} deg is outside (0, 90) deg"
+            )));
+        }
+        let label = lcol
+            .and_then(|i| rec.get(i))
+            .map(str::to_string)
+            .filter(|s| !s.is_empty());
+        out.push((v, a, label));
+    }
+    Ok(out)
+}
+
+/// The window for plot/report: a pair, or one made from flags.
+pub fn window_from(
+    dirs: &[PathBuf],
+    pair: &Option<String>,
+    flyer: &Option<String>,
+    parent: &Option<String>,
+    thickness: Option<f64>,
+    convention: Option<ConventionArg>,
+) -> CmdResult<PairWindow> {
+    let lib = load_library(dirs)?;
+    match pair {
+        Some(name) => lib
+            .pair(name)
+            .map(Clone::clone)
+            .map_err(|m| Fail::input(format!("--pair: {m}"))),
+        None => ad_hoc_window(
+            &lib,
+            &need(flyer.clone(), "--flyer", "a material id")?,
+            &need(parent.clone(), "--parent", "a material id")?,
+            need(thickness, "--flyer-thickness", "a length such as 1mm")?,
+            None,
+            need(
+                convention,
+                "--convention",
+                "bisector, normal-to-flyer or normal-to-parent",
+            )?
+            .into(),
+        ),
+    }
+}
+
+/// Write a file the user asked for, atomically.
+pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
+    oblique_window::write::atomic_write(path, bytes, None)
+        .map_err(|e| Fail::other(format!("cannot write {}: {e}", path.display())))
+}
+
+pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
+    let ext = a
+        .output
+        .extension()
+        .and_then(|e| e.to_str())
+        .unwrap_or("")
+        .to_ascii_lowercase();
+    if ext == "png" {
+        return Err(Fail::input("-o: PNG output is not built in (plotters' bitmap backend would need system fonts)\n  hint: write an .svg and convert it, e.g. rsvg-convert window.svg -o window.png"));
+    }
+    if ext != "svg" {
+        return Err(Fail::input(format!(
+            "-o {}: the output must end in .svg",
+            a.output.display()
+        )));
+    }
+    let window = window_from(
+        dirs,
+        &a.pair,
+        &a.flyer,
+        &a.parent,
+        a.flyer_thickness,
+        a.convention,
+    )?;
+    let mut points: Vec<ProposedPoint> = a
+        .point
+        .iter()
+        .enumerate()
+        .map(|(i, (v, ang))| ProposedPoint {
+            label: format!("P{}", i + 1),
+            velocity_m_s: *v,
+            angle_rad: *ang,
+        })
+        .collect();
+    if let Some(f) = &a.points {
+        for (i, (v, ang, l)) in read_point_csv(f)?.into_iter().enumerate() {
+            points.push(ProposedPoint {
+                label: l.unwrap_or_else(|| format!("F{}", i + 1)),
+                velocity_m_s: v,
+                angle_rad: ang,
+            });
+        }
+    }
+    let mut curves = Vec::new();
+    for f in &a.curve {
+        let pts = read_point_csv(f)?;
+        if pts.len() < 2 {
+            return Err(Fail::input(format!(
+                "{}: a curve needs at least two rows",
+                f.display()
+            )));
+        }
+        curves.push(ProcessCurve {
+            label: f
+                .file_stem()
+                .and_then(|s| s.to_str())
+                .unwrap_or("curve")
+                .to_string(),
+            points: pts,
+        });
+    }
+    let svg = render_svg(&PlotRequest {
+        window: &window,
+        plane: a.plane.into(),
+        points,
+        curves,
+    })?;
+    write_output(&a.output, svg.as_bytes())?;
+    crate::output::emit(&format!("wrote {}\n", a.output.display()))
+}
