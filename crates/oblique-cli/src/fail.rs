@@ -33,7 +33,9 @@ impl Fail {
         if self.code == 0 {
             return ExitCode::SUCCESS;
         }
-        eprintln!("error: {}", self.message);
+        if !self.message.is_empty() {
+            eprintln!("error: {}", self.message);
+        }
         ExitCode::from(self.code)
     }
 }

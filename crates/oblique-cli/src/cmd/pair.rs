@@ -531,6 +531,8 @@ fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdResult {
                 path: Some(f.clone()),
                 sha256: sha256_hex(text.as_bytes()),
             };
+            let (name_line, name_col) =
+                oblique_window::ronpath::RonIndex::scan(&text).locate(&text, "name");
             let result = if text.contains("oblique-materials/") {
                 oblique_window::materials::parse_material_file(&display, &text).map(|_| ())
             } else {
@@ -538,8 +540,8 @@ fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdResult {
                     if let Some(first) = names.insert(w.name.clone(), display.clone()) {
                         problems.push(oblique_window::Diagnostic {
                             file: display.clone(),
-                            line: 1,
-                            col: 1,
+                            line: name_line,
+                            col: name_col,
                             field: "name".into(),
                             message: format!("duplicate pair name '{}' (also in {first})", w.name),
                             hint: Some("give each pair file its own name".into()),

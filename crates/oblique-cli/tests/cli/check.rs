@@ -1,0 +1,358 @@
+//! `oblique check`: output and every class of bad input.
+
+use super::*;
+use serde_json::Value;
+
+const BASE: [&str; 9] = [
+    "check",
+    "--flyer",
+    "aa6061-t6",
+    "--parent",
+    "cu-c11000",
+    "--flyer-thickness",
+    "1mm",
+    "--convention",
+    "normal-to-flyer",
+];
+
+fn with(extra: &[&'static str]) -> Vec<&'static str> {
+    let mut v = BASE.to_vec();
+    v.extend_from_slice(extra);
+    v
+}
+
+#[test]
+fn human_output_has_table_verdict_and_caution() {
+    let o = run(&with(&["--velocity", "350m/s", "--angle", "12deg"]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let s = stdout(&o);
+    for needle in [
+        "collision-point velocity Vc",
+        "deribas-lower",
+        "melting-upper",
+        "verdict: OUTSIDE",
+        "raise the collision angle by at least",
+        "caution:",
+    ] {
+        assert!(s.contains(needle), "missing '{needle}' in\n{s}");
+    }
+}
+
+#[test]
+fn json_has_the_contract_keys() {
+    let o = run(&with(&[
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "--json",
+    ]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: Value = serde_json::from_str(&stdout(&o)).expect("json");
+    for k in [
+        "flyer",
+        "parent",
+        "convention",
+        "impact_velocity_m_s",
+        "collision_angle_deg",
+        "collision_velocity_m_s",
+        "flow_velocity_m_s",
+        "impact_pressure_pa",
+        "jetting_critical_angle_deg",
+        "criteria",
+        "inside",
+        "binding",
+    ] {
+        assert!(v.get(k).is_some(), "missing key {k}");
+    }
+    for k in [
+        "id",
+        "density_kg_m3",
+        "bulk_sound_speed_m_s",
+        "hugoniot_slope",
+        "vickers_hardness_pa",
+        "yield_strength_pa",
+        "tensile_strength_pa",
+        "bulk_modulus_pa",
+        "shear_modulus_pa",
+        "melting_temperature_k",
+        "thermal_conductivity_w_m_k",
+        "specific_heat_j_kg_k",
+    ] {
+        assert!(
+            v["flyer"].get(k).is_some() && v["parent"].get(k).is_some(),
+            "missing material key {k}"
+        );
+    }
+    assert!((v["flyer"]["thickness_m"].as_f64().unwrap() - 1e-3).abs() < 1e-12);
+    assert_eq!(v["convention"], "normal-to-flyer");
+    // 450 m/s at 10 deg normal to flyer: Vc = 450 / sin(10 deg) (independent arithmetic).
+    let vc = 450.0 / 10f64.to_radians().sin();
+    assert!((v["collision_velocity_m_s"].as_f64().unwrap() - vc).abs() < 1e-3);
+    let ids: Vec<&str> = v["criteria"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c["id"].as_str().unwrap())
+        .collect();
+    assert_eq!(
+        ids,
+        [
+            "deribas-lower",
+            "strength-lower",
+            "pressure-lower",
+            "melting-upper",
+            "jetting",
+            "wavy-transition"
+        ]
+    );
+    for c in v["criteria"].as_array().unwrap() {
+        for k in [
+            "value",
+            "limit",
+            "margin",
+            "unit",
+            "satisfied",
+            "informational",
+            "governing",
+            "constants",
+        ] {
+            assert!(c.get(k).is_some(), "criterion missing {k}");
+        }
+    }
+    assert_eq!(v["criteria"][0]["constants"]["k"], 0.6);
+    assert_eq!(v["criteria"][3]["constants"]["n"], 0.11);
+    assert_eq!(v["inside"], true);
+}
+
+#[test]
+fn constants_are_overridable_and_collision_velocity_input_works() {
+    let o = run(&with(&[
+        "--collision-velocity",
+        "2.4km/s",
+        "--angle",
+        "10deg",
+        "--deribas-k",
+        "1.2",
+        "--wittman-n",
+        "0.2",
+        "--json",
+    ]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["criteria"][0]["constants"]["k"], 1.2);
+    assert_eq!(v["criteria"][3]["constants"]["n"], 0.2);
+    assert!((v["collision_velocity_m_s"].as_f64().unwrap() - 2400.0).abs() < 1e-9);
+}
+
+#[test]
+fn outside_still_exits_zero() {
+    let o = run(&with(&[
+        "--velocity",
+        "200m/s",
+        "--angle",
+        "3deg",
+        "--json",
+    ]));
+    assert_eq!(o.status.code(), Some(0));
+    let v: Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["inside"], false);
+}
+
+#[test]
+fn bad_input_names_the_flag_and_exits_2() {
+    fails_with(
+        &with(&["--velocity", "350", "--angle", "12deg"]),
+        &["--velocity", "has no unit", "m/s"],
+    );
+    fails_with(
+        &with(&["--velocity", "350mph", "--angle", "12deg"]),
+        &["--velocity", "unknown unit 'mph'"],
+    );
+    fails_with(
+        &with(&["--velocity", "350m/s", "--angle", "0deg"]),
+        &["--angle", "outside (0, 90) deg"],
+    );
+    fails_with(
+        &with(&["--velocity", "350m/s", "--angle", "95deg"]),
+        &["--angle", "outside (0, 90) deg"],
+    );
+    fails_with(
+        &with(&["--velocity", "0m/s", "--angle", "12deg"]),
+        &["--velocity", "above zero"],
+    );
+    fails_with(
+        &with(&["--velocity", "-5m/s", "--angle", "12deg"]),
+        &["--velocity"],
+    );
+    fails_with(
+        &with(&["--velocity", "NaN m/s", "--angle", "12deg"]),
+        &["--velocity", "not a finite number"],
+    );
+    fails_with(
+        &with(&["--velocity", "inf m/s", "--angle", "12deg"]),
+        &["--velocity", "not a finite number"],
+    );
+    fails_with(
+        &with(&["--velocity", "1e400m/s", "--angle", "12deg"]),
+        &["--velocity", "not a finite number"],
+    );
+    fails_with(
+        &[
+            "check",
+            "--flyer",
+            "aa6061",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+            "--convention",
+            "bisector",
+            "--velocity",
+            "350m/s",
+            "--angle",
+            "12deg",
+        ],
+        &["--flyer", "unknown material id 'aa6061'", "aa6061-t6"],
+    );
+    fails_with(
+        &[
+            "check",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "0mm",
+            "--convention",
+            "bisector",
+            "--velocity",
+            "350m/s",
+            "--angle",
+            "12deg",
+        ],
+        &["--flyer-thickness", "above zero"],
+    );
+    fails_with(
+        &[
+            "check",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+            "--convention",
+            "normal",
+            "--velocity",
+            "350m/s",
+            "--angle",
+            "12deg",
+        ],
+        &["--convention", "normal-to-flyer"],
+    );
+    fails_with(
+        &[
+            "check",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+            "--velocity",
+            "350m/s",
+            "--angle",
+            "12deg",
+        ],
+        &["--convention is required"],
+    );
+    fails_with(&with(&["--angle", "12deg"]), &["--velocity"]);
+    fails_with(
+        &with(&["--velocity", "350m/s", "--angle", "12deg", "--deribas-k=-1"]),
+        &["--deribas-k"],
+    );
+}
+
+#[test]
+fn help_explains_every_input_with_examples() {
+    let o = run(&["check", "--help"]);
+    let s = stdout(&o);
+    for needle in [
+        "--flyer",
+        "--parent",
+        "--flyer-thickness",
+        "--velocity",
+        "--collision-velocity",
+        "--angle",
+        "--convention",
+        "--deribas-k",
+        "--wittman-n",
+        "--json",
+        "Examples:",
+        "350m/s",
+    ] {
+        assert!(s.contains(needle), "help lacks {needle}");
+    }
+}
+
+#[test]
+fn check_against_a_pair_adds_boundaries() {
+    let o = run(&[
+        "check",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "--json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let b = v["boundaries"].as_array().unwrap();
+    assert_eq!(b.len(), 2);
+    for k in ["label", "margin", "satisfied", "in_range"] {
+        assert!(b[0].get(k).is_some());
+    }
+    // Outside the span of the bounce-back line: flagged, not extrapolated.
+    let o = run(&[
+        "check",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "700m/s",
+        "--angle",
+        "20deg",
+        "--json",
+    ]);
+    let v: Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["outside_trial_data"], true);
+    assert!(v["reason"]
+        .as_str()
+        .unwrap()
+        .contains("outside the trial data"));
+}
+
+#[test]
+fn closed_pipe_is_not_an_error() {
+    use std::io::Read;
+    use std::process::{Command, Stdio};
+    let mut child = Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args(["material", "list", "--json"])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let status = child.wait().unwrap();
+    let mut err = String::new();
+    child
+        .stderr
+        .take()
+        .unwrap()
+        .read_to_string(&mut err)
+        .unwrap();
+    assert!(!err.contains("panicked"), "{err}");
+    assert!(status.code() == Some(0), "{status:?} {err}");
+}

@@ -1,0 +1,261 @@
+//! `oblique plot`, `oblique report`, `oblique demo`: well-formed, self-contained, escaped,
+//! deterministic, and rendered by a real browser where one is installed.
+
+use super::*;
+
+fn parse_xml(text: &str) {
+    let opt = roxmltree::ParsingOptions {
+        allow_dtd: true,
+        ..Default::default()
+    };
+    if let Err(e) = roxmltree::Document::parse_with_options(text, opt) {
+        panic!("not well-formed: {e}");
+    }
+}
+
+fn no_external_resources(text: &str) {
+    let lower = text.to_ascii_lowercase();
+    for bad in [
+        "<script", "src=", "href=", "url(", "@import", "<link", "<iframe", "<img",
+    ] {
+        assert!(!lower.contains(bad), "found '{bad}'");
+    }
+}
+
+/// A library with a pair whose label and notes carry markup, to prove escaping.
+fn hostile_library() -> tempfile::TempDir {
+    let d = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(repo().join("windows/demo-al6061-on-cu.ron"))
+        .unwrap()
+        .replace("name: \"demo-al6061-on-cu\"", "name: \"hostile\"")
+        .replace(
+            "lowest welding velocity seen (HBW-2026)",
+            "<script>alert(1)</script> & co",
+        )
+        .replace("HBW-2026 shot 01 (invented)", "<b onmouseover=x>shot</b>");
+    std::fs::write(d.path().join("hostile.ron"), text).unwrap();
+    d
+}
+
+#[test]
+fn report_is_well_formed_self_contained_and_escapes_user_text() {
+    let d = hostile_library();
+    let out = d.path().join("r.html");
+    let o = run(&[
+        "--library",
+        d.path().to_str().unwrap(),
+        "report",
+        "--pair",
+        "hostile",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let html = std::fs::read_to_string(&out).unwrap();
+    parse_xml(&html);
+    no_external_resources(&html);
+    assert!(html.contains("&lt;script&gt;alert(1)&lt;/script&gt; &amp; co"));
+    assert!(html.contains("&lt;b onmouseover=x&gt;shot&lt;/b&gt;"));
+    for section in [
+        "The question",
+        "Verdict:",
+        "Criteria and margins",
+        "Material properties and sources",
+        "Trials and agreement",
+        "Window plots",
+        "Assumptions and what is unconfirmed",
+        "Cautions",
+        "Reproduce with",
+        "sha256",
+    ] {
+        assert!(html.contains(section), "missing section {section}");
+    }
+    assert_eq!(html.matches("<svg").count(), 2);
+}
+
+#[test]
+fn report_json_twin() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("r.html");
+    let o = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        out.to_str().unwrap(),
+        "--json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    for k in [
+        "check",
+        "agreement",
+        "materials",
+        "assumptions",
+        "cautions",
+        "library_files",
+        "command",
+    ] {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    assert_eq!(v["check"]["inside"], true);
+}
+
+#[test]
+fn plots_are_well_formed_deterministic_and_escaped() {
+    let d = hostile_library();
+    let a = d.path().join("a.svg");
+    let b = d.path().join("b.svg");
+    for out in [&a, &b] {
+        let o = run(&[
+            "--library",
+            d.path().to_str().unwrap(),
+            "plot",
+            "--pair",
+            "hostile",
+            "--plane",
+            "angle-collision-velocity",
+            "--point",
+            "450m/s,10deg",
+            "-o",
+            out.to_str().unwrap(),
+        ]);
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    }
+    let sa = std::fs::read_to_string(&a).unwrap();
+    assert_eq!(
+        sa,
+        std::fs::read_to_string(&b).unwrap(),
+        "same input, different bytes"
+    );
+    parse_xml(&sa);
+    assert!(sa.contains("&lt;script&gt;"));
+    assert!(!sa.contains("<script"));
+    fails_with(
+        &["plot", "--pair", "demo-al6061-on-cu", "-o", "w.png"],
+        &["PNG", "rsvg-convert"],
+    );
+    fails_with(
+        &[
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--point",
+            "450,10deg",
+            "-o",
+            "w.svg",
+        ],
+        &["--point", "has no unit"],
+    );
+}
+
+#[test]
+fn many_points_are_binned_and_the_plot_says_so() {
+    let d = tempfile::tempdir().unwrap();
+    let csv = d.path().join("p.csv");
+    let mut s = String::from("velocity[m/s],angle[deg]\n");
+    for i in 0..2000 {
+        s.push_str(&format!("{},{}\n", 300 + (i * 7) % 400, 3 + (i * 13) % 25));
+    }
+    std::fs::write(&csv, s).unwrap();
+    let out = d.path().join("p.svg");
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--points",
+        csv.to_str().unwrap(),
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).unwrap();
+    assert!(svg.contains("2000 proposed points, binned"));
+    assert!(svg.len() < 600_000, "svg is {} bytes", svg.len());
+}
+
+#[test]
+fn demo_writes_plots_and_report_and_names_the_paths() {
+    let d = tempfile::tempdir().unwrap();
+    let o = run_in(d.path(), &["demo", "--out", "out"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let s = stdout(&o);
+    assert!(s.contains("INVENTED"));
+    for f in [
+        "window-angle-velocity.svg",
+        "window-angle-collision-velocity.svg",
+        "report.html",
+        "report.json",
+    ] {
+        assert!(d.path().join("out").join(f).is_file(), "missing {f}");
+        assert!(s.contains(f));
+    }
+}
+
+/// Renders the demo report in headless Chromium (Debian's `chromium`, installed by .ci/run):
+/// the screenshot must not be blank and the browser must log no failed resource or console error.
+#[test]
+fn report_renders_in_headless_chromium() {
+    let Some(chromium) = ["/usr/bin/chromium", "/usr/bin/chromium-browser"]
+        .into_iter()
+        .find(|p| std::path::Path::new(p).exists())
+    else {
+        eprintln!("chromium is not installed: browser rendering not checked (install Debian's chromium to run it)");
+        return;
+    };
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("r.html");
+    let o = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0));
+    let shot = d.path().join("shot.png");
+    let profile = d.path().join("profile");
+    let r = std::process::Command::new(chromium)
+        .args([
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            "--disable-quic",
+            "--no-first-run",
+            "--disable-background-networking",
+            "--disable-component-update",
+            "--disable-sync",
+            "--enable-logging=stderr",
+            "--v=0",
+            &format!("--user-data-dir={}", profile.display()),
+            &format!("--screenshot={}", shot.display()),
+            "--window-size=1200,1600",
+            &format!("file://{}", out.display()),
+        ])
+        .output()
+        .expect("chromium runs");
+    let log = String::from_utf8_lossy(&r.stderr);
+    let png = std::fs::read(&shot)
+        .unwrap_or_else(|e| panic!("no screenshot ({e}); chromium said:\n{log}"));
+    // A blank 1200x1600 page compresses to a few kB; the report with tables and plots is far larger.
+    assert!(
+        png.len() > 40_000,
+        "screenshot looks blank ({} bytes)",
+        png.len()
+    );
+    for bad in ["Failed to load resource", "Uncaught", "CONSOLE"] {
+        assert!(!log.contains(bad), "browser reported '{bad}':\n{log}");
+    }
+}
