@@ -396,6 +396,48 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
         }
         chart.draw_series(rects).map_err(plot_err)?;
 
+        // Many proposed points: a density under the limits and trials.
+        let mut binned_legend = None;
+        let binned = req.points.len() > MAX_MARKED_POINTS;
+        if binned {
+            let (bx, by) = (60usize, 40usize);
+            let mut counts = vec![0usize; bx * by];
+            for p in &req.points {
+                if let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) {
+                    let i = ((x / x_max) * bx as f64).floor();
+                    let j = ((p.angle_rad.to_degrees() / y_max) * by as f64).floor();
+                    if i >= 0.0 && j >= 0.0 && (i as usize) < bx && (j as usize) < by {
+                        counts[j as usize * bx + i as usize] += 1;
+                    }
+                }
+            }
+            let max = counts.iter().copied().max().unwrap_or(1).max(1) as f64;
+            let cells = counts
+                .iter()
+                .enumerate()
+                .filter(|(_, n)| **n > 0)
+                .map(|(k, n)| {
+                    let (i, j) = (k % bx, k / bx);
+                    let shade = 0.1 + 0.5 * (*n as f64 / max).sqrt();
+                    Rectangle::new(
+                        [
+                            (i as f64 * x_max / bx as f64, j as f64 * y_max / by as f64),
+                            (
+                                (i + 1) as f64 * x_max / bx as f64,
+                                (j + 1) as f64 * y_max / by as f64,
+                            ),
+                        ],
+                        BLACK.mix(shade).filled(),
+                    )
+                });
+            chart.draw_series(cells).map_err(plot_err)?;
+            binned_legend = Some(format!(
+                "{} proposed points, binned (more than {MAX_MARKED_POINTS}); {} inside the window",
+                req.points.len(),
+                inside_count(w, &req.points)
+            ));
+        }
+
         // Criterion contours.
         let mut legend: Vec<(String, ShapeStyle, bool)> = vec![(
             "weldable: every active limit holds".into(),
@@ -563,48 +605,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
         }
 
         // Proposed points: marked and labelled, or binned when many.
-        let binned = req.points.len() > MAX_MARKED_POINTS;
-        if binned {
-            let (bx, by) = (60usize, 40usize);
-            let mut counts = vec![0usize; bx * by];
-            for p in &req.points {
-                if let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) {
-                    let i = ((x / x_max) * bx as f64).floor();
-                    let j = ((p.angle_rad.to_degrees() / y_max) * by as f64).floor();
-                    if i >= 0.0 && j >= 0.0 && (i as usize) < bx && (j as usize) < by {
-                        counts[j as usize * bx + i as usize] += 1;
-                    }
-                }
-            }
-            let max = counts.iter().copied().max().unwrap_or(1).max(1) as f64;
-            let cells = counts
-                .iter()
-                .enumerate()
-                .filter(|(_, n)| **n > 0)
-                .map(|(k, n)| {
-                    let (i, j) = (k % bx, k / bx);
-                    let shade = 0.2 + 0.75 * (*n as f64 / max).sqrt();
-                    Rectangle::new(
-                        [
-                            (i as f64 * x_max / bx as f64, j as f64 * y_max / by as f64),
-                            (
-                                (i + 1) as f64 * x_max / bx as f64,
-                                (j + 1) as f64 * y_max / by as f64,
-                            ),
-                        ],
-                        BLACK.mix(shade).filled(),
-                    )
-                });
-            chart.draw_series(cells).map_err(plot_err)?;
-            legend.push((
-                format!(
-                    "{} proposed points, binned (more than {MAX_MARKED_POINTS})",
-                    req.points.len()
-                ),
-                BLACK.mix(0.6).filled(),
-                false,
-            ));
-        } else {
+        if !binned {
             for (n, p) in req.points.iter().enumerate() {
                 let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) else {
                     continue;
@@ -649,6 +650,10 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                     false,
                 ));
             }
+        }
+
+        if let Some(text) = binned_legend {
+            legend.push((text, BLACK.mix(0.35).filled(), false));
         }
 
         // Legend panel, outside the data.
@@ -775,6 +780,11 @@ fn draw_wrapped<DB: DrawingBackend>(
         y += 15;
     }
     Ok(y + 3)
+}
+
+/// How many of the points lie inside the window.
+fn inside_count(w: &PairWindow, points: &[ProposedPoint]) -> usize {
+    points.iter().filter(|p| classify_point(w, p.velocity_m_s, p.angle_rad).is_ok_and(|c| c.inside)).count()
 }
 
 /// Short text naming the binding limit of a failed point.
