@@ -37,6 +37,12 @@ pub enum Command {
     Report(crate::cmd::report::ReportArgs),
     /// Run the invented demo scenario end to end and write its plots and report.
     Demo(crate::cmd::demo::DemoArgs),
+    /// Estimate impact velocity from a capacitor bank and coil (or an explosive charge).
+    Estimate(crate::cmd::estimate::EstimateArgs),
+    /// Sweep charging voltage (or energy) and standoff; check every setting against a pair window.
+    Sweep(crate::cmd::estimate::SweepArgs),
+    /// Fit the efficiency factor of a machine and coil to one measured shot.
+    Calibrate(crate::cmd::estimate::CalibrateArgs),
     /// Classify every point of an interface export (CSV or JSON lines): the weld map.
     Map(crate::cmd::map::MapArgs),
 }
@@ -92,7 +98,7 @@ pub struct ConstantArgs {
 #[command(after_help = "Examples:
   oblique check --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --velocity 350m/s --angle 12deg --convention normal-to-flyer
   oblique check --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --collision-velocity 2.4km/s --angle 10deg --convention bisector --deribas-k 1.0 --json
-  oblique check --pair demo-al6061-cu --velocity 320m/s --angle 9deg
+  oblique check --pair demo-al6061-on-cu --velocity 320m/s --angle 9deg
 
 Exit status: 0 when the check ran (inside or not), 2 on bad input.
 Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts are
@@ -281,6 +287,9 @@ The first four columns are required; the others are optional."
         name: String,
         /// CSV file.
         file: PathBuf,
+        /// Refuse to write unless the pair file still has this SHA-256 (from `pair show --json`).
+        #[arg(long = "if-unchanged", value_name = "SHA256")]
+        if_unchanged: Option<String>,
         /// Print JSON.
         #[arg(long)]
         json: bool,

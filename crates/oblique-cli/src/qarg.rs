@@ -34,6 +34,7 @@ pub fn angle(s: &str) -> Result<f64, String> {
 }
 
 /// An angle that may be zero (preset angles).
+#[allow(dead_code)] // used by the explosive preset angle (process estimates)
 pub fn angle_or_zero(s: &str) -> Result<f64, String> {
     let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;
     let deg = rad.to_degrees();

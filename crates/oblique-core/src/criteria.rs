@@ -299,7 +299,7 @@ impl CriterionResult {
                 self.limit / 1e9
             ),
             (CriterionId::MeltingUpper, false) => format!(
-                "lower the impact velocity by at least {m:.0} m/s (to {:.0} m/s), or raise the collision-point velocity",
+                "lower the impact velocity by at least {m:.0} m/s (to {:.0} m/s), or lower the collision-point velocity (a larger collision angle), which raises this limit",
                 self.limit
             ),
             (CriterionId::WavyTransition, false) => "interface expected flat (informational only)".to_string(),

@@ -202,8 +202,11 @@ pub fn explosive_parallel(
 
 /// Explosive welding, inclined set-up with preset angle alpha between flyer and parent: the
 /// flyer bends by gamma = beta - alpha, Vp = 2 Vd sin(gamma/2), and the law of sines gives
-/// Vc = Vd sin(gamma) / sin(beta) (`physics-notes.md` §1, derived). Bisector convention with
-/// respect to the bend. With alpha = 0 this is the parallel set-up.
+/// Vc = Vd sin(gamma) / sin(beta) (`physics-notes.md` §1, derived), and the flyer inflows at
+/// Vf = Vd (sin(beta) - sin(alpha)) / sin(beta) (derived here). Vp lies along the bisector of the
+/// bend, so the result is labelled bisector; for alpha > 0 Vf differs from Vc, and converting the
+/// result to another convention re-derives Vp from Vc and beta. With alpha = 0 this is the
+/// parallel set-up.
 ///
 /// # Errors
 /// [`PhysicsError::OutOfDomain`] for non-positive speeds, a negative preset angle or a
@@ -235,14 +238,29 @@ pub fn explosive_inclined(
     }
     let gamma = 2.0 * ratio.asin();
     let beta = check_angle(Angle::from_radians(alpha + gamma))?;
+    Ok(inclined_collision(
+        vd,
+        Angle::from_radians(alpha),
+        beta,
+        impact_velocity,
+    ))
+}
+
+/// The steady inclined collision: Vc = Vd sin(gamma) / sin(beta) (law of sines) and the flyer's
+/// inflow Vf = Vd (sin(beta) - sin(alpha)) / sin(beta), the value that makes the lab flyer
+/// velocity (Vc - Vf cos beta, -Vf sin beta) equal Vp in size (derived here from the steady-bend
+/// geometry; with alpha = 0 it gives Vf = Vc = Vd, the parallel set-up).
+fn inclined_collision(vd: f64, alpha: Angle, beta: Angle, impact_velocity: Velocity) -> Collision {
+    let gamma = beta.radians() - alpha.radians();
     let vc = vd * gamma.sin() / beta.sin();
-    Ok(Collision {
+    let vf = vd * (beta.sin() - alpha.sin()) / beta.sin();
+    Collision {
         convention: Convention::Bisector,
         impact_velocity,
         angle: beta,
         collision_velocity: Velocity::from_m_s(vc),
-        flow_velocity: Velocity::from_m_s(vc),
-    })
+        flow_velocity: Velocity::from_m_s(vf),
+    }
 }
 
 /// Explosive welding from the geometry: Vd, preset angle alpha and dynamic angle beta > alpha.
@@ -267,14 +285,12 @@ pub fn explosive_from_angles(
         });
     }
     let vp = 2.0 * vd * (gamma / 2.0).sin();
-    let vc = vd * gamma.sin() / beta.sin();
-    Ok(Collision {
-        convention: Convention::Bisector,
-        impact_velocity: Velocity::from_m_s(vp),
-        angle: beta,
-        collision_velocity: Velocity::from_m_s(vc),
-        flow_velocity: Velocity::from_m_s(vc),
-    })
+    Ok(inclined_collision(
+        vd,
+        preset_angle,
+        beta,
+        Velocity::from_m_s(vp),
+    ))
 }
 
 #[cfg(test)]
@@ -315,6 +331,13 @@ mod tests {
         assert_abs_diff_eq!(c.impact_velocity.si(), 435.8, epsilon = 0.05);
         let back = explosive_inclined(ms(2500.0), deg(5.0), c.impact_velocity).unwrap();
         assert_abs_diff_eq!(back.angle.degrees(), 15.0, epsilon = 1e-9);
+        // The steady-bend flow velocity satisfies the general relation (derived here):
+        // |(Vc - Vf cos beta, -Vf sin beta)| = Vp; Vf = 2500 (sin 15 - sin 5) / sin 15 = 1658.1 m/s.
+        assert_abs_diff_eq!(c.flow_velocity.si(), 1658.1, epsilon = 0.05);
+        let b = c.angle.radians();
+        let lab = (c.collision_velocity.si() - c.flow_velocity.si() * b.cos())
+            .hypot(c.flow_velocity.si() * b.sin());
+        assert_abs_diff_eq!(lab, c.impact_velocity.si(), epsilon = 1e-9);
         let par = explosive_parallel(ms(2500.0), ms(435.8)).unwrap();
         assert_abs_diff_eq!(par.collision_velocity.si(), 2500.0, epsilon = 1e-9);
         assert_abs_diff_eq!(par.angle.degrees(), 10.0, epsilon = 0.01);

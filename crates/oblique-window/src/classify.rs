@@ -263,3 +263,104 @@ fn reason(window: &PairWindow, c: &Classification) -> String {
     }
     s
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::library::Library;
+    use oblique_core::units::{Angle, Velocity};
+
+    fn demo() -> PairWindow {
+        Library::load(&[])
+            .expect("built-in library")
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair")
+            .clone()
+    }
+
+    fn at(w: &PairWindow, v: f64, deg: f64) -> Classification {
+        let setup = w.setup().expect("setup");
+        let c = Collision::from_impact(
+            w.convention,
+            Velocity::from_m_s(v),
+            Angle::from_degrees(deg),
+        )
+        .expect("collision");
+        classify(w, &setup, &c).expect("classifies")
+    }
+
+    #[test]
+    fn predictions_on_the_demo_window() {
+        let w = demo();
+        let inside = at(&w, 450.0, 10.0);
+        assert!(inside.inside);
+        assert_eq!(inside.prediction, Prediction::Welded);
+        assert_eq!(inside.binding, Some(LimitRef::Boundary(0)));
+        assert!(inside.reason.starts_with("inside the window"));
+
+        let slow = at(&w, 300.0, 10.0);
+        assert_eq!(slow.prediction, Prediction::NotWelded);
+        assert!(slow
+            .failing
+            .contains(&LimitRef::Criterion(CriterionId::StrengthLower)));
+        assert!(slow.failing.contains(&LimitRef::Boundary(0)));
+
+        // Only the melting ceiling fails: predicted melted.
+        let hot = at(&w, 650.0, 9.0);
+        assert_eq!(hot.prediction, Prediction::Melted);
+        assert_eq!(
+            hot.failing,
+            vec![LimitRef::Criterion(CriterionId::MeltingUpper)]
+        );
+    }
+
+    #[test]
+    fn a_boundary_that_does_not_span_the_point_is_flagged_not_extrapolated() {
+        let w = demo();
+        let c = at(&w, 700.0, 20.0);
+        assert!(c.outside_trial_data);
+        assert!(!c.boundaries[1].in_range);
+        assert!(!c.failing.contains(&LimitRef::Boundary(1)));
+        assert!(c.reason.contains("outside the trial data"));
+    }
+
+    #[test]
+    fn another_convention_is_converted_keeping_the_geometry() {
+        let w = demo();
+        let setup = w.setup().expect("setup");
+        let nf = Collision::from_impact(
+            w.convention,
+            Velocity::from_m_s(450.0),
+            Angle::from_degrees(10.0),
+        )
+        .expect("collision");
+        let bis = nf.with_convention(oblique_core::Convention::Bisector);
+        let a = classify(&w, &setup, &nf).expect("classifies");
+        let b = classify(&w, &setup, &bis).expect("classifies");
+        assert_eq!(a.inside, b.inside);
+        assert!(
+            (a.evaluation.collision.impact_velocity.si()
+                - b.evaluation.collision.impact_velocity.si())
+            .abs()
+                < 1e-9
+        );
+    }
+
+    #[test]
+    fn agreement_on_the_demo_window() {
+        let a = crate::agreement::agreement(&demo()).expect("agreement");
+        assert_eq!(a.observations, 16);
+        assert_eq!(a.agreeing, 14);
+        let idx: Vec<usize> = a.disagreements.iter().map(|d| d.index).collect();
+        assert_eq!(idx, vec![10, 13]);
+        assert!(a.disagreements[1]
+            .misjudged_by
+            .iter()
+            .any(|m| m == "deribas-lower"));
+        assert_eq!(
+            a.table["welded"]["partial"], 1,
+            "the partial shot near the edge agrees"
+        );
+        assert_eq!(a.table["melted"]["melted"], 1);
+    }
+}

@@ -261,7 +261,7 @@ pub struct PairFile {
     /// Source keys for inline materials.
     #[serde(default)]
     pub sources: BTreeMap<String, String>,
-    /// Inline materials (used when not in the material library).
+    /// Inline materials; for this file they take precedence over library materials of the same id.
     #[serde(default)]
     pub materials: Vec<MaterialEntry>,
     /// Trial observations.
@@ -810,6 +810,17 @@ pub fn parse_pair_file(
             .angle_uncertainty
             .as_ref()
             .and_then(|t| c.quantity(&format!("{base}.angle_uncertainty"), t, QuantityKind::Angle));
+        for (field, value) in [("velocity_uncertainty", vu), ("angle_uncertainty", au)] {
+            if let Some(u) = value {
+                if !(u > 0.0) {
+                    c.push(
+                        &format!("{base}.{field}"),
+                        format!("{field} must be above zero"),
+                        None,
+                    );
+                }
+            }
+        }
         if let (Some(v), Some(a), Some(outcome)) = (v, a, outcome) {
             observations.push(Observation {
                 index: i,

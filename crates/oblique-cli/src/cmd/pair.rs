@@ -301,7 +301,7 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 .map_err(write_fail)?;
             finish_append(&updated, &path, 1, json)
         }
-        PairCommand::Import { name, file, json } => {
+        PairCommand::Import { name, file, if_unchanged, json } => {
             let lib = load_library(dirs)?;
             let w = lib.pair(&name).map_err(Fail::input)?;
             let path = user_file(w)?;
@@ -310,7 +310,7 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 return Err(Fail::input(format!("{}: no data rows", file.display())));
             }
             let updated =
-                append_observations(&path, &entries, &lib.materials, Some(&w.origin.sha256))
+                append_observations(&path, &entries, &lib.materials, Some(if_unchanged.as_deref().unwrap_or(&w.origin.sha256)))
                     .map_err(write_fail)?;
             finish_append(&updated, &path, entries.len(), json)
         }
@@ -710,7 +710,7 @@ fn agreement_human(w: &PairWindow, a: &oblique_window::Agreement) -> String {
         })
         .collect();
     let mut header = vec![""];
-    header.extend(outcomes.iter().map(|o| *o));
+    header.extend(outcomes.iter().copied());
     s.push_str("              observed ->\n");
     s.push_str(&table(&header, &rows));
     s.push_str(&format!("({})\n", a.partial_rule));

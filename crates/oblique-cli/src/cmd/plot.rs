@@ -146,7 +146,7 @@ pub fn window_from(
     match pair {
         Some(name) => lib
             .pair(name)
-            .map(Clone::clone)
+            .cloned()
             .map_err(|m| Fail::input(format!("--pair: {m}"))),
         None => ad_hoc_window(
             &lib,
