@@ -110,7 +110,7 @@ impl fmt::Display for CriterionId {
     }
 }
 
-/// Which of the two published forms of the Wittman melting limit is used (both circulate;
+/// Which of the two forms of the Wittman melting limit is used (both circulate; both from memory,
 /// `physics-notes.md` §4).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
@@ -121,7 +121,8 @@ pub enum WittmanForm {
     B,
 }
 
-/// Constants and switches of every criterion. `Default` gives the published defaults.
+/// Constants and switches of every criterion. `Default` gives the usual defaults (k 0.6, N 0.11,
+/// 5 HEL, Re 10.6; from memory or common practice, see docs/theory.md).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct CriteriaConfig {
     /// Deribas lower angle limit on/off.

@@ -303,7 +303,7 @@ pub fn new_pair_text(
 ) -> String {
     format!(
         r#"// Pair window for oblique: {name}. Format described in docs/window-format.md.
-// Quantities carry their units inside the strings. Criteria are at their published defaults;
+// Quantities carry their units inside the strings. Criteria are at their usual defaults (docs/theory.md);
 // give a reason when you change one.
 (
     format: {format},
