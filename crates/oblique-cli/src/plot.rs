@@ -344,7 +344,8 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
         let (main, bottom) = root.split_vertically(HEIGHT - 26);
         let (chart_area, legend_area) = main.split_horizontally(WIDTH - LEGEND_W);
         let title = format!(
-            "{} ({:.2} mm) on {}: {}",
+            "{}: {} flyer {:.2} mm on {}, Vp {}",
+            w.name,
             w.flyer.material.id,
             w.flyer_thickness.mm(),
             w.parent.material.id,
@@ -784,7 +785,10 @@ fn draw_wrapped<DB: DrawingBackend>(
 
 /// How many of the points lie inside the window.
 fn inside_count(w: &PairWindow, points: &[ProposedPoint]) -> usize {
-    points.iter().filter(|p| classify_point(w, p.velocity_m_s, p.angle_rad).is_ok_and(|c| c.inside)).count()
+    points
+        .iter()
+        .filter(|p| classify_point(w, p.velocity_m_s, p.angle_rad).is_ok_and(|c| c.inside))
+        .count()
 }
 
 /// Short text naming the binding limit of a failed point.

@@ -5,10 +5,15 @@ use oblique_window::Library;
 
 fn make_library(dir: &std::path::Path) {
     let template = include_str!("../../../windows/demo-al6061-on-cu.ron");
-    let start = template.find("    observations: [").expect("template has observations");
+    let start = template
+        .find("    observations: [")
+        .expect("template has observations");
     let head = &template[..start];
     for f in 0..200 {
-        let mut text = head.replace("name: \"demo-al6061-on-cu\"", &format!("name: \"bench-{f}\""));
+        let mut text = head.replace(
+            "name: \"demo-al6061-on-cu\"",
+            &format!("name: \"bench-{f}\""),
+        );
         text.push_str("    observations: [\n");
         for i in 0..100 {
             text.push_str(&format!(
@@ -29,8 +34,12 @@ fn bench(c: &mut Criterion) {
     let dirs = vec![dir.path().to_path_buf()];
     let mut g = c.benchmark_group("library");
     g.sample_size(20);
-    g.bench_function("load built-in only", |b| b.iter(|| Library::load(&[]).expect("loads")));
-    g.bench_function("load 200 pair files x 100 observations", |b| b.iter(|| Library::load(&dirs).expect("loads")));
+    g.bench_function("load built-in only", |b| {
+        b.iter(|| Library::load(&[]).expect("loads"))
+    });
+    g.bench_function("load 200 pair files x 100 observations", |b| {
+        b.iter(|| Library::load(&dirs).expect("loads"))
+    });
     g.finish();
 }
 

@@ -15,6 +15,7 @@ pub mod boundary;
 pub mod classify;
 pub mod diag;
 pub mod library;
+pub mod machine;
 pub mod materials;
 pub mod pair;
 pub mod ronpath;

@@ -286,7 +286,8 @@ mod tests {
     use crate::pair::PairFile;
 
     fn to_ron<T: serde::Serialize>(v: &T) -> String {
-        let cfg = ron::ser::PrettyConfig::new().extensions(ron::extensions::Extensions::IMPLICIT_SOME);
+        let cfg =
+            ron::ser::PrettyConfig::new().extensions(ron::extensions::Extensions::IMPLICIT_SOME);
         ron::ser::to_string_pretty(v, cfg).expect("serialises")
     }
 
@@ -308,10 +309,16 @@ mod tests {
                 assert_eq!(recs, recs2);
                 let _: MaterialFile = second;
             } else {
-                let origin = Origin { display: (*rel).into(), path: None, sha256: String::new() };
-                let (first, w1) = parse_pair_file(origin.clone(), text, &lib.materials).expect("loads");
+                let origin = Origin {
+                    display: (*rel).into(),
+                    path: None,
+                    sha256: String::new(),
+                };
+                let (first, w1) =
+                    parse_pair_file(origin.clone(), text, &lib.materials).expect("loads");
                 let saved = to_ron(&first);
-                let (second, w2) = parse_pair_file(origin, &saved, &lib.materials).expect("reloads");
+                let (second, w2) =
+                    parse_pair_file(origin, &saved, &lib.materials).expect("reloads");
                 assert_eq!(first, second);
                 let _: PairFile = second;
                 assert_eq!(w1.observations, w2.observations);
@@ -319,13 +326,29 @@ mod tests {
                 assert_eq!(w1.criteria, w2.criteria);
             }
         }
-        assert!(n >= 2, "expected the materials file and at least one pair window");
+        assert!(
+            n >= 2,
+            "expected the materials file and at least one pair window"
+        );
     }
 
     #[test]
     fn the_twelve_required_materials_are_built_in() {
         let lib = Library::load(&[]).expect("loads");
-        for id in ["aa1100-o", "aa6061-t6", "aa5083-o", "cu-c11000", "brass-c26000", "az31b-o", "steel-1018", "ss304", "ti-gr2", "ti6al4v", "ni200", "ta"] {
+        for id in [
+            "aa1100-o",
+            "aa6061-t6",
+            "aa5083-o",
+            "cu-c11000",
+            "brass-c26000",
+            "az31b-o",
+            "steel-1018",
+            "ss304",
+            "ti-gr2",
+            "ti6al4v",
+            "ni200",
+            "ta",
+        ] {
             let m = lib.material(id).expect("present");
             assert!(!m.sources.is_empty());
         }

@@ -216,7 +216,13 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
         let consts: Vec<String> = r
             .constants
             .iter()
-            .map(|(k, v)| if *k == "form" { format!("form={}", if *v < 1.5 { "A" } else { "B" }) } else { format!("{k}={v}") })
+            .map(|(k, v)| {
+                if *k == "form" {
+                    format!("form={}", if *v < 1.5 { "A" } else { "B" })
+                } else {
+                    format!("{k}={v}")
+                }
+            })
             .collect();
         crit_rows.push(vec![
             r.id.as_str().to_string(),

@@ -2,6 +2,7 @@
 
 pub mod check;
 pub mod demo;
+pub mod estimate;
 pub mod map;
 pub mod material;
 pub mod pair;
@@ -39,6 +40,9 @@ pub fn run(cli: Cli) -> CmdResult {
         Command::Plot(a) => plot::run(&cli.library, a),
         Command::Report(a) => report::run(&cli.library, a),
         Command::Demo(a) => demo::run(&cli.library, a),
+        Command::Estimate(a) => estimate::run_estimate(&cli.library, a),
+        Command::Sweep(a) => estimate::run_sweep(&cli.library, a),
+        Command::Calibrate(a) => estimate::run_calibrate(&cli.library, a),
     }
 }
 

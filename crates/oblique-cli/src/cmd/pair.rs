@@ -301,7 +301,12 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 .map_err(write_fail)?;
             finish_append(&updated, &path, 1, json)
         }
-        PairCommand::Import { name, file, if_unchanged, json } => {
+        PairCommand::Import {
+            name,
+            file,
+            if_unchanged,
+            json,
+        } => {
             let lib = load_library(dirs)?;
             let w = lib.pair(&name).map_err(Fail::input)?;
             let path = user_file(w)?;
@@ -309,9 +314,13 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             if entries.is_empty() {
                 return Err(Fail::input(format!("{}: no data rows", file.display())));
             }
-            let updated =
-                append_observations(&path, &entries, &lib.materials, Some(if_unchanged.as_deref().unwrap_or(&w.origin.sha256)))
-                    .map_err(write_fail)?;
+            let updated = append_observations(
+                &path,
+                &entries,
+                &lib.materials,
+                Some(if_unchanged.as_deref().unwrap_or(&w.origin.sha256)),
+            )
+            .map_err(write_fail)?;
             finish_append(&updated, &path, entries.len(), json)
         }
         PairCommand::Validate { files, json } => validate(dirs, &files, json),

@@ -1,0 +1,118 @@
+//! Grid flags of the sweeps: a comma list (`1mm,1.5mm,2mm`) or a range `A..B` spread over a
+//! number of steps given by another flag.
+
+use oblique_core::units::{parse_quantity, QuantityKind};
+
+/// A list of values or a range (SI).
+#[derive(Debug, Clone, PartialEq)]
+pub enum Grid {
+    /// Values as given.
+    List(Vec<f64>),
+    /// From, to (inclusive), spread over the steps of the matching flag.
+    Range(f64, f64),
+}
+
+impl Grid {
+    /// The values; a range is spread evenly over `steps` values (at least 2).
+    ///
+    /// # Errors
+    /// A message when a range has fewer than two steps.
+    pub fn values(&self, steps: usize, steps_flag: &str) -> Result<Vec<f64>, String> {
+        match self {
+            Grid::List(v) => Ok(v.clone()),
+            Grid::Range(a, b) => {
+                if steps < 2 {
+                    return Err(format!(
+                        "{steps_flag} must be at least 2 for a range, got {steps}"
+                    ));
+                }
+                let n = steps - 1;
+                Ok((0..=n).map(|i| a + (b - a) * i as f64 / n as f64).collect())
+            }
+        }
+    }
+}
+
+fn grid(s: &str, kind: QuantityKind, allow_zero: bool) -> Result<Grid, String> {
+    let one = |t: &str| -> Result<f64, String> {
+        let v = parse_quantity(t, kind).map_err(|e| e.to_string())?;
+        if v > 0.0 || (allow_zero && v == 0.0) {
+            Ok(v)
+        } else {
+            Err(format!(
+                "'{}' must be above zero ({} such as {})",
+                t.trim(),
+                kind.describe(),
+                kind.example()
+            ))
+        }
+    };
+    if let Some((a, b)) = s.split_once("..") {
+        let (a, b) = (one(a)?, one(b)?);
+        if !(b > a) {
+            return Err(format!(
+                "range '{s}' must go from the smaller to the larger value"
+            ));
+        }
+        return Ok(Grid::Range(a, b));
+    }
+    let v: Vec<f64> = s.split(',').map(one).collect::<Result<_, _>>()?;
+    Ok(Grid::List(v))
+}
+
+/// Charging voltages.
+pub fn voltage_grid(s: &str) -> Result<Grid, String> {
+    grid(s, QuantityKind::Voltage, false)
+}
+
+/// Stored energies.
+pub fn energy_grid(s: &str) -> Result<Grid, String> {
+    grid(s, QuantityKind::Energy, false)
+}
+
+/// Standoffs.
+pub fn length_grid(s: &str) -> Result<Grid, String> {
+    grid(s, QuantityKind::Length, false)
+}
+
+/// Collision angles (each strictly between 0 and 90 deg).
+pub fn angle_grid(s: &str) -> Result<Grid, String> {
+    let g = grid(s, QuantityKind::Angle, false)?;
+    let check = |v: f64| {
+        if v < std::f64::consts::FRAC_PI_2 {
+            Ok(())
+        } else {
+            Err(format!(
+                "collision angle {} deg is outside (0, 90) deg",
+                v.to_degrees()
+            ))
+        }
+    };
+    match &g {
+        Grid::List(v) => v.iter().try_for_each(|x| check(*x))?,
+        Grid::Range(_, b) => check(*b)?,
+    }
+    Ok(g)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn lists_and_ranges() {
+        assert_eq!(
+            length_grid("1mm,1.5mm").unwrap(),
+            Grid::List(vec![1e-3, 1.5e-3])
+        );
+        let r = voltage_grid("6kV..12kV").unwrap();
+        let v = r.values(4, "--steps").unwrap();
+        assert_eq!(v.len(), 4);
+        assert!((v[1] - 8e3).abs() < 1e-9 && (v[3] - 12e3).abs() < 1e-9);
+        assert!(r.values(1, "--steps").is_err());
+        assert!(voltage_grid("12kV..6kV").is_err());
+        assert!(length_grid("0mm,1mm").is_err());
+        assert!(length_grid("1,2").is_err(), "bare numbers need a unit");
+        assert!(angle_grid("6deg,95deg").is_err());
+    }
+}
