@@ -12,7 +12,7 @@ explosives kill: follow local codes and licensed practice before any shot.";
 #[derive(Debug, Parser)]
 #[command(name = "oblique", version, about, after_help = AFTER_HELP, max_term_width = 100)]
 pub struct Cli {
-    /// Extra library folder (materials.ron and pair window files); repeatable, earlier wins.
+    /// Extra library folder (materials.ron, pair window files, machines/*.ron); repeatable, earlier wins.
     /// Folders in the OBLIQUE_LIBRARY environment variable (separated like PATH) come after.
     #[arg(long = "library", value_name = "DIR", global = true)]
     pub library: Vec<PathBuf>,
