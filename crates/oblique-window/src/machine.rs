@@ -33,7 +33,6 @@ use crate::diag::{close_matches, parse_ron, Collector, Diagnostic, Diagnostics};
 use crate::library::{sha256_hex, BUILTIN_FILES};
 use crate::materials::Revision;
 use crate::pair::Origin;
-use crate::ronpath::RonIndex;
 use crate::write::{atomic_write, ron_string, WriteError};
 use oblique_core::process::{
     identify_ring_down, BarCoil, CapacitorBank, CompressionCoil, MassRatio, RingDownFit,
@@ -1217,42 +1216,6 @@ pub fn render_calibration(e: &CalibrationEntry) -> String {
     s
 }
 
-/// `s` without trailing blanks and `//` line comments (a `//` inside a string does not count).
-fn strip_trailing_comments(s: &str) -> &str {
-    let mut s = s.trim_end();
-    loop {
-        let line_start = s.rfind('\n').map_or(0, |i| i + 1);
-        let line = &s[line_start..];
-        let (mut in_string, mut escaped, mut comment_at) = (false, false, None);
-        let bytes = line.as_bytes();
-        for (i, &b) in bytes.iter().enumerate() {
-            if in_string {
-                if escaped {
-                    escaped = false;
-                } else if b == b'\\' {
-                    escaped = true;
-                } else if b == b'"' {
-                    in_string = false;
-                }
-            } else if b == b'"' {
-                in_string = true;
-            } else if b == b'/' && bytes.get(i + 1) == Some(&b'/') {
-                comment_at = Some(i);
-                break;
-            }
-        }
-        match comment_at {
-            Some(pos) => {
-                s = s[..line_start + pos].trim_end();
-                if pos > 0 {
-                    return s;
-                }
-            }
-            None => return s,
-        }
-    }
-}
-
 /// The text of a machine file with `entry` appended to its `calibrations` list (the list is
 /// created when absent); every other byte is kept.
 ///
@@ -1263,48 +1226,7 @@ pub fn append_calibration_text(
     text: &str,
     entry: &CalibrationEntry,
 ) -> Result<String, WriteError> {
-    let index = RonIndex::scan(text);
-    let rendered = render_calibration(entry);
-    if let Some(end) = index.list_end("calibrations") {
-        let value_end = strip_trailing_comments(&text[..end]).len();
-        let last = text[..value_end].trim_end().chars().last();
-        let needs_comma = !matches!(last, Some('[') | Some(','));
-        let line_start = text[..end].rfind('\n').map_or(0, |i| i + 1);
-        let own_line = text[line_start..end].trim().is_empty();
-        let mut out = String::with_capacity(text.len() + rendered.len() + 8);
-        out.push_str(&text[..value_end]);
-        if needs_comma {
-            out.push(',');
-        }
-        if own_line {
-            out.push_str(&text[value_end..line_start]);
-            out.push_str(&rendered);
-            out.push_str(&text[line_start..]);
-        } else {
-            out.push_str(&text[value_end..end]);
-            out.push('\n');
-            out.push_str(&rendered);
-            out.push_str("    ");
-            out.push_str(&text[end..]);
-        }
-        return Ok(out);
-    }
-    let close = strip_trailing_comments(text)
-        .rfind(')')
-        .ok_or_else(|| WriteError::Structure {
-            path: path.to_path_buf(),
-            message: "no closing parenthesis found for the top-level structure".into(),
-        })?;
-    let head = text[..close].trim_end();
-    let comma = if head.ends_with(',') || head.ends_with('(') {
-        ""
-    } else {
-        ","
-    };
-    Ok(format!(
-        "{head}{comma}\n    calibrations: [\n{rendered}    ],\n{}",
-        &text[close..]
-    ))
+    crate::write::append_to_top_list(path, text, "calibrations", &render_calibration(entry))
 }
 
 /// Append a calibration to the user's machine file at `path`: the new text is validated first,

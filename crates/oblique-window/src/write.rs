@@ -170,11 +170,25 @@ pub fn append_observation_text(
     text: &str,
     entries: &[ObservationEntry],
 ) -> Result<String, WriteError> {
-    let index = RonIndex::scan(text);
     let rendered: String = entries.iter().map(render_observation).collect();
-    if let Some(end) = index.list_end("observations") {
-        // Where the last value before the closing bracket ends (skipping comments and blanks),
-        // so a missing comma goes right after it and a trailing comment stays where it is.
+    append_to_top_list(path, text, "observations", &rendered)
+}
+
+/// The text of `text` with `rendered` (already indented list items) appended to the top-level
+/// list field `list`; the list is created before the top-level closing parenthesis when absent.
+/// Every other byte is kept: a missing comma goes right after the last value, and trailing
+/// comments stay where they are.
+///
+/// # Errors
+/// [`WriteError::Structure`] when the file has no place to append.
+pub fn append_to_top_list(
+    path: &Path,
+    text: &str,
+    list: &str,
+    rendered: &str,
+) -> Result<String, WriteError> {
+    let index = RonIndex::scan(text);
+    if let Some(end) = index.list_end(list) {
         let value_end = strip_trailing_comments(&text[..end]).len();
         let last = text[..value_end].trim_end().chars().last();
         let needs_comma = !matches!(last, Some('[') | Some(','));
@@ -187,22 +201,24 @@ pub fn append_observation_text(
         }
         if bracket_on_own_line {
             out.push_str(&text[value_end..line_start]);
-            out.push_str(&rendered);
+            out.push_str(rendered);
             out.push_str(&text[line_start..]);
         } else {
             out.push_str(&text[value_end..end]);
             out.push('\n');
-            out.push_str(&rendered);
+            out.push_str(rendered);
             out.push_str("    ");
             out.push_str(&text[end..]);
         }
         return Ok(out);
     }
-    // No observations list yet: add one before the top-level struct's closing parenthesis.
-    let close = text.rfind(')').ok_or_else(|| WriteError::Structure {
-        path: path.to_path_buf(),
-        message: "no closing parenthesis found for the top-level structure".into(),
-    })?;
+    // No such list yet: add one before the top-level struct's closing parenthesis.
+    let close = strip_trailing_comments(text)
+        .rfind(')')
+        .ok_or_else(|| WriteError::Structure {
+            path: path.to_path_buf(),
+            message: "no closing parenthesis found for the top-level structure".into(),
+        })?;
     let head = text[..close].trim_end();
     let comma = if head.ends_with(',') || head.ends_with('(') {
         ""
@@ -210,7 +226,7 @@ pub fn append_observation_text(
         ","
     };
     Ok(format!(
-        "{head}{comma}\n    observations: [\n{rendered}    ],\n{}",
+        "{head}{comma}\n    {list}: [\n{rendered}    ],\n{}",
         &text[close..]
     ))
 }
