@@ -19,8 +19,6 @@ parser!(inductance, QuantityKind::Inductance);
 parser!(resistance, QuantityKind::Resistance);
 parser!(energy, QuantityKind::Energy);
 parser!(frequency, QuantityKind::Frequency);
-parser!(pressure, QuantityKind::Pressure);
-parser!(density, QuantityKind::Density);
 
 /// A collision angle: strictly between 0 and 90 deg.
 pub fn angle(s: &str) -> Result<f64, String> {
@@ -34,7 +32,6 @@ pub fn angle(s: &str) -> Result<f64, String> {
 }
 
 /// An angle that may be zero (preset angles).
-#[allow(dead_code)] // used by the explosive preset angle (process estimates)
 pub fn angle_or_zero(s: &str) -> Result<f64, String> {
     let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;
     let deg = rad.to_degrees();

@@ -1,0 +1,104 @@
+#!/usr/bin/env bash
+# Side-by-side benchmark of `oblique map` (release build) and the Python reference
+# (bench/reference_map.py: pandas C reader, vectorised numpy, pyarrow CSV writer) on one
+# synthetic interface file. Checks that the verdict counts agree and prints wall time, MB/s of
+# input CSV, the ratio and the peak memory of each (from /usr/bin/time -v).
+#
+# Usage: bench/compare.sh            (5 000 000 rows, each program run REPEAT=2 times, best kept)
+#        ROWS=1000000 REPEAT=1 bench/compare.sh
+#        ROWCHECK=1 bench/compare.sh  (also compare the verdicts row by row)
+# Needs: cargo, python3 with venv, /usr/bin/time. Installs pandas, numpy and pyarrow into
+# bench/.venv (git-ignored) on first use.
+set -euo pipefail
+
+HERE="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
+ROOT="$(cd "$HERE/.." && pwd)"
+ROWS="${ROWS:-5000000}"
+REPEAT="${REPEAT:-2}"
+PAIR="${PAIR:-demo-al6061-on-cu}"
+OUT="$HERE/out"
+VENV="$HERE/.venv"
+mkdir -p "$OUT"
+
+if [ ! -x "$VENV/bin/python" ]; then
+    python3 -m venv "$VENV"
+    "$VENV/bin/pip" install --quiet pandas numpy pyarrow
+fi
+PY="$VENV/bin/python"
+
+(cd "$ROOT" && cargo build --release -p oblique-cli --quiet)
+BIN="$ROOT/target/release/oblique"
+
+INPUT="$OUT/interface-$ROWS.csv"
+if [ ! -s "$INPUT" ]; then
+    echo "generating $ROWS rows ..." >&2
+    "$PY" "$HERE/gen_interface.py" "$ROWS" "$INPUT"
+fi
+"$BIN" pair show "$PAIR" --json > "$OUT/window.json"
+BYTES=$(stat -c %s "$INPUT")
+
+# run NAME CMD...: best wall time and its peak RSS over REPEAT runs, into $OUT/NAME.best
+run() {
+    local name="$1"
+    shift
+    local best=""
+    for _ in $(seq "$REPEAT"); do
+        rm -f "$OUT/map-$name.csv"
+        /usr/bin/time -v -o "$OUT/$name.time" "$@" > /dev/null 2> "$OUT/$name.err" || {
+            cat "$OUT/$name.err" >&2
+            exit 1
+        }
+        local wall rss
+        wall=$(awk -F': ' '/Elapsed \(wall clock\)/ {n=split($2,t,":"); s=0; for(i=1;i<=n;i++) s=s*60+t[i]; print s}' "$OUT/$name.time")
+        rss=$(awk -F': ' '/Maximum resident set size/ {print $2}' "$OUT/$name.time")
+        if [ -z "$best" ] || awk -v a="$wall" -v b="${best%% *}" 'BEGIN{exit !(a<b)}'; then
+            best="$wall $rss"
+        fi
+    done
+    echo "$best" > "$OUT/$name.best"
+}
+
+echo "load before the runs: $(cut -d' ' -f1-3 /proc/loadavg)" >&2
+run rust "$BIN" map "$INPUT" --pair "$PAIR" -o "$OUT/map-rust.csv" \
+    --summary-json "$OUT/summary-rust.json" --no-progress
+run python "$PY" "$HERE/reference_map.py" "$INPUT" "$OUT/window.json" \
+    -o "$OUT/map-python.csv" --summary-json "$OUT/summary-python.json"
+echo "load after the runs: $(cut -d' ' -f1-3 /proc/loadavg)" >&2
+
+"$PY" - "$OUT" "$BYTES" "$ROWS" <<'EOF'
+import json, sys
+out, nbytes, rows = sys.argv[1], int(sys.argv[2]), int(sys.argv[3])
+rs = json.load(open(f"{out}/summary-rust.json"))
+py = json.load(open(f"{out}/summary-python.json"))
+def best(name):
+    wall, rss = open(f"{out}/{name}.best").read().split()
+    return float(wall), int(rss) / 1024.0
+rw, rm = best("rust")
+pw, pm = best("python")
+mb = nbytes / 1e6
+print(f"input: {rows} rows, {mb:.1f} MB of CSV; pair {rs['pair']} ({rs['convention']})")
+print(f"{'':10} {'wall s':>8} {'MB/s':>8} {'peak RSS MiB':>13}")
+print(f"{'oblique':10} {rw:8.2f} {mb / rw:8.1f} {rm:13.1f}")
+print(f"{'python':10} {pw:8.2f} {mb / pw:8.1f} {pm:13.1f}")
+print(f"speed-up: {pw / rw:.2f}x")
+ok = rs["verdict_counts"] == py["verdict_counts"] and rs["rows_classified"] == py["rows_classified"]
+print(f"verdict counts: oblique {rs['verdict_counts']}, python {py['verdict_counts']}: {'AGREE' if ok else 'DIFFER'}")
+print(f"welded length: oblique {rs['welded_length_m']:.9f} m, python {py['welded_length_m']:.9f} m")
+print(f"jetting rows solved directly: oblique {rs['jetting']['rows_solved_directly']}, python {py['jetting_rows_solved_directly']}")
+sys.exit(0 if ok else 1)
+EOF
+
+# ROWCHECK=1: also compare the verdict of every row (reads both maps back; slow, memory-hungry).
+if [ "${ROWCHECK:-0}" = 1 ]; then
+    "$PY" - "$OUT" <<'EOF'
+import sys
+import pandas as pd
+out = sys.argv[1]
+a = pd.read_csv(f"{out}/map-rust.csv", usecols=["row", "verdict"])
+b = pd.read_csv(f"{out}/map-python.csv", usecols=["row", "verdict"])
+same_rows = bool((a["row"].to_numpy() == b["row"].to_numpy()).all())
+diff = int((a["verdict"].to_numpy() != b["verdict"].to_numpy()).sum())
+print(f"row by row: {len(a)} rows, {diff} verdicts differ, rows aligned: {same_rows}")
+sys.exit(0 if diff == 0 and same_rows else 1)
+EOF
+fi

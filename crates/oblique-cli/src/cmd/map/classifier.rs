@@ -1,0 +1,790 @@
+//! A lean per-point classifier for the weld map: the same verdicts, binding limits and margins as
+//! `oblique_window::classify::classify_with_jetting`, without its per-point allocations (the
+//! reason text, the criterion and boundary vectors), and with the jetting critical angle taken
+//! from an `oblique_core::jetting_table::JettingTable`.
+//!
+//! Exactness: every limit is computed with the same floating-point operations as the core and
+//! window crates (the tests below compare bit for bit against `classify_with_jetting` given the
+//! same jetting assessment). The table is used only where it cannot change a verdict: a point
+//! whose angle lies within the table's error bound of the interpolated critical angle is
+//! re-solved directly, so the jetting verdict is always that of the direct solve; only the
+//! reported critical angle and jetting margin of the other points carry the table's error
+//! (at most `JettingTable::ERROR_BOUND_DEG`).
+
+use oblique_core::criteria::deribas_angle;
+use oblique_core::hugoniot::impedance_match;
+use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime};
+use oblique_core::jetting_table::{JettingTable, Lookup};
+use oblique_core::units::{Angle, Velocity};
+use oblique_core::{
+    Collision, Convention, CriterionId, LimitKind, Material, PairSetup, PhysicsError, WittmanForm,
+};
+use oblique_window::boundary::{Plane, WeldSide};
+use oblique_window::classify::{limit_label, LimitRef, Prediction};
+use oblique_window::PairWindow;
+use std::sync::OnceLock;
+
+/// What the velocity column holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum VelocityKind {
+    /// Impact (flyer) velocity Vp in the window's convention.
+    Impact,
+    /// Collision-point velocity Vc (geometry; the same in every convention).
+    Collision,
+}
+
+/// How the jetting critical angle is obtained.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum JettingMode {
+    /// Table with direct re-solve near the limit (the default).
+    Table,
+    /// Direct solve for every point.
+    Direct,
+}
+
+/// One decisive limit of the window, in output order.
+#[derive(Debug, Clone)]
+pub struct LimitInfo {
+    /// Which limit.
+    pub limit: LimitRef,
+    /// Label as in `check` (criterion id, or `boundary "label"`).
+    pub label: String,
+    /// Short id for the per-row output: the criterion id, or `boundary-N` (1-based).
+    pub id: String,
+    /// Column name stem: `margin_deribas_lower`, `margin_boundary_1`, ...
+    pub column: String,
+    /// Unit of the margin as computed (deg, m/s or Pa).
+    pub unit: &'static str,
+}
+
+struct MeltingConsts {
+    lead_a: f64,
+    tm: f64,
+    diffusive: f64,
+}
+
+impl MeltingConsts {
+    /// The parts of `oblique_core::criteria::melting_velocity` that do not depend on Vc,
+    /// computed with the same operations so that the result is bit-identical.
+    fn new(m: &Material, h: f64) -> Self {
+        let tm = m.melting_temperature.si();
+        let c0 = m.sound_speed().si();
+        let diffusive = (m.thermal_conductivity.si() * m.specific_heat.si() * c0
+            / (m.density().si() * h))
+            .powf(0.25);
+        Self {
+            lead_a: (tm * c0).sqrt(),
+            tm,
+            diffusive,
+        }
+    }
+
+    #[inline]
+    fn velocity(&self, vc: f64, n: f64, form: WittmanForm) -> f64 {
+        let lead = match form {
+            WittmanForm::A => self.lead_a / vc,
+            WittmanForm::B => (self.tm / vc).sqrt(),
+        };
+        lead * self.diffusive / n
+    }
+}
+
+struct FastBoundary {
+    plane: Plane,
+    side: WeldSide,
+    /// (independent, dependent) in the units of `Boundary::evaluate`: (m/s, deg) for
+    /// above/below, (deg, m/s) for left/right.
+    points: Vec<(f64, f64)>,
+}
+
+/// Same as the window crate's boundary interpolation (linear, `None` outside the span).
+#[inline]
+fn interpolate(points: &[(f64, f64)], x: f64) -> Option<f64> {
+    let first = points.first()?;
+    let last = points.last()?;
+    if !(x >= first.0 && x <= last.0) {
+        return None;
+    }
+    let k = points
+        .partition_point(|p| p.0 < x)
+        .max(1)
+        .min(points.len() - 1);
+    let (x0, y0) = points[k - 1];
+    let (x1, y1) = points[k];
+    if x1 == x0 {
+        return Some(y0);
+    }
+    Some(y0 + (y1 - y0) * (x - x0) / (x1 - x0))
+}
+
+#[inline]
+fn relative(margin: f64, limit: f64) -> f64 {
+    if limit.abs() > 0.0 {
+        margin / limit.abs()
+    } else if margin >= 0.0 {
+        f64::INFINITY
+    } else {
+        f64::NEG_INFINITY
+    }
+}
+
+/// The classification of one point. Margins are in `Classifier::limits` order, in the units of
+/// `LimitInfo::unit`; NaN for a boundary that does not span the point.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Point {
+    /// Impact velocity Vp (window convention), m/s.
+    pub vp: f64,
+    /// Collision-point velocity Vc, m/s.
+    pub vc: f64,
+    /// Flow velocity Vf, m/s.
+    pub vf: f64,
+    /// Collision angle, degrees.
+    pub beta_deg: f64,
+    /// Impact pressure, Pa.
+    pub pressure: f64,
+    /// Jetting critical angle used, degrees (0 in the subsonic regimes).
+    pub jetting_deg: f64,
+    /// Regime of the jetting test.
+    pub regime: JettingRegime,
+    /// The jetting test was solved directly for this point.
+    pub jetting_direct: bool,
+    /// The verdict.
+    pub verdict: Prediction,
+    /// Index into `Classifier::limits` of the binding limit.
+    pub binding: Option<usize>,
+    /// Its relative margin.
+    pub binding_relative: f64,
+    /// Some boundary does not span the point.
+    pub outside_trial_data: bool,
+}
+
+/// Everything fixed for a window, precomputed once.
+pub struct Classifier {
+    setup: PairSetup,
+    convention: Convention,
+    kind: VelocityKind,
+    cfg: oblique_core::CriteriaConfig,
+    mode: JettingMode,
+    threads: usize,
+    /// Built on the first row with supersonic inflow (never for all-subsonic inputs); `None`
+    /// inside if the build failed, and then every supersonic row is solved directly.
+    table: OnceLock<Option<JettingTable>>,
+    melt_f: MeltingConsts,
+    melt_p: MeltingConsts,
+    strength: (f64, f64),
+    pressure: (f64, f64),
+    boundaries: Vec<FastBoundary>,
+    /// The decisive limits, in the order `classify_with_jetting` ranks them.
+    pub limits: Vec<LimitInfo>,
+    criteria: Vec<CriterionId>,
+}
+
+impl Classifier {
+    /// Precompute for `window` (criteria already final). The jetting table (mode
+    /// [`JettingMode::Table`]) is built with `threads` threads when the first row with
+    /// supersonic inflow needs it.
+    ///
+    /// # Errors
+    /// A physics error in the window's materials or constants.
+    pub fn new(
+        window: &PairWindow,
+        kind: VelocityKind,
+        mode: JettingMode,
+        threads: usize,
+    ) -> Result<Self, PhysicsError> {
+        let setup = window.setup()?;
+        let cfg = window.criteria.clone();
+        cfg.validate()?;
+        let h = setup.flyer_thickness.si();
+        let melt_f = MeltingConsts::new(&setup.flyer, h);
+        let melt_p = MeltingConsts::new(&setup.parent, h);
+        let strength = (
+            oblique_core::criteria::strength_velocity(&setup.flyer),
+            oblique_core::criteria::strength_velocity(&setup.parent),
+        );
+        let pressure = (
+            cfg.hel_multiple * setup.flyer.hugoniot_elastic_limit().si(),
+            cfg.hel_multiple * setup.parent.hugoniot_elastic_limit().si(),
+        );
+        let criteria: Vec<CriterionId> = CriterionId::ALL
+            .into_iter()
+            .filter(|id| {
+                *id != CriterionId::WavyTransition
+                    && match id {
+                        CriterionId::DeribasLower => cfg.deribas_enabled,
+                        CriterionId::StrengthLower => cfg.strength_enabled,
+                        CriterionId::PressureLower => cfg.pressure_enabled,
+                        CriterionId::MeltingUpper => cfg.melting_enabled,
+                        CriterionId::Jetting => cfg.jetting_enabled,
+                        CriterionId::WavyTransition => false,
+                    }
+            })
+            .collect();
+        let mut limits: Vec<LimitInfo> = criteria
+            .iter()
+            .map(|id| LimitInfo {
+                limit: LimitRef::Criterion(*id),
+                label: id.as_str().to_string(),
+                id: id.as_str().to_string(),
+                column: format!("margin_{}", id.as_str().replace('-', "_")),
+                unit: match id {
+                    CriterionId::DeribasLower | CriterionId::Jetting => "deg",
+                    CriterionId::PressureLower => "Pa",
+                    _ => "m/s",
+                },
+            })
+            .collect();
+        let boundaries: Vec<FastBoundary> = window
+            .boundaries
+            .iter()
+            .map(|b| FastBoundary {
+                plane: b.plane,
+                side: b.weld_side,
+                points: b
+                    .points
+                    .iter()
+                    .map(|(x, a)| {
+                        if b.weld_side.along_velocity() {
+                            (x.si(), a.degrees())
+                        } else {
+                            (a.degrees(), x.si())
+                        }
+                    })
+                    .collect(),
+            })
+            .collect();
+        for (i, b) in window.boundaries.iter().enumerate() {
+            let limit = LimitRef::Boundary(i);
+            limits.push(LimitInfo {
+                label: limit_label(window, &limit),
+                id: format!("boundary-{}", i + 1),
+                limit,
+                column: format!("margin_boundary_{}", i + 1),
+                unit: if b.weld_side.along_velocity() {
+                    "deg"
+                } else {
+                    "m/s"
+                },
+            });
+        }
+        Ok(Self {
+            setup,
+            convention: window.convention,
+            kind,
+            cfg,
+            mode,
+            threads,
+            table: OnceLock::new(),
+            melt_f,
+            melt_p,
+            strength,
+            pressure,
+            boundaries,
+            limits,
+            criteria,
+        })
+    }
+
+    /// What the velocity column holds.
+    pub fn kind(&self) -> VelocityKind {
+        self.kind
+    }
+
+    /// Whether the window has user boundaries (then `outside_trial_data` is meaningful).
+    pub fn has_boundaries(&self) -> bool {
+        !self.boundaries.is_empty()
+    }
+
+    /// Whether the jetting criterion is on.
+    pub fn jetting_enabled(&self) -> bool {
+        self.cfg.jetting_enabled
+    }
+
+    /// The jetting table, if it was built (some row had supersonic inflow).
+    pub fn table(&self) -> Option<&JettingTable> {
+        self.table.get().and_then(Option::as_ref)
+    }
+
+    /// Whether the table is used at all (jetting on, not `--exact-jetting`).
+    pub fn uses_table(&self) -> bool {
+        self.cfg.jetting_enabled && self.mode == JettingMode::Table
+    }
+
+    fn table_for_supersonic(&self) -> Option<&JettingTable> {
+        if !self.uses_table() {
+            return None;
+        }
+        self.table
+            .get_or_init(|| {
+                JettingTable::new(
+                    self.setup.flyer.hugoniot,
+                    self.setup.parent.hugoniot,
+                    self.threads,
+                )
+                .ok()
+            })
+            .as_ref()
+    }
+
+    /// The collision for a velocity (m/s, of this classifier's kind) and angle (rad).
+    ///
+    /// # Errors
+    /// Out-of-domain velocity or angle.
+    #[inline]
+    pub fn collision(&self, velocity: f64, angle_rad: f64) -> Result<Collision, PhysicsError> {
+        let beta = Angle::from_radians(angle_rad);
+        match self.kind {
+            VelocityKind::Impact => {
+                Collision::from_impact(self.convention, Velocity::from_m_s(velocity), beta)
+            }
+            VelocityKind::Collision => Collision::from_collision_velocity(
+                self.convention,
+                Velocity::from_m_s(velocity),
+                beta,
+            ),
+        }
+    }
+
+    #[inline]
+    fn jetting(&self, c: &Collision) -> Result<(JettingAssessment, bool), PhysicsError> {
+        let vf = c.flow_velocity;
+        let vc = c.collision_velocity;
+        // The subsonic regimes, exactly as the direct solve decides them (no table needed).
+        let positive = vf.si() > 0.0 && vc.si() > 0.0 && vf.si().is_finite() && vc.si().is_finite();
+        if positive && vc.si() <= self.setup.parent.hugoniot.c0.si() {
+            return Ok((
+                JettingAssessment {
+                    regime: JettingRegime::SubsonicParent,
+                    critical_angle: Angle::from_radians(0.0),
+                },
+                false,
+            ));
+        }
+        if positive && vf.si() <= self.setup.flyer.hugoniot.c0.si() {
+            return Ok((
+                JettingAssessment {
+                    regime: JettingRegime::SubsonicFlyer,
+                    critical_angle: Angle::from_radians(0.0),
+                },
+                false,
+            ));
+        }
+        if let Some(t) = self.table_for_supersonic() {
+            match t.lookup(vf.si(), vc.si()) {
+                Lookup::Subsonic(regime) => {
+                    return Ok((
+                        JettingAssessment {
+                            regime,
+                            critical_angle: Angle::from_radians(0.0),
+                        },
+                        false,
+                    ))
+                }
+                Lookup::Table(rad) => {
+                    let crit = Angle::from_radians(rad);
+                    if (c.angle.degrees() - crit.degrees()).abs() > JettingTable::ERROR_BOUND_DEG {
+                        return Ok((
+                            JettingAssessment {
+                                regime: JettingRegime::Supersonic,
+                                critical_angle: crit,
+                            },
+                            false,
+                        ));
+                    }
+                }
+                Lookup::OutsideDomain => {}
+            }
+        }
+        let direct = critical_angle(
+            &self.setup.flyer.hugoniot,
+            &self.setup.parent.hugoniot,
+            vf,
+            vc,
+        )?;
+        Ok((direct, true))
+    }
+
+    /// Classify one point; `margins` receives one value per limit (cleared first).
+    ///
+    /// # Errors
+    /// As `classify_with_jetting` (a relation that cannot be evaluated), plus out-of-domain
+    /// velocity or angle.
+    #[inline]
+    pub fn classify(
+        &self,
+        velocity: f64,
+        angle_rad: f64,
+        margins: &mut Vec<f64>,
+    ) -> Result<Point, PhysicsError> {
+        let c = self.collision(velocity, angle_rad)?;
+        let (jet, direct) = self.jetting(&c)?;
+        self.classify_collision(&c, jet, direct, margins)
+    }
+
+    /// Classify a point given by its impact velocity Vp (m/s, window convention) whatever the
+    /// velocity kind of the input (for the window-plane plot).
+    ///
+    /// # Errors
+    /// As [`Self::classify`].
+    pub fn classify_impact(
+        &self,
+        vp: f64,
+        angle_rad: f64,
+        margins: &mut Vec<f64>,
+    ) -> Result<Point, PhysicsError> {
+        let c = Collision::from_impact(
+            self.convention,
+            Velocity::from_m_s(vp),
+            Angle::from_radians(angle_rad),
+        )?;
+        let (jet, direct) = self.jetting(&c)?;
+        self.classify_collision(&c, jet, direct, margins)
+    }
+
+    /// Classify a collision (already in the window's convention) with a given jetting
+    /// assessment.
+    ///
+    /// # Errors
+    /// As `classify_with_jetting`.
+    pub fn classify_collision(
+        &self,
+        c: &Collision,
+        jet: JettingAssessment,
+        jetting_direct: bool,
+        margins: &mut Vec<f64>,
+    ) -> Result<Point, PhysicsError> {
+        margins.clear();
+        let (f, p) = (&self.setup.flyer, &self.setup.parent);
+        let vp = c.impact_velocity;
+        let vc = c.collision_velocity;
+        let beta_deg = c.angle.degrees();
+        let impact = impedance_match(&f.hugoniot, &p.hugoniot, vp)?;
+        let cfg = &self.cfg;
+        let mut inside = true;
+        let mut only_ceilings_fail = true;
+        let mut best: Option<(usize, f64)> = None;
+        let mut consider = |k: usize, rel: f64, sat: bool, ceiling: bool| {
+            if !sat {
+                inside = false;
+                if !ceiling {
+                    only_ceilings_fail = false;
+                }
+            }
+            // `min_by(total_cmp)` keeps the first of equal minima.
+            match best {
+                Some((_, b)) if rel.total_cmp(&b) != std::cmp::Ordering::Less => {}
+                _ => best = Some((k, rel)),
+            }
+        };
+        for (k, id) in self.criteria.iter().enumerate() {
+            let (value, limit, margin, satisfied, kind) = match id {
+                CriterionId::DeribasLower => {
+                    let lf = deribas_angle(f, vc, cfg.deribas_k).to_degrees();
+                    let lp = deribas_angle(p, vc, cfg.deribas_k).to_degrees();
+                    let limit = if lf >= lp { lf } else { lp };
+                    (
+                        beta_deg,
+                        limit,
+                        beta_deg - limit,
+                        beta_deg >= limit,
+                        LimitKind::Lower,
+                    )
+                }
+                CriterionId::StrengthLower => {
+                    let (lf, lp) = self.strength;
+                    let limit = if lf >= lp { lf } else { lp };
+                    let v = vp.si();
+                    (v, limit, v - limit, v >= limit, LimitKind::Lower)
+                }
+                CriterionId::PressureLower => {
+                    let (lf, lp) = self.pressure;
+                    let limit = if lf >= lp { lf } else { lp };
+                    let v = impact.pressure.si();
+                    (v, limit, v - limit, v >= limit, LimitKind::Lower)
+                }
+                CriterionId::MeltingUpper => {
+                    let lf = self
+                        .melt_f
+                        .velocity(vc.si(), cfg.wittman_n, cfg.wittman_form);
+                    let lp = self
+                        .melt_p
+                        .velocity(vc.si(), cfg.wittman_n, cfg.wittman_form);
+                    let limit = if lf <= lp { lf } else { lp };
+                    let v = vp.si();
+                    (v, limit, limit - v, v <= limit, LimitKind::Upper)
+                }
+                CriterionId::Jetting => {
+                    let limit = jet.critical_angle.degrees();
+                    (
+                        beta_deg,
+                        limit,
+                        beta_deg - limit,
+                        beta_deg > limit,
+                        LimitKind::Lower,
+                    )
+                }
+                CriterionId::WavyTransition => continue,
+            };
+            if !(value.is_finite() && limit.is_finite()) {
+                return Err(PhysicsError::NoConvergence {
+                    what: "criterion evaluation (non-finite value)",
+                    iterations: 0,
+                });
+            }
+            margins.push(margin);
+            consider(
+                k,
+                relative(margin, limit),
+                satisfied,
+                kind == LimitKind::Upper,
+            );
+        }
+        let deg = beta_deg;
+        let mut outside_trial_data = false;
+        let n_crit = self.criteria.len();
+        for (i, b) in self.boundaries.iter().enumerate() {
+            let v = match b.plane {
+                Plane::AngleImpactVelocity => vp.si(),
+                Plane::AngleCollisionVelocity => vc.si(),
+            };
+            let (limit, margin) = if b.side.along_velocity() {
+                let lim = interpolate(&b.points, v);
+                (
+                    lim,
+                    lim.map(|l| {
+                        if b.side == WeldSide::Above {
+                            deg - l
+                        } else {
+                            l - deg
+                        }
+                    }),
+                )
+            } else {
+                let lim = interpolate(&b.points, deg);
+                (
+                    lim,
+                    lim.map(|l| {
+                        if b.side == WeldSide::Right {
+                            v - l
+                        } else {
+                            l - v
+                        }
+                    }),
+                )
+            };
+            match (margin, limit) {
+                (Some(m), Some(l)) => {
+                    margins.push(m);
+                    consider(
+                        n_crit + i,
+                        relative(m, l),
+                        m >= 0.0,
+                        b.side.is_velocity_ceiling(),
+                    );
+                }
+                _ => {
+                    margins.push(f64::NAN);
+                    outside_trial_data = true;
+                }
+            }
+        }
+        let verdict = if inside {
+            Prediction::Welded
+        } else if only_ceilings_fail {
+            Prediction::Melted
+        } else {
+            Prediction::NotWelded
+        };
+        Ok(Point {
+            vp: vp.si(),
+            vc: vc.si(),
+            vf: c.flow_velocity.si(),
+            beta_deg,
+            pressure: impact.pressure.si(),
+            jetting_deg: jet.critical_angle.degrees(),
+            regime: jet.regime,
+            jetting_direct,
+            verdict,
+            binding: best.map(|b| b.0),
+            binding_relative: best.map_or(f64::NAN, |b| b.1),
+            outside_trial_data,
+        })
+    }
+}
+
+#[cfg(test)]
+pub(crate) mod tests {
+    use super::*;
+    use oblique_window::classify::{classify, classify_with_jetting};
+    use oblique_window::pair::{parse_pair_file, Origin};
+    use oblique_window::Library;
+    use proptest::prelude::*;
+    use std::sync::OnceLock;
+
+    /// A test window with boundaries of every side in both planes and a changed constant.
+    const WINDOW: &str = r#"(
+    format: "oblique-window/1",
+    name: "map-test-al-on-cu",
+    description: "test window for the map classifier (invented boundaries)",
+    invented: "invented for tests",
+    flyer: "aa6061-t6",
+    parent: "cu-c11000",
+    flyer_thickness: "1.0 mm",
+    convention: "normal-to-flyer",
+    maintainer: "tests",
+    criteria: (
+        deribas_lower: (enabled: true, k: 0.8, reason: "test"),
+    ),
+    boundaries: [
+        (label: "right", plane: "angle-impact-velocity", weld_side: "right",
+         points: [("395 m/s", "5 deg"), ("372 m/s", "12 deg"), ("365 m/s", "18 deg"), ("380 m/s", "24 deg")],
+         provenance: "invented"),
+        (label: "below", plane: "angle-impact-velocity", weld_side: "below",
+         points: [("340 m/s", "23 deg"), ("450 m/s", "25 deg"), ("560 m/s", "26 deg")],
+         provenance: "invented"),
+        (label: "left vc", plane: "angle-collision-velocity", weld_side: "left",
+         points: [("6000 m/s", "4 deg"), ("5000 m/s", "20 deg")],
+         provenance: "invented"),
+        (label: "above vc", plane: "angle-collision-velocity", weld_side: "above",
+         points: [("1000 m/s", "6 deg"), ("3000 m/s", "3 deg")],
+         provenance: "invented"),
+    ],
+)"#;
+
+    pub(crate) fn test_window() -> &'static PairWindow {
+        static W: OnceLock<PairWindow> = OnceLock::new();
+        W.get_or_init(|| {
+            let lib = Library::load(&[]).expect("built-in library");
+            let origin = Origin {
+                display: "test".into(),
+                path: None,
+                sha256: String::new(),
+            };
+            parse_pair_file(origin, WINDOW, &lib.materials)
+                .expect("test window parses")
+                .1
+        })
+    }
+
+    fn classifier(kind: VelocityKind) -> &'static Classifier {
+        static C: [OnceLock<Classifier>; 2] = [OnceLock::new(), OnceLock::new()];
+        let k = usize::from(kind == VelocityKind::Collision);
+        C[k].get_or_init(|| Classifier::new(test_window(), kind, JettingMode::Table, 2).unwrap())
+    }
+
+    fn check_against_window(vp: f64, beta_deg: f64) -> Result<(), TestCaseError> {
+        let w = test_window();
+        let cl = classifier(VelocityKind::Impact);
+        let mut margins = Vec::new();
+        let c = cl.collision(vp, beta_deg.to_radians()).unwrap();
+        let (jet, direct) = cl.jetting(&c).unwrap();
+        let got = cl
+            .classify_collision(&c, jet, direct, &mut margins)
+            .unwrap();
+        let setup = w.setup().unwrap();
+        // Same jetting assessment: everything bit for bit.
+        let want = classify_with_jetting(w, &setup, &c, jet).unwrap();
+        prop_assert_eq!(got.verdict, want.prediction);
+        prop_assert_eq!(
+            got.binding.map(|b| cl.limits[b].limit.clone()),
+            want.binding.clone()
+        );
+        prop_assert_eq!(
+            got.binding_relative.to_bits(),
+            want.binding_relative_margin.unwrap_or(f64::NAN).to_bits()
+        );
+        prop_assert_eq!(got.outside_trial_data, want.outside_trial_data);
+        prop_assert_eq!(
+            got.pressure.to_bits(),
+            want.evaluation.impact.pressure.si().to_bits()
+        );
+        for (info, m) in cl.limits.iter().zip(&margins) {
+            let expected = match &info.limit {
+                LimitRef::Criterion(id) => want.evaluation.criterion(*id).map(|r| r.margin),
+                LimitRef::Boundary(i) => want.boundaries[*i].margin,
+            };
+            match expected {
+                Some(e) => prop_assert_eq!(m.to_bits(), e.to_bits(), "{}", info.label),
+                None => prop_assert!(m.is_nan()),
+            }
+        }
+        // The direct solve everywhere: the same verdict (the table never decides a near call).
+        let exact = classify(w, &setup, &c).unwrap();
+        prop_assert_eq!(got.verdict, exact.prediction);
+        let jet_margin = exact
+            .evaluation
+            .criterion(CriterionId::Jetting)
+            .unwrap()
+            .margin;
+        let ours = margins[cl
+            .limits
+            .iter()
+            .position(|l| l.limit == LimitRef::Criterion(CriterionId::Jetting))
+            .unwrap()];
+        prop_assert!((ours - jet_margin).abs() <= JettingTable::ERROR_BOUND_DEG);
+        Ok(())
+    }
+
+    #[test]
+    fn melting_constants_are_bit_identical() {
+        let w = test_window();
+        let s = w.setup().unwrap();
+        for form in [WittmanForm::A, WittmanForm::B] {
+            for vc in [900.0, 2500.0, 7321.5] {
+                let m = MeltingConsts::new(&s.flyer, s.flyer_thickness.si());
+                let want = oblique_core::criteria::melting_velocity(
+                    &s.flyer,
+                    Velocity::from_m_s(vc),
+                    s.flyer_thickness,
+                    0.11,
+                    form,
+                );
+                assert_eq!(m.velocity(vc, 0.11, form).to_bits(), want.to_bits());
+            }
+        }
+    }
+
+    #[test]
+    fn limits_in_window_order() {
+        let cl = classifier(VelocityKind::Impact);
+        let labels: Vec<&str> = cl.limits.iter().map(|l| l.label.as_str()).collect();
+        assert_eq!(
+            labels,
+            [
+                "deribas-lower",
+                "strength-lower",
+                "pressure-lower",
+                "melting-upper",
+                "jetting",
+                "boundary \"right\"",
+                "boundary \"below\"",
+                "boundary \"left vc\"",
+                "boundary \"above vc\""
+            ]
+        );
+        assert_eq!(cl.limits[5].column, "margin_boundary_1");
+    }
+
+    #[test]
+    fn collision_velocity_kind_keeps_the_geometry() {
+        let cl = classifier(VelocityKind::Collision);
+        let mut m = Vec::new();
+        let p = cl.classify(2303.5, 10f64.to_radians(), &mut m).unwrap();
+        assert!((p.vp - 400.0).abs() < 0.1, "{}", p.vp);
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(600))]
+        /// Magnetic-pulse range, where the jetting regimes change.
+        #[test]
+        fn same_as_the_window_crate(vp in 50.0f64..1200.0, beta in 0.3f64..60.0) {
+            check_against_window(vp, beta)?;
+        }
+
+        /// Small angles: supersonic inflow, the jetting table at work.
+        #[test]
+        fn same_as_the_window_crate_supersonic(vp in 100.0f64..900.0, beta in 0.5f64..8.0) {
+            check_against_window(vp, beta)?;
+        }
+    }
+}

@@ -1,0 +1,328 @@
+//! Fast text output: fixed-decimal numbers, CSV and JSON string escaping.
+
+const POW10: [f64; 10] = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
+const POW10_INT: [u64; 10] = [
+    1,
+    10,
+    100,
+    1_000,
+    10_000,
+    100_000,
+    1_000_000,
+    10_000_000,
+    100_000_000,
+    1_000_000_000,
+];
+
+const DIGIT_PAIRS: &[u8; 200] = b"0001020304050607080910111213141516171819\
+2021222324252627282930313233343536373839\
+4041424344454647484950515253545556575859\
+6061626364656667686970717273747576777879\
+8081828384858687888990919293949596979899";
+
+const POW10_U64: [u64; 20] = [
+    1,
+    10,
+    100,
+    1_000,
+    10_000,
+    100_000,
+    1_000_000,
+    10_000_000,
+    100_000_000,
+    1_000_000_000,
+    10_000_000_000,
+    100_000_000_000,
+    1_000_000_000_000,
+    10_000_000_000_000,
+    100_000_000_000_000,
+    1_000_000_000_000_000,
+    10_000_000_000_000_000,
+    100_000_000_000_000_000,
+    1_000_000_000_000_000_000,
+    10_000_000_000_000_000_000,
+];
+
+/// Number of decimal digits of `n` (at least 1): log10 from the bit length (1233/4096 is
+/// just above log10(2)), corrected by one comparison.
+#[inline]
+fn digit_count(n: u64) -> usize {
+    let bits = 64 - (n | 1).leading_zeros();
+    let t = ((bits * 1233) >> 12) as usize;
+    (t + usize::from(n >= POW10_U64[t])).max(1)
+}
+
+/// Write `n` in decimal ending just before `end` in `buf`.
+#[inline]
+fn digits_before(buf: &mut [u8; 32], end: usize, mut n: u64) {
+    let mut i = end;
+    while n >= 100 {
+        let k = ((n % 100) * 2) as usize;
+        n /= 100;
+        i -= 2;
+        buf[i] = DIGIT_PAIRS[k];
+        buf[i + 1] = DIGIT_PAIRS[k + 1];
+    }
+    if n >= 10 {
+        let k = (n * 2) as usize;
+        buf[i - 2] = DIGIT_PAIRS[k];
+        buf[i - 1] = DIGIT_PAIRS[k + 1];
+    } else {
+        buf[i - 1] = b'0' + n as u8;
+    }
+}
+
+/// Let `f` write up to 32 bytes straight into the end of `out` (after one fixed-size
+/// zeroing store) and keep the length it returns. Writing in place avoids assembling the text
+/// on the stack and copying it (small copies stall on store forwarding).
+#[inline]
+fn write_in_place(out: &mut Vec<u8>, f: impl FnOnce(&mut [u8; 32]) -> usize) {
+    let start = out.len();
+    out.extend_from_slice(&[0u8; 32]);
+    let len = match <&mut [u8; 32]>::try_from(&mut out[start..]) {
+        Ok(dst) => f(dst).min(32),
+        Err(_) => 0,
+    };
+    out.truncate(start + len);
+}
+
+/// Append an unsigned integer in decimal.
+#[inline]
+pub fn push_u64(out: &mut Vec<u8>, n: u64) {
+    write_in_place(out, |buf| {
+        let len = digit_count(n);
+        digits_before(buf, len, n);
+        len
+    });
+}
+
+/// Append `x` with exactly `dec` decimals (at most 9), rounded half up in magnitude. Nothing
+/// for a non-finite value (an empty CSV field); very large values fall back to `format!`.
+#[inline]
+pub fn push_fixed(out: &mut Vec<u8>, x: f64, dec: usize) {
+    // One instance per decimal count, so that every division is by a constant.
+    match dec {
+        0 => fixed::<0>(out, x),
+        1 => fixed::<1>(out, x),
+        2 => fixed::<2>(out, x),
+        3 => fixed::<3>(out, x),
+        4 => fixed::<4>(out, x),
+        5 => fixed::<5>(out, x),
+        6 => fixed::<6>(out, x),
+        7 => fixed::<7>(out, x),
+        8 => fixed::<8>(out, x),
+        _ => fixed::<9>(out, x),
+    }
+}
+
+#[inline]
+fn fixed<const DEC: usize>(out: &mut Vec<u8>, x: f64) {
+    if !x.is_finite() {
+        return;
+    }
+    // Truncating |x| 10^d + 0.5 rounds half up without a libm call.
+    let scaled = x.abs() * POW10[DEC] + 0.5;
+    if scaled >= 9.0e15 {
+        use std::io::Write;
+        let _ = write!(out, "{x:.DEC$}");
+        return;
+    }
+    let n = scaled as u64;
+    let neg = usize::from(x < 0.0 && n != 0);
+    let int = n / POW10_INT[DEC];
+    let ilen = digit_count(int);
+    let len = neg + ilen + if DEC > 0 { DEC + 1 } else { 0 };
+    write_in_place(out, |buf| {
+        if neg == 1 {
+            buf[0] = b'-';
+        }
+        if DEC > 0 {
+            // Fraction digits two at a time, from the right.
+            let mut m = n;
+            let mut i = len;
+            let mut d = DEC;
+            while d >= 2 {
+                let k = ((m % 100) * 2) as usize;
+                m /= 100;
+                i -= 2;
+                buf[i] = DIGIT_PAIRS[k];
+                buf[i + 1] = DIGIT_PAIRS[k + 1];
+                d -= 2;
+            }
+            if d == 1 {
+                i -= 1;
+                buf[i] = b'0' + (m % 10) as u8;
+            }
+            buf[i - 1] = b'.';
+        }
+        digits_before(buf, neg + ilen, int);
+        len
+    });
+}
+
+/// Append `x` with `dec` decimals, or `null` when not finite (JSON).
+#[inline]
+pub fn push_json_number(out: &mut Vec<u8>, x: f64, dec: usize) {
+    if x.is_finite() {
+        push_fixed(out, x, dec);
+    } else {
+        out.extend_from_slice(b"null");
+    }
+}
+
+/// Append a CSV field, quoted when it holds a comma, quote or line break.
+pub fn push_csv_field(out: &mut Vec<u8>, s: &[u8]) {
+    if s.iter()
+        .any(|&b| b == b',' || b == b'"' || b == b'\n' || b == b'\r')
+    {
+        out.push(b'"');
+        for &b in s {
+            if b == b'"' {
+                out.push(b'"');
+            }
+            out.push(b);
+        }
+        out.push(b'"');
+    } else {
+        out.extend_from_slice(s);
+    }
+}
+
+/// Append a JSON string (with its quotes). Invalid UTF-8 is replaced.
+pub fn push_json_string(out: &mut Vec<u8>, s: &[u8]) {
+    let text = String::from_utf8_lossy(s);
+    out.push(b'"');
+    for c in text.chars() {
+        match c {
+            '"' => out.extend_from_slice(b"\\\""),
+            '\\' => out.extend_from_slice(b"\\\\"),
+            '\n' => out.extend_from_slice(b"\\n"),
+            '\r' => out.extend_from_slice(b"\\r"),
+            '\t' => out.extend_from_slice(b"\\t"),
+            c if (c as u32) < 0x20 => {
+                use std::io::Write;
+                let _ = write!(out, "\\u{:04x}", c as u32);
+            }
+            c => {
+                let mut b = [0u8; 4];
+                out.extend_from_slice(c.encode_utf8(&mut b).as_bytes());
+            }
+        }
+    }
+    out.push(b'"');
+}
+
+/// Whether `s` is a number in JSON's grammar (so it may be copied into JSON as is).
+pub fn is_json_number(s: &[u8]) -> bool {
+    let mut i = 0;
+    if s.first() == Some(&b'-') {
+        i = 1;
+    }
+    match s.get(i) {
+        Some(b'0') => i += 1,
+        Some(b'1'..=b'9') => {
+            while i < s.len() && s[i].is_ascii_digit() {
+                i += 1;
+            }
+        }
+        _ => return false,
+    }
+    if s.get(i) == Some(&b'.') {
+        i += 1;
+        let st = i;
+        while i < s.len() && s[i].is_ascii_digit() {
+            i += 1;
+        }
+        if i == st {
+            return false;
+        }
+    }
+    if matches!(s.get(i), Some(b'e' | b'E')) {
+        i += 1;
+        if matches!(s.get(i), Some(b'+' | b'-')) {
+            i += 1;
+        }
+        let st = i;
+        while i < s.len() && s[i].is_ascii_digit() {
+            i += 1;
+        }
+        if i == st {
+            return false;
+        }
+    }
+    i == s.len()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    fn fixed(x: f64, d: usize) -> String {
+        let mut v = Vec::new();
+        push_fixed(&mut v, x, d);
+        String::from_utf8(v).unwrap()
+    }
+
+    #[test]
+    fn fixed_decimals() {
+        assert_eq!(fixed(1.5, 2), "1.50");
+        assert_eq!(fixed(-0.004, 2), "0.00");
+        assert_eq!(fixed(-0.005, 0), "0");
+        assert_eq!(fixed(123456789.5, 9).len(), "123456789.500000000".len());
+        assert_eq!(fixed(-0.006, 2), "-0.01");
+        assert_eq!(fixed(12345.678, 0), "12346");
+        assert_eq!(fixed(0.0001234, 4), "0.0001");
+        assert_eq!(fixed(f64::NAN, 3), "");
+        assert_eq!(fixed(1e300, 2).len(), 304);
+    }
+
+    #[test]
+    fn digit_counts() {
+        for (n, d) in [
+            (0u64, 1),
+            (9, 1),
+            (10, 2),
+            (99, 2),
+            (100, 3),
+            (999_999, 6),
+            (1_000_000, 7),
+        ] {
+            assert_eq!(digit_count(n), d, "{n}");
+        }
+        assert_eq!(digit_count(u64::MAX), 20);
+    }
+
+    #[test]
+    fn escaping() {
+        let mut v = Vec::new();
+        push_csv_field(&mut v, b"a,\"b\"");
+        assert_eq!(v, b"\"a,\"\"b\"\"\"");
+        let mut v = Vec::new();
+        push_json_string(&mut v, "tab\tq\"\u{1}é".as_bytes());
+        assert_eq!(String::from_utf8(v).unwrap(), "\"tab\\tq\\\"\\u0001é\"");
+        assert!(is_json_number(b"-1.5e3"));
+        assert!(!is_json_number(b"01"));
+        assert!(!is_json_number(b"1."));
+        assert!(!is_json_number(b"+1"));
+    }
+
+    proptest! {
+        /// Agrees with std's formatting to the last decimal (both round the same value; std
+        /// rounds the exact binary value half to even, this rounds x * 10^d, so allow one unit).
+        #[test]
+        fn fixed_matches_std(x in -1e9f64..1e9, d in 0usize..7) {
+            let ours: f64 = fixed(x, d).parse().unwrap();
+            let std: f64 = format!("{x:.d$}").parse().unwrap();
+            let tol = 1.0 / 10f64.powi(d as i32) + 8.0 * f64::EPSILON * x.abs();
+            prop_assert!((ours - std).abs() <= tol, "{} vs {}", ours, std);
+        }
+
+        #[test]
+        fn integers(n in any::<u64>()) {
+            let mut v = Vec::new();
+            push_u64(&mut v, n);
+            prop_assert_eq!(String::from_utf8(v).unwrap(), n.to_string());
+        }
+    }
+}

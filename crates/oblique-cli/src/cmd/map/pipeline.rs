@@ -1,0 +1,835 @@
+//! The streaming pipeline: one reader thread cuts the input into chunks of whole records, a pool
+//! of workers parses and classifies each chunk into output text and compact per-point records,
+//! and the calling thread takes the chunks back in file order (summary, writing). A fixed set of
+//! slots circulates between the three, so memory stays bounded whatever the input size.
+
+use super::classifier::{Classifier, Point};
+use super::format::{
+    is_json_number, push_csv_field, push_fixed, push_json_number, push_json_string, push_u64,
+};
+use super::input::{
+    next_record, parse_number, scan_plain, split_fields, trim_spaces, Fields, Format, Header,
+    Source,
+};
+use super::summary::{Lite, Rejected};
+use oblique_window::classify::Prediction;
+use serde_json::{Map, Value};
+use std::collections::BTreeMap;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::mpsc::{sync_channel, Receiver};
+use std::sync::{Arc, Mutex};
+
+/// Input bytes per chunk.
+pub const CHUNK: usize = 256 * 1024;
+/// Line breaks per chunk at most (bounds the output of a chunk of very short rows).
+pub const CHUNK_LINES: usize = 8192;
+/// A single record longer than this is refused.
+pub const MAX_RECORD: usize = 16 * 1024 * 1024;
+
+/// What to do with a bad row.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Policy {
+    /// Stop at the first (exit 2).
+    Stop,
+    /// Skip and count.
+    Skip,
+    /// Write to a side file with the reason.
+    Save(std::path::PathBuf),
+}
+
+/// Per-chunk counts, merged in order by the caller.
+#[derive(Debug, Default, Clone)]
+pub struct ChunkStats {
+    /// Rows with data.
+    pub rows_read: u64,
+    /// Blank lines.
+    pub blank: u64,
+    /// Rejected rows.
+    pub rejected: u64,
+    /// Rows outside the span of a boundary.
+    pub outside: u64,
+    /// Rows solved directly for jetting.
+    pub jetting_direct: u64,
+    /// Smallest margin per limit among welded rows, with its row.
+    pub welded_min: Vec<Option<(f64, u64)>>,
+    /// Binding-limit counts of unwelded rows.
+    pub unwelded_binding: Vec<u64>,
+}
+
+/// A unit of work and its results; slots are recycled.
+#[derive(Default)]
+pub struct Slot {
+    /// Chunk number.
+    pub seq: u64,
+    /// Line number of the first record.
+    pub first_line: u64,
+    /// Input bytes.
+    pub data: Vec<u8>,
+    /// Output text.
+    pub out: Vec<u8>,
+    /// Side-file text (save mode).
+    pub bad_out: Vec<u8>,
+    /// Classified points.
+    pub lites: Vec<Lite>,
+    /// Rejected rows.
+    pub bad: Vec<Rejected>,
+    /// Counts.
+    pub stats: ChunkStats,
+    /// Stop mode: a bad row ended this chunk (it is the last of `bad`).
+    pub stopped: bool,
+    /// The worker hit an internal problem (message).
+    pub failure: Option<String>,
+}
+
+impl Slot {
+    fn reset(&mut self) {
+        self.data.clear();
+        self.out.clear();
+        self.bad_out.clear();
+        self.lites.clear();
+        self.bad.clear();
+        self.stats = ChunkStats::default();
+        self.stopped = false;
+        self.failure = None;
+    }
+}
+
+/// Everything the workers share.
+pub struct Ctx<'a> {
+    /// Input as shown in messages.
+    pub file: &'a str,
+    /// Input layout.
+    pub in_format: Format,
+    /// Output layout.
+    pub out_format: Format,
+    /// The header.
+    pub header: &'a Header,
+    /// The classifier.
+    pub classifier: &'a Classifier,
+    /// Bad-row policy.
+    pub policy: &'a Policy,
+    /// Output names of the input cells (renamed when they clash with computed columns).
+    pub out_cells: Vec<String>,
+    /// JSON keys of the input cells, `"name":` ready to copy.
+    pub json_cell_keys: Vec<Vec<u8>>,
+    /// Role (0 position, 1 velocity, 2 angle, 3 time) of each input cell.
+    pub cell_role: Vec<Option<usize>>,
+    /// Binding limit ids (criterion id or `boundary-N`), CSV-escaped and as JSON strings.
+    pub binding_csv: Vec<Vec<u8>>,
+    /// See `binding_csv`.
+    pub binding_json: Vec<Vec<u8>>,
+    /// Per limit: factor to the output unit and decimals.
+    pub margin_out: Vec<(f64, usize)>,
+    /// Computed column names (with units), in order.
+    pub computed: Vec<String>,
+    /// Computed column kinds, in order.
+    pub cols: Vec<Col>,
+    /// JSON keys of the computed columns.
+    pub computed_keys: Vec<Vec<u8>>,
+}
+
+/// One computed output column.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Col {
+    /// welded / not-welded / melted.
+    Verdict,
+    /// Label of the binding limit.
+    Binding,
+    /// Impact velocity Vp, m/s.
+    ImpactVelocity,
+    /// Collision-point velocity Vc, m/s.
+    CollisionVelocity,
+    /// Flow velocity Vf, m/s.
+    FlowVelocity,
+    /// Impact pressure, GPa.
+    Pressure,
+    /// Jetting critical angle, deg.
+    JettingAngle,
+    /// Relative margin of the binding limit.
+    BindingRelative,
+    /// Margin of limit k, in its output unit.
+    Margin(usize),
+    /// Outside the span of a user boundary.
+    Outside,
+}
+
+/// The computed columns for a classifier: names (with units), kinds, and per limit the factor
+/// to the output unit and the decimals. `all` adds Vp (always there for collision-velocity
+/// input), the jetting critical angle and the binding relative margin.
+pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>, Vec<(f64, usize)>) {
+    let mut names: Vec<String> = vec!["verdict".into(), "binding".into()];
+    let mut cols = vec![Col::Verdict, Col::Binding];
+    if all || c.kind() == super::classifier::VelocityKind::Collision {
+        names.push("impact_velocity[m/s]".into());
+        cols.push(Col::ImpactVelocity);
+    }
+    for (n, k) in [
+        ("collision_velocity[m/s]", Col::CollisionVelocity),
+        ("flow_velocity[m/s]", Col::FlowVelocity),
+        ("impact_pressure[GPa]", Col::Pressure),
+    ] {
+        names.push(n.into());
+        cols.push(k);
+    }
+    if all && c.jetting_enabled() {
+        names.push("jetting_critical_angle[deg]".into());
+        cols.push(Col::JettingAngle);
+    }
+    if all {
+        names.push("binding_relative_margin".into());
+        cols.push(Col::BindingRelative);
+    }
+    let mut margin_out = Vec::new();
+    for (k, l) in c.limits.iter().enumerate() {
+        let (unit, factor, dec) = match l.unit {
+            "Pa" => ("GPa", 1e-9, 3),
+            "deg" => ("deg", 1.0, 3),
+            _ => ("m/s", 1.0, 1),
+        };
+        names.push(format!("{}[{unit}]", l.column));
+        cols.push(Col::Margin(k));
+        margin_out.push((factor, dec));
+    }
+    if c.has_boundaries() {
+        names.push("outside_trial_data".into());
+        cols.push(Col::Outside);
+    }
+    (names, cols, margin_out)
+}
+
+impl<'a> Ctx<'a> {
+    /// Precompute the output pieces.
+    pub fn new(
+        file: &'a str,
+        in_format: Format,
+        out_format: Format,
+        header: &'a Header,
+        classifier: &'a Classifier,
+        policy: &'a Policy,
+        all_columns: bool,
+    ) -> Self {
+        let (computed, cols, margin_out) = computed_columns(classifier, all_columns);
+        let taken: Vec<&str> = std::iter::once("row")
+            .chain(computed.iter().map(String::as_str))
+            .collect();
+        let out_cells: Vec<String> = header
+            .cells
+            .iter()
+            .map(|c| {
+                if taken.contains(&c.trim()) {
+                    format!("input_{}", c.trim())
+                } else {
+                    c.clone()
+                }
+            })
+            .collect();
+        let key = |s: &str| {
+            let mut v = Vec::new();
+            push_json_string(&mut v, s.as_bytes());
+            v.push(b':');
+            v
+        };
+        let mut cell_role = vec![None; header.cells.len()];
+        for (r, col) in [
+            Some(&header.position),
+            Some(&header.velocity),
+            Some(&header.angle),
+            header.time.as_ref(),
+        ]
+        .into_iter()
+        .enumerate()
+        {
+            if let Some(col) = col {
+                cell_role[col.index] = Some(r);
+            }
+        }
+        let binding_csv = classifier
+            .limits
+            .iter()
+            .map(|l| {
+                let mut v = Vec::new();
+                push_csv_field(&mut v, l.id.as_bytes());
+                v
+            })
+            .collect();
+        let binding_json = classifier
+            .limits
+            .iter()
+            .map(|l| {
+                let mut v = Vec::new();
+                push_json_string(&mut v, l.id.as_bytes());
+                v
+            })
+            .collect();
+        Self {
+            file,
+            in_format,
+            out_format,
+            header,
+            classifier,
+            policy,
+            json_cell_keys: out_cells.iter().map(|c| key(c)).collect(),
+            out_cells,
+            cell_role,
+            binding_csv,
+            binding_json,
+            margin_out,
+            computed_keys: computed.iter().map(|c| key(c)).collect(),
+            computed,
+            cols,
+        }
+    }
+
+    /// The output header line (CSV only; JSON lines have none).
+    pub fn csv_header(&self) -> Vec<u8> {
+        let mut v = Vec::new();
+        v.extend_from_slice(b"row");
+        for c in self.out_cells.iter().chain(&self.computed) {
+            v.push(b',');
+            push_csv_field(&mut v, c.as_bytes());
+        }
+        v.push(b'\n');
+        v
+    }
+
+    /// The side-file header for bad rows (CSV input only).
+    pub fn bad_header(&self) -> Vec<u8> {
+        let mut v = b"row,field,reason".to_vec();
+        for c in &self.header.cells {
+            v.push(b',');
+            push_csv_field(&mut v, c.as_bytes());
+        }
+        v.push(b'\n');
+        v
+    }
+}
+
+/// The values read from one row.
+struct RowValues {
+    position: f64,
+    velocity: f64,
+    angle: f64,
+}
+
+enum Cells<'r> {
+    Csv { line: &'r [u8], fields: &'r Fields },
+    Json { obj: &'r Map<String, Value> },
+}
+
+struct Worker {
+    fields: Fields,
+    margins: Vec<f64>,
+}
+
+type Bad = (String, String);
+
+fn cell_name(ctx: &Ctx<'_>, i: usize) -> String {
+    ctx.header
+        .cells
+        .get(i)
+        .cloned()
+        .unwrap_or_else(|| format!("field {}", i + 1))
+}
+
+fn number_reason(text: &[u8], cell: &str) -> String {
+    let t = String::from_utf8_lossy(trim_spaces(text)).into_owned();
+    if t.is_empty() {
+        "empty".into()
+    } else if t.starts_with(|c: char| c.is_ascii_digit() || c == '-' || c == '+' || c == '.')
+        && t.chars().any(|c| c.is_alphabetic())
+        && !t.to_ascii_lowercase().starts_with("inf")
+        && !t.to_ascii_lowercase().starts_with("nan")
+    {
+        format!("'{t}' is not a plain number (the unit belongs in the header, as in {cell})")
+    } else {
+        format!("'{t}' is not a finite number")
+    }
+}
+
+impl Worker {
+    fn values(&self, ctx: &Ctx<'_>, cells: &Cells<'_>) -> Result<RowValues, Bad> {
+        let h = ctx.header;
+        let get = |col: &super::input::Column| -> Result<f64, Bad> {
+            match cells {
+                Cells::Csv { line, fields } => {
+                    let text = fields.get(line, col.index).unwrap_or(b"");
+                    parse_number(text)
+                        .map(|v| v * col.factor)
+                        .ok_or_else(|| (col.cell.clone(), number_reason(text, &col.cell)))
+                }
+                Cells::Json { obj } => match obj.get(&col.cell) {
+                    None | Some(Value::Null) => Err((col.cell.clone(), "missing".into())),
+                    Some(Value::Number(n)) => n
+                        .as_f64()
+                        .filter(|v| v.is_finite())
+                        .map(|v| v * col.factor)
+                        .ok_or_else(|| (col.cell.clone(), format!("{n} is not a finite number"))),
+                    Some(Value::String(s)) => parse_number(s.as_bytes())
+                        .map(|v| v * col.factor)
+                        .ok_or_else(|| (col.cell.clone(), number_reason(s.as_bytes(), &col.cell))),
+                    Some(other) => Err((col.cell.clone(), format!("{other} is not a number"))),
+                },
+            }
+        };
+        let position = get(&h.position)?;
+        let velocity = get(&h.velocity)?;
+        let angle = get(&h.angle)?;
+        if let Some(t) = &h.time {
+            get(t)?;
+        }
+        if !position.is_finite() {
+            return Err((h.position.cell.clone(), "not a finite length".into()));
+        }
+        if !(velocity > 0.0 && velocity.is_finite()) {
+            return Err((
+                h.velocity.cell.clone(),
+                format!(
+                    "{} m/s is not above zero (velocities must be positive)",
+                    fmt_g(velocity)
+                ),
+            ));
+        }
+        let deg = angle.to_degrees();
+        if !(deg > 0.0 && deg < 90.0) {
+            return Err((
+                h.angle.cell.clone(),
+                format!("{} deg is outside (0, 90) deg", fmt_g(deg)),
+            ));
+        }
+        Ok(RowValues {
+            position,
+            velocity,
+            angle,
+        })
+    }
+
+    fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot) {
+        let n_limits = ctx.classifier.limits.len();
+        slot.stats.welded_min = vec![None; n_limits];
+        slot.stats.unwelded_binding = vec![0; n_limits];
+        let data = std::mem::take(&mut slot.data);
+        let mut pos = 0;
+        let mut line_no = slot.first_line;
+        while pos < data.len() {
+            let mut plain = false;
+            let (end, next, inside_nl, quoted) = match ctx.in_format {
+                Format::Csv => match scan_plain(&data, pos, &mut self.fields) {
+                    Some((end, next)) => {
+                        plain = true;
+                        (end, next, 0, false)
+                    }
+                    None => next_record(&data, pos),
+                },
+                Format::Jsonl => {
+                    let nl = data[pos..].iter().position(|&b| b == b'\n');
+                    let end = nl.map_or(data.len(), |p| pos + p);
+                    (end, nl.map_or(data.len(), |p| pos + p + 1), 0, false)
+                }
+            };
+            let mut rec = &data[pos..end];
+            if rec.last() == Some(&b'\r') {
+                rec = &rec[..rec.len() - 1];
+                if plain {
+                    if let Some(last) = self.fields.ranges.last_mut() {
+                        last.1 = last.1.min(rec.len());
+                    }
+                }
+            }
+            let row = line_no;
+            line_no += 1 + inside_nl as u64;
+            pos = next;
+            if trim_spaces(rec).is_empty() {
+                slot.stats.blank += 1;
+                continue;
+            }
+            slot.stats.rows_read += 1;
+            if let Err((field, reason)) = self.row(ctx, slot, row, rec, quoted, plain) {
+                slot.stats.rejected += 1;
+                if let Policy::Save(_) = ctx.policy {
+                    write_bad(ctx, &mut slot.bad_out, row, &field, &reason, rec);
+                }
+                slot.bad.push(Rejected { row, field, reason });
+                if *ctx.policy == Policy::Stop {
+                    slot.stopped = true;
+                    break;
+                }
+            }
+        }
+        slot.data = data;
+    }
+
+    fn row(
+        &mut self,
+        ctx: &Ctx<'_>,
+        slot: &mut Slot,
+        row: u64,
+        rec: &[u8],
+        quoted: bool,
+        already_split: bool,
+    ) -> Result<(), Bad> {
+        let n = ctx.header.cells.len();
+        let obj;
+        let cells = match ctx.in_format {
+            Format::Csv => {
+                if !already_split {
+                    split_fields(rec, quoted, &mut self.fields);
+                }
+                let got = self.fields.ranges.len();
+                if got < n {
+                    return Err((
+                        cell_name(ctx, got),
+                        format!("missing: the row has {got} field(s), the header {n}"),
+                    ));
+                }
+                if got > n {
+                    return Err((
+                        "(row)".into(),
+                        format!("the row has {got} fields, the header {n}"),
+                    ));
+                }
+                Cells::Csv {
+                    line: rec,
+                    fields: &self.fields,
+                }
+            }
+            Format::Jsonl => {
+                obj = match serde_json::from_slice::<Map<String, Value>>(rec) {
+                    Ok(o) => o,
+                    Err(e) => return Err(("(line)".into(), format!("not a JSON object: {e}"))),
+                };
+                if let Some(k) = obj.keys().find(|k| !ctx.header.cells.contains(k)) {
+                    return Err((
+                        k.clone(),
+                        "not among the fields of the first line (the first object sets the columns)"
+                            .into(),
+                    ));
+                }
+                Cells::Json { obj: &obj }
+            }
+        };
+        let v = self.values(ctx, &cells)?;
+        let p = ctx
+            .classifier
+            .classify(v.velocity, v.angle, &mut self.margins)
+            .map_err(|e| ("(classification)".to_string(), e.to_string()))?;
+        // Output.
+        let out = &mut slot.out;
+        let out_start = out.len();
+        match ctx.out_format {
+            Format::Csv => {
+                push_u64(out, row);
+                out.push(b',');
+                match &cells {
+                    Cells::Csv { line, .. } => out.extend_from_slice(line),
+                    Cells::Json { obj } => {
+                        for (i, c) in ctx.header.cells.iter().enumerate() {
+                            if i > 0 {
+                                out.push(b',');
+                            }
+                            match obj.get(c) {
+                                None | Some(Value::Null) => {}
+                                Some(Value::String(s)) => push_csv_field(out, s.as_bytes()),
+                                Some(other) => push_csv_field(out, other.to_string().as_bytes()),
+                            }
+                        }
+                    }
+                }
+                self.computed_csv(ctx, out, &p);
+                out.push(b'\n');
+            }
+            Format::Jsonl => {
+                out.extend_from_slice(b"{\"row\":");
+                push_u64(out, row);
+                match &cells {
+                    Cells::Csv { line, fields } => {
+                        for i in 0..n {
+                            out.push(b',');
+                            out.extend_from_slice(&ctx.json_cell_keys[i]);
+                            let text = fields.get(line, i).unwrap_or(b"");
+                            if ctx.cell_role[i].is_some() {
+                                let t = trim_spaces(text);
+                                if is_json_number(t) {
+                                    out.extend_from_slice(t);
+                                } else {
+                                    // Parsed before, so it is a finite number.
+                                    let x = parse_number(t).unwrap_or(f64::NAN);
+                                    out.extend_from_slice(fmt_g(x).as_bytes());
+                                }
+                            } else {
+                                push_json_string(out, text);
+                            }
+                        }
+                    }
+                    Cells::Json { obj } => {
+                        for (i, c) in ctx.header.cells.iter().enumerate() {
+                            out.push(b',');
+                            out.extend_from_slice(&ctx.json_cell_keys[i]);
+                            match obj.get(c) {
+                                Some(v) => out.extend_from_slice(v.to_string().as_bytes()),
+                                None => out.extend_from_slice(b"null"),
+                            }
+                        }
+                    }
+                }
+                self.computed_json(ctx, out, &p);
+                out.extend_from_slice(b"}\n");
+            }
+        }
+        // Per-point record and counts.
+        let verdict = match p.verdict {
+            Prediction::Welded => 0u8,
+            Prediction::NotWelded => 1,
+            Prediction::Melted => 2,
+        };
+        if p.outside_trial_data {
+            slot.stats.outside += 1;
+        }
+        if p.jetting_direct {
+            slot.stats.jetting_direct += 1;
+        }
+        if verdict == 0 {
+            for (k, m) in self.margins.iter().enumerate() {
+                if m.is_nan() {
+                    continue;
+                }
+                let slotm = &mut slot.stats.welded_min[k];
+                if slotm.is_none_or_greater(*m) {
+                    *slotm = Some((*m, row));
+                }
+            }
+        } else if let Some(b) = p.binding {
+            slot.stats.unwelded_binding[b] += 1;
+        }
+        let (margin, binding) = match p.binding {
+            Some(b) => (self.margins[b], b as u16),
+            None => (f64::NAN, u16::MAX),
+        };
+        slot.lites.push(Lite {
+            row,
+            pos: v.position,
+            vp: p.vp as f32,
+            beta: p.beta_deg as f32,
+            binding,
+            verdict,
+            out_start: out_start as u32,
+            margin,
+            rel: p.binding_relative,
+        });
+        Ok(())
+    }
+
+    fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut Vec<u8>, p: &Point) {
+        for col in &ctx.cols {
+            out.push(b',');
+            match *col {
+                Col::Verdict => out.extend_from_slice(p.verdict.as_str().as_bytes()),
+                Col::Binding => {
+                    if let Some(b) = p.binding {
+                        out.extend_from_slice(&ctx.binding_csv[b]);
+                    }
+                }
+                Col::ImpactVelocity => push_fixed(out, p.vp, 1),
+                Col::CollisionVelocity => push_fixed(out, p.vc, 1),
+                Col::FlowVelocity => push_fixed(out, p.vf, 1),
+                Col::Pressure => push_fixed(out, p.pressure * 1e-9, 3),
+                Col::JettingAngle => push_fixed(out, p.jetting_deg, 3),
+                Col::BindingRelative => push_fixed(out, p.binding_relative, 4),
+                Col::Margin(k) => {
+                    let (f, d) = ctx.margin_out[k];
+                    push_fixed(out, self.margins[k] * f, d);
+                }
+                Col::Outside => out.extend_from_slice(if p.outside_trial_data {
+                    b"true"
+                } else {
+                    b"false"
+                }),
+            }
+        }
+    }
+
+    fn computed_json(&self, ctx: &Ctx<'_>, out: &mut Vec<u8>, p: &Point) {
+        for (col, key) in ctx.cols.iter().zip(&ctx.computed_keys) {
+            out.push(b',');
+            out.extend_from_slice(key);
+            match *col {
+                Col::Verdict => {
+                    out.push(b'"');
+                    out.extend_from_slice(p.verdict.as_str().as_bytes());
+                    out.push(b'"');
+                }
+                Col::Binding => match p.binding {
+                    Some(b) => out.extend_from_slice(&ctx.binding_json[b]),
+                    None => out.extend_from_slice(b"null"),
+                },
+                Col::ImpactVelocity => push_json_number(out, p.vp, 1),
+                Col::CollisionVelocity => push_json_number(out, p.vc, 1),
+                Col::FlowVelocity => push_json_number(out, p.vf, 1),
+                Col::Pressure => push_json_number(out, p.pressure * 1e-9, 3),
+                Col::JettingAngle => push_json_number(out, p.jetting_deg, 3),
+                Col::BindingRelative => push_json_number(out, p.binding_relative, 4),
+                Col::Margin(k) => {
+                    let (f, d) = ctx.margin_out[k];
+                    push_json_number(out, self.margins[k] * f, d);
+                }
+                Col::Outside => out.extend_from_slice(if p.outside_trial_data {
+                    b"true"
+                } else {
+                    b"false"
+                }),
+            }
+        }
+    }
+}
+
+trait MinSlot {
+    fn is_none_or_greater(&self, m: f64) -> bool;
+}
+
+impl MinSlot for Option<(f64, u64)> {
+    fn is_none_or_greater(&self, m: f64) -> bool {
+        match self {
+            Some((old, _)) => m < *old,
+            None => true,
+        }
+    }
+}
+
+/// A number in the shortest form that reads back the same.
+pub fn fmt_g(x: f64) -> String {
+    format!("{x}")
+}
+
+fn write_bad(ctx: &Ctx<'_>, out: &mut Vec<u8>, row: u64, field: &str, reason: &str, rec: &[u8]) {
+    match ctx.in_format {
+        Format::Csv => {
+            push_u64(out, row);
+            out.push(b',');
+            push_csv_field(out, field.as_bytes());
+            out.push(b',');
+            push_csv_field(out, reason.as_bytes());
+            out.push(b',');
+            out.extend_from_slice(rec);
+            out.push(b'\n');
+        }
+        Format::Jsonl => {
+            out.extend_from_slice(b"{\"row\":");
+            push_u64(out, row);
+            out.extend_from_slice(b",\"field\":");
+            push_json_string(out, field.as_bytes());
+            out.extend_from_slice(b",\"reason\":");
+            push_json_string(out, reason.as_bytes());
+            out.extend_from_slice(b",\"line\":");
+            push_json_string(out, rec);
+            out.extend_from_slice(b"}\n");
+        }
+    }
+}
+
+/// Run the pipeline: `source` positioned after the header; `first_line` is the line number of
+/// the first record; `sink` sees each chunk in file order. Returns the reader's I/O error, if
+/// any, after every chunk before it has been seen.
+///
+/// # Errors
+/// Whatever `sink` returns, or the reader's error message.
+pub fn run<E>(
+    ctx: &Ctx<'_>,
+    mut source: Source,
+    first_line: u64,
+    threads: usize,
+    mut sink: impl FnMut(&mut Slot) -> Result<(), E>,
+    io_error: impl Fn(String) -> E,
+) -> Result<(), E> {
+    let threads = threads.max(1);
+    let slots = 2 * threads + 2;
+    let quotes = ctx.in_format == Format::Csv;
+    let cancel = AtomicBool::new(false);
+    let reader_error: Mutex<Option<String>> = Mutex::new(None);
+    std::thread::scope(|s| {
+        let (pool_tx, pool_rx) = sync_channel::<Slot>(slots);
+        for _ in 0..slots {
+            let _ = pool_tx.send(Slot::default());
+        }
+        let (work_tx, work_rx) = sync_channel::<Slot>(slots);
+        let work_rx: Arc<Mutex<Receiver<Slot>>> = Arc::new(Mutex::new(work_rx));
+        let (done_tx, done_rx) = sync_channel::<Slot>(slots);
+        let cancel = &cancel;
+        let reader_error = &reader_error;
+        s.spawn(move || {
+            let mut seq = 0u64;
+            let mut line = first_line;
+            while let Ok(mut slot) = pool_rx.recv() {
+                if cancel.load(Ordering::Relaxed) {
+                    break;
+                }
+                match source.next_chunk(&mut slot.data, CHUNK, CHUNK_LINES, quotes, MAX_RECORD) {
+                    Ok(true) => {
+                        slot.seq = seq;
+                        slot.first_line = line;
+                        line += slot.data.iter().filter(|&&b| b == b'\n').count() as u64;
+                        seq += 1;
+                        if work_tx.send(slot).is_err() {
+                            break;
+                        }
+                    }
+                    Ok(false) => break,
+                    Err(e) => {
+                        if let Ok(mut g) = reader_error.lock() {
+                            *g = Some(e.to_string());
+                        }
+                        break;
+                    }
+                }
+            }
+        });
+        for _ in 0..threads {
+            let done_tx = done_tx.clone();
+            let work_rx = Arc::clone(&work_rx);
+            s.spawn(move || {
+                let mut worker = Worker {
+                    fields: Fields::default(),
+                    margins: Vec::new(),
+                };
+                loop {
+                    let next = match work_rx.lock() {
+                        Ok(rx) => rx.recv(),
+                        Err(_) => break,
+                    };
+                    let Ok(mut slot) = next else { break };
+                    if cancel.load(Ordering::Relaxed) {
+                        break;
+                    }
+                    worker.process(ctx, &mut slot);
+                    if done_tx.send(slot).is_err() {
+                        break;
+                    }
+                }
+            });
+        }
+        drop(done_tx);
+        drop(work_rx);
+        let mut pending: BTreeMap<u64, Slot> = BTreeMap::new();
+        let mut next = 0u64;
+        let mut result: Result<(), E> = Ok(());
+        'outer: for slot in done_rx.iter() {
+            pending.insert(slot.seq, slot);
+            while let Some(mut slot) = pending.remove(&next) {
+                if let Err(e) = sink(&mut slot) {
+                    result = Err(e);
+                    break 'outer;
+                }
+                slot.reset();
+                let _ = pool_tx.send(slot);
+                next += 1;
+            }
+        }
+        cancel.store(true, Ordering::Relaxed);
+        drop(pool_tx);
+        drop(done_rx);
+        drop(pending);
+        result
+    })?;
+    if let Some(e) = reader_error.lock().ok().and_then(|mut g| g.take()) {
+        return Err(io_error(e));
+    }
+    Ok(())
+}
