@@ -26,6 +26,7 @@ use crate::error::{positive, PhysicsError};
 use crate::hugoniot::Hugoniot;
 use crate::jetting::{critical_angle, JettingAssessment, JettingRegime};
 use crate::units::{Angle, Velocity};
+use std::sync::OnceLock;
 
 /// Where a query was answered.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -54,15 +55,15 @@ pub struct JettingTable {
     inv_du_flyer: f64,
     inv_du_parent: f64,
     /// Critical angle in radians at node (i along the flyer axis, j along the parent axis),
-    /// stored at `i * nodes + j`.
-    values: Vec<f64>,
+    /// stored at `i * nodes + j`; filled up front, or on first use for a lazy table.
+    values: Vec<OnceLock<f64>>,
 }
 
 impl JettingTable {
     /// The documented bound on |table - direct solve| over the table's domain, in degrees.
     pub const ERROR_BOUND_DEG: f64 = 0.05;
 
-    /// Default upper end of both inflow axes: 30 km/s. At a magnetic-pulse impact velocity of
+    /// Default upper end of both inflow axes: 20 km/s. At a magnetic-pulse impact velocity of
     /// 500 m/s this covers collision angles down to about 1 deg (normal-to-flyer convention).
     pub const DEFAULT_MAX_INFLOW: f64 = 20_000.0;
 
@@ -73,7 +74,9 @@ impl JettingTable {
     pub const DEFAULT_NODES: usize = 192;
 
     /// Build the table for `flyer` on `parent` with the default range and resolution, using up
-    /// to `threads` threads (1 builds on the calling thread).
+    /// to `threads` threads (1 builds on the calling thread). With `threads` = 0 the table is
+    /// lazy: each node is solved the first time a lookup needs it (thread-safe), so a data set
+    /// that visits a narrow band of inflow speeds pays only for the nodes it touches.
     ///
     /// # Errors
     /// [`PhysicsError`] when the direct solve fails at a node (it does not for valid Hugoniots).
@@ -115,7 +118,8 @@ impl JettingTable {
         let span_p = (max_inflow - c0_parent).max(0.0).sqrt();
         let du_flyer = span_f / (nodes - 1) as f64;
         let du_parent = span_p / (nodes - 1) as f64;
-        let mut values = vec![0.0; nodes * nodes];
+        let lazy = threads == 0;
+        let mut values = vec![0.0; if lazy { 0 } else { nodes * nodes }];
         let fill_row = |i: usize, row: &mut [f64]| -> Result<(), PhysicsError> {
             let uf = du_flyer * i as f64;
             let vf = c0_flyer + uf * uf;
@@ -138,7 +142,9 @@ impl JettingTable {
             Ok(())
         };
         let threads = threads.clamp(1, nodes);
-        if threads == 1 {
+        if lazy {
+            // Nothing to fill now.
+        } else if threads == 1 {
             for (i, row) in values.chunks_mut(nodes).enumerate() {
                 fill_row(i, row)?;
             }
@@ -193,7 +199,32 @@ impl JettingTable {
             } else {
                 0.0
             },
-            values,
+            values: if lazy {
+                (0..nodes * nodes).map(|_| OnceLock::new()).collect()
+            } else {
+                values.into_iter().map(OnceLock::from).collect()
+            },
+        })
+    }
+
+    /// The critical angle (radians) at node (i, j), solving it on first use in a lazy table. A
+    /// node whose solve fails reads as infinite, which sends its cells to the direct solve
+    /// (and so reports the error there).
+    #[inline]
+    fn node(&self, i: usize, j: usize) -> f64 {
+        *self.values[i * self.nodes + j].get_or_init(|| {
+            if i == 0 || j == 0 {
+                return 0.0;
+            }
+            let uf = self.du_flyer * i as f64;
+            let up = self.du_parent * j as f64;
+            critical_angle(
+                &self.flyer,
+                &self.parent,
+                Velocity::from_m_s(self.c0_flyer + uf * uf),
+                Velocity::from_m_s(self.c0_parent + up * up),
+            )
+            .map_or(f64::INFINITY, |a| a.critical_angle.radians())
         })
     }
 
@@ -232,12 +263,10 @@ impl JettingTable {
         let fj = xp.floor().min(last);
         let (tf, tp) = (xf - fi, xp - fj);
         let (i, j) = (fi as usize, fj as usize);
-        let n = self.nodes;
-        let v = &self.values;
-        let a = v[i * n + j];
-        let b = v[i * n + j + 1];
-        let c = v[(i + 1) * n + j];
-        let d = v[(i + 1) * n + j + 1];
+        let a = self.node(i, j);
+        let b = self.node(i, j + 1);
+        let c = self.node(i + 1, j);
+        let d = self.node(i + 1, j + 1);
         if a.max(b).max(c).max(d) > Self::CAP_RAD {
             return Lookup::OutsideDomain;
         }
@@ -371,7 +400,15 @@ mod tests {
             JettingTable::with_resolution(al(), cu(), Velocity::from_m_s(9000.0), 12, 1).unwrap();
         let b =
             JettingTable::with_resolution(al(), cu(), Velocity::from_m_s(9000.0), 12, 3).unwrap();
-        assert_eq!(a.values, b.values);
+        // A lazy table fills the same values on demand.
+        let lazy =
+            JettingTable::with_resolution(al(), cu(), Velocity::from_m_s(9000.0), 12, 0).unwrap();
+        for i in 0..12 {
+            for j in 0..12 {
+                assert_eq!(a.node(i, j), b.node(i, j));
+                assert_eq!(a.node(i, j).to_bits(), lazy.node(i, j).to_bits());
+            }
+        }
     }
 
     #[test]

@@ -438,7 +438,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
     };
     let header = parse_header(&file_name, cells, &wanted).map_err(Fail::input)?;
 
-    let classifier = Classifier::new(&window, kind, mode, threads)?;
+    let classifier = Classifier::new(&window, kind, mode)?;
     let ctx = Ctx::new(
         &file_name,
         in_format,

@@ -165,8 +165,7 @@ pub struct Classifier {
     kind: VelocityKind,
     cfg: oblique_core::CriteriaConfig,
     mode: JettingMode,
-    threads: usize,
-    /// Built on the first row with supersonic inflow (never for all-subsonic inputs); `None`
+    /// Built (lazily, node by node) on the first row with supersonic inflow (never for all-subsonic inputs); `None`
     /// inside if the build failed, and then every supersonic row is solved directly.
     table: OnceLock<Option<JettingTable>>,
     melt_f: MeltingConsts,
@@ -181,8 +180,8 @@ pub struct Classifier {
 
 impl Classifier {
     /// Precompute for `window` (criteria already final). The jetting table (mode
-    /// [`JettingMode::Table`]) is built with `threads` threads when the first row with
-    /// supersonic inflow needs it.
+    /// [`JettingMode::Table`]) is created when the first row with supersonic inflow needs it,
+    /// and solves each node the first time a row falls in one of its cells.
     ///
     /// # Errors
     /// A physics error in the window's materials or constants.
@@ -190,7 +189,6 @@ impl Classifier {
         window: &PairWindow,
         kind: VelocityKind,
         mode: JettingMode,
-        threads: usize,
     ) -> Result<Self, PhysicsError> {
         let setup = window.setup()?;
         let cfg = window.criteria.clone();
@@ -273,7 +271,6 @@ impl Classifier {
             kind,
             cfg,
             mode,
-            threads,
             table: OnceLock::new(),
             melt_f,
             melt_p,
@@ -316,12 +313,8 @@ impl Classifier {
         }
         self.table
             .get_or_init(|| {
-                JettingTable::new(
-                    self.setup.flyer.hugoniot,
-                    self.setup.parent.hugoniot,
-                    self.threads,
-                )
-                .ok()
+                // Lazy: only the nodes the data visit are solved (0 threads = on demand).
+                JettingTable::new(self.setup.flyer.hugoniot, self.setup.parent.hugoniot, 0).ok()
             })
             .as_ref()
     }
@@ -669,7 +662,7 @@ pub(crate) mod tests {
     fn classifier(kind: VelocityKind) -> &'static Classifier {
         static C: [OnceLock<Classifier>; 2] = [OnceLock::new(), OnceLock::new()];
         let k = usize::from(kind == VelocityKind::Collision);
-        C[k].get_or_init(|| Classifier::new(test_window(), kind, JettingMode::Table, 2).unwrap())
+        C[k].get_or_init(|| Classifier::new(test_window(), kind, JettingMode::Table).unwrap())
     }
 
     fn check_against_window(vp: f64, beta_deg: f64) -> Result<(), TestCaseError> {
