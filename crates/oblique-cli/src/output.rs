@@ -144,6 +144,32 @@ pub fn evaluation_fields(e: &PointEvaluation, o: &mut Map<String, Value>) {
     );
 }
 
+/// Add where the limit is reached along the two controls (after `explain`).
+fn add_headroom(
+    v: &mut Value,
+    window: &PairWindow,
+    c: &Classification,
+    limit: &oblique_window::LimitRef,
+) {
+    if let (Some(o), Some((_, h))) = (
+        v.as_object_mut(),
+        c.headroom.iter().find(|(l, _)| l == limit),
+    ) {
+        o.insert(
+            "advice".into(),
+            json!(oblique_window::classify::limit_advice(window, c, limit)),
+        );
+        o.insert(
+            "reached_at_impact_velocity_m_s".into(),
+            h.velocity_m_s.map_or(Value::Null, sig),
+        );
+        o.insert(
+            "reached_at_angle_deg".into(),
+            h.angle_deg.map_or(Value::Null, sig),
+        );
+    }
+}
+
 /// JSON of a classification against a pair window (check --pair, report).
 pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
     let mut o = Map::new();
@@ -160,10 +186,17 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
         .criteria
         .iter()
         .map(|r| {
-            criterion_json(
+            let mut v = criterion_json(
                 r,
                 matches!(&c.binding, Some(oblique_window::LimitRef::Criterion(id)) if *id == r.id),
-            )
+            );
+            add_headroom(
+                &mut v,
+                window,
+                c,
+                &oblique_window::LimitRef::Criterion(r.id),
+            );
+            v
         })
         .collect();
     o.insert("criteria".into(), Value::Array(criteria));
@@ -171,8 +204,9 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
         .boundaries
         .iter()
         .zip(&window.boundaries)
-        .map(|(r, b)| {
-            json!({
+        .enumerate()
+        .map(|(bi, (r, b))| {
+            let mut v = json!({
                 "label": r.label,
                 "plane": b.plane.as_str(),
                 "weld_side": b.weld_side.as_str(),
@@ -182,7 +216,9 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
                 "satisfied": r.satisfied,
                 "in_range": r.in_range,
                 "provenance": b.provenance,
-            })
+            });
+            add_headroom(&mut v, window, c, &oblique_window::LimitRef::Boundary(bi));
+            v
         })
         .collect();
     o.insert("boundaries".into(), Value::Array(boundaries));

@@ -6,7 +6,7 @@ use crate::output::{classification_json, material_json, sig, CAUTION};
 use crate::plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
 use oblique_core::CriterionId;
 use oblique_window::boundary::Plane;
-use oblique_window::classify::{limit_advice, limit_label, Classification};
+use oblique_window::classify::{limit_advice, limit_label, Classification, LimitRef};
 use oblique_window::materials::PROPERTIES;
 use oblique_window::{Agreement, Library, PairWindow};
 use serde_json::{json, Value};
@@ -100,6 +100,20 @@ fn fmt(v: f64, digits: usize) -> String {
     format!("{v:.digits$}")
 }
 
+/// Where a limit is reached along the two controls, in words (after `explain`).
+fn reached_at(c: &Classification, limit: &LimitRef) -> String {
+    let Some((_, h)) = c.headroom.iter().find(|(l, _)| l == limit) else {
+        return "-".into();
+    };
+    let v = h
+        .velocity_m_s
+        .map_or("Vp: not reached".to_string(), |v| format!("Vp {v:.0} m/s"));
+    let a = h
+        .angle_deg
+        .map_or("angle: not reached".to_string(), |a| format!("{a:.2} deg"));
+    format!("{v}; {a}")
+}
+
 /// Build the HTML report.
 ///
 /// # Errors
@@ -129,10 +143,10 @@ pub fn html(input: &ReportInput<'_>) -> CmdResult<String> {
     })?;
 
     let mut h = String::new();
-    let verdict = if c.inside {
-        "INSIDE the window"
-    } else {
-        "OUTSIDE the window"
+    let verdict = match (c.inside, c.outside_trial_data) {
+        (true, false) => "INSIDE the window",
+        (true, true) => "INSIDE the model limits, but OUTSIDE the trial data",
+        (false, _) => "OUTSIDE the window",
     };
     let _ = write!(
         h,
@@ -187,19 +201,34 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
         fmt(col.angle.degrees(), 2),
         esc(col.convention.as_str())
     );
-    let binding = c
-        .binding
-        .as_ref()
-        .map(|b| format!("{}: {}", limit_label(w, b), limit_advice(w, c, b)))
-        .unwrap_or_default();
+    // The headroom of every decisive limit, nearest first, so the reader sees at once how much
+    // the two controls can move.
+    let mut rows: Vec<(f64, String)> = c
+        .headroom
+        .iter()
+        .map(|(l, hd)| {
+            let vp = col.impact_velocity.si();
+            let dist = hd.velocity_m_s.map_or(f64::INFINITY, |v| (v - vp).abs());
+            (
+                dist,
+                format!(
+                    "<li><b>{}</b>: {}</li>",
+                    esc(&limit_label(w, l)),
+                    esc(&limit_advice(w, c, l))
+                ),
+            )
+        })
+        .collect();
+    rows.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let list: String = rows.iter().take(4).map(|r| r.1.as_str()).collect();
     let _ = writeln!(
         h,
-        "<div class=\"verdict{}\"><div class=\"big\">Verdict: {}</div><p>{}</p><p>Binding limit: <b>{}</b></p>{}<p class=\"caution\">{}</p></div>",
-        if c.inside { "" } else { " outside" },
+        "<div class=\"verdict{}\"><div class=\"big\">Verdict: {}</div><p>{}</p><p>Nearest limits along the impact velocity at this angle:</p><ul>{}</ul>{}<p class=\"caution\">{}</p></div>",
+        if c.inside && !c.outside_trial_data { "" } else { " outside" },
         verdict,
         esc(&c.reason),
-        esc(&binding),
-        if c.outside_trial_data { "<p class=\"fail\">The point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated.</p>" } else { "" },
+        list,
+        if c.outside_trial_data { "<p class=\"fail\">The point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated, so the verdict rests on the model criteria there.</p>" } else { "" },
         esc(CAUTIONS[0])
     );
 
@@ -300,7 +329,7 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
     let _ = writeln!(h, "</table>");
 
     // Criteria.
-    let _ = writeln!(h, "<h2>Criteria and margins</h2>\n<table><tr><th>criterion</th><th>formula</th><th>constants</th><th>limit (flyer / parent)</th><th>value</th><th>limit used</th><th>margin</th><th>holds</th><th>governs</th><th>source</th></tr>");
+    let _ = writeln!(h, "<h2>Criteria and margins</h2>\n<table><tr><th>criterion</th><th>formula</th><th>constants</th><th>limit (flyer / parent)</th><th>value</th><th>limit used</th><th>margin at this Vc</th><th>holds</th><th>reached at (this angle: Vp; this Vp: angle)</th><th>governs</th><th>source</th></tr>");
     for r in &e.criteria {
         let consts: Vec<String> = r
             .constants
@@ -337,7 +366,7 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
         };
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td><code>{}</code></td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
+            "<tr><td>{}</td><td><code>{}</code></td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
             esc(&crate::plot::criterion_label(w, r.id)),
             esc(r.id.formula()),
             esc(&consts.join(", ")),
@@ -346,6 +375,7 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
             esc(&crate::output::fmt_value(r.limit, r.unit)),
             esc(&crate::output::fmt_margin(r.margin, r.unit)),
             holds,
+            esc(&reached_at(c, &LimitRef::Criterion(r.id))),
             esc(r.governing.as_str()),
             esc(r.id.source())
         );

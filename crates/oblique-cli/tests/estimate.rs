@@ -308,7 +308,7 @@ const SWEEP: &[&str] = &[
 ];
 
 #[test]
-fn sweep_ranks_the_settings_inside_by_their_binding_margin() {
+fn sweep_ranks_the_settings_inside_by_their_velocity_headroom() {
     let v = ok_json(&with(SWEEP, &["--angle", "8deg", "--json"]));
     let points = v["points"].as_array().expect("array");
     assert_eq!(points.len(), 28);
@@ -317,12 +317,21 @@ fn sweep_ranks_the_settings_inside_by_their_binding_margin() {
     assert!(!ranked.is_empty(), "the demo sweep has settings inside");
     assert_eq!(ranked.len(), inside.len());
     assert_eq!(v["inside_count"].as_u64(), Some(ranked.len() as u64));
-    let margins: Vec<f64> = ranked
+    // Ranked by how far the impact velocity can move at the same angle before the verdict
+    // changes, relative to Vp, largest first.
+    let headroom: Vec<f64> = ranked
         .iter()
-        .map(|p| p["binding_relative_margin"].as_f64().expect("number"))
+        .map(|p| {
+            let vp = p["impact_velocity_m_s"].as_f64().expect("vp");
+            p["verdict_change_impact_velocity_m_s"]
+                .as_f64()
+                .map_or(f64::INFINITY, |x| (x - vp).abs() / vp)
+        })
         .collect();
-    assert!(margins.windows(2).all(|w| w[0] >= w[1]), "{margins:?}");
-    assert!(margins.iter().all(|m| *m >= 0.0));
+    assert!(headroom.windows(2).all(|w| w[0] >= w[1]), "{headroom:?}");
+    assert!(ranked
+        .iter()
+        .all(|p| p["binding_relative_margin"].as_f64().expect("number") >= 0.0));
     assert!(ranked.iter().all(|p| p["binding"].is_string()));
     assert!(v["caution"].as_str().is_some());
     // The sweep equals single estimates (one integration serves a whole row).
@@ -347,7 +356,10 @@ fn sweep_ranks_the_settings_inside_by_their_binding_margin() {
         out.contains("settings land inside pair window demo-al6061-on-cu"),
         "{out}"
     );
-    assert!(out.contains("binding limit") && out.contains("capacitor banks store lethal energy"));
+    assert!(
+        out.contains("verdict changes at Vp")
+            && out.contains("capacitor banks store lethal energy")
+    );
 }
 
 #[test]

@@ -278,34 +278,22 @@ impl CriterionResult {
         }
     }
 
-    /// What to change, in plain words.
+    /// What the criterion says at this point, in words. It describes the limit at the point's
+    /// own collision-point velocity; it does not prescribe a change, because changing the impact
+    /// velocity or the angle also moves Vc and with it the limit (the window crate's headroom
+    /// search gives the change that actually reaches the limit).
     pub fn advice(&self) -> String {
-        let m = self.margin.abs();
+        let v = format_in_unit(self.value, self.unit);
+        let l = format_in_unit(self.limit, self.unit);
         match (self.id, self.satisfied) {
-            (CriterionId::DeribasLower, false) => format!(
-                "raise the collision angle by at least {m:.2} deg (to {:.2} deg), or raise the collision-point velocity",
-                self.limit
-            ),
-            (CriterionId::Jetting, false) => format!(
-                "raise the collision angle by at least {m:.2} deg (to {:.2} deg) so that a jet can form, or lower the collision-point velocity below the sound speed",
-                self.limit
-            ),
-            (CriterionId::StrengthLower, false) => format!(
-                "raise the impact velocity by at least {m:.0} m/s (to {:.0} m/s)",
-                self.limit
-            ),
-            (CriterionId::PressureLower, false) => format!(
-                "raise the impact velocity until the impact pressure gains at least {:.2} GPa (to {:.2} GPa)",
-                m / 1e9,
-                self.limit / 1e9
-            ),
-            (CriterionId::MeltingUpper, false) => format!(
-                "lower the impact velocity by at least {m:.0} m/s (to {:.0} m/s), or lower the collision-point velocity (a larger collision angle), which raises this limit",
-                self.limit
-            ),
+            (CriterionId::DeribasLower, false) => format!("collision angle {v} is below the Deribas minimum {l} at this collision-point velocity"),
+            (CriterionId::Jetting, false) => format!("collision angle {v} is below the jetting critical angle {l}: no jet at this collision-point velocity"),
+            (CriterionId::StrengthLower, false) => format!("impact velocity {v} is below the strength minimum {l}"),
+            (CriterionId::PressureLower, false) => format!("impact pressure {v} is below the required {l}"),
+            (CriterionId::MeltingUpper, false) => format!("impact velocity {v} is above the melting limit {l} at this collision-point velocity"),
             (CriterionId::WavyTransition, false) => "interface expected flat (informational only)".to_string(),
             (CriterionId::WavyTransition, true) => "interface expected wavy (informational only)".to_string(),
-            (_, true) => format!("holds with {} of margin", self.margin_text()),
+            (_, true) => format!("holds at this point: {v} against a limit of {l}"),
         }
     }
 
@@ -857,11 +845,7 @@ mod tests {
         assert!(!e.inside);
         let b = e.binding_result().unwrap();
         assert!(!b.satisfied);
-        assert!(
-            b.advice().contains("raise the collision angle"),
-            "{}",
-            b.advice()
-        );
+        assert!(b.advice().contains("is below the"), "{}", b.advice());
     }
 
     proptest! {

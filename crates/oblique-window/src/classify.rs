@@ -4,6 +4,7 @@
 
 use crate::boundary::BoundaryResult;
 use crate::pair::PairWindow;
+use oblique_core::units::{Angle, Velocity};
 use oblique_core::{
     evaluate_with_jetting, Collision, CriterionId, LimitKind, PairSetup, PhysicsError,
     PointEvaluation,
@@ -68,8 +69,12 @@ pub struct Classification {
     pub prediction: Prediction,
     /// Failing decisive limits.
     pub failing: Vec<LimitRef>,
-    /// A plain-words reason.
+    /// A plain-words reason; filled by [`explain`] (empty after a bare [`classify`], which is
+    /// also used for grids and sweeps where the text is not needed).
     pub reason: String,
+    /// For every decisive limit, where it is reached along the user's two controls; filled by
+    /// [`explain`].
+    pub headroom: Vec<(LimitRef, Headroom)>,
 }
 
 /// Classify `collision` against `window` (the collision is re-expressed in the window's
@@ -155,7 +160,7 @@ pub fn classify_with_jetting(
         Prediction::NotWelded
     };
     let outside_trial_data = boundaries.iter().any(|b| !b.in_range);
-    let mut c = Classification {
+    let c = Classification {
         evaluation,
         boundaries,
         inside,
@@ -165,8 +170,199 @@ pub fn classify_with_jetting(
         prediction,
         failing,
         reason: String::new(),
+        headroom: Vec::new(),
     };
-    c.reason = reason(window, &c);
+    Ok(c)
+}
+
+/// Where a limit is reached along the two controls a process engineer actually turns: the impact
+/// velocity at the same collision angle (the bank energy or the charge), and the collision angle
+/// at the same impact velocity (the taper or chamfer). A criterion's own margin is taken at the
+/// point's collision-point velocity, which moves when either control moves, so it can overstate
+/// or understate the room left; these values do not.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Headroom {
+    /// Impact velocity (m/s, the window's convention) at this angle where the limit is reached,
+    /// nearest to the point; `None` when it is not reached in a search from Vp/20 to 20 Vp, or a
+    /// user boundary stops spanning the points first (no extrapolation).
+    pub velocity_m_s: Option<f64>,
+    /// Collision angle (deg) at this impact velocity where the limit is reached, nearest to the
+    /// point; `None` when not reached within (0, 90) deg.
+    pub angle_deg: Option<f64>,
+}
+
+/// The signed margin of one limit at (vp, beta): positive on the welding side; `None` where it
+/// does not apply (a boundary outside its span) or the point is not physical.
+fn limit_margin(
+    window: &PairWindow,
+    setup: &PairSetup,
+    limit: &LimitRef,
+    vp: f64,
+    beta_rad: f64,
+) -> Option<f64> {
+    let col = Collision::from_impact(
+        window.convention,
+        Velocity::from_m_s(vp),
+        Angle::from_radians(beta_rad),
+    )
+    .ok()?;
+    match limit {
+        LimitRef::Criterion(id) => {
+            let jet = if *id == CriterionId::Jetting {
+                oblique_core::jetting::critical_angle(
+                    &setup.flyer.hugoniot,
+                    &setup.parent.hugoniot,
+                    col.flow_velocity,
+                    col.collision_velocity,
+                )
+                .ok()?
+            } else {
+                // Not used by the other criteria.
+                oblique_core::jetting::JettingAssessment {
+                    regime: oblique_core::jetting::JettingRegime::SubsonicParent,
+                    critical_angle: Angle::from_radians(0.0),
+                }
+            };
+            let e = evaluate_with_jetting(setup, &col, &window.criteria, jet).ok()?;
+            e.criterion(*id).map(|r| r.margin)
+        }
+        LimitRef::Boundary(i) => {
+            window
+                .boundaries
+                .get(*i)?
+                .evaluate(col.impact_velocity, col.collision_velocity, col.angle)
+                .margin
+        }
+    }
+}
+
+/// The nearest place from `x0` where `f` changes sign, searching outward in both directions
+/// with growing steps (first step `step0`) within [lo, hi], then bisecting. A `None` from `f`
+/// ends the search in that direction.
+fn nearest_crossing(
+    x0: f64,
+    step0: f64,
+    lo: f64,
+    hi: f64,
+    tol: f64,
+    f: impl Fn(f64) -> Option<f64>,
+) -> Option<f64> {
+    let f0 = f(x0)?;
+    let s0 = f0 >= 0.0;
+    let mut best: Option<f64> = None;
+    for dir in [1.0f64, -1.0] {
+        let mut prev = x0;
+        let mut step = step0;
+        for _ in 0..60 {
+            let x = x0 + dir * step;
+            if x <= lo || x >= hi {
+                break;
+            }
+            let Some(fx) = f(x) else { break };
+            if (fx >= 0.0) != s0 {
+                // Bisect between prev (same side as x0) and x.
+                let (mut a, mut b) = (prev, x);
+                for _ in 0..60 {
+                    if (b - a).abs() <= tol {
+                        break;
+                    }
+                    let m = 0.5 * (a + b);
+                    match f(m) {
+                        Some(fm) if (fm >= 0.0) == s0 => a = m,
+                        Some(_) => b = m,
+                        None => break,
+                    }
+                }
+                let root = 0.5 * (a + b);
+                if best.is_none_or(|r| (root - x0).abs() < (r - x0).abs()) {
+                    best = Some(root);
+                }
+                break;
+            }
+            prev = x;
+            step *= 1.3;
+        }
+    }
+    best
+}
+
+/// Where `limit` is reached along impact velocity (at this angle) and along angle (at this
+/// impact velocity), for the point of `c`.
+pub fn headroom(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &Classification,
+    limit: &LimitRef,
+) -> Headroom {
+    let vp = c.evaluation.collision.impact_velocity.si();
+    let beta = c.evaluation.collision.angle.radians();
+    let velocity_m_s = nearest_crossing(vp, 0.005 * vp, vp / 20.0, vp * 20.0, 1e-3, |v| {
+        limit_margin(window, setup, limit, v, beta)
+    });
+    let half_pi = std::f64::consts::FRAC_PI_2;
+    let angle_deg = nearest_crossing(beta, 0.05f64.to_radians(), 0.0, half_pi, 1e-7, |b| {
+        limit_margin(window, setup, limit, vp, b)
+    })
+    .map(f64::to_degrees);
+    Headroom {
+        velocity_m_s,
+        angle_deg,
+    }
+}
+
+/// The impact velocity at this angle, nearest to the point, where the verdict (inside or not)
+/// changes, whatever limit causes it; `None` when it does not change from Vp/20 to 20 Vp. Used to
+/// rank process settings by how much velocity scatter they tolerate.
+pub fn velocity_to_verdict_change(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &Classification,
+) -> Option<f64> {
+    let vp = c.evaluation.collision.impact_velocity.si();
+    let beta = c.evaluation.collision.angle;
+    let inside_at = |v: f64| -> Option<f64> {
+        let col = Collision::from_impact(window.convention, Velocity::from_m_s(v), beta).ok()?;
+        let k = classify(window, setup, &col).ok()?;
+        Some(if k.inside { 1.0 } else { -1.0 })
+    };
+    nearest_crossing(vp, 0.01 * vp, vp / 20.0, vp * 20.0, 0.05, inside_at)
+}
+
+/// Fill the headroom of every decisive limit and the plain-words reason.
+pub fn explain(window: &PairWindow, setup: &PairSetup, c: &mut Classification) {
+    let mut limits: Vec<LimitRef> = c
+        .evaluation
+        .criteria
+        .iter()
+        .filter(|r| !r.informational)
+        .map(|r| LimitRef::Criterion(r.id))
+        .collect();
+    limits.extend(
+        (0..window.boundaries.len())
+            .filter(|i| c.boundaries.get(*i).is_some_and(|b| b.in_range))
+            .map(LimitRef::Boundary),
+    );
+    c.headroom = limits
+        .into_iter()
+        .map(|l| {
+            let h = headroom(window, setup, c, &l);
+            (l, h)
+        })
+        .collect();
+    c.reason = reason(window, c);
+}
+
+/// [`classify`] followed by [`explain`]: for single points shown to a person.
+///
+/// # Errors
+/// [`PhysicsError`] when the physics cannot be evaluated.
+pub fn classify_explained(
+    window: &PairWindow,
+    setup: &PairSetup,
+    collision: &Collision,
+) -> Result<Classification, PhysicsError> {
+    let mut c = classify(window, setup, collision)?;
+    explain(window, setup, &mut c);
     Ok(c)
 }
 
@@ -181,47 +377,88 @@ pub fn limit_label(window: &PairWindow, limit: &LimitRef) -> String {
     }
 }
 
-/// Plain-words advice for one limit at this point.
+/// Plain-words advice for one limit at this point, from its headroom along the two controls
+/// (call [`explain`] first; without it the advice only states the margin).
 pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -> String {
-    match limit {
-        LimitRef::Criterion(id) => c
-            .evaluation
-            .criterion(*id)
-            .map(|r| r.advice())
-            .unwrap_or_default(),
-        LimitRef::Boundary(i) => {
-            let (Some(b), Some(r)) = (window.boundaries.get(*i), c.boundaries.get(*i)) else {
-                return String::new();
-            };
-            let m = r.margin.unwrap_or(0.0);
-            let axis = if b.plane == crate::boundary::Plane::AngleImpactVelocity {
-                "impact"
-            } else {
-                "collision-point"
-            };
-            let satisfied = r.satisfied.unwrap_or(true);
-            match (b.weld_side, satisfied) {
-                (_, true) => format!(
-                    "holds with {} of margin",
-                    oblique_core::criteria::format_in_unit(m, r.unit)
-                ),
-                (crate::boundary::WeldSide::Above, false) => format!(
-                    "raise the collision angle by at least {:.2} deg to cross boundary \"{}\"",
-                    -m, b.label
-                ),
-                (crate::boundary::WeldSide::Below, false) => format!(
-                    "lower the collision angle by at least {:.2} deg to cross boundary \"{}\"",
-                    -m, b.label
-                ),
-                (crate::boundary::WeldSide::Right, false) => format!(
-                    "raise the {axis} velocity by at least {:.0} m/s to cross boundary \"{}\"",
-                    -m, b.label
-                ),
-                (crate::boundary::WeldSide::Left, false) => format!(
-                    "lower the {axis} velocity by at least {:.0} m/s to cross boundary \"{}\"",
-                    -m, b.label
-                ),
+    let vp = c.evaluation.collision.impact_velocity.si();
+    let beta = c.evaluation.collision.angle.degrees();
+    let satisfied = match limit {
+        LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),
+        LimitRef::Boundary(i) => c
+            .boundaries
+            .get(*i)
+            .and_then(|b| b.satisfied)
+            .unwrap_or(true),
+    };
+    let Some(h) = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h) else {
+        return match limit {
+            LimitRef::Criterion(id) => c
+                .evaluation
+                .criterion(*id)
+                .map(|r| r.advice())
+                .unwrap_or_default(),
+            LimitRef::Boundary(i) => c
+                .boundaries
+                .get(*i)
+                .and_then(|r| {
+                    r.margin.map(|m| {
+                        format!(
+                            "margin {}",
+                            oblique_core::criteria::format_in_unit(m, r.unit)
+                        )
+                    })
+                })
+                .unwrap_or_default(),
+        };
+    };
+    let _ = window;
+    let verb_v = |to: f64| if to > vp { "raise" } else { "lower" };
+    let verb_a = |to: f64| if to > beta { "raise" } else { "lower" };
+    if satisfied {
+        let mut parts = Vec::new();
+        if let Some(v) = h.velocity_m_s {
+            parts.push(format!(
+                "reached if the impact velocity {} to {v:.0} m/s at this angle ({:+.0} m/s)",
+                if v > vp { "rises" } else { "falls" },
+                v - vp
+            ));
+        }
+        if let Some(a) = h.angle_deg {
+            parts.push(format!(
+                "or if the angle {} to {a:.2} deg at this velocity ({:+.2} deg)",
+                if a > beta { "rises" } else { "falls" },
+                a - beta
+            ));
+        }
+        if parts.is_empty() {
+            "not reached by changing the impact velocity or the angle alone".to_string()
+        } else {
+            let mut s = parts.join(", ");
+            if h.velocity_m_s.is_none() {
+                s = s.trim_start_matches("or ").to_string();
             }
+            s
+        }
+    } else {
+        let mut parts = Vec::new();
+        if let Some(v) = h.velocity_m_s {
+            parts.push(format!(
+                "{} the impact velocity to {v:.0} m/s at this angle ({:+.0} m/s)",
+                verb_v(v),
+                v - vp
+            ));
+        }
+        if let Some(a) = h.angle_deg {
+            parts.push(format!(
+                "{} the collision angle to {a:.2} deg at this velocity ({:+.2} deg)",
+                verb_a(a),
+                a - beta
+            ));
+        }
+        if parts.is_empty() {
+            "not cured by changing the impact velocity or the angle alone (within Vp/20 to 20 Vp and 0 to 90 deg)".to_string()
+        } else {
+            parts.join(", or ")
         }
     }
 }
@@ -230,7 +467,7 @@ fn reason(window: &PairWindow, c: &Classification) -> String {
     let mut s = if c.inside {
         match &c.binding {
             Some(b) => format!(
-                "inside the window; the closest limit is {}: {}",
+                "inside the window; closest limit (smallest relative margin): {}, {}",
                 limit_label(window, b),
                 limit_advice(window, c, b)
             ),
@@ -286,7 +523,7 @@ mod tests {
             Angle::from_degrees(deg),
         )
         .expect("collision");
-        classify(w, &setup, &c).expect("classifies")
+        classify_explained(w, &setup, &c).expect("classifies")
     }
 
     #[test]
@@ -362,5 +599,107 @@ mod tests {
             "the partial shot near the edge agrees"
         );
         assert_eq!(a.table["melted"]["melted"], 1);
+    }
+}
+
+#[cfg(test)]
+mod headroom_tests {
+    use super::*;
+    use crate::library::Library;
+
+    fn demo() -> PairWindow {
+        Library::load(&[])
+            .expect("built-in library")
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair")
+            .clone()
+    }
+
+    fn satisfied(w: &PairWindow, limit: &LimitRef, v: f64, deg: f64) -> bool {
+        let setup = w.setup().expect("setup");
+        let col = Collision::from_impact(
+            w.convention,
+            Velocity::from_m_s(v),
+            Angle::from_degrees(deg),
+        )
+        .expect("collision");
+        let c = classify(w, &setup, &col).expect("classifies");
+        match limit {
+            LimitRef::Criterion(id) => c.evaluation.criterion(*id).expect("enabled").satisfied,
+            LimitRef::Boundary(i) => c.boundaries[*i].satisfied.expect("in range"),
+        }
+    }
+
+    /// Following the advice cures the limit, and stopping just short of it does not: the
+    /// headroom is found along the user's controls, not at a frozen collision-point velocity.
+    #[test]
+    fn following_the_headroom_crosses_the_limit() {
+        let w = demo();
+        let setup = w.setup().expect("setup");
+        for (v, deg, limit) in [
+            (360.0, 18.0, LimitRef::Criterion(CriterionId::DeribasLower)),
+            (450.0, 10.0, LimitRef::Criterion(CriterionId::MeltingUpper)),
+            (300.0, 10.0, LimitRef::Criterion(CriterionId::StrengthLower)),
+            (450.0, 10.0, LimitRef::Boundary(0)),
+        ] {
+            let col = Collision::from_impact(
+                w.convention,
+                Velocity::from_m_s(v),
+                Angle::from_degrees(deg),
+            )
+            .expect("collision");
+            let mut c = classify(&w, &setup, &col).expect("classifies");
+            explain(&w, &setup, &mut c);
+            let h = c
+                .headroom
+                .iter()
+                .find(|(l, _)| *l == limit)
+                .expect("headroom")
+                .1;
+            let vstar = h.velocity_m_s.expect("reached along the velocity");
+            let before = satisfied(&w, &limit, v, deg);
+            let side = if vstar > v { 1.0 } else { -1.0 };
+            assert_eq!(
+                satisfied(&w, &limit, vstar - side * 0.5, deg),
+                before,
+                "{limit:?} at {vstar}"
+            );
+            assert_eq!(
+                satisfied(&w, &limit, vstar + side * 0.5, deg),
+                !before,
+                "{limit:?} at {vstar}"
+            );
+        }
+    }
+
+    /// The melting limit's own margin (+277 m/s at 450 m/s and 10 deg) is taken at a frozen
+    /// collision-point velocity; along the impact velocity at 10 deg the limit is reached much
+    /// sooner (independent check: 560 m/s passes, 600 m/s fails in `check`).
+    #[test]
+    fn melting_headroom_is_smaller_than_the_frozen_margin() {
+        let w = demo();
+        let setup = w.setup().expect("setup");
+        let col = Collision::from_impact(
+            w.convention,
+            Velocity::from_m_s(450.0),
+            Angle::from_degrees(10.0),
+        )
+        .expect("collision");
+        let c = classify_explained(&w, &setup, &col).expect("classifies");
+        let frozen = c
+            .evaluation
+            .criterion(CriterionId::MeltingUpper)
+            .expect("on")
+            .margin;
+        let v = c
+            .headroom
+            .iter()
+            .find(|(l, _)| *l == LimitRef::Criterion(CriterionId::MeltingUpper))
+            .expect("h")
+            .1
+            .velocity_m_s
+            .expect("v");
+        assert!(v - 450.0 < 0.5 * frozen, "{v} vs frozen margin {frozen}");
+        assert!(v > 560.0 && v < 600.0, "{v}");
     }
 }

@@ -6,7 +6,9 @@ use crate::fail::{CmdResult, Fail};
 use crate::output::{classification_json, emit, emit_json, fmt_margin, fmt_value, table, CAUTION};
 use oblique_core::units::{Angle, Length, Velocity};
 use oblique_core::{Collision, Convention, CriteriaConfig};
-use oblique_window::classify::{classify, limit_advice, limit_label, Classification};
+use oblique_window::classify::{
+    classify_explained, limit_advice, limit_label, Classification, LimitRef,
+};
 use oblique_window::pair::Origin;
 use oblique_window::{Library, PairWindow};
 use std::collections::BTreeMap;
@@ -121,7 +123,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         a.angle,
     )?;
     let setup = window.setup()?;
-    let c = classify(&window, &setup, &point)?;
+    let c = classify_explained(&window, &setup, &point)?;
     if a.json {
         let mut v = classification_json(&window, &c);
         if a.pair.is_none() {
@@ -132,6 +134,23 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         return emit_json(&v);
     }
     emit(&human(&window, &c, a.pair.is_some()))
+}
+
+/// The two headroom cells of a limit: the impact velocity at this angle and the angle at this
+/// impact velocity where the limit is reached.
+fn headroom_cells(c: &Classification, limit: &LimitRef) -> (String, String) {
+    let h = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h);
+    let vp = c.evaluation.collision.impact_velocity.si();
+    let beta = c.evaluation.collision.angle.degrees();
+    match h {
+        Some(h) => (
+            h.velocity_m_s
+                .map_or("-".into(), |v| format!("{v:.0} m/s ({:+.0})", v - vp)),
+            h.angle_deg
+                .map_or("-".into(), |a| format!("{a:.2} deg ({:+.2})", a - beta)),
+        ),
+        None => ("-".into(), "-".into()),
+    }
 }
 
 /// The human report of a classification.
@@ -245,10 +264,12 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
                 "NO".into()
             },
             r.governing.as_str().into(),
+            headroom_cells(c, &LimitRef::Criterion(r.id)).0,
+            headroom_cells(c, &LimitRef::Criterion(r.id)).1,
             consts.join(" "),
         ]);
     }
-    for (r, b) in c.boundaries.iter().zip(&window.boundaries) {
+    for (bi, (r, b)) in c.boundaries.iter().zip(&window.boundaries).enumerate() {
         crit_rows.push(vec![
             format!("boundary \"{}\"", r.label),
             String::new(),
@@ -275,6 +296,8 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
                 None => "n/a".into(),
             },
             "user".into(),
+            headroom_cells(c, &LimitRef::Boundary(bi)).0,
+            headroom_cells(c, &LimitRef::Boundary(bi)).1,
             b.plane.as_str().into(),
         ]);
     }
@@ -286,20 +309,24 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
             "margin",
             "ok",
             "governs",
+            "reached at Vp",
+            "reached at beta",
             "constants",
         ],
         &crit_rows,
     ));
+    s.push_str("  (reached at Vp: the impact velocity at this angle where the limit is reached; reached at beta: the angle at this velocity)\n");
     s.push('\n');
-    let verdict = if c.inside {
-        "INSIDE the window"
-    } else {
-        "OUTSIDE the window"
+    let verdict = match (c.inside, c.outside_trial_data) {
+        (true, false) => "INSIDE the window",
+        (true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
+        (false, _) => "OUTSIDE the window",
     };
     s.push_str(&format!("verdict: {verdict}\n"));
     if let Some(b) = &c.binding {
         s.push_str(&format!(
-            "binding: {}: {}\n",
+            "{}: {}: {}\n",
+            if c.inside { "closest limit" } else { "binding" },
             limit_label(window, b),
             limit_advice(window, c, b)
         ));

@@ -11,7 +11,7 @@ use oblique_core::units::{Angle, Velocity};
 use oblique_core::Collision;
 use oblique_window::agreement;
 use oblique_window::boundary::Plane;
-use oblique_window::classify::{classify, limit_label};
+use oblique_window::classify::limit_label;
 use std::path::PathBuf;
 
 /// The demo's pair window (built in, invented data).
@@ -56,7 +56,7 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
             Velocity::from_m_s(v),
             Angle::from_degrees(ang),
         )?;
-        let c = classify(&window, &setup, &col)?;
+        let c = oblique_window::classify::classify_explained(&window, &setup, &col)?;
         let binding = c
             .binding
             .as_ref()

@@ -12,7 +12,6 @@ use crate::report::{command_line, html, json, ReportInput};
 use clap::Args;
 use oblique_core::Convention;
 use oblique_window::agreement;
-use oblique_window::classify::classify;
 use std::path::PathBuf;
 
 /// Flags of `oblique report`.
@@ -61,7 +60,7 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         a.angle,
     )?;
     let setup = window.setup()?;
-    let c = classify(&window, &setup, &point)?;
+    let c = oblique_window::classify::classify_explained(&window, &setup, &point)?;
     let agr = agreement(&window)?;
     let mut curves = Vec::new();
     for f in &a.curve {

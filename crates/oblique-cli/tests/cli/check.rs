@@ -31,7 +31,8 @@ fn human_output_has_table_verdict_and_caution() {
         "deribas-lower",
         "melting-upper",
         "verdict: OUTSIDE",
-        "raise the collision angle by at least",
+        "raise the impact velocity to 371 m/s",
+        "reached at Vp",
         "caution:",
     ] {
         assert!(s.contains(needle), "missing '{needle}' in\n{s}");

@@ -123,7 +123,11 @@ fn finish(
         write_history(path, &est)?;
     }
     let check = match (common.angle, window, est.impact_velocity()) {
-        (Some(angle), Some(w), Some(vp)) => Some(check_point(w, vp.si(), angle)?),
+        (Some(angle), Some(w), Some(vp)) => {
+            let mut c = check_point(w, vp.si(), angle)?;
+            oblique_window::classify::explain(w, &w.setup()?, &mut c);
+            Some(c)
+        }
         _ => None,
     };
     let thickness = match s {
@@ -593,7 +597,11 @@ pub fn run_explosive(dirs: &[PathBuf], a: ExplosiveArgs) -> CmdResult {
     };
     let est = explosive_estimate(&setup).map_err(setup::process_fail)?;
     let check = match window {
-        Some(w) => Some(classify(w, &w.setup()?, &est.collision)?),
+        Some(w) => Some(oblique_window::classify::classify_explained(
+            w,
+            &w.setup()?,
+            &est.collision,
+        )?),
         None => None,
     };
     let col = &est.collision;

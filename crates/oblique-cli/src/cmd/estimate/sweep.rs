@@ -1,6 +1,6 @@
 //! `oblique sweep mpw-tube|mpw-sheet`: the model over charging voltage (or energy) x standoff,
 //! every setting checked against a pair window at the user's angle, the settings inside ranked
-//! by the relative margin of their binding limit, and optionally a window plot with one process
+//! by the velocity scatter they tolerate (nearest Vp where the verdict changes), and optionally a window plot with one process
 //! curve per standoff.
 
 use super::setup::{self, fmt, BankPick, Ctx, Inputs};
@@ -187,6 +187,17 @@ struct Row {
     i: usize,
     j: usize,
     check: Option<Classification>,
+    /// For settings inside the window: the nearest impact velocity at the same angle where the
+    /// verdict changes (how much velocity scatter the setting tolerates).
+    verdict_change_m_s: Option<f64>,
+}
+
+impl Row {
+    /// |Vp at the verdict change - Vp| / Vp; infinite when the verdict does not change.
+    fn relative_headroom(&self, vp: f64) -> f64 {
+        self.verdict_change_m_s
+            .map_or(f64::INFINITY, |v| (v - vp).abs() / vp)
+    }
 }
 
 #[allow(clippy::too_many_arguments)]
@@ -215,24 +226,42 @@ fn run_common(
                 (Some(w), Some(angles), Some(v)) => Some(check_point(w, v.si(), angles[j])?),
                 _ => None,
             };
-            rows.push(Row { i, j, check });
+            rows.push(Row {
+                i,
+                j,
+                check,
+                verdict_change_m_s: None,
+            });
         }
+    }
+    // Velocity headroom of the settings inside the window, on every core (a search along the
+    // impact velocity per setting).
+    if let Some(w) = window {
+        let setup = w.setup()?;
+        let threads = c.threads.map_or(2, |n| n.get()).max(1);
+        let chunk = rows.len().div_ceil(threads).max(1);
+        std::thread::scope(|s| {
+            for part in rows.chunks_mut(chunk) {
+                let setup = &setup;
+                s.spawn(move || {
+                    for r in part.iter_mut() {
+                        if let Some(k) = r.check.as_ref().filter(|k| k.inside) {
+                            r.verdict_change_m_s =
+                                oblique_window::classify::velocity_to_verdict_change(w, setup, k);
+                        }
+                    }
+                });
+            }
+        });
     }
     let mut ranked: Vec<&Row> = rows
         .iter()
         .filter(|r| r.check.as_ref().is_some_and(|k| k.inside))
         .collect();
+    let vp_of = |r: &Row| res.impact_velocity(r.i, r.j).map_or(1.0, |v| v.si());
     ranked.sort_by(|a, b| {
-        let ma = a
-            .check
-            .as_ref()
-            .and_then(|k| k.binding_relative_margin)
-            .unwrap_or(f64::INFINITY);
-        let mb = b
-            .check
-            .as_ref()
-            .and_then(|k| k.binding_relative_margin)
-            .unwrap_or(f64::INFINITY);
+        let ma = a.relative_headroom(vp_of(a));
+        let mb = b.relative_headroom(vp_of(b));
         mb.total_cmp(&ma)
             .then(grid.voltages[a.i].total_cmp(&grid.voltages[b.i]))
     });
@@ -323,6 +352,10 @@ fn run_common(
                         "binding_relative_margin".into(),
                         k.binding_relative_margin.map_or(Value::Null, sig),
                     );
+                    p.insert(
+                        "verdict_change_impact_velocity_m_s".into(),
+                        r.verdict_change_m_s.map_or(Value::Null, sig),
+                    );
                 }
                 _ => {
                     p.insert("inside".into(), Value::Null);
@@ -342,7 +375,7 @@ fn run_common(
             "inside_ranked".into(),
             Value::Array(ranked.iter().map(|r| point_json(r)).collect()),
         );
-        o.insert("ranking".into(), json!("settings inside the window, by the relative margin of their binding (closest) limit, largest first"));
+        o.insert("ranking".into(), json!("settings inside the window, by how far the impact velocity can move at the same angle before the verdict changes (relative to Vp), largest first"));
         o.insert(
             "assumptions".into(),
             json!(assumptions.trim_start_matches("assumptions: ")),
@@ -420,7 +453,7 @@ fn run_common(
             out.push_str(".\n");
         } else {
             out.push_str(&format!(
-                "; ranked by the relative margin of their binding (closest) limit, largest first (top {}):\n",
+                "; ranked by how far the impact velocity can move at the same angle before the verdict changes, largest first (top {}):\n",
                 c.top.min(ranked.len())
             ));
             let mut trows = Vec::new();
@@ -436,10 +469,22 @@ fn run_common(
                         format!("{} deg", fmt::g(a[r.j].to_degrees()))
                     }),
                     format!("{v:.0} m/s"),
-                    k.and_then(|k| k.binding.as_ref())
-                        .map_or("-".into(), |b| limit_label(w, b)),
-                    k.and_then(|k| k.binding_relative_margin)
-                        .map_or("-".into(), |m| format!("{:+.1} %", 100.0 * m)),
+                    // The limit that fails just beyond the verdict change.
+                    r.verdict_change_m_s
+                        .zip(grid.angles.as_ref())
+                        .and_then(|(x, a)| {
+                            check_point(w, x + (x - v).signum() * 0.002 * v, a[r.j]).ok()
+                        })
+                        .and_then(|kb| kb.binding.as_ref().map(|b| limit_label(w, b)))
+                        .or_else(|| {
+                            k.and_then(|k| k.binding.as_ref())
+                                .map(|b| limit_label(w, b))
+                        })
+                        .unwrap_or_else(|| "-".into()),
+                    r.verdict_change_m_s
+                        .map_or("not within Vp/20..20 Vp".into(), |x| {
+                            format!("{x:.0} m/s ({:+.1} %)", 100.0 * (x - v) / v)
+                        }),
                 ]);
             }
             out.push_str(&table(
@@ -450,8 +495,8 @@ fn run_common(
                     "standoff",
                     "angle",
                     "Vp",
-                    "binding limit",
-                    "margin",
+                    "limit reached",
+                    "verdict changes at Vp",
                 ],
                 &trows,
             ));
@@ -477,7 +522,7 @@ fn run_common(
 fn one_angle(grid: &GridValues) -> bool {
     grid.angles
         .as_ref()
-        .map_or(true, |a| a.iter().all(|x| (x - a[0]).abs() < 1e-12))
+        .is_none_or(|a| a.iter().all(|x| (x - a[0]).abs() < 1e-12))
 }
 
 fn point_label(grid: &GridValues, i: usize, j: usize) -> String {
