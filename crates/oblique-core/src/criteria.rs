@@ -87,10 +87,10 @@ impl CriterionId {
     pub fn source(self) -> &'static str {
         match self {
             CriterionId::DeribasLower => {
-                "Deribas et al.; k = 0.6 for carefully cleaned surfaces up to 1.2 (from memory, physics-notes.md §4)"
+                "Deribas et al.; k = 0.6 for carefully cleaned surfaces up to 1.2 (from memory; see docs/theory.md)"
             }
             CriterionId::StrengthLower => {
-                "Wittman 1973; Carpenter & Wittman 1975 (cited; formula from memory, physics-notes.md §4)"
+                "Wittman 1973; Carpenter & Wittman 1975 (cited; formula from memory; see docs/theory.md)"
             }
             CriterionId::PressureLower => "HEL relation as quoted from Kore et al. 2010 (confirmed); 5 HEL is common practice for magnetic pulse welding",
             CriterionId::MeltingUpper => {
