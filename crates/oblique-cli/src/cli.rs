@@ -73,10 +73,10 @@ impl From<ConventionArg> for oblique_core::Convention {
 #[group(required = true, multiple = false)]
 pub struct VelocityInput {
     /// Impact (flyer) velocity Vp, e.g. 350m/s or 0.35km/s.
-    #[arg(long, value_name = "SPEED", value_parser = qarg::positive_velocity)]
+    #[arg(long, value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
     pub velocity: Option<f64>,
     /// Collision-point velocity Vc along the parent, e.g. 2.4km/s (Vp then follows from the convention).
-    #[arg(long = "collision-velocity", value_name = "SPEED", value_parser = qarg::positive_velocity)]
+    #[arg(long = "collision-velocity", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
     pub collision_velocity: Option<f64>,
 }
 
@@ -84,13 +84,13 @@ pub struct VelocityInput {
 #[derive(Debug, Clone, Default, Args)]
 pub struct ConstantArgs {
     /// Deribas constant k (default 0.6, carefully cleaned surfaces; up to 1.2).
-    #[arg(long = "deribas-k", value_name = "K", value_parser = qarg::positive_number)]
+    #[arg(long = "deribas-k", value_name = "K", allow_hyphen_values = true, value_parser = qarg::positive_number)]
     pub deribas_k: Option<f64>,
     /// Wittman melting constant N (default 0.11).
-    #[arg(long = "wittman-n", value_name = "N", value_parser = qarg::positive_number)]
+    #[arg(long = "wittman-n", value_name = "N", allow_hyphen_values = true, value_parser = qarg::positive_number)]
     pub wittman_n: Option<f64>,
     /// Required multiple of the Hugoniot elastic limit for the pressure limit (default 5).
-    #[arg(long = "hel-multiple", value_name = "M", value_parser = qarg::positive_number)]
+    #[arg(long = "hel-multiple", value_name = "M", allow_hyphen_values = true, value_parser = qarg::positive_number)]
     pub hel_multiple: Option<f64>,
 }
 
@@ -114,15 +114,15 @@ pub struct CheckArgs {
     #[arg(long, value_name = "ID", required_unless_present = "pair")]
     pub parent: Option<String>,
     /// Flyer thickness, e.g. 1mm (enters the melting limit and the wavelength).
-    #[arg(long = "flyer-thickness", value_name = "LENGTH", value_parser = qarg::positive_length, required_unless_present = "pair")]
+    #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length, required_unless_present = "pair")]
     pub flyer_thickness: Option<f64>,
     /// Parent thickness, e.g. 10mm (only for the dissipated energy; default: a massive parent).
-    #[arg(long = "parent-thickness", value_name = "LENGTH", value_parser = qarg::positive_length)]
+    #[arg(long = "parent-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
     pub parent_thickness: Option<f64>,
     #[command(flatten)]
     pub velocity: VelocityInput,
     /// Dynamic collision angle beta, strictly between 0 and 90 deg, e.g. 12deg.
-    #[arg(long, value_name = "ANGLE", value_parser = qarg::angle)]
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
     pub angle: f64,
     /// How Vp relates to Vc: bisector, normal-to-flyer or normal-to-parent (required unless --pair gives it).
     #[arg(long, value_enum, value_name = "CONVENTION")]
@@ -220,7 +220,7 @@ pub enum PairCommand {
         #[arg(long, value_name = "ID")]
         parent: String,
         /// Flyer thickness, e.g. 1.5mm.
-        #[arg(long = "flyer-thickness", value_name = "LENGTH", value_parser = qarg::positive_length)]
+        #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
         flyer_thickness: f64,
         /// Convention in which the trials' velocities are recorded.
         #[arg(long, value_enum, default_value = "normal-to-flyer")]
@@ -239,11 +239,11 @@ pub enum PairCommand {
     Observe {
         /// Pair name.
         name: String,
-        /// Measured impact velocity, in the pair's convention.
-        #[arg(long, value_name = "SPEED", value_parser = qarg::positive_velocity)]
+        /// Measured impact velocity in the pair's convention, e.g. 320m/s.
+        #[arg(long, value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
         velocity: f64,
-        /// Collision angle.
-        #[arg(long, value_name = "ANGLE", value_parser = qarg::angle)]
+        /// Collision angle, strictly between 0 and 90 deg, e.g. 9deg.
+        #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
         angle: f64,
         /// What the section or peel test showed.
         #[arg(long, value_enum)]
@@ -261,13 +261,13 @@ pub enum PairCommand {
         #[arg(long, value_enum, default_value = "measured")]
         method: MethodArg,
         /// Standard uncertainty of the velocity, e.g. 15m/s.
-        #[arg(long = "velocity-uncertainty", value_name = "SPEED", value_parser = qarg::positive_velocity)]
+        #[arg(long = "velocity-uncertainty", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
         velocity_uncertainty: Option<f64>,
         /// Standard uncertainty of the angle, e.g. 1deg.
-        #[arg(long = "angle-uncertainty", value_name = "ANGLE", value_parser = qarg::angle)]
+        #[arg(long = "angle-uncertainty", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
         angle_uncertainty: Option<f64>,
         /// Date of the shot, YYYY-MM-DD (default: today).
-        #[arg(long, value_name = "DATE")]
+        #[arg(long, value_name = "DATE", value_parser = qarg::date)]
         date: Option<String>,
         /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
         #[arg(long = "if-unchanged", value_name = "SHA256")]

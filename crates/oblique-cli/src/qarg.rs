@@ -27,7 +27,9 @@ pub fn angle(s: &str) -> Result<f64, String> {
     if deg > 0.0 && deg < 90.0 {
         Ok(rad)
     } else {
-        Err(format!("collision angle {deg} deg is outside (0, 90) deg"))
+        Err(format!(
+            "collision angle {deg:.3} deg is outside (0, 90) deg"
+        ))
     }
 }
 
@@ -38,7 +40,7 @@ pub fn angle_or_zero(s: &str) -> Result<f64, String> {
     if (0.0..90.0).contains(&deg) {
         Ok(rad)
     } else {
-        Err(format!("angle {deg} deg is outside [0, 90) deg"))
+        Err(format!("angle {deg:.3} deg is outside [0, 90) deg"))
     }
 }
 
@@ -72,4 +74,15 @@ pub fn point(s: &str) -> Result<(f64, f64), String> {
         .split_once(',')
         .ok_or_else(|| format!("'{s}' is not VELOCITY,ANGLE (for example 320m/s,9deg)"))?;
     Ok((positive_velocity(v)?, angle(a)?))
+}
+
+/// A calendar date YYYY-MM-DD.
+pub fn date(s: &str) -> Result<String, String> {
+    if oblique_window::pair::is_iso_date(s) {
+        Ok(s.to_string())
+    } else {
+        Err(format!(
+            "'{s}' is not a calendar date: write it as YYYY-MM-DD, e.g. 2026-11-30"
+        ))
+    }
 }

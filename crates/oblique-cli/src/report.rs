@@ -452,7 +452,7 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
             let _ = writeln!(
                 h,
                 "<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
-                d.index,
+                d.index + 1,
                 fmt(d.velocity_m_s, 0),
                 fmt(d.angle_deg, 2),
                 d.observed.as_str(),
@@ -470,7 +470,7 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
             let _ = writeln!(
                 h,
                 "<tr><td>{}</td><td class=\"num\">{}{}</td><td class=\"num\">{}{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
-                o.index,
+                o.index + 1,
                 fmt(o.velocity.si(), 0),
                 o.velocity_uncertainty.map_or(String::new(), |u| format!(" &#177; {}", fmt(u.si(), 0))),
                 fmt(o.angle.degrees(), 2),

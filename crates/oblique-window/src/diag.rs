@@ -9,7 +9,7 @@ use std::fmt;
 pub struct Diagnostic {
     /// The file as the user named it (or `built-in:NAME`).
     pub file: String,
-    /// 1-based line.
+    /// 1-based line; 0 for a problem with a whole file or folder (cannot read it).
     pub line: usize,
     /// 1-based column.
     pub col: usize,
@@ -23,7 +23,12 @@ pub struct Diagnostic {
 
 impl fmt::Display for Diagnostic {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{}:{}:{}: ", self.file, self.line, self.col)?;
+        if self.line == 0 {
+            // A problem with a whole file or folder: no position to give.
+            write!(f, "{}: ", self.file)?;
+        } else {
+            write!(f, "{}:{}:{}: ", self.file, self.line, self.col)?;
+        }
         if !self.field.is_empty() {
             write!(f, "field `{}`: ", self.field)?;
         }

@@ -73,8 +73,8 @@ struct Source {
 fn io_problem(display: &str, message: String) -> Diagnostic {
     Diagnostic {
         file: display.to_string(),
-        line: 1,
-        col: 1,
+        line: 0,
+        col: 0,
         field: String::new(),
         message,
         hint: None,
@@ -90,8 +90,8 @@ fn user_files(dir: &Path, problems: &mut Vec<Diagnostic>) -> (Option<Source>, Ve
         Err(e) => {
             problems.push(Diagnostic {
                 file: display_dir,
-                line: 1,
-                col: 1,
+                line: 0,
+                col: 0,
                 field: String::new(),
                 message: format!("cannot read library folder: {e}"),
                 hint: Some("check the path given with --library or OBLIQUE_LIBRARY".into()),
@@ -212,10 +212,12 @@ impl Library {
                             _ => false,
                         };
                         if same_folder {
+                            let (line, col) =
+                                crate::ronpath::RonIndex::scan(&s.text).locate(&s.text, "name");
                             problems.push(Diagnostic {
                                 file: w.origin.display.clone(),
-                                line: 1,
-                                col: 1,
+                                line,
+                                col,
                                 field: "name".into(),
                                 message: format!(
                                     "duplicate pair name '{}' (also in {})",

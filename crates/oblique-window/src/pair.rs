@@ -391,6 +391,31 @@ pub struct PairWindow {
     pub origin: Origin,
 }
 
+/// Whether `s` is a calendar date written YYYY-MM-DD (Gregorian, years 1900 to 2999).
+pub fn is_iso_date(s: &str) -> bool {
+    let b = s.as_bytes();
+    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
+        return false;
+    }
+    let num = |r: std::ops::Range<usize>| {
+        s.get(r)
+            .filter(|t| t.bytes().all(|c| c.is_ascii_digit()))
+            .and_then(|t| t.parse::<u32>().ok())
+    };
+    let (Some(y), Some(m), Some(d)) = (num(0..4), num(5..7), num(8..10)) else {
+        return false;
+    };
+    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
+    let days = match m {
+        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
+        4 | 6 | 9 | 11 => 30,
+        2 if leap => 29,
+        2 => 28,
+        _ => return false,
+    };
+    (1900..=2999).contains(&y) && d >= 1 && d <= days
+}
+
 /// Resolve a material id against the library, falling back to the file's inline materials.
 fn resolve(
     c: &mut Collector<'_>,
@@ -810,6 +835,15 @@ pub fn parse_pair_file(
             .angle_uncertainty
             .as_ref()
             .and_then(|t| c.quantity(&format!("{base}.angle_uncertainty"), t, QuantityKind::Angle));
+        if let Some(d) = &o.date {
+            if !is_iso_date(d) {
+                c.push(
+                    &format!("{base}.date"),
+                    format!("date '{d}' is not a calendar date YYYY-MM-DD"),
+                    Some("write it like \"2026-11-30\"".into()),
+                );
+            }
+        }
         for (field, value) in [("velocity_uncertainty", vu), ("angle_uncertainty", au)] {
             if let Some(u) = value {
                 if !(u > 0.0) {
@@ -885,5 +919,31 @@ impl PairWindow {
             self.flyer_thickness,
             self.parent_thickness,
         )
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::is_iso_date;
+
+    #[test]
+    fn calendar_dates() {
+        for ok in ["2026-11-30", "2024-02-29", "2000-02-29", "1999-12-31"] {
+            assert!(is_iso_date(ok), "{ok}");
+        }
+        for bad in [
+            "yesterday",
+            "2026-13-01",
+            "2026-02-31",
+            "2023-02-29",
+            "1900-02-29",
+            "2026-1-1",
+            "26-11-30",
+            "2026/11/30",
+            "2026-00-10",
+            "2026-11-00",
+        ] {
+            assert!(!is_iso_date(bad), "{bad}");
+        }
     }
 }

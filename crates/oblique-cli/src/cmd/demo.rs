@@ -41,8 +41,12 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
         .pair(DEMO_PAIR)
         .map_err(|m| Fail::other(format!("the built-in demo pair is missing: {m}")))?
         .clone();
-    std::fs::create_dir_all(&a.out)
-        .map_err(|e| Fail::other(format!("cannot create {}: {e}", a.out.display())))?;
+    std::fs::create_dir_all(&a.out).map_err(|e| {
+        Fail::input(format!(
+            "--out {}: cannot create the folder: {e}",
+            a.out.display()
+        ))
+    })?;
     let setup = window.setup()?;
     let mut s = String::new();
     s.push_str("oblique demo: an INVENTED scenario. The Harbourside Busbar Works (fictional) must choose a\n");

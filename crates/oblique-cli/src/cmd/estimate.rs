@@ -282,7 +282,7 @@ pub struct EstimateCommon {
     #[arg(long, value_name = "ETA", value_parser = parse::efficiency)]
     pub efficiency: Option<f64>,
     /// Collision angle from your geometry (taper, chamfer), e.g. 8deg; checks the result against --pair.
-    #[arg(long, value_name = "ANGLE", value_parser = qarg::angle, requires = "pair")]
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle, requires = "pair")]
     pub angle: Option<f64>,
     /// Pair window to check against (also the default flyer material and thickness).
     #[arg(long, value_name = "NAME")]
@@ -316,7 +316,7 @@ pub struct ExplosiveArgs {
     #[arg(long = "charge-ratio", value_name = "C/M", value_parser = parse::number, allow_hyphen_values = true)]
     pub charge_ratio: Option<f64>,
     /// Preset angle between flyer and parent, e.g. 0deg for the parallel set-up.
-    #[arg(long = "preset-angle", value_name = "ANGLE", value_parser = qarg::angle_or_zero, allow_hyphen_values = true)]
+    #[arg(long = "preset-angle", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_or_zero, allow_hyphen_values = true)]
     pub preset_angle: Option<f64>,
     /// Pair window to check the resulting point against.
     #[arg(long, value_name = "NAME")]
@@ -368,7 +368,7 @@ pub struct SweepCommon {
     #[arg(long = "standoff-steps", value_name = "N", default_value_t = 5)]
     pub standoff_steps: usize,
     /// Collision angle from your geometry, the same at every standoff, e.g. 8deg.
-    #[arg(long, value_name = "ANGLE", value_parser = qarg::angle, conflicts_with = "angle_per_standoff")]
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle, conflicts_with = "angle_per_standoff")]
     pub angle: Option<f64>,
     /// One angle per standoff, in the order of --standoff (a list, or a range A..B spread over them).
     #[arg(long = "angle-per-standoff", value_name = "LIST|A..B", value_parser = grid::angle_grid)]

@@ -475,6 +475,13 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
         if oblique_window::Outcome::parse(&entry.outcome).is_none() {
             problems.push(format!("{display}:{row}: field 'outcome': unknown outcome '{}'\n  hint: use welded, not-welded, partial or melted", entry.outcome));
         }
+        if let Some(d) = &entry.date {
+            if !oblique_window::pair::is_iso_date(d) {
+                problems.push(format!(
+                    "{display}:{row}: field 'date': '{d}' is not a calendar date YYYY-MM-DD"
+                ));
+            }
+        }
         if entry.source.is_empty() {
             problems.push(format!("{display}:{row}: field 'source' is empty"));
         }
@@ -666,7 +673,7 @@ fn show_human(w: &PairWindow) -> String {
         .iter()
         .map(|o| {
             vec![
-                o.index.to_string(),
+                (o.index + 1).to_string(),
                 format!("{:.0}", o.velocity.si()),
                 format!("{:.2}", o.angle.degrees()),
                 o.outcome.as_str().into(),
@@ -730,7 +737,7 @@ fn agreement_human(w: &PairWindow, a: &oblique_window::Agreement) -> String {
         for d in &a.disagreements {
             s.push_str(&format!(
                 "  #{} {:.0} m/s, {:.2} deg: observed {}, predicted {}; misjudged by {}: {}\n    source: {}\n",
-                d.index,
+                d.index + 1,
                 d.velocity_m_s,
                 d.angle_deg,
                 d.observed.as_str(),

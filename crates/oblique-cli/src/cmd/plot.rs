@@ -48,7 +48,7 @@ pub struct PlotArgs {
     #[arg(long, value_name = "ID", required_unless_present = "pair")]
     pub parent: Option<String>,
     /// Flyer thickness (without --pair), e.g. 1mm.
-    #[arg(long = "flyer-thickness", value_name = "LENGTH", value_parser = qarg::positive_length, required_unless_present = "pair")]
+    #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length, required_unless_present = "pair")]
     pub flyer_thickness: Option<f64>,
     /// Convention (required without --pair).
     #[arg(long, value_enum)]
@@ -57,7 +57,7 @@ pub struct PlotArgs {
     #[arg(long, value_enum, default_value = "angle-velocity")]
     pub plane: PlaneArg,
     /// A proposed point VELOCITY,ANGLE, e.g. 320m/s,9deg (repeatable).
-    #[arg(long = "point", value_name = "V,ANGLE", value_parser = qarg::point)]
+    #[arg(long = "point", value_name = "V,ANGLE", allow_hyphen_values = true, value_parser = qarg::point)]
     pub point: Vec<(f64, f64)>,
     /// Proposed points from a CSV file.
     #[arg(long, value_name = "FILE.csv")]
@@ -166,8 +166,14 @@ pub fn window_from(
 
 /// Write a file the user asked for, atomically.
 pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
-    oblique_window::write::atomic_write(path, bytes, None)
-        .map_err(|e| Fail::other(format!("cannot write {}: {e}", path.display())))
+    use oblique_window::write::WriteError;
+    oblique_window::write::atomic_write(path, bytes, None).map_err(|e| match e {
+        WriteError::Io { source, .. } => Fail::input(format!(
+            "{}: cannot write: {source}\n  hint: check that the folder exists and is writable",
+            path.display()
+        )),
+        other => Fail::other(format!("cannot write {}: {other}", path.display())),
+    })
 }
 
 pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {

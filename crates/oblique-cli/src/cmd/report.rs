@@ -26,8 +26,8 @@ pub struct ReportArgs {
     pub pair: String,
     #[command(flatten)]
     pub velocity: VelocityInput,
-    /// Collision angle, e.g. 10deg.
-    #[arg(long, value_name = "ANGLE", value_parser = qarg::angle)]
+    /// Collision angle, strictly between 0 and 90 deg, e.g. 10deg.
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
     pub angle: f64,
     /// Convention of --velocity (default: the pair's).
     #[arg(long, value_enum)]
