@@ -311,6 +311,26 @@ fn bad_rows_skip_counts_them() {
         .contains("the unit belongs in the header"));
 }
 
+/// Rejected rows between two classified rows leave that stretch without a verdict: it counts in
+/// the interface length but never as welded.
+#[test]
+fn rejected_rows_leave_a_stretch_without_verdict() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = dir.path().join("gap.csv");
+    let mut text = String::from("position[mm],velocity[m/s],angle[deg]\n0,450,10\n");
+    for k in 1..10 {
+        text.push_str(&format!("{k},,10\n"));
+    }
+    text.push_str("10,450,10\n");
+    std::fs::write(&input, text).expect("write");
+    let (v, _) = summary_json(&[path_str(&input), "--bad-rows", "skip"]);
+    assert_eq!(v["rows_classified"], 2);
+    assert_eq!(v["rows_rejected"], 9);
+    assert_eq!(v["welded_length_m"].as_f64(), Some(0.0));
+    assert!((v["unclassified_length_m"].as_f64().expect("length") - 0.010).abs() < 1e-12);
+    assert_eq!(v["welded_fraction"].as_f64(), Some(0.0));
+}
+
 #[test]
 fn bad_rows_save_writes_a_side_file_with_reasons() {
     let dir = tempfile::tempdir().expect("tempdir");

@@ -238,6 +238,10 @@ pub struct Summary {
     prev_boundary: f64,
     /// Owned length per verdict, m.
     pub length_by_verdict: [f64; 3],
+    /// Length between classified rows that had rejected rows between them: no verdict there.
+    pub length_unclassified: f64,
+    /// Rejected rows came after the previous classified row (set by the caller before `push`).
+    pub pending_gap: bool,
     /// Strip accumulator (only when asked for).
     pub strip: Option<StripAcc>,
     want_strip: bool,
@@ -302,6 +306,8 @@ impl Summary {
             prev: None,
             prev_boundary: 0.0,
             length_by_verdict: [0.0; 3],
+            length_unclassified: 0.0,
+            pending_gap: false,
             strip: None,
             want_strip: plots.0,
             cur_seg: None,
@@ -390,6 +396,20 @@ impl Summary {
                 increasing: self.direction > 0.0,
             });
         }
+        if std::mem::take(&mut self.pending_gap) {
+            // Rows between px and x were rejected: that stretch has no verdict. The previous
+            // point's share ends at px, this point's starts at x, and the segment breaks.
+            self.length_by_verdict[pv as usize] += (px - self.prev_boundary).abs();
+            if let Some(st) = &mut self.strip {
+                st.add(self.prev_boundary, px, pv as usize);
+            }
+            self.length_unclassified += (x - px).abs();
+            self.close_segment(px);
+            self.cur_seg = Some(new_run(u8::from(p.verdict != 0), x, p));
+            self.prev_boundary = x;
+            self.prev = Some((x, p.verdict, p.row));
+            return Ok(());
+        }
         let boundary = 0.5 * (px + x);
         self.length_by_verdict[pv as usize] += (boundary - self.prev_boundary).abs();
         if let Some(st) = &mut self.strip {
@@ -462,7 +482,7 @@ impl Summary {
     /// Welded fraction and its basis.
     pub fn welded_fraction(&self) -> (Option<f64>, &'static str) {
         if !self.unsorted {
-            let total: f64 = self.length_by_verdict.iter().sum();
+            let total: f64 = self.length_by_verdict.iter().sum::<f64>() + self.length_unclassified;
             if total > 0.0 {
                 return (Some(self.length_by_verdict[0] / total), "length");
             }
@@ -614,6 +634,10 @@ impl Summary {
             } else {
                 Value::Null
             },
+        );
+        o.insert(
+            "unclassified_length_m".into(),
+            json!(sorted.then(|| sig(self.length_unclassified))),
         );
         o.insert("welded_fraction".into(), json!(frac.map(sig)));
         o.insert("welded_fraction_basis".into(), json!(basis));
@@ -784,6 +808,12 @@ impl Summary {
                     "by count: the positions span no length"
                 }
             ));
+            if self.length_unclassified > 0.0 {
+                s.push_str(&format!(
+                    "no verdict over {:.3} mm between classified rows where rows were rejected (counted in the total, not as welded)\n",
+                    self.length_unclassified * 1e3
+                ));
+            }
             s.push_str(&format!(
                 "segments: {} welded, {} unwelded",
                 self.segments_total[0], self.segments_total[1]
