@@ -61,6 +61,10 @@ const C_NOT: RGBColor = RGBColor(224, 138, 0);
 const C_PARTIAL: RGBColor = RGBColor(123, 50, 148);
 const C_MELTED: RGBColor = RGBColor(165, 15, 21);
 const C_INFO: RGBColor = RGBColor(120, 120, 120);
+/// Inside the model limits, but where a user boundary does not span (outside the trial data).
+const REGION_UNTRIED: RGBColor = RGBColor(236, 241, 247);
+const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
+const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
 
 fn criterion_colour(id: CriterionId) -> RGBColor {
     match id {
@@ -132,7 +136,8 @@ pub fn classify_point(window: &PairWindow, vp: f64, beta: f64) -> CmdResult<Clas
 struct Field {
     xs: Vec<f64>,
     ys: Vec<f64>,
-    inside: Vec<bool>,
+    /// 0 outside, 1 inside, 2 inside but outside the trial data (a boundary does not span it).
+    region: Vec<u8>,
     margins: Vec<(CriterionId, Vec<f64>)>,
     sonic_parent: Vec<f64>,
     sonic_flyer: Vec<f64>,
@@ -154,7 +159,7 @@ fn evaluate_field(window: &PairWindow, plane: Plane, x_max: f64, y_max: f64) -> 
         .iter()
         .map(|id| (*id, vec![f64::NAN; NX * NY]))
         .collect();
-    let mut inside = vec![false; NX * NY];
+    let mut region = vec![0u8; NX * NY];
     let mut sonic_parent = vec![f64::NAN; NX * NY];
     let mut sonic_flyer = vec![f64::NAN; NX * NY];
     let c0p = setup.parent.sound_speed().si();
@@ -177,7 +182,11 @@ fn evaluate_field(window: &PairWindow, plane: Plane, x_max: f64, y_max: f64) -> 
                 col.collision_velocity,
             )?;
             let c = classify_with_jetting(window, &setup, &col, jet)?;
-            inside[k] = c.inside;
+            region[k] = match (c.inside, c.outside_trial_data) {
+                (false, _) => 0,
+                (true, false) => 1,
+                (true, true) => 2,
+            };
             for (id, m) in &mut margins {
                 if let Some(r) = c.evaluation.criterion(*id) {
                     m[k] = r.margin;
@@ -188,7 +197,7 @@ fn evaluate_field(window: &PairWindow, plane: Plane, x_max: f64, y_max: f64) -> 
     Ok(Field {
         xs,
         ys,
-        inside,
+        region,
         margins,
         sonic_parent,
         sonic_flyer,
@@ -378,9 +387,10 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
         for j in 0..NY {
             let mut i = 0;
             while i < NX {
-                if field.inside[j * NX + i] {
+                let code = field.region[j * NX + i];
+                if code != 0 {
                     let start = i;
-                    while i < NX && field.inside[j * NX + i] {
+                    while i < NX && field.region[j * NX + i] == code {
                         i += 1;
                     }
                     rects.push(Rectangle::new(
@@ -388,7 +398,11 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                             (start as f64 * dx, j as f64 * dy),
                             (i as f64 * dx, (j + 1) as f64 * dy),
                         ],
-                        REGION.filled(),
+                        if code == 1 {
+                            REGION.filled()
+                        } else {
+                            REGION_UNTRIED.filled()
+                        },
                     ));
                 } else {
                     i += 1;
@@ -440,11 +454,19 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
         }
 
         // Criterion contours.
-        let mut legend: Vec<(String, ShapeStyle, bool)> = vec![(
+        // Legend marks: 0 solid line or fill, 1 long dashes, 2 dots, 3 medium dashes.
+        let mut legend: Vec<(String, ShapeStyle, u8)> = vec![(
             "weldable: every active limit holds".into(),
             REGION.filled(),
-            false,
+            0,
         )];
+        if field.region.contains(&2) {
+            legend.push((
+                "inside the model limits only: a user boundary does not span here (outside the trial data)".into(),
+                REGION_UNTRIED.filled(),
+                0,
+            ));
+        }
         for (id, m) in &field.margins {
             let colour = criterion_colour(*id);
             let informational = *id == CriterionId::WavyTransition;
@@ -452,7 +474,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
             for line in contour(&field.xs, &field.ys, m) {
                 if informational {
                     chart
-                        .draw_series(DashedLineSeries::new(line, 6, 4, style))
+                        .draw_series(DashedLineSeries::new(line, 10, 4, style))
                         .map_err(plot_err)?;
                 } else {
                     chart
@@ -460,16 +482,18 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                         .map_err(plot_err)?;
                 }
             }
-            legend.push((criterion_label(w, *id), style, informational));
+            legend.push((criterion_label(w, *id), style, u8::from(informational)));
         }
-        let sonic_style = C_INFO.stroke_width(1);
-        for (f, label) in [
+        for (f, label, sonic_style, (dash, gap), mark) in [
             (
                 &field.sonic_parent,
                 format!(
                     "Vc = C0 of parent ({:.0} m/s, info)",
                     w.parent.material.sound_speed().si()
                 ),
+                C_SONIC_PARENT.stroke_width(1),
+                (2, 3),
+                2u8,
             ),
             (
                 &field.sonic_flyer,
@@ -477,14 +501,17 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                     "Vf = C0 of flyer ({:.0} m/s, info)",
                     w.flyer.material.sound_speed().si()
                 ),
+                C_SONIC_FLYER.stroke_width(2),
+                (5, 5),
+                3u8,
             ),
         ] {
             for line in contour(&field.xs, &field.ys, f) {
                 chart
-                    .draw_series(DashedLineSeries::new(line, 2, 4, sonic_style))
+                    .draw_series(DashedLineSeries::new(line, dash, gap, sonic_style))
                     .map_err(plot_err)?;
             }
-            legend.push((label, sonic_style, true));
+            legend.push((label, sonic_style, mark));
         }
 
         // User boundaries as drawn, converted to this plane point by point.
@@ -530,7 +557,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                     b.weld_side.as_str()
                 ),
                 BLACK.stroke_width(3),
-                false,
+                0,
             ));
         }
 
@@ -601,7 +628,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
             legend.push((
                 format!("process curve: {} (filled = inside)", c.label),
                 BLACK.stroke_width(2),
-                true,
+                1,
             ));
         }
 
@@ -648,13 +675,13 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                 legend.push((
                     "proposed point (verdict beside it)".into(),
                     BLACK.filled(),
-                    false,
+                    0,
                 ));
             }
         }
 
         if let Some(text) = binned_legend {
-            legend.push((text, BLACK.mix(0.35).filled(), false));
+            legend.push((text, BLACK.mix(0.35).filled(), 0));
         }
 
         // Legend panel, outside the data.
@@ -667,19 +694,27 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                 ("sans-serif", 15).into_font(),
             ))
             .map_err(plot_err)?;
-        for (label, style, dashed) in &legend {
-            if style.filled && !*dashed {
+        for (label, style, mark) in &legend {
+            let pattern: Option<(i32, i32)> = match mark {
+                1 => Some((7, 3)),
+                2 => Some((2, 3)),
+                3 => Some((5, 5)),
+                _ => None,
+            };
+            if style.filled && pattern.is_none() {
                 legend_area
                     .draw(&Rectangle::new([(10, y - 5), (34, y + 5)], *style))
                     .map_err(plot_err)?;
-            } else if *dashed {
-                for k in 0..3 {
+            } else if let Some((dash, gap)) = pattern {
+                let mut x0 = 10;
+                while x0 < 34 {
                     legend_area
                         .draw(&PathElement::new(
-                            vec![(10 + k * 9, y), (15 + k * 9, y)],
+                            vec![(x0, y), ((x0 + dash).min(34), y)],
                             *style,
                         ))
                         .map_err(plot_err)?;
+                    x0 += dash + gap;
                 }
             } else {
                 legend_area
