@@ -124,16 +124,36 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
     )?;
     let setup = window.setup()?;
     let c = classify_explained(&window, &setup, &point)?;
+    // A point given in another convention than the window's is re-expressed in the window's
+    // (same Vc and beta, so the same collision); say so, with the value as given.
+    let converted = (point.convention != window.convention).then(|| {
+        format!(
+            "note: the point was given in the {} convention (Vp {:.1} m/s, Vc {:.1} m/s) and is checked in the window's {} convention (same Vc and angle, Vp {:.1} m/s)\n",
+            point.convention,
+            point.impact_velocity.si(),
+            point.collision_velocity.si(),
+            window.convention,
+            c.evaluation.collision.impact_velocity.si()
+        )
+    });
     if a.json {
         let mut v = classification_json(&window, &c);
-        if a.pair.is_none() {
-            if let Some(o) = v.as_object_mut() {
+        if let Some(o) = v.as_object_mut() {
+            if a.pair.is_none() {
                 o.insert("pair".into(), serde_json::Value::Null);
             }
+            o.insert(
+                "input_convention".into(),
+                serde_json::json!(point.convention.as_str()),
+            );
+            o.insert(
+                "input_impact_velocity_m_s".into(),
+                crate::output::sig(point.impact_velocity.si()),
+            );
         }
         return emit_json(&v);
     }
-    emit(&human(&window, &c, a.pair.is_some()))
+    emit(&(converted.unwrap_or_default() + &human(&window, &c, a.pair.is_some())))
 }
 
 /// The two headroom cells of a limit: the impact velocity at this angle and the angle at this

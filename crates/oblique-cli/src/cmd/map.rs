@@ -34,8 +34,8 @@ Positions must run monotonically along the interface (either way); --unsorted ac
 but then computes no lengths or segments.
 
 Output: one row per classified input row: row (line number), the input fields as written, then
-verdict, binding limit, Vp, Vc, Vf, impact pressure, jetting critical angle, and the margin of
-every decisive limit (positive = on the welding side). The summary goes to standard error, or to
+verdict, binding limit, Vc, Vf, impact pressure, and the margin of every decisive limit
+(positive = on the welding side); --all-columns adds Vp and the jetting critical angle. The summary goes to standard error, or to
 standard output when -o is given; --json prints it as JSON instead (needs -o).
 
 Examples:

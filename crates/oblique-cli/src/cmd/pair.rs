@@ -414,7 +414,14 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
     ] {
         if let Some((_, unit)) = cols.get(q) {
             if needs && unit.is_none() {
-                return Err(Fail::input(format!("{display}:1: column '{q}' has no unit\n  hint: write it as {q}[m/s] or {q}[deg]")));
+                let example = if q.starts_with("velocity") {
+                    "m/s"
+                } else {
+                    "deg"
+                };
+                return Err(Fail::input(format!(
+                    "{display}:1: column '{q}' has no unit\n  hint: write it as {q}[{example}]"
+                )));
             }
         }
     }
@@ -435,19 +442,31 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
                 .map(str::to_string)
                 .filter(|s| !s.is_empty())
         };
-        let with_unit =
-            |k: &str, kind: QuantityKind, problems: &mut Vec<String>| -> Option<String> {
-                let (_, unit) = cols.get(k)?;
-                let raw = get(k)?;
-                let text = format!("{raw} {}", unit.clone().unwrap_or_default());
-                match parse_quantity(&text, kind) {
-                    Ok(_) => Some(text),
-                    Err(e) => {
-                        problems.push(format!("{display}:{row}: field '{k}': {e}"));
-                        None
-                    }
+        let with_unit = |k: &str,
+                         kind: QuantityKind,
+                         problems: &mut Vec<String>|
+         -> Option<String> {
+            let (_, unit) = cols.get(k)?;
+            let raw = get(k)?;
+            if raw
+                .trim_end()
+                .ends_with(|c: char| c.is_ascii_alphabetic() || c == '/' || c == '%')
+            {
+                problems.push(format!(
+                        "{display}:{row}: field '{k}': '{raw}' carries a unit, but the unit belongs in the header ([{}]): write the number only",
+                        unit.clone().unwrap_or_default()
+                    ));
+                return None;
+            }
+            let text = format!("{raw} {}", unit.clone().unwrap_or_default());
+            match parse_quantity(&text, kind) {
+                Ok(_) => Some(text),
+                Err(e) => {
+                    problems.push(format!("{display}:{row}: field '{k}': {e}"));
+                    None
                 }
-            };
+            }
+        };
         let v = with_unit("velocity", QuantityKind::Velocity, &mut problems);
         let a = with_unit("angle", QuantityKind::Angle, &mut problems);
         if get("velocity").is_none() {

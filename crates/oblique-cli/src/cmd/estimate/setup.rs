@@ -51,7 +51,17 @@ pub struct Input {
 #[derive(Debug, Clone, Default)]
 pub struct Inputs(pub Vec<Input>);
 
+/// The warning printed with every estimate whose efficiency was not fitted to a measured shot.
+pub const UNCALIBRATED: &str = "efficiency not calibrated (eta = 1): the model has not been anchored to a measured shot on this machine and coil, and lumped models usually overestimate; treat the velocity as an upper estimate and calibrate (oblique calibrate) before relying on it";
+
 impl Inputs {
+    /// Whether the efficiency is the uncalibrated default.
+    pub fn uncalibrated(&self) -> bool {
+        self.0
+            .iter()
+            .any(|i| i.key == "efficiency" && i.from.starts_with("default 1, uncalibrated"))
+    }
+
     /// Record a value.
     pub fn push(&mut self, label: &str, key: &str, si: f64, shown: String, from: String) {
         self.0.push(Input {

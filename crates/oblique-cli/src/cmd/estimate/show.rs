@@ -157,6 +157,9 @@ fn finish(
     out.push_str(&inputs_table(inputs));
     out.push('\n');
     out.push_str(&pulse_table(&est, thickness));
+    if inputs.uncalibrated() {
+        out.push_str(&format!("warning: {}\n", setup::UNCALIBRATED));
+    }
     if let Some(p) = &common.history {
         out.push_str(&format!(
             "time histories written to {} ({} samples)\n",
@@ -286,10 +289,11 @@ pub fn pulse_json(
         "energy_balance_relative_error".into(),
         sig(e.relative_error),
     );
-    o.insert(
-        "warnings".into(),
-        Value::Array(est.warnings.iter().map(|w| json!(w.to_string())).collect()),
-    );
+    let mut warnings: Vec<Value> = est.warnings.iter().map(|w| json!(w.to_string())).collect();
+    if inputs.uncalibrated() {
+        warnings.push(json!(setup::UNCALIBRATED));
+    }
+    o.insert("warnings".into(), Value::Array(warnings));
     o.insert(
         "assumptions".into(),
         json!(assumptions.trim_start_matches("assumptions: ")),

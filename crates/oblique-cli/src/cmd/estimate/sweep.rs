@@ -381,6 +381,14 @@ fn run_common(
             json!(assumptions.trim_start_matches("assumptions: ")),
         );
         inputs_json(inputs, &mut o);
+        o.insert(
+            "warnings".into(),
+            json!(if inputs.uncalibrated() {
+                vec![setup::UNCALIBRATED]
+            } else {
+                Vec::new()
+            }),
+        );
         o.insert("caution".into(), json!(CAUTION));
         return emit_json(&Value::Object(o));
     }
@@ -510,6 +518,9 @@ fn run_common(
     }
     if let Some(d) = &c.curves_csv {
         out.push_str(&format!("process curves written to {}\n", d.display()));
+    }
+    if inputs.uncalibrated() {
+        out.push_str(&format!("warning: {}\n", setup::UNCALIBRATED));
     }
     out.push_str(assumptions);
     out.push('\n');
