@@ -36,7 +36,7 @@ impl From<PlaneArg> for Plane {
   oblique plot --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --convention normal-to-flyer --plane angle-collision-velocity -o w.svg
 Points and curve files are CSV with units in the header: velocity[m/s],angle[deg],label
 (velocity is the impact velocity in the window's convention; label optional).
-PNG is not written directly (it would need system fonts): convert the SVG, e.g. rsvg-convert w.svg -o w.png")]
+PNG is not written directly (plotters' bitmap backend needs a system font library or a bundled font file for its text): convert the SVG, e.g. rsvg-convert w.svg -o w.png")]
 pub struct PlotArgs {
     /// Pair window from the library.
     #[arg(long, value_name = "NAME", conflicts_with_all = ["flyer", "parent", "flyer_thickness"])]
@@ -184,7 +184,7 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         .unwrap_or("")
         .to_ascii_lowercase();
     if ext == "png" {
-        return Err(Fail::input("-o: PNG output is not built in (plotters' bitmap backend would need system fonts)\n  hint: write an .svg and convert it, e.g. rsvg-convert window.svg -o window.png"));
+        return Err(Fail::input("-o: PNG output is not built in (plotters' bitmap backend needs a system font library or a bundled font file for its text)\n  hint: write an .svg and convert it, e.g. rsvg-convert window.svg -o window.png"));
     }
     if ext != "svg" {
         return Err(Fail::input(format!(

@@ -724,6 +724,16 @@ pub fn process_fail(e: ProcessError) -> Fail {
         ProcessError::NotUnderdamped { .. } => {
             "\n  hint: check --bank-resistance and the inductances (--bank-inductance, --coil-inductance)"
         }
+        ProcessError::Physics(oblique_core::PhysicsError::OutOfDomain { quantity, .. })
+            if quantity.contains("detonation velocity") =>
+        {
+            "\n  hint: the flyer would outrun the detonation: check --gurney-velocity against --detonation-velocity, and --mass-ratio or --charge-ratio (a larger flyer-to-charge mass ratio slows the flyer)"
+        }
+        ProcessError::Physics(oblique_core::PhysicsError::OutOfDomain { quantity, .. })
+            if quantity.contains("collision angle") =>
+        {
+            "\n  hint: the resulting collision angle is not below 90 deg: check --preset-angle and the flyer velocity (--gurney-velocity, --mass-ratio)"
+        }
         ProcessError::Physics(_) => "",
         _ => "",
     };
