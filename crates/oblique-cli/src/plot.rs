@@ -625,8 +625,20 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                         .map_err(plot_err)?;
                 }
             }
+            if req.curves.len() <= 3 {
+                legend.push((
+                    format!("process curve: {} (filled = inside)", c.label),
+                    BLACK.stroke_width(2),
+                    1,
+                ));
+            }
+        }
+        if req.curves.len() > 3 {
             legend.push((
-                format!("process curve: {} (filled = inside)", c.label),
+                format!(
+                    "{} process curves (labelled on the plot); filled markers are inside",
+                    req.curves.len()
+                ),
                 BLACK.stroke_width(2),
                 1,
             ));
