@@ -625,7 +625,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                         .map_err(plot_err)?;
                 }
             }
-            if req.curves.len() <= 3 {
+            if req.curves.len() <= 6 {
                 legend.push((
                     format!("process curve: {} (filled = inside)", c.label),
                     BLACK.stroke_width(2),
@@ -633,7 +633,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                 ));
             }
         }
-        if req.curves.len() > 3 {
+        if req.curves.len() > 6 {
             legend.push((
                 format!(
                     "{} process curves (labelled on the plot); filled markers are inside",
