@@ -674,11 +674,11 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                     chart
                         .draw_series(std::iter::once(Text::new(
                             format!("{} ({verdict})", p.label),
-                            (x + x_max / 90.0, y),
+                            (x + x_max / 120.0, y + y_max / 70.0),
                             ("sans-serif", 12)
                                 .into_font()
                                 .color(&BLACK)
-                                .pos(Pos::new(HPos::Left, VPos::Center)),
+                                .pos(Pos::new(HPos::Left, VPos::Bottom)),
                         )))
                         .map_err(plot_err)?;
                 }
