@@ -222,6 +222,12 @@ pub enum PairCommand {
         /// Flyer thickness, e.g. 1.5mm.
         #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
         flyer_thickness: f64,
+        /// Parent thickness, e.g. 12mm (only for the dissipated energy; default: a massive parent).
+        #[arg(long = "parent-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
+        parent_thickness: Option<f64>,
+        /// What the window is for, e.g. "busbar connector, tube on rod".
+        #[arg(long, value_name = "TEXT")]
+        description: Option<String>,
         /// Convention in which the trials' velocities are recorded.
         #[arg(long, value_enum, default_value = "normal-to-flyer")]
         convention: ConventionArg,

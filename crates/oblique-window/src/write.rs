@@ -307,16 +307,45 @@ pub fn append_observations(
     Ok(window)
 }
 
+/// What a new pair window file starts with.
+#[derive(Debug, Clone)]
+pub struct NewPair<'a> {
+    /// Pair name.
+    pub name: &'a str,
+    /// What the window is for (may be empty).
+    pub description: &'a str,
+    /// Flyer material id.
+    pub flyer: &'a str,
+    /// Parent material id.
+    pub parent: &'a str,
+    /// Flyer thickness with unit.
+    pub flyer_thickness: &'a str,
+    /// Parent thickness with unit, if known.
+    pub parent_thickness: Option<&'a str>,
+    /// Convention of the observations.
+    pub convention: Convention,
+    /// Who maintains the file.
+    pub maintainer: &'a str,
+    /// Creation date, YYYY-MM-DD.
+    pub date: &'a str,
+}
+
 /// The text of a new pair window file with default criteria and no data yet.
-pub fn new_pair_text(
-    name: &str,
-    flyer: &str,
-    parent: &str,
-    flyer_thickness: &str,
-    convention: Convention,
-    maintainer: &str,
-    date: &str,
-) -> String {
+pub fn new_pair_text(p: &NewPair<'_>) -> String {
+    let NewPair {
+        name,
+        description,
+        flyer,
+        parent,
+        flyer_thickness,
+        parent_thickness,
+        convention,
+        maintainer,
+        date,
+    } = p;
+    let parent_line = parent_thickness.map_or(String::new(), |t| {
+        format!("    parent_thickness: {},\n", ron_string(t))
+    });
     format!(
         r#"// Pair window for oblique: {name}. Format described in docs/window-format.md.
 // Quantities carry their units inside the strings. Criteria are at their usual defaults (docs/theory.md);
@@ -324,11 +353,11 @@ pub fn new_pair_text(
 (
     format: {format},
     name: {name_q},
-    description: "",
+    description: {description},
     flyer: {flyer},
     parent: {parent},
     flyer_thickness: {thickness},
-    convention: {convention},
+{parent_line}    convention: {convention},
     maintainer: {maintainer},
     revisions: [
         (date: {date}, note: "created with `oblique pair new`"),
@@ -349,6 +378,7 @@ pub fn new_pair_text(
 "#,
         format = ron_string(WINDOW_FORMAT),
         name_q = ron_string(name),
+        description = ron_string(description),
         flyer = ron_string(flyer),
         parent = ron_string(parent),
         thickness = ron_string(flyer_thickness),
@@ -391,15 +421,17 @@ mod tests {
 
     #[test]
     fn append_keeps_every_other_byte() {
-        let text = new_pair_text(
-            "p",
-            "a",
-            "b",
-            "1 mm",
-            Convention::NormalToFlyer,
-            "me",
-            "2026-12-01",
-        );
+        let text = new_pair_text(&NewPair {
+            name: "p",
+            description: "",
+            flyer: "a",
+            parent: "b",
+            flyer_thickness: "1 mm",
+            parent_thickness: None,
+            convention: Convention::NormalToFlyer,
+            maintainer: "me",
+            date: "2026-12-01",
+        });
         let once = append_observation_text(Path::new("p.ron"), &text, &[obs("300 m/s")]).unwrap();
         let twice = append_observation_text(Path::new("p.ron"), &once, &[obs("310 m/s")]).unwrap();
         assert!(twice.starts_with(&text[..text.find("observations: [").unwrap()]));

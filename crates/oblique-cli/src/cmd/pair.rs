@@ -7,7 +7,7 @@ use crate::output::{emit, emit_json, material_json, sig, table};
 use oblique_core::units::{parse_quantity, QuantityKind};
 use oblique_window::library::sha256_hex;
 use oblique_window::pair::{parse_pair_file, Origin};
-use oblique_window::write::{append_observations, create_new, new_pair_text, WriteError};
+use oblique_window::write::{append_observations, create_new, new_pair_text, NewPair, WriteError};
 use oblique_window::{agreement, Library, ObservationEntry, PairWindow};
 use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
@@ -193,6 +193,8 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             flyer,
             parent,
             flyer_thickness,
+            parent_thickness,
+            description,
             convention,
             maintainer,
             json,
@@ -235,15 +237,19 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 .or_else(|| std::env::var("USER").ok())
                 .unwrap_or_else(|| "unknown".into());
             let thickness = format!("{} mm", flyer_thickness * 1000.0);
-            let text = new_pair_text(
-                &name,
-                &flyer,
-                &parent,
-                &thickness,
-                convention.into(),
-                &who,
-                &today(),
-            );
+            let parent_thickness = parent_thickness.map(|t| format!("{} mm", t * 1000.0));
+            let date = today();
+            let text = new_pair_text(&NewPair {
+                name: &name,
+                description: description.as_deref().unwrap_or(""),
+                flyer: &flyer,
+                parent: &parent,
+                flyer_thickness: &thickness,
+                parent_thickness: parent_thickness.as_deref(),
+                convention: convention.into(),
+                maintainer: &who,
+                date: &date,
+            });
             // Validate before writing: a new file must load.
             let path = dir.join(format!("{name}.ron"));
             let origin = Origin {
@@ -403,7 +409,13 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
     }
     for required in ["velocity", "angle", "outcome", "source"] {
         if !cols.contains_key(required) {
-            return Err(Fail::input(format!("{display}:1: missing column '{required}'\n  hint: header like velocity[m/s],angle[deg],outcome,source")));
+            let separator = if headers.len() == 1 && headers.get(0).is_some_and(|h| h.contains(';'))
+            {
+                "\n  note: the header looks separated by ';': oblique reads comma-separated values"
+            } else {
+                ""
+            };
+            return Err(Fail::input(format!("{display}:1: missing column '{required}'\n  hint: header like velocity[m/s],angle[deg],outcome,source{separator}")));
         }
     }
     for (q, needs) in [
@@ -422,6 +434,16 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
                 return Err(Fail::input(format!(
                     "{display}:1: column '{q}' has no unit\n  hint: write it as {q}[{example}]"
                 )));
+            }
+            if let Some(u) = unit {
+                let kind = if q.starts_with("velocity") {
+                    QuantityKind::Velocity
+                } else {
+                    QuantityKind::Angle
+                };
+                if let Err(e) = parse_quantity(&format!("1 {u}"), kind) {
+                    return Err(Fail::input(format!("{display}:1: column '{q}[{u}]': {e}")));
+                }
             }
         }
     }
