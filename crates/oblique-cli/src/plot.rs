@@ -353,7 +353,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
         let (main, bottom) = root.split_vertically(HEIGHT - 26);
         let (chart_area, legend_area) = main.split_horizontally(WIDTH - LEGEND_W);
         let title = format!(
-            "{}: {} flyer {:.2} mm on {}, Vp {}",
+            "{}: {} flyer {:.2} mm on {}, convention {}",
             w.name,
             w.flyer.material.id,
             w.flyer_thickness.mm(),

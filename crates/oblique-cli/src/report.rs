@@ -160,7 +160,8 @@ pub fn html(input: &ReportInput<'_>) -> CmdResult<String> {
 body {{ font-family: "DejaVu Sans", Arial, sans-serif; margin: 2em auto; max-width: 1150px; color: #1a1a1a; line-height: 1.4; padding: 0 1em; }}
 h1 {{ font-size: 1.6em; margin-bottom: 0.2em; }}
 h2 {{ font-size: 1.25em; border-bottom: 2px solid #d0d7de; padding-bottom: 0.2em; margin-top: 1.8em; }}
-table {{ border-collapse: collapse; margin: 0.6em 0; font-size: 0.92em; }}
+table {{ border-collapse: collapse; margin: 0.6em 0; font-size: 0.88em; max-width: 100%; }}
+td, th {{ overflow-wrap: anywhere; }}
 th, td {{ border: 1px solid #c8ccd0; padding: 0.3em 0.55em; text-align: left; vertical-align: top; }}
 th {{ background: #eef2f6; }}
 td.num {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
@@ -201,6 +202,18 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
         fmt(col.angle.degrees(), 2),
         esc(col.convention.as_str())
     );
+    if c.headroom_convention != col.convention {
+        let given = col.with_convention(c.headroom_convention);
+        let _ = writeln!(
+            h,
+            "<p><b>Note:</b> the point was given as Vp = {} m/s in the <code>{}</code> convention; the window records its trials in <code>{}</code>, so the same collision (Vc = {} m/s, same angle) is checked as Vp = {} m/s. The advice below quotes velocities in the convention you gave.</p>",
+            fmt(given.impact_velocity.si(), 1),
+            esc(c.headroom_convention.as_str()),
+            esc(col.convention.as_str()),
+            fmt(col.collision_velocity.si(), 1),
+            fmt(col.impact_velocity.si(), 1)
+        );
+    }
     // The headroom of every decisive limit, nearest first, so the reader sees at once how much
     // the two controls can move.
     let mut rows: Vec<(f64, String)> = c
@@ -223,11 +236,12 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
     let list: String = rows.iter().take(4).map(|r| r.1.as_str()).collect();
     let _ = writeln!(
         h,
-        "<div class=\"verdict{}\"><div class=\"big\">Verdict: {}</div><p>{}</p><p>Nearest limits along the impact velocity at this angle:</p><ul>{}</ul>{}<p class=\"caution\">{}</p></div>",
+        "<div class=\"verdict{}\"><div class=\"big\">Verdict: {}</div><p>{}</p><p>Nearest limits along the impact velocity at this angle:</p><ul>{}</ul><p>{}</p>{}<p class=\"caution\">{}</p></div>",
         if c.inside && !c.outside_trial_data { "" } else { " outside" },
         verdict,
         esc(&c.reason),
         list,
+        esc(&oblique_window::classify::inside_stretch_text(c).map(|t| format!("Where the window is: {t}.")).unwrap_or_default()),
         if c.outside_trial_data { "<p class=\"fail\">The point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated, so the verdict rests on the model criteria there.</p>" } else { "" },
         esc(CAUTIONS[0])
     );

@@ -189,7 +189,7 @@ fn every_human_output_carries_the_caution_and_the_assumptions() {
         "impact velocity",
         "energy balance",
         "relative error",
-        "warnings",
+        "warning: efficiency not calibrated",
     ] {
         assert!(out.contains(k), "missing '{k}' in\n{out}");
     }

@@ -307,7 +307,10 @@ impl CriterionResult {
 pub fn format_in_unit(value: f64, unit: &str) -> String {
     match unit {
         "Pa" => format!("{:.2} GPa", value / 1e9),
+        // Small values get more digits, so that a failing margin never reads as zero.
+        "m/s" if value != 0.0 && value.abs() < 1.0 => format!("{value:.2} m/s"),
         "m/s" => format!("{value:.0} m/s"),
+        "deg" if value != 0.0 && value.abs() < 0.01 => format!("{value:.4} deg"),
         "deg" => format!("{value:.2} deg"),
         _ => format!("{value:.2}"),
     }

@@ -6,7 +6,7 @@ use crate::boundary::BoundaryResult;
 use crate::pair::PairWindow;
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{
-    evaluate_with_jetting, Collision, CriterionId, LimitKind, PairSetup, PhysicsError,
+    evaluate_with_jetting, Collision, Convention, CriterionId, LimitKind, PairSetup, PhysicsError,
     PointEvaluation,
 };
 use serde::Serialize;
@@ -75,6 +75,10 @@ pub struct Classification {
     /// For every decisive limit, where it is reached along the user's two controls; filled by
     /// [`explain`].
     pub headroom: Vec<(LimitRef, Headroom)>,
+    /// The convention of the headroom velocities (the window's unless the user gave another).
+    pub headroom_convention: Convention,
+    /// Where this angle and this velocity are inside the window; filled by [`explain`].
+    pub inside_stretch: Option<InsideStretch>,
 }
 
 /// Classify `collision` against `window` (the collision is re-expressed in the window's
@@ -171,6 +175,8 @@ pub fn classify_with_jetting(
         failing,
         reason: String::new(),
         headroom: Vec::new(),
+        headroom_convention: window.convention,
+        inside_stretch: None,
     };
     Ok(c)
 }
@@ -197,15 +203,17 @@ fn limit_margin(
     window: &PairWindow,
     setup: &PairSetup,
     limit: &LimitRef,
+    convention: Convention,
     vp: f64,
     beta_rad: f64,
 ) -> Option<f64> {
     let col = Collision::from_impact(
-        window.convention,
+        convention,
         Velocity::from_m_s(vp),
         Angle::from_radians(beta_rad),
     )
-    .ok()?;
+    .ok()?
+    .with_convention(window.convention);
     match limit {
         LimitRef::Criterion(id) => {
             let jet = if *id == CriterionId::Jetting {
@@ -254,9 +262,15 @@ fn nearest_crossing(
         let mut prev = x0;
         let mut step = step0;
         for _ in 0..60 {
-            let x = x0 + dir * step;
-            if x <= lo || x >= hi {
-                break;
+            let mut x = x0 + dir * step;
+            // The last probe sits just inside the search range, so the whole range is covered.
+            let at_edge = x <= lo || x >= hi;
+            if at_edge {
+                x = if dir > 0.0 {
+                    hi - 1e-9 * (hi - x0)
+                } else {
+                    lo + 1e-9 * (x0 - lo)
+                };
             }
             let Some(fx) = f(x) else { break };
             if (fx >= 0.0) != s0 {
@@ -279,6 +293,9 @@ fn nearest_crossing(
                 }
                 break;
             }
+            if at_edge {
+                break;
+            }
             prev = x;
             step *= 1.3;
         }
@@ -288,20 +305,28 @@ fn nearest_crossing(
 
 /// Where `limit` is reached along impact velocity (at this angle) and along angle (at this
 /// impact velocity), for the point of `c`.
+/// The impact velocity is taken in `convention` (the one the user typed the point in), at the
+/// point's angle; the limit is evaluated in the window's convention (same Vc and angle).
 pub fn headroom(
     window: &PairWindow,
     setup: &PairSetup,
     c: &Classification,
     limit: &LimitRef,
+    convention: Convention,
 ) -> Headroom {
-    let vp = c.evaluation.collision.impact_velocity.si();
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(convention)
+        .impact_velocity
+        .si();
     let beta = c.evaluation.collision.angle.radians();
     let velocity_m_s = nearest_crossing(vp, 0.005 * vp, vp / 20.0, vp * 20.0, 1e-3, |v| {
-        limit_margin(window, setup, limit, v, beta)
+        limit_margin(window, setup, limit, convention, v, beta)
     });
     let half_pi = std::f64::consts::FRAC_PI_2;
     let angle_deg = nearest_crossing(beta, 0.05f64.to_radians(), 0.0, half_pi, 1e-7, |b| {
-        limit_margin(window, setup, limit, vp, b)
+        limit_margin(window, setup, limit, convention, vp, b)
     })
     .map(f64::to_degrees);
     Headroom {
@@ -313,23 +338,143 @@ pub fn headroom(
 /// The impact velocity at this angle, nearest to the point, where the verdict (inside or not)
 /// changes, whatever limit causes it; `None` when it does not change from Vp/20 to 20 Vp. Used to
 /// rank process settings by how much velocity scatter they tolerate.
+/// The velocity is in `convention` (for an estimate, the convention of the model's Vp).
 pub fn velocity_to_verdict_change(
     window: &PairWindow,
     setup: &PairSetup,
     c: &Classification,
+    convention: Convention,
 ) -> Option<f64> {
-    let vp = c.evaluation.collision.impact_velocity.si();
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(convention)
+        .impact_velocity
+        .si();
     let beta = c.evaluation.collision.angle;
     let inside_at = |v: f64| -> Option<f64> {
-        let col = Collision::from_impact(window.convention, Velocity::from_m_s(v), beta).ok()?;
+        let col = Collision::from_impact(convention, Velocity::from_m_s(v), beta).ok()?;
         let k = classify(window, setup, &col).ok()?;
         Some(if k.inside { 1.0 } else { -1.0 })
     };
     nearest_crossing(vp, 0.01 * vp, vp / 20.0, vp * 20.0, 0.05, inside_at)
 }
 
-/// Fill the headroom of every decisive limit and the plain-words reason.
+/// The stretches of impact velocity (at the point's angle) and of angle (at the point's impact
+/// velocity) that lie inside the window, nearest to the point: found by scanning 240 velocities
+/// from Vp/20 to 20 Vp (geometric) and 180 angles from 0.25 to 89.75 deg, then bisecting the ends.
+/// `None` on an axis where no scanned value is inside.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct InsideStretch {
+    /// Lowest and highest inside impact velocity (m/s) at this angle, in the user's convention.
+    pub velocity_m_s: Option<(f64, f64)>,
+    /// Lowest and highest inside angle (deg) at this impact velocity.
+    pub angle_deg: Option<(f64, f64)>,
+}
+
+/// The stretch of the inside region along one axis nearest to `x0`: scan `grid`, pick the run of
+/// inside values nearest to x0, bisect both of its ends against their outside neighbours.
+fn inside_stretch(x0: f64, grid: &[f64], inside: impl Fn(f64) -> bool) -> Option<(f64, f64)> {
+    let flags: Vec<bool> = grid.iter().map(|&x| inside(x)).collect();
+    let mut runs: Vec<(usize, usize)> = Vec::new();
+    let mut k = 0;
+    while k < grid.len() {
+        if flags[k] {
+            let start = k;
+            while k < grid.len() && flags[k] {
+                k += 1;
+            }
+            runs.push((start, k - 1));
+        } else {
+            k += 1;
+        }
+    }
+    let dist = |r: &(usize, usize)| {
+        if x0 < grid[r.0] {
+            grid[r.0] - x0
+        } else if x0 > grid[r.1] {
+            x0 - grid[r.1]
+        } else {
+            0.0
+        }
+    };
+    let run = runs
+        .into_iter()
+        .min_by(|a, b| dist(a).total_cmp(&dist(b)))?;
+    let refine = |mut a: f64, mut b: f64| {
+        // a inside, b outside
+        for _ in 0..40 {
+            let m = 0.5 * (a + b);
+            if inside(m) {
+                a = m;
+            } else {
+                b = m;
+            }
+        }
+        a
+    };
+    let lo = if run.0 > 0 {
+        refine(grid[run.0], grid[run.0 - 1])
+    } else {
+        grid[run.0]
+    };
+    let hi = if run.1 + 1 < grid.len() {
+        refine(grid[run.1], grid[run.1 + 1])
+    } else {
+        grid[run.1]
+    };
+    Some((lo, hi))
+}
+
+/// Where the point's angle and impact velocity are inside the window (see [`InsideStretch`]).
+pub fn inside_stretch_of(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &Classification,
+    convention: Convention,
+) -> InsideStretch {
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(convention)
+        .impact_velocity
+        .si();
+    let beta = c.evaluation.collision.angle;
+    let inside_at = |v: f64, b: Angle| -> bool {
+        Collision::from_impact(convention, Velocity::from_m_s(v), b)
+            .ok()
+            .and_then(|col| classify(window, setup, &col).ok())
+            .is_some_and(|k| k.inside)
+    };
+    let n = 240;
+    let vgrid: Vec<f64> = (0..n)
+        .map(|i| vp / 20.0 * 400f64.powf(i as f64 / (n - 1) as f64))
+        .collect();
+    let agrid: Vec<f64> = (0..180).map(|i| 0.25 + 0.5 * i as f64).collect();
+    InsideStretch {
+        velocity_m_s: inside_stretch(vp, &vgrid, |v| inside_at(v, beta)),
+        angle_deg: inside_stretch(beta.degrees(), &agrid, |a| {
+            inside_at(vp, Angle::from_degrees(a))
+        }),
+    }
+}
+
+/// Fill the headroom of every decisive limit and the plain-words reason, with velocities in the
+/// window's convention.
 pub fn explain(window: &PairWindow, setup: &PairSetup, c: &mut Classification) {
+    explain_in(window, setup, c, window.convention);
+}
+
+/// As [`explain`], with the impact velocity of the advice in `convention` (the one the user
+/// gave the point in).
+pub fn explain_in(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &mut Classification,
+    convention: Convention,
+) {
+    c.headroom_convention = convention;
+    c.inside_stretch = Some(inside_stretch_of(window, setup, c, convention));
     let mut limits: Vec<LimitRef> = c
         .evaluation
         .criteria
@@ -345,7 +490,7 @@ pub fn explain(window: &PairWindow, setup: &PairSetup, c: &mut Classification) {
     c.headroom = limits
         .into_iter()
         .map(|l| {
-            let h = headroom(window, setup, c, &l);
+            let h = headroom(window, setup, c, &l, convention);
             (l, h)
         })
         .collect();
@@ -380,7 +525,12 @@ pub fn limit_label(window: &PairWindow, limit: &LimitRef) -> String {
 /// Plain-words advice for one limit at this point, from its headroom along the two controls
 /// (call [`explain`] first; without it the advice only states the margin).
 pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -> String {
-    let vp = c.evaluation.collision.impact_velocity.si();
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(c.headroom_convention)
+        .impact_velocity
+        .si();
     let beta = c.evaluation.collision.angle.degrees();
     let satisfied = match limit {
         LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),
@@ -412,18 +562,41 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
         };
     };
     let _ = window;
-    let verb_v = |to: f64| if to > vp { "raise" } else { "lower" };
-    let verb_a = |to: f64| if to > beta { "raise" } else { "lower" };
+    // Values are rounded to the safe side: a target to reach is rounded past the limit, and a
+    // limit still ahead is rounded short of it, so that typing the printed number does what
+    // the words say.
+    let past = |x: f64, from: f64, unit: f64| {
+        if x > from {
+            (x / unit).ceil() * unit
+        } else {
+            (x / unit).floor() * unit
+        }
+    };
+    let short = |x: f64, from: f64, unit: f64| {
+        if x > from {
+            (x / unit).floor() * unit
+        } else {
+            (x / unit).ceil() * unit
+        }
+    };
+    let conv = c.headroom_convention;
+    let vnote = if conv == c.evaluation.collision.convention {
+        String::new()
+    } else {
+        format!(" ({conv})")
+    };
     if satisfied {
         let mut parts = Vec::new();
         if let Some(v) = h.velocity_m_s {
+            let v = short(v, vp, 1.0);
             parts.push(format!(
-                "reached if the impact velocity {} to {v:.0} m/s at this angle ({:+.0} m/s)",
+                "reached if the impact velocity{vnote} {} to {v:.0} m/s at this angle ({:+.0} m/s)",
                 if v > vp { "rises" } else { "falls" },
                 v - vp
             ));
         }
         if let Some(a) = h.angle_deg {
+            let a = short(a, beta, 0.01);
             parts.push(format!(
                 "or if the angle {} to {a:.2} deg at this velocity ({:+.2} deg)",
                 if a > beta { "rises" } else { "falls" },
@@ -442,16 +615,18 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
     } else {
         let mut parts = Vec::new();
         if let Some(v) = h.velocity_m_s {
+            let v = past(v, vp, 1.0);
             parts.push(format!(
-                "{} the impact velocity to {v:.0} m/s at this angle ({:+.0} m/s)",
-                verb_v(v),
+                "{} the impact velocity{vnote} to {v:.0} m/s at this angle ({:+.0} m/s)",
+                if v > vp { "raise" } else { "lower" },
                 v - vp
             ));
         }
         if let Some(a) = h.angle_deg {
+            let a = past(a, beta, 0.01);
             parts.push(format!(
                 "{} the collision angle to {a:.2} deg at this velocity ({:+.2} deg)",
-                verb_a(a),
+                if a > beta { "raise" } else { "lower" },
                 a - beta
             ));
         }
@@ -461,6 +636,33 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
             parts.join(", or ")
         }
     }
+}
+
+/// Where the window lies along the two controls, in words (after [`explain`]): the stretch of
+/// impact velocity inside at this angle and of angle inside at this velocity, or that there is
+/// none. Advice for one limit can cross another; this line says where the window really is.
+pub fn inside_stretch_text(c: &Classification) -> Option<String> {
+    let st = c.inside_stretch?;
+    let conv = c.headroom_convention;
+    let v = match st.velocity_m_s {
+        Some((a, b)) => format!(
+            "at this angle the window spans Vp ({conv}) from {:.0} to {:.0} m/s",
+            a.ceil(),
+            b.floor()
+        ),
+        None => {
+            "at this angle no impact velocity from Vp/20 to 20 Vp is inside the window".to_string()
+        }
+    };
+    let a = match st.angle_deg {
+        Some((lo, hi)) => format!(
+            "at this velocity it spans the angle from {:.2} to {:.2} deg",
+            (lo * 100.0).ceil() / 100.0,
+            (hi * 100.0).floor() / 100.0
+        ),
+        None => "at this velocity no angle is inside".to_string(),
+    };
+    Some(format!("{v}; {a}"))
 }
 
 fn reason(window: &PairWindow, c: &Classification) -> String {

@@ -6,9 +6,7 @@ use crate::fail::{CmdResult, Fail};
 use crate::output::{classification_json, emit, emit_json, fmt_margin, fmt_value, table, CAUTION};
 use oblique_core::units::{Angle, Length, Velocity};
 use oblique_core::{Collision, Convention, CriteriaConfig};
-use oblique_window::classify::{
-    classify_explained, limit_advice, limit_label, Classification, LimitRef,
-};
+use oblique_window::classify::{limit_advice, limit_label, Classification, LimitRef};
 use oblique_window::pair::Origin;
 use oblique_window::{Library, PairWindow};
 use std::collections::BTreeMap;
@@ -123,7 +121,9 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         a.angle,
     )?;
     let setup = window.setup()?;
-    let c = classify_explained(&window, &setup, &point)?;
+    let mut c = oblique_window::classify::classify(&window, &setup, &point)?;
+    // Advice in the convention the user typed the point in.
+    oblique_window::classify::explain_in(&window, &setup, &mut c, point.convention);
     // A point given in another convention than the window's is re-expressed in the window's
     // (same Vc and beta, so the same collision); say so, with the value as given.
     let converted = (point.convention != window.convention).then(|| {
@@ -160,7 +160,12 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
 /// impact velocity where the limit is reached.
 fn headroom_cells(c: &Classification, limit: &LimitRef) -> (String, String) {
     let h = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h);
-    let vp = c.evaluation.collision.impact_velocity.si();
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(c.headroom_convention)
+        .impact_velocity
+        .si();
     let beta = c.evaluation.collision.angle.degrees();
     match h {
         Some(h) => (
@@ -357,6 +362,9 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
             limit_label(window, f),
             limit_advice(window, c, f)
         ));
+    }
+    if let Some(t) = oblique_window::classify::inside_stretch_text(c) {
+        s.push_str(&format!("where the window is: {t}\n"));
     }
     if c.outside_trial_data {
         s.push_str("note: the point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated\n");

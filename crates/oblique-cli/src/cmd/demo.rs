@@ -116,7 +116,7 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
             Angle::from_degrees(deg),
         )?;
         let c = classify_explained(&window, &setup, &col)?;
-        let change = velocity_to_verdict_change(&window, &setup, &c);
+        let change = velocity_to_verdict_change(&window, &setup, &c, window.convention);
         // The limit that fails just beyond the verdict change (or the binding one outside).
         let beyond = change.and_then(|x| {
             let v = x + (x - vp).signum() * 0.002 * vp;

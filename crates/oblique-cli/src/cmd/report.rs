@@ -60,7 +60,8 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         a.angle,
     )?;
     let setup = window.setup()?;
-    let c = oblique_window::classify::classify_explained(&window, &setup, &point)?;
+    let mut c = oblique_window::classify::classify(&window, &setup, &point)?;
+    oblique_window::classify::explain_in(&window, &setup, &mut c, point.convention);
     let agr = agreement(&window)?;
     let mut curves = Vec::new();
     for f in &a.curve {

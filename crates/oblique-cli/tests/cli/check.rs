@@ -31,7 +31,8 @@ fn human_output_has_table_verdict_and_caution() {
         "deribas-lower",
         "melting-upper",
         "verdict: OUTSIDE",
-        "raise the impact velocity to 371 m/s",
+        "raise the impact velocity to 372 m/s",
+        "where the window is: at this angle the window spans Vp",
         "reached at Vp",
         "caution:",
     ] {

@@ -233,7 +233,7 @@ fn fit(
         f.iterations
     ));
     out.push_str("the estimate at the fitted efficiency:\n");
-    out.push_str(&pulse_table(&f.estimate, shot.thickness));
+    out.push_str(&pulse_table(&f.estimate, shot.thickness, &[]));
     match &saved {
         Some(p) => out.push_str(&format!(
             "saved to {p}: later estimates with this --machine and --coil use eta = {:.4} unless --efficiency is given\n",

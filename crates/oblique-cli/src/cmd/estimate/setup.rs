@@ -47,14 +47,41 @@ pub struct Input {
     pub from: String,
 }
 
-/// All inputs of an estimate, in order.
+/// All inputs of an estimate, in order, and warnings about them.
 #[derive(Debug, Clone, Default)]
-pub struct Inputs(pub Vec<Input>);
+pub struct Inputs(pub Vec<Input>, pub Vec<String>);
+
+/// Marks an efficiency taken from a calibration on another workpiece.
+pub const MISMATCH: &str = "calibrated on another workpiece";
+
+/// The warning printed when a stored efficiency comes from a shot on another workpiece.
+pub const MISMATCH_WARNING: &str = "the stored efficiency was fitted on another flyer material or thickness; the coupling depends on both, so calibrate again with this workpiece before relying on it";
 
 /// The warning printed with every estimate whose efficiency was not fitted to a measured shot.
 pub const UNCALIBRATED: &str = "efficiency not calibrated (eta = 1): the model has not been anchored to a measured shot on this machine and coil, and lumped models usually overestimate; treat the velocity as an upper estimate and calibrate (oblique calibrate) before relying on it";
 
 impl Inputs {
+    /// The warnings about the inputs: an uncalibrated efficiency, one calibrated on another
+    /// workpiece, and any recorded with the inputs (large compression, ...).
+    pub fn efficiency_warnings(&self) -> Vec<String> {
+        let mut w = Vec::new();
+        if self.uncalibrated() {
+            w.push(UNCALIBRATED.to_string());
+        }
+        if self.calibration_mismatch() {
+            w.push(MISMATCH_WARNING.to_string());
+        }
+        w.extend(self.1.iter().cloned());
+        w
+    }
+
+    /// Whether the efficiency comes from a calibration on another workpiece.
+    pub fn calibration_mismatch(&self) -> bool {
+        self.0
+            .iter()
+            .any(|i| i.key == "efficiency" && i.from.contains(MISMATCH))
+    }
+
     /// Whether the efficiency is the uncalibrated default.
     pub fn uncalibrated(&self) -> bool {
         self.0
@@ -657,12 +684,30 @@ pub fn check_tube_standoff(p: &TubeParts, g: f64) -> CmdResult {
     Ok(())
 }
 
+/// A warning when the wall must travel more than a quarter of the tube's outer radius: the thin
+/// ring model ignores wall thickening limits, wrinkling and buckling at such compression
+/// (common practice: crimp and weld joints use standoffs of a few percent of the radius).
+pub fn compression_warning(p: &TubeParts, g: f64, inputs: &mut Inputs) {
+    let r = p.tube.outer_radius.si();
+    if g > 0.25 * r {
+        let w = format!(
+            "large radial compression: a standoff of {} is {:.0} % of the tube's outer radius; the thin-ring model ignores wall thickening limits, wrinkling and buckling there",
+            fmt::mm(g),
+            100.0 * g / r
+        );
+        if !inputs.1.contains(&w) {
+            inputs.1.push(w);
+        }
+    }
+}
+
 /// The efficiency: flag, else the bank's stored calibration for this model and coil, else 1.
 pub fn efficiency(
     flag: Option<f64>,
     bank: &BankPick,
     model: &str,
     coil: Option<&str>,
+    workpiece: (&str, f64),
     inputs: &mut Inputs,
 ) -> f64 {
     let (eta, from) = if let Some(e) = flag {
@@ -672,10 +717,25 @@ pub fn efficiency(
         .as_ref()
         .and_then(|r| r.calibration_for(model, coil).map(|c| (r, c)))
     {
+        let (flyer_now, thickness_now) = workpiece;
+        let other_flyer = c.flyer.as_deref().is_some_and(|f| f != flyer_now);
+        let other_thickness = c
+            .flyer_thickness
+            .is_some_and(|t| (t.si() - thickness_now).abs() > 1e-3 * thickness_now);
+        let mismatch = if other_flyer || other_thickness {
+            format!(
+                "; {MISMATCH}: calibrated on {} {}, this estimate is for {flyer_now} {}",
+                c.flyer.as_deref().unwrap_or("?"),
+                c.flyer_thickness.map_or("?".into(), |t| fmt::mm(t.si())),
+                fmt::mm(thickness_now)
+            )
+        } else {
+            String::new()
+        };
         (
             c.efficiency,
             format!(
-                "calibration stored in {} ({}: {} measured at {}, standoff {}; {})",
+                "calibration stored in {} ({}: {} measured at {}, standoff {}; {}){mismatch}",
                 rec.name,
                 c.date,
                 format_args!("{} m/s", fmt::g(c.measured_velocity.si())),

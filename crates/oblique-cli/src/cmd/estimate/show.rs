@@ -31,6 +31,7 @@ pub fn run_tube(dirs: &[PathBuf], a: TubeEstimateArgs) -> CmdResult {
     let parts = setup::tube_parts(&ctx, &a.bank, &a.tube, window, &mut inputs)?;
     let u = setup::charge(&parts.bank, &a.charge, &mut inputs)?;
     setup::check_tube_standoff(&parts, a.standoff)?;
+    setup::compression_warning(&parts, a.standoff, &mut inputs);
     inputs.push(
         "standoff",
         "standoff_m",
@@ -43,6 +44,7 @@ pub fn run_tube(dirs: &[PathBuf], a: TubeEstimateArgs) -> CmdResult {
         &parts.bank,
         "mpw-tube",
         parts.coil_name.as_deref(),
+        (parts.flyer.as_str(), parts.tube.wall_thickness.si()),
         &mut inputs,
     );
     let s = setup::tube_setup(&parts, u, a.standoff, eta);
@@ -77,6 +79,7 @@ pub fn run_sheet(dirs: &[PathBuf], a: SheetEstimateArgs) -> CmdResult {
         &parts.bank,
         "mpw-sheet",
         parts.coil_name.as_deref(),
+        (parts.flyer.as_str(), parts.sheet.thickness.si()),
         &mut inputs,
     );
     let s = setup::sheet_setup(&parts, u, a.standoff, eta);
@@ -156,10 +159,7 @@ fn finish(
     let mut out = format!("oblique estimate {model}: {title} (screening estimate)\n\n");
     out.push_str(&inputs_table(inputs));
     out.push('\n');
-    out.push_str(&pulse_table(&est, thickness));
-    if inputs.uncalibrated() {
-        out.push_str(&format!("warning: {}\n", setup::UNCALIBRATED));
-    }
+    out.push_str(&pulse_table(&est, thickness, &inputs.efficiency_warnings()));
     if let Some(p) = &common.history {
         out.push_str(&format!(
             "time histories written to {} ({} samples)\n",
@@ -168,6 +168,9 @@ fn finish(
         ));
     }
     out.push_str(&window_lines(window, common.angle, &est, check.as_ref()));
+    if check.as_ref().is_some_and(|c| c.inside) && !inputs.efficiency_warnings().is_empty() {
+        out.push_str("  the verdict rests on an uncalibrated (or transferred) efficiency: the real impact velocity is likely lower; check where the window is above before any shot\n");
+    }
     out.push_str(assumptions);
     out.push('\n');
     out.push_str(CAUTION);
@@ -290,9 +293,7 @@ pub fn pulse_json(
         sig(e.relative_error),
     );
     let mut warnings: Vec<Value> = est.warnings.iter().map(|w| json!(w.to_string())).collect();
-    if inputs.uncalibrated() {
-        warnings.push(json!(setup::UNCALIBRATED));
-    }
+    warnings.extend(inputs.efficiency_warnings().into_iter().map(|w| json!(w)));
     o.insert("warnings".into(), Value::Array(warnings));
     o.insert(
         "assumptions".into(),
@@ -303,7 +304,7 @@ pub fn pulse_json(
 }
 
 /// The result table of a pulse estimate.
-pub fn pulse_table(est: &PulseEstimate, thickness: f64) -> String {
+pub fn pulse_table(est: &PulseEstimate, thickness: f64, extra_warnings: &[String]) -> String {
     let mut rows: Vec<Vec<String>> = vec![
         vec![
             "stored energy".into(),
@@ -421,10 +422,13 @@ pub fn pulse_table(est: &PulseEstimate, thickness: f64) -> String {
     s.push_str(&format!("\nenergy balance {at}\n"));
     s.push_str(&table(&["term", "energy", "share"], &erows));
     s.push_str(&format!("  relative error {:.1e}\n\n", e.relative_error));
-    if est.warnings.is_empty() {
+    if est.warnings.is_empty() && extra_warnings.is_empty() {
         s.push_str("warnings: none\n");
     } else {
         for w in &est.warnings {
+            s.push_str(&format!("warning: {w}\n"));
+        }
+        for w in extra_warnings {
             s.push_str(&format!("warning: {w}\n"));
         }
     }
@@ -469,12 +473,20 @@ pub fn verdict_lines(w: &PairWindow, angle: f64, whose: &str, c: &Classification
     );
     if let Some(b) = &c.binding {
         s.push_str(&format!(
-            "  binding limit: {} (relative margin {:+.1} %)\n",
+            "  {}: {} (relative margin {:+.1} %)\n",
+            if c.inside {
+                "closest limit"
+            } else {
+                "binding limit"
+            },
             limit_label(w, b),
             100.0 * c.binding_relative_margin.unwrap_or(0.0)
         ));
     }
     s.push_str(&format!("  {}\n", c.reason));
+    if let Some(t) = oblique_window::classify::inside_stretch_text(c) {
+        s.push_str(&format!("  where the window is: {t}\n"));
+    }
     s
 }
 

@@ -122,12 +122,14 @@ pub fn run_tube(dirs: &[PathBuf], a: TubeSweepArgs) -> CmdResult {
     let grid = grid_values(&parts.bank, &a.common, window)?;
     for g in &grid.standoffs {
         setup::check_tube_standoff(&parts, *g)?;
+        setup::compression_warning(&parts, *g, &mut inputs);
     }
     let eta = setup::efficiency(
         a.common.efficiency,
         &parts.bank,
         "mpw-tube",
         parts.coil_name.as_deref(),
+        (parts.flyer.as_str(), parts.tube.wall_thickness.si()),
         &mut inputs,
     );
     let base = setup::tube_setup(
@@ -161,6 +163,7 @@ pub fn run_sheet(dirs: &[PathBuf], a: SheetSweepArgs) -> CmdResult {
         &parts.bank,
         "mpw-sheet",
         parts.coil_name.as_deref(),
+        (parts.flyer.as_str(), parts.sheet.thickness.si()),
         &mut inputs,
     );
     let base = setup::sheet_setup(
@@ -247,7 +250,12 @@ fn run_common(
                     for r in part.iter_mut() {
                         if let Some(k) = r.check.as_ref().filter(|k| k.inside) {
                             r.verdict_change_m_s =
-                                oblique_window::classify::velocity_to_verdict_change(w, setup, k);
+                                oblique_window::classify::velocity_to_verdict_change(
+                                    w,
+                                    setup,
+                                    k,
+                                    oblique_core::Convention::NormalToFlyer,
+                                );
                         }
                     }
                 });
@@ -381,14 +389,7 @@ fn run_common(
             json!(assumptions.trim_start_matches("assumptions: ")),
         );
         inputs_json(inputs, &mut o);
-        o.insert(
-            "warnings".into(),
-            json!(if inputs.uncalibrated() {
-                vec![setup::UNCALIBRATED]
-            } else {
-                Vec::new()
-            }),
-        );
+        o.insert("warnings".into(), json!(inputs.efficiency_warnings()));
         o.insert("caution".into(), json!(CAUTION));
         return emit_json(&Value::Object(o));
     }
@@ -519,8 +520,8 @@ fn run_common(
     if let Some(d) = &c.curves_csv {
         out.push_str(&format!("process curves written to {}\n", d.display()));
     }
-    if inputs.uncalibrated() {
-        out.push_str(&format!("warning: {}\n", setup::UNCALIBRATED));
+    for w in inputs.efficiency_warnings() {
+        out.push_str(&format!("warning: {w}\n"));
     }
     out.push_str(assumptions);
     out.push('\n');
