@@ -666,6 +666,7 @@ fn fold_chunk(
     summary.rows_rejected += st.rejected;
     summary.blank_lines += st.blank;
     summary.outside_trial_data += st.outside;
+    summary.welded_outside_trial_data += st.welded_outside;
     summary.jetting_direct += st.jetting_direct;
     for (l, (m, b)) in summary
         .limits

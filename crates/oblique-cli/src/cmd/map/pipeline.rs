@@ -48,6 +48,8 @@ pub struct ChunkStats {
     pub rejected: u64,
     /// Rows outside the span of a boundary.
     pub outside: u64,
+    /// Welded rows outside the span of a boundary (welded by the model limits alone).
+    pub welded_outside: u64,
     /// Rows solved directly for jetting.
     pub jetting_direct: u64,
     /// Smallest margin per limit among welded rows, with its row.
@@ -583,6 +585,9 @@ impl Worker {
         };
         if p.outside_trial_data {
             slot.stats.outside += 1;
+            if verdict == 0 {
+                slot.stats.welded_outside += 1;
+            }
         }
         if p.jetting_direct {
             slot.stats.jetting_direct += 1;

@@ -226,6 +226,8 @@ pub struct Summary {
     pub limits: Vec<LimitStat>,
     /// Rows outside the span of some user boundary.
     pub outside_trial_data: u64,
+    /// Welded rows among them: welded by the model limits alone, with no trial data there.
+    pub welded_outside_trial_data: u64,
     /// Rows whose jetting test was solved directly.
     pub jetting_direct: u64,
     /// First rejected rows.
@@ -299,6 +301,7 @@ impl Summary {
             counts: [0; 3],
             limits,
             outside_trial_data: 0,
+            welded_outside_trial_data: 0,
             jetting_direct: 0,
             examples: Vec::new(),
             direction: 0.0,
@@ -721,6 +724,10 @@ impl Summary {
             json!(self.outside_trial_data),
         );
         o.insert(
+            "welded_outside_trial_data_rows".into(),
+            json!(self.welded_outside_trial_data),
+        );
+        o.insert(
             "jetting".into(),
             json!({
                 "method": info.jetting,
@@ -873,8 +880,8 @@ impl Summary {
         }
         if self.outside_trial_data > 0 {
             s.push_str(&format!(
-                "{} row(s) lie outside the span of a user boundary (outside the trial data; not extrapolated)\n",
-                self.outside_trial_data
+                "{} row(s) lie outside the span of a user boundary (outside the trial data; not extrapolated); {} of them are welded by the model limits alone\n",
+                self.outside_trial_data, self.welded_outside_trial_data
             ));
         }
         match (info.jetting, info.table) {
