@@ -20,6 +20,8 @@ const C_NOT: RGBColor = RGBColor(225, 135, 0);
 const C_MELTED: RGBColor = RGBColor(196, 44, 44);
 const T_WELDED: RGBColor = RGBColor(212, 226, 243);
 const T_MELTED: RGBColor = RGBColor(246, 212, 208);
+/// Welded by the model limits alone, where no user boundary spans (outside the trial data).
+const T_UNTRIED: RGBColor = RGBColor(236, 241, 247);
 const GREY: RGBColor = RGBColor(90, 90, 90);
 const TRACE: RGBColor = RGBColor(30, 30, 30);
 const BAND: RGBColor = RGBColor(190, 190, 190);
@@ -457,6 +459,8 @@ pub fn window_plane(
             let vp = x_max * (i as f64 + 0.5) / NX as f64;
             let v = match c.classify_impact(vp, beta.to_radians(), &mut margins) {
                 Ok(p) => match p.verdict {
+                    // Welded by the model limits alone: no user boundary spans the cell.
+                    oblique_window::classify::Prediction::Welded if p.outside_trial_data => 3,
                     oblique_window::classify::Prediction::Welded => 0,
                     oblique_window::classify::Prediction::NotWelded => 1,
                     oblique_window::classify::Prediction::Melted => 2,
@@ -520,6 +524,7 @@ pub fn window_plane(
                 let colour = match v {
                     0 => T_WELDED,
                     2 => T_MELTED,
+                    3 => T_UNTRIED,
                     _ => continue,
                 };
                 rects.push(Rectangle::new(
@@ -605,6 +610,10 @@ pub fn window_plane(
         y += 24;
         for (label, colour) in [
             ("window predicts welded", T_WELDED),
+            (
+                "welded by the model limits only (outside the trial data)",
+                T_UNTRIED,
+            ),
             ("window predicts melted", T_MELTED),
         ] {
             legend
