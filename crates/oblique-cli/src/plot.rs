@@ -299,11 +299,8 @@ fn plot_err<E: std::fmt::Display>(e: E) -> Fail {
     Fail::other(format!("plot: {e}"))
 }
 
-/// Render the window plot as an SVG string.
-///
-/// # Errors
-/// A physics error in the window, or a drawing error.
-pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
+/// Ranges from the data and the region evaluated on the grid.
+fn prepare<'a>(req: &'a PlotRequest<'a>) -> CmdResult<Prepared<'a>> {
     let w = req.window;
     let plane = req.plane;
     // Ranges from the data: trials, proposed points, curves.
@@ -345,204 +342,409 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
     };
     let y_max = nice_ceil((max_y * 1.15).max(30.0), 5.0).min(85.0);
     let field = evaluate_field(w, plane, x_max, y_max)?;
+    Ok(Prepared {
+        req,
+        field,
+        x_max,
+        y_max,
+        x_label,
+    })
+}
 
+/// Ranges and the evaluated region, ready to draw on any backend.
+struct Prepared<'a> {
+    req: &'a PlotRequest<'a>,
+    field: Field,
+    x_max: f64,
+    y_max: f64,
+    x_label: &'static str,
+}
+
+/// Render the window plot as an SVG string.
+///
+/// # Errors
+/// A physics error in the window, or a drawing error.
+pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
+    register_fonts();
+    let p = prepare(req)?;
     let mut svg = String::new();
-    {
-        let root = SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area();
-        root.fill(&WHITE).map_err(plot_err)?;
-        let (main, bottom) = root.split_vertically(HEIGHT - 26);
-        let (chart_area, legend_area) = main.split_horizontally(WIDTH - LEGEND_W);
-        let title = format!(
-            "{}: {} flyer {:.2} mm on {}, convention {}",
-            w.name,
-            w.flyer.material.id,
-            w.flyer_thickness.mm(),
-            w.parent.material.id,
-            w.convention
-        );
-        let mut chart = ChartBuilder::on(&chart_area)
-            .caption(title, ("sans-serif", 20))
-            .margin(12)
-            .x_label_area_size(46)
-            .y_label_area_size(58)
-            .build_cartesian_2d(0f64..x_max, 0f64..y_max)
-            .map_err(plot_err)?;
-        chart
-            .configure_mesh()
-            .x_desc(x_label)
-            .y_desc("collision angle beta [deg]")
-            .axis_desc_style(("sans-serif", 15))
-            .label_style(("sans-serif", 13))
-            .x_label_formatter(&|v| format!("{v:.0}"))
-            .y_label_formatter(&|v| format!("{v:.0}"))
-            .light_line_style(RGBColor(238, 238, 238))
-            .bold_line_style(RGBColor(215, 215, 215))
-            .draw()
-            .map_err(plot_err)?;
+    draw(
+        SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area(),
+        &p,
+    )?;
+    Ok(svg)
+}
 
-        // Weldable region: run-length merged cells.
-        let dx = x_max / NX as f64;
-        let dy = y_max / NY as f64;
-        let mut rects = Vec::new();
-        for j in 0..NY {
-            let mut i = 0;
-            while i < NX {
-                let code = field.region[j * NX + i];
-                if code != 0 {
-                    let start = i;
-                    while i < NX && field.region[j * NX + i] == code {
-                        i += 1;
-                    }
-                    rects.push(Rectangle::new(
-                        [
-                            (start as f64 * dx, j as f64 * dy),
-                            (i as f64 * dx, (j + 1) as f64 * dy),
-                        ],
-                        if code == 1 {
-                            REGION.filled()
-                        } else {
-                            REGION_UNTRIED.filled()
-                        },
-                    ));
-                } else {
+/// Render the window plot as PNG bytes (for slides), with the bundled font.
+///
+/// # Errors
+/// A physics error in the window, or a drawing or encoding error.
+pub fn render_png(req: &PlotRequest<'_>) -> CmdResult<Vec<u8>> {
+    register_fonts();
+    let p = prepare(req)?;
+    let mut rgb = vec![0u8; (WIDTH * HEIGHT * 3) as usize];
+    draw(
+        BitMapBackend::with_buffer(&mut rgb, (WIDTH, HEIGHT)).into_drawing_area(),
+        &p,
+    )?;
+    encode_png(&rgb, WIDTH, HEIGHT)
+}
+
+/// Encode an RGB buffer as PNG.
+fn encode_png(rgb: &[u8], width: u32, height: u32) -> CmdResult<Vec<u8>> {
+    use image::ImageEncoder;
+    let mut out = Vec::new();
+    image::codecs::png::PngEncoder::new(&mut out)
+        .write_image(rgb, width, height, image::ColorType::Rgb8)
+        .map_err(plot_err)?;
+    Ok(out)
+}
+
+/// The text font, bundled (DejaVu Sans, Bitstream Vera licence in assets/) so that plots do not
+/// depend on the fonts installed on the machine.
+pub fn register_fonts() {
+    static ONCE: std::sync::Once = std::sync::Once::new();
+    ONCE.call_once(|| {
+        let bytes: &'static [u8] = include_bytes!("../assets/DejaVuSans.ttf");
+        // The bundled file is a valid font; a failure would only leave text out of bitmaps.
+        let _ = plotters::style::register_font("sans-serif", FontStyle::Normal, bytes);
+    });
+}
+
+/// Draw the window plot on any plotters backend.
+fn draw<DB: DrawingBackend>(
+    root: DrawingArea<DB, plotters::coord::Shift>,
+    p: &Prepared<'_>,
+) -> CmdResult {
+    let (req, field, x_max, y_max, x_label) = (p.req, &p.field, p.x_max, p.y_max, p.x_label);
+    let w = req.window;
+    let plane = req.plane;
+    root.fill(&WHITE).map_err(plot_err)?;
+    let (main, bottom) = root.split_vertically(HEIGHT - 26);
+    let (chart_area, legend_area) = main.split_horizontally(WIDTH - LEGEND_W);
+    let title = format!(
+        "{}: {} flyer {:.2} mm on {}, convention {}",
+        w.name,
+        w.flyer.material.id,
+        w.flyer_thickness.mm(),
+        w.parent.material.id,
+        w.convention
+    );
+    let mut chart = ChartBuilder::on(&chart_area)
+        .caption(title, ("sans-serif", 20))
+        .margin(12)
+        .x_label_area_size(46)
+        .y_label_area_size(58)
+        .build_cartesian_2d(0f64..x_max, 0f64..y_max)
+        .map_err(plot_err)?;
+    chart
+        .configure_mesh()
+        .x_desc(x_label)
+        .y_desc("collision angle beta [deg]")
+        .axis_desc_style(("sans-serif", 15))
+        .label_style(("sans-serif", 13))
+        .x_label_formatter(&|v| format!("{v:.0}"))
+        .y_label_formatter(&|v| format!("{v:.0}"))
+        .light_line_style(RGBColor(238, 238, 238))
+        .bold_line_style(RGBColor(215, 215, 215))
+        .draw()
+        .map_err(plot_err)?;
+
+    // Weldable region: run-length merged cells.
+    let dx = x_max / NX as f64;
+    let dy = y_max / NY as f64;
+    let mut rects = Vec::new();
+    for j in 0..NY {
+        let mut i = 0;
+        while i < NX {
+            let code = field.region[j * NX + i];
+            if code != 0 {
+                let start = i;
+                while i < NX && field.region[j * NX + i] == code {
                     i += 1;
                 }
+                rects.push(Rectangle::new(
+                    [
+                        (start as f64 * dx, j as f64 * dy),
+                        (i as f64 * dx, (j + 1) as f64 * dy),
+                    ],
+                    if code == 1 {
+                        REGION.filled()
+                    } else {
+                        REGION_UNTRIED.filled()
+                    },
+                ));
+            } else {
+                i += 1;
             }
         }
-        chart.draw_series(rects).map_err(plot_err)?;
+    }
+    chart.draw_series(rects).map_err(plot_err)?;
 
-        // Many proposed points: a density under the limits and trials.
-        let mut binned_legend = None;
-        let binned = req.points.len() > MAX_MARKED_POINTS;
-        if binned {
-            let (bx, by) = (60usize, 40usize);
-            let mut counts = vec![0usize; bx * by];
-            for p in &req.points {
-                if let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) {
-                    let i = ((x / x_max) * bx as f64).floor();
-                    let j = ((p.angle_rad.to_degrees() / y_max) * by as f64).floor();
-                    if i >= 0.0 && j >= 0.0 && (i as usize) < bx && (j as usize) < by {
-                        counts[j as usize * bx + i as usize] += 1;
-                    }
+    // Many proposed points: a density under the limits and trials.
+    let mut binned_legend = None;
+    let binned = req.points.len() > MAX_MARKED_POINTS;
+    if binned {
+        let (bx, by) = (60usize, 40usize);
+        let mut counts = vec![0usize; bx * by];
+        for p in &req.points {
+            if let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) {
+                let i = ((x / x_max) * bx as f64).floor();
+                let j = ((p.angle_rad.to_degrees() / y_max) * by as f64).floor();
+                if i >= 0.0 && j >= 0.0 && (i as usize) < bx && (j as usize) < by {
+                    counts[j as usize * bx + i as usize] += 1;
                 }
             }
-            let max = counts.iter().copied().max().unwrap_or(1).max(1) as f64;
-            let cells = counts
-                .iter()
-                .enumerate()
-                .filter(|(_, n)| **n > 0)
-                .map(|(k, n)| {
-                    let (i, j) = (k % bx, k / bx);
-                    let shade = 0.1 + 0.5 * (*n as f64 / max).sqrt();
-                    Rectangle::new(
-                        [
-                            (i as f64 * x_max / bx as f64, j as f64 * y_max / by as f64),
-                            (
-                                (i + 1) as f64 * x_max / bx as f64,
-                                (j + 1) as f64 * y_max / by as f64,
-                            ),
-                        ],
-                        BLACK.mix(shade).filled(),
-                    )
-                });
-            chart.draw_series(cells).map_err(plot_err)?;
-            binned_legend = Some(format!(
-                "{} proposed points, binned (more than {MAX_MARKED_POINTS}); {} inside the window",
-                req.points.len(),
-                inside_count(w, &req.points)
-            ));
         }
+        let max = counts.iter().copied().max().unwrap_or(1).max(1) as f64;
+        let cells = counts
+            .iter()
+            .enumerate()
+            .filter(|(_, n)| **n > 0)
+            .map(|(k, n)| {
+                let (i, j) = (k % bx, k / bx);
+                let shade = 0.1 + 0.5 * (*n as f64 / max).sqrt();
+                Rectangle::new(
+                    [
+                        (i as f64 * x_max / bx as f64, j as f64 * y_max / by as f64),
+                        (
+                            (i + 1) as f64 * x_max / bx as f64,
+                            (j + 1) as f64 * y_max / by as f64,
+                        ),
+                    ],
+                    BLACK.mix(shade).filled(),
+                )
+            });
+        chart.draw_series(cells).map_err(plot_err)?;
+        binned_legend = Some(format!(
+            "{} proposed points, binned (more than {MAX_MARKED_POINTS}); {} inside the window",
+            req.points.len(),
+            inside_count(w, &req.points)
+        ));
+    }
 
-        // Criterion contours.
-        // Legend marks: 0 solid line or fill, 1 long dashes, 2 dots, 3 medium dashes.
-        let mut legend: Vec<(String, ShapeStyle, u8)> = vec![(
-            "weldable: every active limit holds".into(),
-            REGION.filled(),
+    // Criterion contours.
+    // Legend marks: 0 solid line or fill, 1 long dashes, 2 dots, 3 medium dashes.
+    let mut legend: Vec<(String, ShapeStyle, u8)> = vec![(
+        "weldable: every active limit holds".into(),
+        REGION.filled(),
+        0,
+    )];
+    if field.region.contains(&2) {
+        legend.push((
+            "inside the model limits only: a user boundary does not span here (outside the trial data)".into(),
+            REGION_UNTRIED.filled(),
             0,
-        )];
-        if field.region.contains(&2) {
-            legend.push((
-                "inside the model limits only: a user boundary does not span here (outside the trial data)".into(),
-                REGION_UNTRIED.filled(),
-                0,
-            ));
-        }
-        for (id, m) in &field.margins {
-            let colour = criterion_colour(*id);
-            let informational = *id == CriterionId::WavyTransition;
-            let style = colour.stroke_width(if informational { 1 } else { 2 });
-            for line in contour(&field.xs, &field.ys, m) {
-                if informational {
-                    chart
-                        .draw_series(DashedLineSeries::new(line, 10, 4, style))
-                        .map_err(plot_err)?;
-                } else {
-                    chart
-                        .draw_series(LineSeries::new(line, style))
-                        .map_err(plot_err)?;
-                }
-            }
-            legend.push((criterion_label(w, *id), style, u8::from(informational)));
-        }
-        for (f, label, sonic_style, (dash, gap), mark) in [
-            (
-                &field.sonic_parent,
-                format!(
-                    "Vc = C0 of parent ({:.0} m/s, info)",
-                    w.parent.material.sound_speed().si()
-                ),
-                C_SONIC_PARENT.stroke_width(1),
-                (2, 3),
-                2u8,
-            ),
-            (
-                &field.sonic_flyer,
-                format!(
-                    "Vf = C0 of flyer ({:.0} m/s, info)",
-                    w.flyer.material.sound_speed().si()
-                ),
-                C_SONIC_FLYER.stroke_width(2),
-                (5, 5),
-                3u8,
-            ),
-        ] {
-            for line in contour(&field.xs, &field.ys, f) {
+        ));
+    }
+    for (id, m) in &field.margins {
+        let colour = criterion_colour(*id);
+        let informational = *id == CriterionId::WavyTransition;
+        let style = colour.stroke_width(if informational { 1 } else { 2 });
+        for line in contour(&field.xs, &field.ys, m) {
+            if informational {
                 chart
-                    .draw_series(DashedLineSeries::new(line, dash, gap, sonic_style))
+                    .draw_series(DashedLineSeries::new(line, 10, 4, style))
+                    .map_err(plot_err)?;
+            } else {
+                chart
+                    .draw_series(LineSeries::new(line, style))
                     .map_err(plot_err)?;
             }
-            legend.push((label, sonic_style, mark));
         }
+        legend.push((criterion_label(w, *id), style, u8::from(informational)));
+    }
+    for (f, label, sonic_style, (dash, gap), mark) in [
+        (
+            &field.sonic_parent,
+            format!(
+                "Vc = C0 of parent ({:.0} m/s, info)",
+                w.parent.material.sound_speed().si()
+            ),
+            C_SONIC_PARENT.stroke_width(1),
+            (2, 3),
+            2u8,
+        ),
+        (
+            &field.sonic_flyer,
+            format!(
+                "Vf = C0 of flyer ({:.0} m/s, info)",
+                w.flyer.material.sound_speed().si()
+            ),
+            C_SONIC_FLYER.stroke_width(2),
+            (5, 5),
+            3u8,
+        ),
+    ] {
+        for line in contour(&field.xs, &field.ys, f) {
+            chart
+                .draw_series(DashedLineSeries::new(line, dash, gap, sonic_style))
+                .map_err(plot_err)?;
+        }
+        legend.push((label, sonic_style, mark));
+    }
 
-        // User boundaries as drawn, converted to this plane point by point.
-        for b in &w.boundaries {
-            let pts: Vec<(f64, f64)> = b
-                .points
-                .iter()
-                .filter_map(|(v, a)| {
-                    let vp = match b.plane {
-                        Plane::AngleImpactVelocity => v.si(),
-                        Plane::AngleCollisionVelocity => {
-                            Collision::from_collision_velocity(w.convention, *v, *a)
-                                .ok()?
-                                .impact_velocity
-                                .si()
-                        }
-                    };
-                    Some((x_of(w, plane, vp, a.radians())?, a.degrees()))
-                })
-                .collect();
+    // User boundaries as drawn, converted to this plane point by point.
+    for b in &w.boundaries {
+        let pts: Vec<(f64, f64)> = b
+            .points
+            .iter()
+            .filter_map(|(v, a)| {
+                let vp = match b.plane {
+                    Plane::AngleImpactVelocity => v.si(),
+                    Plane::AngleCollisionVelocity => {
+                        Collision::from_collision_velocity(w.convention, *v, *a)
+                            .ok()?
+                            .impact_velocity
+                            .si()
+                    }
+                };
+                Some((x_of(w, plane, vp, a.radians())?, a.degrees()))
+            })
+            .collect();
+        chart
+            .draw_series(LineSeries::new(pts.clone(), BLACK.stroke_width(3)))
+            .map_err(plot_err)?;
+        chart
+            .draw_series(pts.iter().map(|p| Circle::new(*p, 3, BLACK.filled())))
+            .map_err(plot_err)?;
+        if let Some(last) = pts.last() {
             chart
-                .draw_series(LineSeries::new(pts.clone(), BLACK.stroke_width(3)))
+                .draw_series(std::iter::once(Text::new(
+                    b.label.clone(),
+                    *last,
+                    ("sans-serif", 12)
+                        .into_font()
+                        .color(&BLACK)
+                        .pos(Pos::new(HPos::Left, VPos::Bottom)),
+                )))
+                .map_err(plot_err)?;
+        }
+        legend.push((
+            format!(
+                "user boundary: {} (welds {})",
+                b.label,
+                b.weld_side.as_str()
+            ),
+            BLACK.stroke_width(3),
+            0,
+        ));
+    }
+
+    // Trials by outcome.
+    for o in &w.observations {
+        let Some(x) = x_of(w, plane, o.velocity.si(), o.angle.radians()) else {
+            continue;
+        };
+        let p = (x, o.angle.degrees());
+        match o.outcome {
+            Outcome::Welded => {
+                chart.draw_series(std::iter::once(Circle::new(p, 5, C_WELDED.filled())))
+            }
+            Outcome::NotWelded => chart.draw_series(std::iter::once(
+                EmptyElement::at(p) + Rectangle::new([(-5, -5), (5, 5)], C_NOT.stroke_width(2)),
+            )),
+            Outcome::Partial => chart.draw_series(std::iter::once(TriangleMarker::new(
+                p,
+                7,
+                C_PARTIAL.filled(),
+            ))),
+            Outcome::Melted => {
+                chart.draw_series(std::iter::once(Cross::new(p, 5, C_MELTED.stroke_width(3))))
+            }
+        }
+        .map_err(plot_err)?;
+    }
+
+    // Process curves.
+    for c in &req.curves {
+        let pts: Vec<(f64, f64)> = c
+            .points
+            .iter()
+            .filter_map(|(v, a, _)| Some((x_of(w, plane, *v, *a)?, a.to_degrees())))
+            .collect();
+        chart
+            .draw_series(DashedLineSeries::new(
+                pts.clone(),
+                8,
+                4,
+                BLACK.stroke_width(2),
+            ))
+            .map_err(plot_err)?;
+        for ((v, a, lab), p) in c.points.iter().zip(&pts) {
+            let verdict = classify_point(w, *v, *a).map(|k| k.inside).unwrap_or(false);
+            let style = if verdict {
+                BLACK.filled()
+            } else {
+                WHITE.filled()
+            };
+            chart
+                .draw_series(std::iter::once(Circle::new(*p, 4, style)))
                 .map_err(plot_err)?;
             chart
-                .draw_series(pts.iter().map(|p| Circle::new(*p, 3, BLACK.filled())))
+                .draw_series(std::iter::once(Circle::new(*p, 4, BLACK.stroke_width(1))))
                 .map_err(plot_err)?;
-            if let Some(last) = pts.last() {
+            if let Some(l) = lab {
                 chart
                     .draw_series(std::iter::once(Text::new(
-                        b.label.clone(),
-                        *last,
+                        l.clone(),
+                        (p.0, p.1),
+                        TextStyle::from(("sans-serif", 11).into_font())
+                            .pos(Pos::new(HPos::Left, VPos::Top)),
+                    )))
+                    .map_err(plot_err)?;
+            }
+        }
+        if req.curves.len() <= 6 {
+            legend.push((
+                format!("process curve: {} (filled = inside)", c.label),
+                BLACK.stroke_width(2),
+                1,
+            ));
+        }
+    }
+    if req.curves.len() > 6 {
+        legend.push((
+            format!(
+                "{} process curves (labelled on the plot); filled markers are inside",
+                req.curves.len()
+            ),
+            BLACK.stroke_width(2),
+            1,
+        ));
+    }
+
+    // Proposed points: marked and labelled, or binned when many.
+    if !binned {
+        for (n, p) in req.points.iter().enumerate() {
+            let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) else {
+                continue;
+            };
+            let y = p.angle_rad.to_degrees();
+            let diamond = |s: f64| {
+                let (sx, sy) = (x_max / 140.0 * s, y_max / 90.0 * s);
+                vec![(x, y + sy), (x + sx, y), (x, y - sy), (x - sx, y)]
+            };
+            chart
+                .draw_series(std::iter::once(Polygon::new(diamond(1.6), WHITE.filled())))
+                .map_err(plot_err)?;
+            chart
+                .draw_series(std::iter::once(Polygon::new(diamond(1.1), BLACK.filled())))
+                .map_err(plot_err)?;
+            if n < MAX_LABELLED_POINTS {
+                let verdict = classify_point(w, p.velocity_m_s, p.angle_rad)
+                    .map(|c| {
+                        if c.inside {
+                            "inside".to_string()
+                        } else {
+                            format!("outside: {}", binding_text(w, &c))
+                        }
+                    })
+                    .unwrap_or_else(|e| e.message);
+                chart
+                    .draw_series(std::iter::once(Text::new(
+                        format!("{} ({verdict})", p.label),
+                        (x + x_max / 120.0, y + y_max / 70.0),
                         ("sans-serif", 12)
                             .into_font()
                             .color(&BLACK)
@@ -550,248 +752,114 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
                     )))
                     .map_err(plot_err)?;
             }
+        }
+        if !req.points.is_empty() {
             legend.push((
-                format!(
-                    "user boundary: {} (welds {})",
-                    b.label,
-                    b.weld_side.as_str()
-                ),
-                BLACK.stroke_width(3),
+                "proposed point (verdict beside it)".into(),
+                BLACK.filled(),
                 0,
             ));
         }
+    }
 
-        // Trials by outcome.
-        for o in &w.observations {
-            let Some(x) = x_of(w, plane, o.velocity.si(), o.angle.radians()) else {
-                continue;
-            };
-            let p = (x, o.angle.degrees());
-            match o.outcome {
-                Outcome::Welded => {
-                    chart.draw_series(std::iter::once(Circle::new(p, 5, C_WELDED.filled())))
-                }
-                Outcome::NotWelded => chart.draw_series(std::iter::once(
-                    EmptyElement::at(p) + Rectangle::new([(-5, -5), (5, 5)], C_NOT.stroke_width(2)),
-                )),
-                Outcome::Partial => chart.draw_series(std::iter::once(TriangleMarker::new(
-                    p,
-                    7,
-                    C_PARTIAL.filled(),
-                ))),
-                Outcome::Melted => {
-                    chart.draw_series(std::iter::once(Cross::new(p, 5, C_MELTED.stroke_width(3))))
-                }
-            }
-            .map_err(plot_err)?;
-        }
+    if let Some(text) = binned_legend {
+        legend.push((text, BLACK.mix(0.35).filled(), 0));
+    }
 
-        // Process curves.
-        for c in &req.curves {
-            let pts: Vec<(f64, f64)> = c
-                .points
-                .iter()
-                .filter_map(|(v, a, _)| Some((x_of(w, plane, *v, *a)?, a.to_degrees())))
-                .collect();
-            chart
-                .draw_series(DashedLineSeries::new(
-                    pts.clone(),
-                    8,
-                    4,
-                    BLACK.stroke_width(2),
-                ))
+    // Legend panel, outside the data.
+    let mut y = 40i32;
+    let font = TextStyle::from(("sans-serif", 12).into_font());
+    legend_area
+        .draw(&Text::new(
+            "Legend",
+            (10, 16),
+            ("sans-serif", 15).into_font(),
+        ))
+        .map_err(plot_err)?;
+    for (label, style, mark) in &legend {
+        let pattern: Option<(i32, i32)> = match mark {
+            1 => Some((7, 3)),
+            2 => Some((2, 3)),
+            3 => Some((5, 5)),
+            _ => None,
+        };
+        if style.filled && pattern.is_none() {
+            legend_area
+                .draw(&Rectangle::new([(10, y - 5), (34, y + 5)], *style))
                 .map_err(plot_err)?;
-            for ((v, a, lab), p) in c.points.iter().zip(&pts) {
-                let verdict = classify_point(w, *v, *a).map(|k| k.inside).unwrap_or(false);
-                let style = if verdict {
-                    BLACK.filled()
-                } else {
-                    WHITE.filled()
-                };
-                chart
-                    .draw_series(std::iter::once(Circle::new(*p, 4, style)))
+        } else if let Some((dash, gap)) = pattern {
+            let mut x0 = 10;
+            while x0 < 34 {
+                legend_area
+                    .draw(&PathElement::new(
+                        vec![(x0, y), ((x0 + dash).min(34), y)],
+                        *style,
+                    ))
                     .map_err(plot_err)?;
-                chart
-                    .draw_series(std::iter::once(Circle::new(*p, 4, BLACK.stroke_width(1))))
-                    .map_err(plot_err)?;
-                if let Some(l) = lab {
-                    chart
-                        .draw_series(std::iter::once(Text::new(
-                            l.clone(),
-                            (p.0, p.1),
-                            TextStyle::from(("sans-serif", 11).into_font())
-                                .pos(Pos::new(HPos::Left, VPos::Top)),
-                        )))
-                        .map_err(plot_err)?;
-                }
+                x0 += dash + gap;
             }
-            if req.curves.len() <= 6 {
-                legend.push((
-                    format!("process curve: {} (filled = inside)", c.label),
-                    BLACK.stroke_width(2),
-                    1,
-                ));
-            }
+        } else {
+            legend_area
+                .draw(&PathElement::new(vec![(10, y), (34, y)], *style))
+                .map_err(plot_err)?;
         }
-        if req.curves.len() > 6 {
-            legend.push((
-                format!(
-                    "{} process curves (labelled on the plot); filled markers are inside",
-                    req.curves.len()
-                ),
-                BLACK.stroke_width(2),
-                1,
-            ));
+        y = draw_wrapped(&legend_area, label, 42, y, &font)?;
+    }
+    y += 8;
+    legend_area
+        .draw(&Text::new(
+            "Trials",
+            (10, y),
+            ("sans-serif", 14).into_font(),
+        ))
+        .map_err(plot_err)?;
+    y += 18;
+    let trial_rows: [(&str, u8); 4] = [
+        ("welded", 0),
+        ("not welded", 1),
+        ("partial", 2),
+        ("melted", 3),
+    ];
+    for (label, kind) in trial_rows {
+        let p = (22, y);
+        match kind {
+            0 => legend_area.draw(&Circle::new(p, 5, C_WELDED.filled())),
+            1 => legend_area.draw(
+                &(EmptyElement::at(p) + Rectangle::new([(-5, -5), (5, 5)], C_NOT.stroke_width(2))),
+            ),
+            2 => legend_area.draw(&TriangleMarker::new(p, 7, C_PARTIAL.filled())),
+            _ => legend_area.draw(&Cross::new(p, 5, C_MELTED.stroke_width(3))),
         }
-
-        // Proposed points: marked and labelled, or binned when many.
-        if !binned {
-            for (n, p) in req.points.iter().enumerate() {
-                let Some(x) = x_of(w, plane, p.velocity_m_s, p.angle_rad) else {
-                    continue;
-                };
-                let y = p.angle_rad.to_degrees();
-                let diamond = |s: f64| {
-                    let (sx, sy) = (x_max / 140.0 * s, y_max / 90.0 * s);
-                    vec![(x, y + sy), (x + sx, y), (x, y - sy), (x - sx, y)]
-                };
-                chart
-                    .draw_series(std::iter::once(Polygon::new(diamond(1.6), WHITE.filled())))
-                    .map_err(plot_err)?;
-                chart
-                    .draw_series(std::iter::once(Polygon::new(diamond(1.1), BLACK.filled())))
-                    .map_err(plot_err)?;
-                if n < MAX_LABELLED_POINTS {
-                    let verdict = classify_point(w, p.velocity_m_s, p.angle_rad)
-                        .map(|c| {
-                            if c.inside {
-                                "inside".to_string()
-                            } else {
-                                format!("outside: {}", binding_text(w, &c))
-                            }
-                        })
-                        .unwrap_or_else(|e| e.message);
-                    chart
-                        .draw_series(std::iter::once(Text::new(
-                            format!("{} ({verdict})", p.label),
-                            (x + x_max / 120.0, y + y_max / 70.0),
-                            ("sans-serif", 12)
-                                .into_font()
-                                .color(&BLACK)
-                                .pos(Pos::new(HPos::Left, VPos::Bottom)),
-                        )))
-                        .map_err(plot_err)?;
-                }
-            }
-            if !req.points.is_empty() {
-                legend.push((
-                    "proposed point (verdict beside it)".into(),
-                    BLACK.filled(),
-                    0,
-                ));
-            }
-        }
-
-        if let Some(text) = binned_legend {
-            legend.push((text, BLACK.mix(0.35).filled(), 0));
-        }
-
-        // Legend panel, outside the data.
-        let mut y = 40i32;
-        let font = TextStyle::from(("sans-serif", 12).into_font());
+        .map_err(plot_err)?;
         legend_area
             .draw(&Text::new(
-                "Legend",
-                (10, 16),
-                ("sans-serif", 15).into_font(),
-            ))
-            .map_err(plot_err)?;
-        for (label, style, mark) in &legend {
-            let pattern: Option<(i32, i32)> = match mark {
-                1 => Some((7, 3)),
-                2 => Some((2, 3)),
-                3 => Some((5, 5)),
-                _ => None,
-            };
-            if style.filled && pattern.is_none() {
-                legend_area
-                    .draw(&Rectangle::new([(10, y - 5), (34, y + 5)], *style))
-                    .map_err(plot_err)?;
-            } else if let Some((dash, gap)) = pattern {
-                let mut x0 = 10;
-                while x0 < 34 {
-                    legend_area
-                        .draw(&PathElement::new(
-                            vec![(x0, y), ((x0 + dash).min(34), y)],
-                            *style,
-                        ))
-                        .map_err(plot_err)?;
-                    x0 += dash + gap;
-                }
-            } else {
-                legend_area
-                    .draw(&PathElement::new(vec![(10, y), (34, y)], *style))
-                    .map_err(plot_err)?;
-            }
-            y = draw_wrapped(&legend_area, label, 42, y, &font)?;
-        }
-        y += 8;
-        legend_area
-            .draw(&Text::new(
-                "Trials",
-                (10, y),
-                ("sans-serif", 14).into_font(),
+                label,
+                (42, y),
+                font.clone().pos(Pos::new(HPos::Left, VPos::Center)),
             ))
             .map_err(plot_err)?;
         y += 18;
-        let trial_rows: [(&str, u8); 4] = [
-            ("welded", 0),
-            ("not welded", 1),
-            ("partial", 2),
-            ("melted", 3),
-        ];
-        for (label, kind) in trial_rows {
-            let p = (22, y);
-            match kind {
-                0 => legend_area.draw(&Circle::new(p, 5, C_WELDED.filled())),
-                1 => legend_area.draw(
-                    &(EmptyElement::at(p)
-                        + Rectangle::new([(-5, -5), (5, 5)], C_NOT.stroke_width(2))),
-                ),
-                2 => legend_area.draw(&TriangleMarker::new(p, 7, C_PARTIAL.filled())),
-                _ => legend_area.draw(&Cross::new(p, 5, C_MELTED.stroke_width(3))),
-            }
-            .map_err(plot_err)?;
-            legend_area
-                .draw(&Text::new(
-                    label,
-                    (42, y),
-                    font.clone().pos(Pos::new(HPos::Left, VPos::Center)),
-                ))
-                .map_err(plot_err)?;
-            y += 18;
-        }
-        if let Some(inv) = &w.invented {
-            y += 6;
-            draw_wrapped(
-                &legend_area,
-                &format!("INVENTED DATA: {inv}"),
-                10,
-                y,
-                &("sans-serif", 11).into_font().color(&C_MELTED),
-            )?;
-        }
-
-        bottom
-            .draw(&Text::new(
-                "Screening estimate from published relations and the trials shown, not a guarantee of a weld. Lethal voltages, stored energy, explosives and flying parts: follow local codes and licensed practice.",
-                (12, 8),
-                ("sans-serif", 11).into_font().color(&RGBColor(90, 90, 90)),
-            ))
-            .map_err(plot_err)?;
-        root.present().map_err(plot_err)?;
     }
-    Ok(svg)
+    if let Some(inv) = &w.invented {
+        y += 6;
+        draw_wrapped(
+            &legend_area,
+            &format!("INVENTED DATA: {inv}"),
+            10,
+            y,
+            &("sans-serif", 11).into_font().color(&C_MELTED),
+        )?;
+    }
+
+    bottom
+        .draw(&Text::new(
+            "Screening estimate from published relations and the trials shown, not a guarantee of a weld. Lethal voltages, stored energy, explosives and flying parts: follow local codes and licensed practice.",
+            (12, 8),
+            ("sans-serif", 11).into_font().color(&RGBColor(90, 90, 90)),
+        ))
+        .map_err(plot_err)?;
+    root.present().map_err(plot_err)?;
+    Ok(())
 }
 
 /// Draw text wrapped to the legend width; returns the next free y.

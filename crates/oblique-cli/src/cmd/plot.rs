@@ -36,7 +36,7 @@ impl From<PlaneArg> for Plane {
   oblique plot --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --convention normal-to-flyer --plane angle-collision-velocity -o w.svg
 Points and curve files are CSV with units in the header: velocity[m/s],angle[deg],label
 (velocity is the impact velocity in the window's convention; label optional).
-PNG is not written directly (plotters' bitmap backend needs a system font library or a bundled font file for its text): convert the SVG, e.g. rsvg-convert w.svg -o w.png")]
+-o w.png writes a PNG (1100 x 680, text in the bundled DejaVu Sans font) for slides.")]
 pub struct PlotArgs {
     /// Pair window from the library.
     #[arg(long, value_name = "NAME", conflicts_with_all = ["flyer", "parent", "flyer_thickness"])]
@@ -183,12 +183,9 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         .and_then(|e| e.to_str())
         .unwrap_or("")
         .to_ascii_lowercase();
-    if ext == "png" {
-        return Err(Fail::input("-o: PNG output is not built in (plotters' bitmap backend needs a system font library or a bundled font file for its text)\n  hint: write an .svg and convert it, e.g. rsvg-convert window.svg -o window.png"));
-    }
-    if ext != "svg" {
+    if ext != "svg" && ext != "png" {
         return Err(Fail::input(format!(
-            "-o {}: the output must end in .svg",
+            "-o {}: the output must end in .svg or .png",
             a.output.display()
         )));
     }
@@ -237,12 +234,17 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
             points: pts,
         });
     }
-    let svg = render_svg(&PlotRequest {
+    let request = PlotRequest {
         window: &window,
         plane: a.plane.into(),
         points,
         curves,
-    })?;
-    write_output(&a.output, svg.as_bytes())?;
+    };
+    let bytes = if ext == "png" {
+        crate::plot::render_png(&request)?
+    } else {
+        render_svg(&request)?.into_bytes()
+    };
+    write_output(&a.output, &bytes)?;
     crate::output::emit(&format!("wrote {}\n", a.output.display()))
 }

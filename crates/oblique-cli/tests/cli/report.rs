@@ -139,9 +139,28 @@ fn plots_are_well_formed_deterministic_and_escaped() {
     parse_xml(&sa);
     assert!(sa.contains("&lt;script&gt;"));
     assert!(!sa.contains("<script"));
+    // PNG for slides: a real PNG file, text drawn with the bundled font.
+    let png = d.path().join("w.png");
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--point",
+        "450m/s,10deg",
+        "-o",
+        png.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let bytes = std::fs::read(&png).unwrap();
+    assert_eq!(&bytes[..8], b"\x89PNG\r\n\x1a\n");
+    assert!(
+        bytes.len() > 50_000,
+        "PNG looks empty: {} bytes",
+        bytes.len()
+    );
     fails_with(
-        &["plot", "--pair", "demo-al6061-on-cu", "-o", "w.png"],
-        &["PNG", "rsvg-convert"],
+        &["plot", "--pair", "demo-al6061-on-cu", "-o", "w.gif"],
+        &["-o", ".svg or .png"],
     );
     fails_with(
         &[

@@ -141,6 +141,7 @@ pub fn strip(
     let (frac, _) = s.welded_fraction();
     let mut svg = String::new();
     {
+        crate::plot::register_fonts();
         let root = SVGBackend::with_string(&mut svg, (W, H)).into_drawing_area();
         root.fill(&WHITE).map_err(perr)?;
         let (head, rest) = root.split_vertically(96);
@@ -473,6 +474,7 @@ pub fn window_plane(
     let many = s.rows_classified as usize > s.marks.len();
     let mut svg = String::new();
     {
+        crate::plot::register_fonts();
         let root = SVGBackend::with_string(&mut svg, (W, H)).into_drawing_area();
         root.fill(&WHITE).map_err(perr)?;
         let (head, rest) = root.split_vertically(52);
