@@ -101,6 +101,33 @@ impl<'a> Collector<'a> {
         }
     }
 
+    /// Record a problem when a file's `format` tag is not the one this version reads.
+    pub fn check_format(&mut self, found: &str, expected: &str) {
+        if found != expected {
+            self.push(
+                "format",
+                format!("unsupported format '{found}'"),
+                Some(format!("this version reads \"{expected}\"")),
+            );
+        }
+    }
+
+    /// Record a problem when a file's `name` is empty or holds spaces or slashes; `what` names
+    /// it in the message ("pair name", "name"), `example` shows a good one.
+    pub fn check_name(&mut self, name: &str, what: &str, example: &str) {
+        if name.trim().is_empty()
+            || name
+                .chars()
+                .any(|ch| ch.is_whitespace() || ch == '/' || ch == '\\')
+        {
+            self.push(
+                "name",
+                format!("{what} '{name}' must be non-empty, without spaces or slashes"),
+                Some(format!("use names like \"{example}\"")),
+            );
+        }
+    }
+
     pub fn finish(self) -> Result<(), Diagnostics> {
         if self.problems.is_empty() {
             Ok(())
@@ -231,6 +258,31 @@ pub fn edit_distance(a: &str, b: &str) -> usize {
         std::mem::swap(&mut prev, &mut cur);
     }
     prev[b.len()]
+}
+
+/// Whether `s` is a calendar date written YYYY-MM-DD (Gregorian, years 1900 to 2999).
+pub fn is_iso_date(s: &str) -> bool {
+    let b = s.as_bytes();
+    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
+        return false;
+    }
+    let num = |r: std::ops::Range<usize>| {
+        s.get(r)
+            .filter(|t| t.bytes().all(|c| c.is_ascii_digit()))
+            .and_then(|t| t.parse::<u32>().ok())
+    };
+    let (Some(y), Some(m), Some(d)) = (num(0..4), num(5..7), num(8..10)) else {
+        return false;
+    };
+    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
+    let days = match m {
+        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
+        4 | 6 | 9 | 11 => 30,
+        2 if leap => 29,
+        2 => 28,
+        _ => return false,
+    };
+    (1900..=2999).contains(&y) && d >= 1 && d <= days
 }
 
 #[cfg(test)]

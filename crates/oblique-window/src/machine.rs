@@ -29,6 +29,7 @@
 //! `explosive: (gurney_velocity, detonation_velocity, flyer_to_charge | charge_to_flyer,
 //! preset_angle)`. See `docs/process-models.md`, section "Command line".
 
+pub use crate::diag::is_iso_date;
 use crate::diag::{close_matches, parse_ron, Collector, Diagnostic, Diagnostics};
 use crate::library::{sha256_hex, BUILTIN_FILES};
 use crate::materials::Revision;
@@ -429,24 +430,6 @@ impl MachineRecord {
     }
 }
 
-/// `YYYY-MM-DD` with a plausible month and day.
-pub fn is_iso_date(s: &str) -> bool {
-    let b = s.as_bytes();
-    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
-        return false;
-    }
-    let digits = |r: std::ops::Range<usize>| -> Option<u32> {
-        let part = s.get(r)?;
-        if part.bytes().all(|c| c.is_ascii_digit()) {
-            part.parse().ok()
-        } else {
-            None
-        }
-    };
-    matches!((digits(0..4), digits(5..7), digits(8..10)),
-        (Some(_), Some(m), Some(d)) if (1..=12).contains(&m) && (1..=31).contains(&d))
-}
-
 /// Which values a quantity may take.
 #[derive(Clone, Copy)]
 enum Domain {
@@ -835,28 +818,8 @@ pub fn parse_machine_file(
     let file = origin.display.clone();
     let parsed: MachineFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
-    if parsed.format != MACHINE_FORMAT {
-        c.push(
-            "format",
-            format!("unsupported format '{}'", parsed.format),
-            Some(format!("this version reads \"{MACHINE_FORMAT}\"")),
-        );
-    }
-    if parsed.name.trim().is_empty()
-        || parsed
-            .name
-            .chars()
-            .any(|ch| ch.is_whitespace() || ch == '/' || ch == '\\')
-    {
-        c.push(
-            "name",
-            format!(
-                "name '{}' must be non-empty, without spaces or slashes",
-                parsed.name
-            ),
-            Some("use names like \"shop-bank-300uf\"".into()),
-        );
-    }
+    c.check_format(&parsed.format, MACHINE_FORMAT);
+    c.check_name(&parsed.name, "name", "shop-bank-300uf");
     if parsed.maintainer.trim().is_empty() {
         c.push(
             "maintainer",

@@ -322,13 +322,7 @@ pub fn parse_material_file(
 ) -> Result<(MaterialFile, Vec<MaterialRecord>), Diagnostics> {
     let parsed: MaterialFile = parse_ron(file, text)?;
     let mut c = Collector::new(file, text);
-    if parsed.format != MATERIALS_FORMAT {
-        c.push(
-            "format",
-            format!("unsupported format '{}'", parsed.format),
-            Some(format!("this version reads \"{MATERIALS_FORMAT}\"")),
-        );
-    }
+    c.check_format(&parsed.format, MATERIALS_FORMAT);
     for (key, reference) in &parsed.sources {
         if reference.trim().is_empty() {
             c.push(

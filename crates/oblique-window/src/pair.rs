@@ -391,30 +391,7 @@ pub struct PairWindow {
     pub origin: Origin,
 }
 
-/// Whether `s` is a calendar date written YYYY-MM-DD (Gregorian, years 1900 to 2999).
-pub fn is_iso_date(s: &str) -> bool {
-    let b = s.as_bytes();
-    if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
-        return false;
-    }
-    let num = |r: std::ops::Range<usize>| {
-        s.get(r)
-            .filter(|t| t.bytes().all(|c| c.is_ascii_digit()))
-            .and_then(|t| t.parse::<u32>().ok())
-    };
-    let (Some(y), Some(m), Some(d)) = (num(0..4), num(5..7), num(8..10)) else {
-        return false;
-    };
-    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-    let days = match m {
-        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
-        4 | 6 | 9 | 11 => 30,
-        2 if leap => 29,
-        2 => 28,
-        _ => return false,
-    };
-    (1900..=2999).contains(&y) && d >= 1 && d <= days
-}
+pub use crate::diag::is_iso_date;
 
 /// Resolve a material id against the library, falling back to the file's inline materials.
 fn resolve(
@@ -468,28 +445,8 @@ pub fn parse_pair_file(
     let file = origin.display.clone();
     let parsed: PairFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
-    if parsed.format != WINDOW_FORMAT {
-        c.push(
-            "format",
-            format!("unsupported format '{}'", parsed.format),
-            Some(format!("this version reads \"{WINDOW_FORMAT}\"")),
-        );
-    }
-    if parsed.name.trim().is_empty()
-        || parsed
-            .name
-            .chars()
-            .any(|ch| ch.is_whitespace() || ch == '/' || ch == '\\')
-    {
-        c.push(
-            "name",
-            format!(
-                "pair name '{}' must be non-empty, without spaces or slashes",
-                parsed.name
-            ),
-            Some("use names like \"al6061-on-cu\"".into()),
-        );
-    }
+    c.check_format(&parsed.format, WINDOW_FORMAT);
+    c.check_name(&parsed.name, "pair name", "al6061-on-cu");
     let inline = validate_entries(
         &mut c,
         "materials",
