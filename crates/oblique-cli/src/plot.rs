@@ -900,9 +900,20 @@ fn draw_wrapped<DB: DrawingBackend>(
 
 /// How many of the points lie inside the window.
 fn inside_count(w: &PairWindow, points: &[ProposedPoint]) -> usize {
+    // One set-up for all points (building it clones both materials).
+    let Ok(setup) = w.setup() else { return 0 };
     points
         .iter()
-        .filter(|p| classify_point(w, p.velocity_m_s, p.angle_rad).is_ok_and(|c| c.inside))
+        .filter(|p| {
+            Collision::from_impact(
+                w.convention,
+                Velocity::from_m_s(p.velocity_m_s),
+                Angle::from_radians(p.angle_rad),
+            )
+            .ok()
+            .and_then(|c| oblique_window::classify::classify(w, &setup, &c).ok())
+            .is_some_and(|c| c.inside)
+        })
         .count()
 }
 
