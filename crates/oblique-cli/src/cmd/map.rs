@@ -645,7 +645,9 @@ fn fold_chunk(
         summary.pending_gap = true;
     }
     let written = cut.as_ref().map_or(slot.out.len(), |c| c.0);
-    out.write_all(&slot.out[..written])?;
+    if !slot.out.is_empty() {
+        out.write_all(&slot.out.as_bytes()[..written])?;
+    }
     if let Some((_, e)) = cut {
         // A stop-mode bad row earlier than the out-of-order row wins.
         if let Some(b) = slot.bad.first().filter(|b| slot.stopped && b.row < e.row) {

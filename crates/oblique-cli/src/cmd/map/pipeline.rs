@@ -4,9 +4,7 @@
 //! slots circulates between the three, so memory stays bounded whatever the input size.
 
 use super::classifier::{Classifier, Point};
-use super::format::{
-    is_json_number, push_csv_field, push_fixed, push_json_number, push_json_string, push_u64,
-};
+use super::format::{is_json_number, push_csv_field, push_json_string, push_u64, TextBuf};
 use super::input::{
     next_record, parse_number, scan_plain, split_fields, trim_spaces, Fields, Format, Header,
     Source,
@@ -68,7 +66,7 @@ pub struct Slot {
     /// Input bytes.
     pub data: Vec<u8>,
     /// Output text.
-    pub out: Vec<u8>,
+    pub out: TextBuf,
     /// Side-file text (save mode).
     pub bad_out: Vec<u8>,
     /// Classified points.
@@ -519,10 +517,10 @@ impl Worker {
         let out_start = out.len();
         match ctx.out_format {
             Format::Csv => {
-                push_u64(out, row);
+                out.u64(row);
                 out.push(b',');
                 match &cells {
-                    Cells::Csv { line, .. } => out.extend_from_slice(line),
+                    Cells::Csv { line, .. } => out.extend(line),
                     Cells::Json { obj } => {
                         for (i, c) in ctx.header.cells.iter().enumerate() {
                             if i > 0 {
@@ -530,8 +528,8 @@ impl Worker {
                             }
                             match obj.get(c) {
                                 None | Some(Value::Null) => {}
-                                Some(Value::String(s)) => push_csv_field(out, s.as_bytes()),
-                                Some(other) => push_csv_field(out, other.to_string().as_bytes()),
+                                Some(Value::String(s)) => out.csv_field(s.as_bytes()),
+                                Some(other) => out.csv_field(other.to_string().as_bytes()),
                             }
                         }
                     }
@@ -540,41 +538,41 @@ impl Worker {
                 out.push(b'\n');
             }
             Format::Jsonl => {
-                out.extend_from_slice(b"{\"row\":");
-                push_u64(out, row);
+                out.extend(b"{\"row\":");
+                out.u64(row);
                 match &cells {
                     Cells::Csv { line, fields } => {
                         for i in 0..n {
                             out.push(b',');
-                            out.extend_from_slice(&ctx.json_cell_keys[i]);
+                            out.extend(&ctx.json_cell_keys[i]);
                             let text = fields.get(line, i).unwrap_or(b"");
                             if ctx.cell_role[i].is_some() {
                                 let t = trim_spaces(text);
                                 if is_json_number(t) {
-                                    out.extend_from_slice(t);
+                                    out.extend(t);
                                 } else {
                                     // Parsed before, so it is a finite number.
                                     let x = parse_number(t).unwrap_or(f64::NAN);
-                                    out.extend_from_slice(fmt_g(x).as_bytes());
+                                    out.extend(fmt_g(x).as_bytes());
                                 }
                             } else {
-                                push_json_string(out, text);
+                                out.json_string(text);
                             }
                         }
                     }
                     Cells::Json { obj } => {
                         for (i, c) in ctx.header.cells.iter().enumerate() {
                             out.push(b',');
-                            out.extend_from_slice(&ctx.json_cell_keys[i]);
+                            out.extend(&ctx.json_cell_keys[i]);
                             match obj.get(c) {
-                                Some(v) => out.extend_from_slice(v.to_string().as_bytes()),
-                                None => out.extend_from_slice(b"null"),
+                                Some(v) => out.extend(v.to_string().as_bytes()),
+                                None => out.extend(b"null"),
                             }
                         }
                     }
                 }
                 self.computed_json(ctx, out, &p);
-                out.extend_from_slice(b"}\n");
+                out.extend(b"}\n");
             }
         }
         // Per-point record and counts.
@@ -623,27 +621,27 @@ impl Worker {
         Ok(())
     }
 
-    fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut Vec<u8>, p: &Point) {
+    fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut TextBuf, p: &Point) {
         for col in &ctx.cols {
             out.push(b',');
             match *col {
-                Col::Verdict => out.extend_from_slice(p.verdict.as_str().as_bytes()),
+                Col::Verdict => out.extend(p.verdict.as_str().as_bytes()),
                 Col::Binding => {
                     if let Some(b) = p.binding {
-                        out.extend_from_slice(&ctx.binding_csv[b]);
+                        out.extend(&ctx.binding_csv[b]);
                     }
                 }
-                Col::ImpactVelocity => push_fixed(out, p.vp, 1),
-                Col::CollisionVelocity => push_fixed(out, p.vc, 1),
-                Col::FlowVelocity => push_fixed(out, p.vf, 1),
-                Col::Pressure => push_fixed(out, p.pressure * 1e-9, 3),
-                Col::JettingAngle => push_fixed(out, p.jetting_deg, 3),
-                Col::BindingRelative => push_fixed(out, p.binding_relative, 4),
+                Col::ImpactVelocity => out.fixed(p.vp, 1),
+                Col::CollisionVelocity => out.fixed(p.vc, 1),
+                Col::FlowVelocity => out.fixed(p.vf, 1),
+                Col::Pressure => out.fixed(p.pressure * 1e-9, 3),
+                Col::JettingAngle => out.fixed(p.jetting_deg, 3),
+                Col::BindingRelative => out.fixed(p.binding_relative, 4),
                 Col::Margin(k) => {
                     let (f, d) = ctx.margin_out[k];
-                    push_fixed(out, self.margins[k] * f, d);
+                    out.fixed(self.margins[k] * f, d);
                 }
-                Col::Outside => out.extend_from_slice(if p.outside_trial_data {
+                Col::Outside => out.extend(if p.outside_trial_data {
                     b"true"
                 } else {
                     b"false"
@@ -652,31 +650,31 @@ impl Worker {
         }
     }
 
-    fn computed_json(&self, ctx: &Ctx<'_>, out: &mut Vec<u8>, p: &Point) {
+    fn computed_json(&self, ctx: &Ctx<'_>, out: &mut TextBuf, p: &Point) {
         for (col, key) in ctx.cols.iter().zip(&ctx.computed_keys) {
             out.push(b',');
-            out.extend_from_slice(key);
+            out.extend(key);
             match *col {
                 Col::Verdict => {
                     out.push(b'"');
-                    out.extend_from_slice(p.verdict.as_str().as_bytes());
+                    out.extend(p.verdict.as_str().as_bytes());
                     out.push(b'"');
                 }
                 Col::Binding => match p.binding {
-                    Some(b) => out.extend_from_slice(&ctx.binding_json[b]),
-                    None => out.extend_from_slice(b"null"),
+                    Some(b) => out.extend(&ctx.binding_json[b]),
+                    None => out.extend(b"null"),
                 },
-                Col::ImpactVelocity => push_json_number(out, p.vp, 1),
-                Col::CollisionVelocity => push_json_number(out, p.vc, 1),
-                Col::FlowVelocity => push_json_number(out, p.vf, 1),
-                Col::Pressure => push_json_number(out, p.pressure * 1e-9, 3),
-                Col::JettingAngle => push_json_number(out, p.jetting_deg, 3),
-                Col::BindingRelative => push_json_number(out, p.binding_relative, 4),
+                Col::ImpactVelocity => out.json_number(p.vp, 1),
+                Col::CollisionVelocity => out.json_number(p.vc, 1),
+                Col::FlowVelocity => out.json_number(p.vf, 1),
+                Col::Pressure => out.json_number(p.pressure * 1e-9, 3),
+                Col::JettingAngle => out.json_number(p.jetting_deg, 3),
+                Col::BindingRelative => out.json_number(p.binding_relative, 4),
                 Col::Margin(k) => {
                     let (f, d) = ctx.margin_out[k];
-                    push_json_number(out, self.margins[k] * f, d);
+                    out.json_number(self.margins[k] * f, d);
                 }
-                Col::Outside => out.extend_from_slice(if p.outside_trial_data {
+                Col::Outside => out.extend(if p.outside_trial_data {
                     b"true"
                 } else {
                     b"false"
