@@ -487,9 +487,15 @@ mod tests {
 
     #[test]
     fn eight_digits_every_length() {
-        for n in [0u32, 7, 10, 99, 100, 1234, 9999, 10_000, 54_321, 99_999_999, 10_000_001] {
+        for n in [
+            0u32, 7, 10, 99, 100, 1234, 9999, 10_000, 54_321, 99_999_999, 10_000_001,
+        ] {
             let d = eight_digits(n);
-            let text: String = d.to_le_bytes().iter().map(|b| char::from(b'0' + b)).collect();
+            let text: String = d
+                .to_le_bytes()
+                .iter()
+                .map(|b| char::from(b'0' + b))
+                .collect();
             assert_eq!(text, format!("{n:08}"));
         }
     }

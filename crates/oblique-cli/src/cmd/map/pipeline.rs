@@ -6,8 +6,8 @@
 use super::classifier::{Classifier, Point};
 use super::format::{is_json_number, push_csv_field, push_json_string, push_u64, TextBuf};
 use super::input::{
-    next_record, parse_number, scan_plain, split_fields, trim_spaces, Fields, Format, Header,
-    Source,
+    next_record, parse_number, scan_plain, split_fields, split_plain_line, trim_spaces, Fields,
+    Format, Header, Source,
 };
 use super::summary::{Lite, Rejected};
 use oblique_window::classify::Prediction;
@@ -65,6 +65,8 @@ pub struct Slot {
     pub first_line: u64,
     /// Input bytes.
     pub data: Vec<u8>,
+    /// Whether `data` holds a double quote (else every record is one plain line).
+    pub has_quote: bool,
     /// Output text.
     pub out: TextBuf,
     /// Side-file text (save mode).
@@ -413,6 +415,18 @@ impl Worker {
         while pos < data.len() {
             let mut plain = false;
             let (end, next, inside_nl, quoted) = match ctx.in_format {
+                Format::Csv if !slot.has_quote => {
+                    // No quote in the whole chunk: every record is one line.
+                    plain = true;
+                    let end = memchr::memchr(b'\n', &data[pos..]).map_or(data.len(), |p| pos + p);
+                    let content = if end > pos && data[end - 1] == b'\r' {
+                        end - 1
+                    } else {
+                        end
+                    };
+                    split_plain_line(&data[pos..content], &mut self.fields);
+                    (end, (end + 1).min(data.len()), 0, false)
+                }
                 Format::Csv => match scan_plain(&data, pos, &mut self.fields) {
                     Some((end, next)) => {
                         plain = true;
@@ -421,7 +435,7 @@ impl Worker {
                     None => next_record(&data, pos),
                 },
                 Format::Jsonl => {
-                    let nl = data[pos..].iter().position(|&b| b == b'\n');
+                    let nl = memchr::memchr(b'\n', &data[pos..]);
                     let end = nl.map_or(data.len(), |p| pos + p);
                     (end, nl.map_or(data.len(), |p| pos + p + 1), 0, false)
                 }
@@ -765,16 +779,17 @@ pub fn run<E>(
                     break;
                 }
                 match source.next_chunk(&mut slot.data, CHUNK, CHUNK_LINES, quotes, MAX_RECORD) {
-                    Ok(true) => {
+                    Ok(Some(info)) => {
                         slot.seq = seq;
                         slot.first_line = line;
-                        line += slot.data.iter().filter(|&&b| b == b'\n').count() as u64;
+                        slot.has_quote = info.has_quote;
+                        line += info.lines;
                         seq += 1;
                         if work_tx.send(slot).is_err() {
                             break;
                         }
                     }
-                    Ok(false) => break,
+                    Ok(None) => break,
                     Err(e) => {
                         if let Ok(mut g) = reader_error.lock() {
                             *g = Some(e.to_string());
