@@ -389,9 +389,17 @@ impl PointEvaluation {
     }
 }
 
-/// Deribas lower angle for one material at collision velocity vc, in radians.
+/// Deribas lower angle for one material at collision velocity vc, in radians:
+/// k sqrt(Hv / (rho Vc^2)), computed as [`deribas_coefficient`] / Vc.
 pub fn deribas_angle(material: &Material, vc: Velocity, k: f64) -> f64 {
-    k * (material.vickers_hardness.si() / (material.density().si() * vc.si() * vc.si())).sqrt()
+    deribas_coefficient(material, k) / vc.si()
+}
+
+/// The part of the Deribas angle that does not depend on Vc, k sqrt(Hv / rho) (rad m/s). The
+/// angle is this over Vc; a division by the same positive Vc keeps the order of two materials,
+/// so the governing plate can be chosen on the coefficients.
+pub fn deribas_coefficient(material: &Material, k: f64) -> f64 {
+    k * (material.vickers_hardness.si() / material.density().si()).sqrt()
 }
 
 /// Strength lower impact velocity for one material, sqrt(sigma_UTS / rho).
@@ -399,7 +407,8 @@ pub fn strength_velocity(material: &Material) -> f64 {
     (material.tensile_strength.si() / material.density().si()).sqrt()
 }
 
-/// Wittman melting upper impact velocity for one material, with the flyer thickness h.
+/// Wittman melting upper impact velocity for one material, with the flyer thickness h:
+/// [`melting_coefficient`] / Vc (form A) or / sqrt(Vc) (form B).
 pub fn melting_velocity(
     material: &Material,
     vc: Velocity,
@@ -407,16 +416,32 @@ pub fn melting_velocity(
     n: f64,
     form: WittmanForm,
 ) -> f64 {
+    melting_coefficient(material, h, n, form) / melting_divisor(vc.si(), form)
+}
+
+/// The part of the Wittman melting velocity that does not depend on Vc:
+/// sqrt(Tm c0) (k c c0 / (rho h))^(1/4) / N for form A, sqrt(Tm) (...)^(1/4) / N for form B.
+pub fn melting_coefficient(material: &Material, h: Length, n: f64, form: WittmanForm) -> f64 {
     let tm = material.melting_temperature.si();
     let c0 = material.sound_speed().si();
     let diffusive = (material.thermal_conductivity.si() * material.specific_heat.si() * c0
         / (material.density().si() * h.si()))
     .powf(0.25);
     let lead = match form {
-        WittmanForm::A => (tm * c0).sqrt() / vc.si(),
-        WittmanForm::B => (tm / vc.si()).sqrt(),
+        WittmanForm::A => (tm * c0).sqrt(),
+        WittmanForm::B => tm.sqrt(),
     };
     lead * diffusive / n
+}
+
+/// What the melting coefficient is divided by at collision velocity `vc` (m/s): Vc for form A,
+/// sqrt(Vc) for form B. Positive for a positive Vc, so the order of two materials is kept.
+#[inline]
+pub fn melting_divisor(vc: f64, form: WittmanForm) -> f64 {
+    match form {
+        WittmanForm::A => vc,
+        WittmanForm::B => vc.sqrt(),
+    }
 }
 
 /// Interface wavelength lambda = 26 h sin^2(beta/2) (from memory; Cowan, Bergmann & Holtzman

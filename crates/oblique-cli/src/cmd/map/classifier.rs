@@ -11,14 +11,12 @@
 //! reported critical angle and jetting margin of the other points carry the table's error
 //! (at most `JettingTable::ERROR_BOUND_DEG`).
 
-use oblique_core::criteria::deribas_angle;
+use oblique_core::criteria::{deribas_coefficient, melting_coefficient, melting_divisor};
 use oblique_core::hugoniot::impedance_match;
 use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime};
 use oblique_core::jetting_table::{JettingTable, Lookup};
 use oblique_core::units::{Angle, Velocity};
-use oblique_core::{
-    Collision, Convention, CriterionId, LimitKind, Material, PairSetup, PhysicsError, WittmanForm,
-};
+use oblique_core::{Collision, Convention, CriterionId, LimitKind, PairSetup, PhysicsError};
 use oblique_window::boundary::{Plane, WeldSide};
 use oblique_window::classify::{limit_label, LimitRef, Prediction};
 use oblique_window::PairWindow;
@@ -55,38 +53,6 @@ pub struct LimitInfo {
     pub column: String,
     /// Unit of the margin as computed (deg, m/s or Pa).
     pub unit: &'static str,
-}
-
-struct MeltingConsts {
-    lead_a: f64,
-    tm: f64,
-    diffusive: f64,
-}
-
-impl MeltingConsts {
-    /// The parts of `oblique_core::criteria::melting_velocity` that do not depend on Vc,
-    /// computed with the same operations so that the result is bit-identical.
-    fn new(m: &Material, h: f64) -> Self {
-        let tm = m.melting_temperature.si();
-        let c0 = m.sound_speed().si();
-        let diffusive = (m.thermal_conductivity.si() * m.specific_heat.si() * c0
-            / (m.density().si() * h))
-            .powf(0.25);
-        Self {
-            lead_a: (tm * c0).sqrt(),
-            tm,
-            diffusive,
-        }
-    }
-
-    #[inline]
-    fn velocity(&self, vc: f64, n: f64, form: WittmanForm) -> f64 {
-        let lead = match form {
-            WittmanForm::A => self.lead_a / vc,
-            WittmanForm::B => (self.tm / vc).sqrt(),
-        };
-        lead * self.diffusive / n
-    }
 }
 
 struct FastBoundary {
@@ -168,8 +134,13 @@ pub struct Classifier {
     /// Built (lazily, node by node) on the first row with supersonic inflow (never for all-subsonic inputs); `None`
     /// inside if the build failed, and then every supersonic row is solved directly.
     table: OnceLock<Option<JettingTable>>,
-    melt_f: MeltingConsts,
-    melt_p: MeltingConsts,
+    /// The governing (larger) Deribas coefficient k sqrt(Hv / rho) of the two plates: the
+    /// limit is this over Vc, and dividing by the same Vc keeps the order, so the result is
+    /// bit for bit the larger of the two plates' limits.
+    deribas: f64,
+    /// The governing (smaller) Wittman melting coefficient; the limit is this over
+    /// `melting_divisor(Vc)`, as for `deribas`.
+    melting: f64,
     strength: (f64, f64),
     pressure: (f64, f64),
     boundaries: Vec<FastBoundary>,
@@ -193,9 +164,15 @@ impl Classifier {
         let setup = window.setup()?;
         let cfg = window.criteria.clone();
         cfg.validate()?;
-        let h = setup.flyer_thickness.si();
-        let melt_f = MeltingConsts::new(&setup.flyer, h);
-        let melt_p = MeltingConsts::new(&setup.parent, h);
+        let (df, dp) = (
+            deribas_coefficient(&setup.flyer, cfg.deribas_k),
+            deribas_coefficient(&setup.parent, cfg.deribas_k),
+        );
+        let h = setup.flyer_thickness;
+        let (mf, mp) = (
+            melting_coefficient(&setup.flyer, h, cfg.wittman_n, cfg.wittman_form),
+            melting_coefficient(&setup.parent, h, cfg.wittman_n, cfg.wittman_form),
+        );
         let strength = (
             oblique_core::criteria::strength_velocity(&setup.flyer),
             oblique_core::criteria::strength_velocity(&setup.parent),
@@ -272,8 +249,8 @@ impl Classifier {
             cfg,
             mode,
             table: OnceLock::new(),
-            melt_f,
-            melt_p,
+            deribas: if df >= dp { df } else { dp },
+            melting: if mf <= mp { mf } else { mp },
             strength,
             pressure,
             boundaries,
@@ -472,9 +449,7 @@ impl Classifier {
         for (k, id) in self.criteria.iter().enumerate() {
             let (value, limit, margin, satisfied, kind) = match id {
                 CriterionId::DeribasLower => {
-                    let lf = deribas_angle(f, vc, cfg.deribas_k).to_degrees();
-                    let lp = deribas_angle(p, vc, cfg.deribas_k).to_degrees();
-                    let limit = if lf >= lp { lf } else { lp };
+                    let limit = (self.deribas / vc.si()).to_degrees();
                     (
                         beta_deg,
                         limit,
@@ -496,13 +471,7 @@ impl Classifier {
                     (v, limit, v - limit, v >= limit, LimitKind::Lower)
                 }
                 CriterionId::MeltingUpper => {
-                    let lf = self
-                        .melt_f
-                        .velocity(vc.si(), cfg.wittman_n, cfg.wittman_form);
-                    let lp = self
-                        .melt_p
-                        .velocity(vc.si(), cfg.wittman_n, cfg.wittman_form);
-                    let limit = if lf <= lp { lf } else { lp };
+                    let limit = self.melting / melting_divisor(vc.si(), cfg.wittman_form);
                     let v = vp.si();
                     (v, limit, limit - v, v <= limit, LimitKind::Upper)
                 }
@@ -608,6 +577,7 @@ impl Classifier {
 #[cfg(test)]
 pub(crate) mod tests {
     use super::*;
+    use oblique_core::WittmanForm;
     use oblique_window::classify::{classify, classify_with_jetting};
     use oblique_window::pair::{parse_pair_file, Origin};
     use oblique_window::Library;
@@ -718,21 +688,32 @@ pub(crate) mod tests {
         Ok(())
     }
 
+    /// The governing coefficient over Vc is bit for bit the governing plate's limit, for both
+    /// Wittman forms and any k (division by the same positive Vc keeps the order).
     #[test]
-    fn melting_constants_are_bit_identical() {
+    fn governing_coefficients_are_bit_identical() {
         let w = test_window();
         let s = w.setup().unwrap();
         for form in [WittmanForm::A, WittmanForm::B] {
-            for vc in [900.0, 2500.0, 7321.5] {
-                let m = MeltingConsts::new(&s.flyer, s.flyer_thickness.si());
-                let want = oblique_core::criteria::melting_velocity(
-                    &s.flyer,
-                    Velocity::from_m_s(vc),
-                    s.flyer_thickness,
-                    0.11,
-                    form,
-                );
-                assert_eq!(m.velocity(vc, 0.11, form).to_bits(), want.to_bits());
+            for (k, n) in [(0.6, 0.11), (1.2, 0.05)] {
+                let mut win = w.clone();
+                win.criteria.deribas_k = k;
+                win.criteria.wittman_n = n;
+                win.criteria.wittman_form = form;
+                let cl = Classifier::new(&win, VelocityKind::Impact, JettingMode::Table).unwrap();
+                for vc in [900.0, 2500.0, 7321.5, 15_000.0] {
+                    let v = Velocity::from_m_s(vc);
+                    let h = s.flyer_thickness;
+                    let mf = oblique_core::criteria::melting_velocity(&s.flyer, v, h, n, form);
+                    let mp = oblique_core::criteria::melting_velocity(&s.parent, v, h, n, form);
+                    let want = if mf <= mp { mf } else { mp };
+                    let got = cl.melting / melting_divisor(vc, form);
+                    assert_eq!(got.to_bits(), want.to_bits());
+                    let df = oblique_core::criteria::deribas_angle(&s.flyer, v, k).to_degrees();
+                    let dp = oblique_core::criteria::deribas_angle(&s.parent, v, k).to_degrees();
+                    let want = if df >= dp { df } else { dp };
+                    assert_eq!((cl.deribas / vc).to_degrees().to_bits(), want.to_bits());
+                }
             }
         }
     }
