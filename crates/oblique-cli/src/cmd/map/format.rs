@@ -165,7 +165,7 @@ fn fixed<const DEC: usize>(out: &mut Vec<u8>, x: f64) {
 /// digits, then four of two, then eight of one, each split by a multiply-and-shift that is
 /// exact in its range (x * 10486 >> 20 = x / 100 for x < 10^4; x * 103 >> 10 = x / 10 for
 /// x < 100); checked against `to_string` for every magnitude in the tests.
-#[inline]
+#[inline(always)]
 fn eight_digits(n: u32) -> u64 {
     let n = u64::from(n);
     let merged = (n / 10_000) | ((n % 10_000) << 32);
@@ -177,8 +177,113 @@ fn eight_digits(n: u32) -> u64 {
     tens
 }
 
-/// Bytes every write of a number may touch past the cursor of a [`TextBuf`].
-const SLACK: usize = 40;
+/// The most bytes one number can touch: the digit loop's fallback writes every integer digit of
+/// the largest f64 (309), a sign, a point and up to 9 decimals, and the word stores of the fast
+/// path reach up to 8 bytes past the end of the text.
+pub const NUMBER_MAX: usize = 340;
+
+/// Writes one stretch of text (a row) into scratch that is known to be long enough, with the
+/// cursor in a local: no length bookkeeping in memory between writes, so consecutive writes do
+/// not wait on each other. Every write is still bounds-checked (a wrong bound panics, it never
+/// writes outside); [`TextBuf::writer`] sizes it and [`TextBuf::commit`] keeps what it wrote.
+pub struct RowWriter<'a> {
+    buf: &'a mut [u8],
+    pos: usize,
+}
+
+impl RowWriter<'_> {
+    /// Bytes written so far.
+    #[inline]
+    pub fn written(&self) -> usize {
+        self.pos
+    }
+
+    /// Append one byte.
+    #[inline]
+    pub fn push(&mut self, b: u8) {
+        self.buf[self.pos] = b;
+        self.pos += 1;
+    }
+
+    /// Append bytes.
+    #[inline]
+    pub fn extend(&mut self, s: &[u8]) {
+        self.buf[self.pos..self.pos + s.len()].copy_from_slice(s);
+        self.pos += s.len();
+    }
+
+    /// Append an unsigned integer in decimal.
+    #[inline]
+    pub fn u64(&mut self, n: u64) {
+        match u32::try_from(n) {
+            Ok(m) if m < 100_000_000 => {
+                let d = eight_digits(m);
+                let skip = ((d.trailing_zeros() / 8) as usize).min(7);
+                let word = (d | 0x3030_3030_3030_3030) >> (8 * skip);
+                self.buf[self.pos..self.pos + 8].copy_from_slice(&word.to_le_bytes());
+                self.pos += 8 - skip;
+            }
+            _ => {
+                let mut v = Vec::with_capacity(24);
+                push_u64(&mut v, n);
+                self.extend(&v);
+            }
+        }
+    }
+
+    /// Append `x` with exactly `dec` decimals, exactly as [`push_fixed`] writes it (nothing for
+    /// a non-finite value).
+    #[inline]
+    pub fn fixed(&mut self, x: f64, dec: usize) {
+        match dec {
+            0 => self.fixed_n::<0>(x),
+            1 => self.fixed_n::<1>(x),
+            2 => self.fixed_n::<2>(x),
+            3 => self.fixed_n::<3>(x),
+            4 => self.fixed_n::<4>(x),
+            5 => self.fixed_n::<5>(x),
+            6 => self.fixed_n::<6>(x),
+            _ => {
+                let mut v = Vec::with_capacity(32);
+                push_fixed(&mut v, x, dec);
+                self.extend(&v);
+            }
+        }
+    }
+
+    /// Up to eight significant digits with one SWAR conversion and three stores: the digits
+    /// from the first significant one (at least one before the point), the point, the
+    /// decimals. Same rounding as `fixed` (|x| 10^d + 0.5 truncated); a NaN or anything from
+    /// 10^8 / 10^d up takes the digit loop.
+    #[inline(always)]
+    pub fn fixed_n<const DEC: usize>(&mut self, x: f64) {
+        let scaled = x.abs() * POW10[DEC] + 0.5;
+        if !(scaled < 1e8) {
+            if x.is_finite() {
+                let mut v = Vec::with_capacity(32);
+                fixed::<DEC>(&mut v, x);
+                self.extend(&v);
+            }
+            return;
+        }
+        let n = scaled as u32;
+        let neg = usize::from(x < 0.0 && n != 0);
+        let d = eight_digits(n);
+        let skip = ((d.trailing_zeros() / 8) as usize).min(7 - DEC);
+        let ascii = d | 0x3030_3030_3030_3030;
+        let int_len = 8 - DEC - skip;
+        let buf = &mut self.buf[self.pos..self.pos + 18];
+        buf[0] = b'-';
+        buf[neg..neg + 8].copy_from_slice(&(ascii >> (8 * skip)).to_le_bytes());
+        let mut len = neg + int_len;
+        if DEC > 0 {
+            buf[len] = b'.';
+            buf[len + 1..len + 9].copy_from_slice(&(ascii >> (8 * (8 - DEC))).to_le_bytes());
+            len += 1 + DEC;
+        }
+        self.pos += len;
+    }
+}
 
 /// An output buffer written through a cursor. The bytes past the cursor are scratch, zeroed
 /// once when the buffer grows, so numbers go in with a few whole-word stores and no
@@ -239,76 +344,40 @@ impl TextBuf {
         self.len += s.len();
     }
 
+    /// A writer over the scratch past the cursor, at least `n` bytes of it; pass what it
+    /// wrote to [`TextBuf::commit`].
+    #[inline]
+    pub fn writer(&mut self, n: usize) -> RowWriter<'_> {
+        self.room(n);
+        RowWriter {
+            buf: &mut self.bytes[self.len..],
+            pos: 0,
+        }
+    }
+
+    /// Keep `n` bytes written by the last [`TextBuf::writer`].
+    #[inline]
+    pub fn commit(&mut self, n: usize) {
+        self.len = (self.len + n).min(self.bytes.len());
+    }
+
     /// Append an unsigned integer in decimal.
     #[inline]
     pub fn u64(&mut self, n: u64) {
-        match u32::try_from(n) {
-            Ok(m) if m < 100_000_000 => {
-                let d = eight_digits(m);
-                let skip = ((d.trailing_zeros() / 8) as usize).min(7);
-                let word = (d | 0x3030_3030_3030_3030) >> (8 * skip);
-                self.room(SLACK)[..8].copy_from_slice(&word.to_le_bytes());
-                self.len += 8 - skip;
-            }
-            _ => {
-                let mut v = Vec::with_capacity(24);
-                push_u64(&mut v, n);
-                self.extend(&v);
-            }
-        }
+        let mut w = self.writer(NUMBER_MAX);
+        w.u64(n);
+        let k = w.written();
+        self.commit(k);
     }
 
     /// Append `x` with exactly `dec` decimals, exactly as [`push_fixed`] writes it (nothing for
     /// a non-finite value).
     #[inline]
     pub fn fixed(&mut self, x: f64, dec: usize) {
-        match dec {
-            0 => self.fixed_n::<0>(x),
-            1 => self.fixed_n::<1>(x),
-            2 => self.fixed_n::<2>(x),
-            3 => self.fixed_n::<3>(x),
-            4 => self.fixed_n::<4>(x),
-            5 => self.fixed_n::<5>(x),
-            6 => self.fixed_n::<6>(x),
-            _ => {
-                let mut v = Vec::with_capacity(32);
-                push_fixed(&mut v, x, dec);
-                self.extend(&v);
-            }
-        }
-    }
-
-    /// Up to eight significant digits with one SWAR conversion and three stores: the digits
-    /// from the first significant one (at least one before the point), the point, the
-    /// decimals. Same rounding as `fixed` (|x| 10^d + 0.5 truncated).
-    #[inline]
-    fn fixed_n<const DEC: usize>(&mut self, x: f64) {
-        if !x.is_finite() {
-            return;
-        }
-        let scaled = x.abs() * POW10[DEC] + 0.5;
-        if !(scaled < 1e8) {
-            let mut v = Vec::with_capacity(32);
-            fixed::<DEC>(&mut v, x);
-            self.extend(&v);
-            return;
-        }
-        let n = scaled as u32;
-        let neg = usize::from(x < 0.0 && n != 0);
-        let d = eight_digits(n);
-        let skip = ((d.trailing_zeros() / 8) as usize).min(7 - DEC);
-        let ascii = d | 0x3030_3030_3030_3030;
-        let int_len = 8 - DEC - skip;
-        let buf = self.room(SLACK);
-        buf[0] = b'-';
-        buf[neg..neg + 8].copy_from_slice(&(ascii >> (8 * skip)).to_le_bytes());
-        let mut len = neg + int_len;
-        if DEC > 0 {
-            buf[len] = b'.';
-            buf[len + 1..len + 9].copy_from_slice(&(ascii >> (8 * (8 - DEC))).to_le_bytes());
-            len += 1 + DEC;
-        }
-        self.len += len;
+        let mut w = self.writer(NUMBER_MAX);
+        w.fixed(x, dec);
+        let k = w.written();
+        self.commit(k);
     }
 
     /// Append `x` with `dec` decimals, or `null` when not finite (JSON).

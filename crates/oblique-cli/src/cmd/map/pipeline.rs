@@ -4,7 +4,9 @@
 //! slots circulates between the three, so memory stays bounded whatever the input size.
 
 use super::classifier::{Classifier, Point};
-use super::format::{is_json_number, push_csv_field, push_json_string, push_u64, TextBuf};
+use super::format::{
+    is_json_number, push_csv_field, push_json_string, push_u64, RowWriter, TextBuf, NUMBER_MAX,
+};
 use super::input::{
     next_record, parse_number, scan_plain, split_fields, split_plain_line, trim_spaces, Fields,
     Format, Header, Source,
@@ -120,14 +122,15 @@ pub struct Ctx<'a> {
     pub binding_csv: Vec<Vec<u8>>,
     /// See `binding_csv`.
     pub binding_json: Vec<Vec<u8>>,
-    /// Per limit: factor to the output unit and decimals.
-    pub margin_out: Vec<(f64, usize)>,
     /// Computed column names (with units), in order.
     pub computed: Vec<String>,
     /// Computed column kinds, in order.
     pub cols: Vec<Col>,
     /// JSON keys of the computed columns.
     pub computed_keys: Vec<Vec<u8>>,
+    /// Most bytes of a CSV row besides the input line: row number, separators, every
+    /// computed column at its widest, line break.
+    pub row_bound: usize,
 }
 
 /// One computed output column.
@@ -150,15 +153,36 @@ pub enum Col {
     /// Relative margin of the binding limit.
     BindingRelative,
     /// Margin of limit k, in its output unit.
-    Margin(usize),
+    Margin(usize, MarginUnit),
     /// Outside the span of a user boundary.
     Outside,
 }
 
-/// The computed columns for a classifier: names (with units), kinds, and per limit the factor
-/// to the output unit and the decimals. `all` adds Vp (always there for collision-velocity
+/// The output unit of a margin column, which fixes its factor and decimals.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum MarginUnit {
+    /// m/s, 1 decimal.
+    MetresPerSecond,
+    /// deg, 3 decimals.
+    Degrees,
+    /// GPa (from Pa), 3 decimals.
+    Gigapascals,
+}
+
+impl MarginUnit {
+    /// Factor from the computed unit, and decimals.
+    pub fn factor_decimals(self) -> (f64, usize) {
+        match self {
+            Self::MetresPerSecond => (1.0, 1),
+            Self::Degrees => (1.0, 3),
+            Self::Gigapascals => (1e-9, 3),
+        }
+    }
+}
+
+/// The computed columns for a classifier: names (with units) and kinds. `all` adds Vp (always there for collision-velocity
 /// input), the jetting critical angle and the binding relative margin.
-pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>, Vec<(f64, usize)>) {
+pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
     let mut names: Vec<String> = vec!["verdict".into(), "binding".into()];
     let mut cols = vec![Col::Verdict, Col::Binding];
     if all || c.kind() == super::classifier::VelocityKind::Collision {
@@ -181,22 +205,20 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>, Ve
         names.push("binding_relative_margin".into());
         cols.push(Col::BindingRelative);
     }
-    let mut margin_out = Vec::new();
     for (k, l) in c.limits.iter().enumerate() {
-        let (unit, factor, dec) = match l.unit {
-            "Pa" => ("GPa", 1e-9, 3),
-            "deg" => ("deg", 1.0, 3),
-            _ => ("m/s", 1.0, 1),
+        let (unit, mu) = match l.unit {
+            "Pa" => ("GPa", MarginUnit::Gigapascals),
+            "deg" => ("deg", MarginUnit::Degrees),
+            _ => ("m/s", MarginUnit::MetresPerSecond),
         };
         names.push(format!("{}[{unit}]", l.column));
-        cols.push(Col::Margin(k));
-        margin_out.push((factor, dec));
+        cols.push(Col::Margin(k, mu));
     }
     if c.has_boundaries() {
         names.push("outside_trial_data".into());
         cols.push(Col::Outside);
     }
-    (names, cols, margin_out)
+    (names, cols)
 }
 
 impl<'a> Ctx<'a> {
@@ -210,7 +232,7 @@ impl<'a> Ctx<'a> {
         policy: &'a Policy,
         all_columns: bool,
     ) -> Self {
-        let (computed, cols, margin_out) = computed_columns(classifier, all_columns);
+        let (computed, cols) = computed_columns(classifier, all_columns);
         let taken: Vec<&str> = std::iter::once("row")
             .chain(computed.iter().map(String::as_str))
             .collect();
@@ -245,7 +267,7 @@ impl<'a> Ctx<'a> {
                 cell_role[col.index] = Some(r);
             }
         }
-        let binding_csv = classifier
+        let binding_csv: Vec<Vec<u8>> = classifier
             .limits
             .iter()
             .map(|l| {
@@ -263,7 +285,22 @@ impl<'a> Ctx<'a> {
                 v
             })
             .collect();
+        let binding_max = binding_csv.iter().map(Vec::len).max().unwrap_or(0);
+        let row_bound = NUMBER_MAX
+            + 2
+            + cols
+                .iter()
+                .map(|c| {
+                    1 + match c {
+                        Col::Verdict => 16,
+                        Col::Binding => binding_max,
+                        Col::Outside => 5,
+                        _ => NUMBER_MAX,
+                    }
+                })
+                .sum::<usize>();
         Self {
+            row_bound,
             file,
             in_format,
             out_format,
@@ -275,7 +312,6 @@ impl<'a> Ctx<'a> {
             cell_role,
             binding_csv,
             binding_json,
-            margin_out,
             computed_keys: computed.iter().map(|c| key(c)).collect(),
             computed,
             cols,
@@ -531,10 +567,25 @@ impl Worker {
         let out_start = out.len();
         match ctx.out_format {
             Format::Csv => {
-                out.u64(row);
-                out.push(b',');
+                let line_len = match &cells {
+                    Cells::Csv { line, .. } => line.len(),
+                    Cells::Json { .. } => 0,
+                };
+                let mut w = out.writer(ctx.row_bound + line_len);
+                w.u64(row);
+                w.push(b',');
+                if let Cells::Csv { line, .. } = &cells {
+                    w.extend(line);
+                    self.computed_csv(ctx, &mut w, &p);
+                    w.push(b'\n');
+                    let n = w.written();
+                    out.commit(n);
+                } else {
+                    let n = w.written();
+                    out.commit(n);
+                }
                 match &cells {
-                    Cells::Csv { line, .. } => out.extend(line),
+                    Cells::Csv { .. } => {}
                     Cells::Json { obj } => {
                         for (i, c) in ctx.header.cells.iter().enumerate() {
                             if i > 0 {
@@ -546,10 +597,13 @@ impl Worker {
                                 Some(other) => out.csv_field(other.to_string().as_bytes()),
                             }
                         }
+                        let mut w = out.writer(ctx.row_bound);
+                        self.computed_csv(ctx, &mut w, &p);
+                        w.push(b'\n');
+                        let n = w.written();
+                        out.commit(n);
                     }
                 }
-                self.computed_csv(ctx, out, &p);
-                out.push(b'\n');
             }
             Format::Jsonl => {
                 out.extend(b"{\"row\":");
@@ -635,7 +689,8 @@ impl Worker {
         Ok(())
     }
 
-    fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut TextBuf, p: &Point) {
+    #[inline]
+    fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut RowWriter<'_>, p: &Point) {
         for col in &ctx.cols {
             out.push(b',');
             match *col {
@@ -645,15 +700,17 @@ impl Worker {
                         out.extend(&ctx.binding_csv[b]);
                     }
                 }
-                Col::ImpactVelocity => out.fixed(p.vp, 1),
-                Col::CollisionVelocity => out.fixed(p.vc, 1),
-                Col::FlowVelocity => out.fixed(p.vf, 1),
-                Col::Pressure => out.fixed(p.pressure * 1e-9, 3),
-                Col::JettingAngle => out.fixed(p.jetting_deg, 3),
-                Col::BindingRelative => out.fixed(p.binding_relative, 4),
-                Col::Margin(k) => {
-                    let (f, d) = ctx.margin_out[k];
-                    out.fixed(self.margins[k] * f, d);
+                // Decimals fixed per column, so each conversion is inlined for its count.
+                Col::ImpactVelocity => out.fixed_n::<1>(p.vp),
+                Col::CollisionVelocity => out.fixed_n::<1>(p.vc),
+                Col::FlowVelocity => out.fixed_n::<1>(p.vf),
+                Col::Pressure => out.fixed_n::<3>(p.pressure * 1e-9),
+                Col::JettingAngle => out.fixed_n::<3>(p.jetting_deg),
+                Col::BindingRelative => out.fixed_n::<4>(p.binding_relative),
+                Col::Margin(k, MarginUnit::MetresPerSecond) => out.fixed_n::<1>(self.margins[k]),
+                Col::Margin(k, MarginUnit::Degrees) => out.fixed_n::<3>(self.margins[k]),
+                Col::Margin(k, MarginUnit::Gigapascals) => {
+                    out.fixed_n::<3>(self.margins[k] * 1e-9);
                 }
                 Col::Outside => out.extend(if p.outside_trial_data {
                     b"true"
@@ -684,8 +741,8 @@ impl Worker {
                 Col::Pressure => out.json_number(p.pressure * 1e-9, 3),
                 Col::JettingAngle => out.json_number(p.jetting_deg, 3),
                 Col::BindingRelative => out.json_number(p.binding_relative, 4),
-                Col::Margin(k) => {
-                    let (f, d) = ctx.margin_out[k];
+                Col::Margin(k, unit) => {
+                    let (f, d) = unit.factor_decimals();
                     out.json_number(self.margins[k] * f, d);
                 }
                 Col::Outside => out.extend(if p.outside_trial_data {
