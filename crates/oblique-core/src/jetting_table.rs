@@ -258,11 +258,11 @@ impl JettingTable {
         }
         let xf = (vf - self.c0_flyer).sqrt() * self.inv_du_flyer;
         let xp = (vc - self.c0_parent).sqrt() * self.inv_du_parent;
-        let last = (self.nodes - 2) as f64;
-        let fi = xf.floor().min(last);
-        let fj = xp.floor().min(last);
-        let (tf, tp) = (xf - fi, xp - fj);
-        let (i, j) = (fi as usize, fj as usize);
+        // Both coordinates are non-negative and below the node count here (the inflows are
+        // above C0 and at most `max_inflow`), so truncation is floor, without a libm call.
+        let last = self.nodes - 2;
+        let (i, j) = ((xf as usize).min(last), (xp as usize).min(last));
+        let (tf, tp) = (xf - i as f64, xp - j as f64);
         let a = self.node(i, j);
         let b = self.node(i, j + 1);
         let c = self.node(i + 1, j);
