@@ -131,6 +131,8 @@ pub struct Ctx<'a> {
     /// Most bytes of a CSV row besides the input line: row number, separators, every
     /// computed column at its widest, line break.
     pub row_bound: usize,
+    /// The computed CSV columns as straight-line writes.
+    pub csv_plan: CsvPlan,
 }
 
 /// One computed output column.
@@ -221,6 +223,56 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
     (names, cols)
 }
 
+/// The computed CSV columns as a straight line of writes, in the order [`computed_columns`]
+/// lays them out. (A loop over the columns with a match lets the compiler hoist and run every
+/// number conversion any column might need, on every row, needed or not.)
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct CsvPlan {
+    vp: bool,
+    jetting: bool,
+    rel: bool,
+    margins: Vec<(usize, MarginUnit)>,
+    outside: bool,
+}
+
+impl CsvPlan {
+    fn new(cols: &[Col]) -> Self {
+        let mut plan = Self::default();
+        for c in cols {
+            match *c {
+                Col::ImpactVelocity => plan.vp = true,
+                Col::JettingAngle => plan.jetting = true,
+                Col::BindingRelative => plan.rel = true,
+                Col::Margin(k, u) => plan.margins.push((k, u)),
+                Col::Outside => plan.outside = true,
+                Col::Verdict | Col::Binding | Col::CollisionVelocity | Col::FlowVelocity => {}
+                Col::Pressure => {}
+            }
+        }
+        plan
+    }
+
+    /// The columns this plan writes, in its order (checked against `computed_columns`).
+    fn columns(&self) -> Vec<Col> {
+        let mut v = vec![Col::Verdict, Col::Binding];
+        if self.vp {
+            v.push(Col::ImpactVelocity);
+        }
+        v.extend([Col::CollisionVelocity, Col::FlowVelocity, Col::Pressure]);
+        if self.jetting {
+            v.push(Col::JettingAngle);
+        }
+        if self.rel {
+            v.push(Col::BindingRelative);
+        }
+        v.extend(self.margins.iter().map(|&(k, u)| Col::Margin(k, u)));
+        if self.outside {
+            v.push(Col::Outside);
+        }
+        v
+    }
+}
+
 impl<'a> Ctx<'a> {
     /// Precompute the output pieces.
     pub fn new(
@@ -299,7 +351,14 @@ impl<'a> Ctx<'a> {
                     }
                 })
                 .sum::<usize>();
+        let csv_plan = CsvPlan::new(&cols);
+        assert_eq!(
+            csv_plan.columns(),
+            cols,
+            "the CSV plan must write the columns in header order"
+        );
         Self {
+            csv_plan,
             row_bound,
             file,
             in_format,
@@ -731,33 +790,48 @@ impl Worker {
 
     #[inline]
     fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut RowWriter<'_>, p: &Point) {
-        for col in &ctx.cols {
+        // Decimals fixed per column, so each conversion is inlined for its count.
+        let plan = &ctx.csv_plan;
+        out.push(b',');
+        out.extend(p.verdict.as_str().as_bytes());
+        out.push(b',');
+        if let Some(b) = p.binding {
+            out.extend(&ctx.binding_csv[b]);
+        }
+        if plan.vp {
             out.push(b',');
-            match *col {
-                Col::Verdict => out.extend(p.verdict.as_str().as_bytes()),
-                Col::Binding => {
-                    if let Some(b) = p.binding {
-                        out.extend(&ctx.binding_csv[b]);
-                    }
-                }
-                // Decimals fixed per column, so each conversion is inlined for its count.
-                Col::ImpactVelocity => out.fixed_n::<1>(p.vp),
-                Col::CollisionVelocity => out.fixed_n::<1>(p.vc),
-                Col::FlowVelocity => out.fixed_n::<1>(p.vf),
-                Col::Pressure => out.fixed_n::<3>(p.pressure * 1e-9),
-                Col::JettingAngle => out.fixed_n::<3>(p.jetting_deg),
-                Col::BindingRelative => out.fixed_n::<4>(p.binding_relative),
-                Col::Margin(k, MarginUnit::MetresPerSecond) => out.fixed_n::<1>(self.margins[k]),
-                Col::Margin(k, MarginUnit::Degrees) => out.fixed_n::<3>(self.margins[k]),
-                Col::Margin(k, MarginUnit::Gigapascals) => {
-                    out.fixed_n::<3>(self.margins[k] * 1e-9);
-                }
-                Col::Outside => out.extend(if p.outside_trial_data {
-                    b"true"
-                } else {
-                    b"false"
-                }),
+            out.fixed_n::<1>(p.vp);
+        }
+        out.push(b',');
+        out.fixed_n::<1>(p.vc);
+        out.push(b',');
+        out.fixed_n::<1>(p.vf);
+        out.push(b',');
+        out.fixed_n::<3>(p.pressure * 1e-9);
+        if plan.jetting {
+            out.push(b',');
+            out.fixed_n::<3>(p.jetting_deg);
+        }
+        if plan.rel {
+            out.push(b',');
+            out.fixed_n::<4>(p.binding_relative);
+        }
+        for &(k, unit) in &plan.margins {
+            out.push(b',');
+            let m = self.margins.get(k).copied().unwrap_or(f64::NAN);
+            match unit {
+                MarginUnit::MetresPerSecond => out.fixed_n::<1>(m),
+                MarginUnit::Degrees => out.fixed_n::<3>(m),
+                MarginUnit::Gigapascals => out.fixed_n::<3>(m * 1e-9),
             }
+        }
+        if plan.outside {
+            out.push(b',');
+            out.extend(if p.outside_trial_data {
+                b"true"
+            } else {
+                b"false"
+            });
         }
     }
 
