@@ -445,11 +445,10 @@ fn number_reason(text: &[u8], cell: &str) -> String {
 
 impl Worker {
     /// The common case of [`Worker::values`] without building any message: an unquoted CSV
-    /// record whose fields all parse and pass the checks. `tail` is the chunk from the start
-    /// of the record on (the field ranges count from there). `None` sends the row to
-    /// `values`, which finds the same fault and words it.
+    /// record whose fields all parse and pass the checks. `None` sends the row to `values`,
+    /// which finds the same fault and words it.
     #[inline]
-    fn plain_values(&self, ctx: &Ctx<'_>, tail: &[u8]) -> Option<RowValues> {
+    fn plain_values(&self, ctx: &Ctx<'_>, line: &[u8]) -> Option<RowValues> {
         if self.fields.quoted {
             return None;
         }
@@ -457,7 +456,7 @@ impl Worker {
         let ranges = &self.fields.ranges;
         let num = |col: &super::input::Column| -> Option<f64> {
             let &(s, e) = ranges.get(col.index)?;
-            parse_number(tail.get(s..e)?).map(|v| v * col.factor)
+            parse_number(line.get(s..e)?).map(|v| v * col.factor)
         };
         let position = num(&h.position)?;
         let velocity = num(&h.velocity)?;
@@ -565,7 +564,6 @@ impl Worker {
                     (end, nl.map_or(data.len(), |p| pos + p + 1), 0, false)
                 }
             };
-            let rec_start = pos;
             let mut rec = &data[pos..end];
             if rec.last() == Some(&b'\r') {
                 rec = &rec[..rec.len() - 1];
@@ -583,8 +581,7 @@ impl Worker {
                 continue;
             }
             slot.stats.rows_read += 1;
-            let tail = &data[rec_start..];
-            if let Err((field, reason)) = self.row(ctx, slot, row, rec, tail, quoted, plain) {
+            if let Err((field, reason)) = self.row(ctx, slot, row, rec, quoted, plain) {
                 slot.stats.rejected += 1;
                 if let Policy::Save(_) = ctx.policy {
                     write_bad(ctx, &mut slot.bad_out, row, &field, &reason, rec);
@@ -605,7 +602,6 @@ impl Worker {
         slot: &mut Slot,
         row: u64,
         rec: &[u8],
-        tail: &[u8],
         quoted: bool,
         already_split: bool,
     ) -> Result<(), Bad> {
@@ -650,7 +646,7 @@ impl Worker {
             }
         };
         let fast = match &cells {
-            Cells::Csv { .. } => self.plain_values(ctx, tail),
+            Cells::Csv { line, .. } => self.plain_values(ctx, line),
             Cells::Json { .. } => None,
         };
         let v = match fast {
