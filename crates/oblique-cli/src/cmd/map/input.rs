@@ -153,6 +153,15 @@ pub fn parse_number(bytes: &[u8]) -> Option<f64> {
 /// Trim ASCII spaces and tabs.
 #[inline]
 pub fn trim_spaces(b: &[u8]) -> &[u8] {
+    let blank = |c: u8| c == b' ' || c == b'\t';
+    match (b.first(), b.last()) {
+        // Nothing to trim: the common case, two tests.
+        (Some(&f), Some(&l)) if !blank(f) && !blank(l) => b,
+        _ => trim_blank_ends(b),
+    }
+}
+
+fn trim_blank_ends(b: &[u8]) -> &[u8] {
     let mut s = 0;
     let mut e = b.len();
     while s < e && (b[s] == b' ' || b[s] == b'\t') {
@@ -457,23 +466,24 @@ impl Source {
     }
 
     fn fill_more(&mut self, want: usize) -> std::io::Result<usize> {
+        // `take` + `read_to_end` reads into the spare capacity without zeroing it first, and
+        // retries interrupted reads; it stops at `want` bytes or the end of the input.
         let old = self.pending.len();
-        self.pending.resize(old + want, 0);
-        let n = loop {
-            match self.reader.read(&mut self.pending[old..]) {
-                Ok(n) => break n,
-                Err(e) if e.kind() == std::io::ErrorKind::Interrupted => continue,
-                Err(e) => {
-                    self.pending.truncate(old);
-                    return Err(e);
+        let r = (&mut self.reader)
+            .take(want as u64)
+            .read_to_end(&mut self.pending);
+        match r {
+            Ok(n) => {
+                if n == 0 {
+                    self.eof = true;
                 }
+                Ok(n)
             }
-        };
-        self.pending.truncate(old + n);
-        if n == 0 {
-            self.eof = true;
+            Err(e) => {
+                self.pending.truncate(old);
+                Err(e)
+            }
         }
-        Ok(n)
     }
 
     /// The first line (a CSV header may have quoted cells with line breaks), without its line

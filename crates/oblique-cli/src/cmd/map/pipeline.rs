@@ -784,7 +784,7 @@ impl Worker {
         Ok(())
     }
 
-    #[inline]
+    #[inline(always)]
     fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut RowWriter<'_>, p: &Point) {
         // Decimals fixed per column, so each conversion is inlined for its count.
         let plan = &ctx.csv_plan;
