@@ -182,6 +182,84 @@ fn eight_digits(n: u32) -> u64 {
 /// path reach up to 8 bytes past the end of the text.
 pub const NUMBER_MAX: usize = 340;
 
+/// Bytes in a [`Word`].
+pub const WORD: usize = 32;
+
+/// A short text padded to a fixed size, so that writing it is one fixed-size copy.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Word {
+    bytes: [u8; WORD],
+    len: usize,
+}
+
+impl Word {
+    /// `text` padded; `None` if it does not fit.
+    pub fn new(text: &[u8]) -> Option<Self> {
+        let mut bytes = [0u8; WORD];
+        bytes.get_mut(..text.len())?.copy_from_slice(text);
+        Some(Self {
+            bytes,
+            len: text.len(),
+        })
+    }
+}
+
+/// The decimal text of a row number, kept up to date by counting: the next row costs a digit
+/// increment, not a conversion.
+#[derive(Debug, Clone)]
+pub struct Counter {
+    value: u64,
+    word: Word,
+}
+
+impl Default for Counter {
+    fn default() -> Self {
+        Self::at(0)
+    }
+}
+
+impl Counter {
+    /// Start at `n`.
+    pub fn at(n: u64) -> Self {
+        let mut v = Vec::with_capacity(24);
+        push_u64(&mut v, n);
+        let mut bytes = [0u8; WORD];
+        bytes[..v.len()].copy_from_slice(&v);
+        Self {
+            value: n,
+            word: Word {
+                bytes,
+                len: v.len(),
+            },
+        }
+    }
+
+    /// The text of `n`: counted up by one from the last value, or converted afresh.
+    #[inline]
+    pub fn get(&mut self, n: u64) -> &Word {
+        if n == self.value.wrapping_add(1) {
+            self.value = n;
+            let digits = &mut self.word.bytes[..self.word.len];
+            let mut carried = true;
+            for d in digits.iter_mut().rev() {
+                if *d == b'9' {
+                    *d = b'0';
+                } else {
+                    *d += 1;
+                    carried = false;
+                    break;
+                }
+            }
+            if carried {
+                *self = Self::at(n);
+            }
+        } else if n != self.value {
+            *self = Self::at(n);
+        }
+        &self.word
+    }
+}
+
 /// Writes one stretch of text (a row) into scratch that is known to be long enough, with the
 /// cursor in a local: no length bookkeeping in memory between writes, so consecutive writes do
 /// not wait on each other. Every write is still bounds-checked (a wrong bound panics, it never
@@ -210,6 +288,14 @@ impl RowWriter<'_> {
     pub fn extend(&mut self, s: &[u8]) {
         self.buf[self.pos..self.pos + s.len()].copy_from_slice(s);
         self.pos += s.len();
+    }
+
+    /// Append the first `word.len` bytes of a padded word with one fixed-size copy (the
+    /// padding lands in the scratch past the text and is overwritten by what follows).
+    #[inline]
+    pub fn word(&mut self, word: &Word) {
+        self.buf[self.pos..self.pos + WORD].copy_from_slice(&word.bytes);
+        self.pos += word.len;
     }
 
     /// Append an unsigned integer in decimal.
@@ -618,6 +704,30 @@ mod tests {
         assert_eq!(t.len(), want.len());
         t.clear();
         assert!(t.is_empty());
+    }
+
+    #[test]
+    fn counter_counts_like_to_string() {
+        let rows: Vec<u64> = (0..2000u64)
+            .chain(9_990..10_010)
+            .chain([42, 43, 99_999_999, 100_000_000, 7, u64::MAX - 1, u64::MAX])
+            .collect();
+        let mut c = Counter::default();
+        let mut t = TextBuf::default();
+        for &n in &rows {
+            let mut w = t.writer(64);
+            w.word(c.get(n));
+            let k = w.written();
+            t.commit(k);
+            t.push(b',');
+        }
+        let want: Vec<String> = rows.iter().map(u64::to_string).collect();
+        assert_eq!(
+            String::from_utf8(t.as_bytes().to_vec()).unwrap(),
+            want.join(",") + ","
+        );
+        assert!(Word::new(&[b'x'; WORD]).is_some());
+        assert!(Word::new(&[b'x'; WORD + 1]).is_none());
     }
 
     proptest! {

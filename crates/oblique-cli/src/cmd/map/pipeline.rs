@@ -5,7 +5,8 @@
 
 use super::classifier::{Classifier, Point};
 use super::format::{
-    is_json_number, push_csv_field, push_json_string, push_u64, RowWriter, TextBuf, NUMBER_MAX,
+    is_json_number, push_csv_field, push_json_string, push_u64, Counter, RowWriter, TextBuf, Word,
+    NUMBER_MAX, WORD,
 };
 use super::input::{
     next_record, parse_number, scan_plain, split_fields, split_plain_line, trim_spaces, Fields,
@@ -133,6 +134,12 @@ pub struct Ctx<'a> {
     pub row_bound: usize,
     /// The computed CSV columns as straight-line writes.
     pub csv_plan: CsvPlan,
+    /// `,verdict,` for each verdict (welded, not-welded, melted), padded.
+    pub verdict_words: Vec<Word>,
+    /// Binding limit ids as CSV fields, padded (`None` if one is too long to pad).
+    pub binding_words: Option<Vec<Word>>,
+    /// `,true` and `,false`, padded.
+    pub outside_words: Vec<Word>,
 }
 
 /// One computed output column.
@@ -338,7 +345,22 @@ impl<'a> Ctx<'a> {
             })
             .collect();
         let binding_max = binding_csv.iter().map(Vec::len).max().unwrap_or(0);
-        let row_bound = NUMBER_MAX
+        // Short constants: they always fit a word.
+        let verdict_words: Vec<Word> = [
+            Prediction::Welded,
+            Prediction::NotWelded,
+            Prediction::Melted,
+        ]
+        .iter()
+        .filter_map(|v| Word::new(format!(",{},", v.as_str()).as_bytes()))
+        .collect();
+        let outside_words: Vec<Word> = [b",true".as_slice(), b",false"]
+            .iter()
+            .filter_map(|t| Word::new(t))
+            .collect();
+        let binding_words: Option<Vec<Word>> = binding_csv.iter().map(|b| Word::new(b)).collect();
+        let row_bound = WORD * 4
+            + NUMBER_MAX
             + 2
             + cols
                 .iter()
@@ -358,6 +380,9 @@ impl<'a> Ctx<'a> {
             "the CSV plan must write the columns in header order"
         );
         Self {
+            verdict_words,
+            binding_words,
+            outside_words,
             csv_plan,
             row_bound,
             file,
@@ -414,6 +439,8 @@ enum Cells<'r> {
 }
 
 struct Worker {
+    /// The current row number as text.
+    row_text: Counter,
     fields: Fields,
     margins: Vec<f64>,
 }
@@ -667,7 +694,7 @@ impl Worker {
                     Cells::Json { .. } => 0,
                 };
                 let mut w = out.writer(ctx.row_bound + line_len);
-                w.u64(row);
+                w.word(self.row_text.get(row));
                 w.push(b',');
                 if let Cells::Csv { line, .. } = &cells {
                     w.extend(line);
@@ -788,11 +815,24 @@ impl Worker {
     fn computed_csv(&self, ctx: &Ctx<'_>, out: &mut RowWriter<'_>, p: &Point) {
         // Decimals fixed per column, so each conversion is inlined for its count.
         let plan = &ctx.csv_plan;
-        out.push(b',');
-        out.extend(p.verdict.as_str().as_bytes());
-        out.push(b',');
+        let v = match p.verdict {
+            Prediction::Welded => 0,
+            Prediction::NotWelded => 1,
+            Prediction::Melted => 2,
+        };
+        match ctx.verdict_words.get(v) {
+            Some(w) => out.word(w),
+            None => {
+                out.push(b',');
+                out.extend(p.verdict.as_str().as_bytes());
+                out.push(b',');
+            }
+        }
         if let Some(b) = p.binding {
-            out.extend(&ctx.binding_csv[b]);
+            match ctx.binding_words.as_ref().and_then(|w| w.get(b)) {
+                Some(w) => out.word(w),
+                None => out.extend(&ctx.binding_csv[b]),
+            }
         }
         if plan.vp {
             out.push(b',');
@@ -822,12 +862,14 @@ impl Worker {
             }
         }
         if plan.outside {
-            out.push(b',');
-            out.extend(if p.outside_trial_data {
-                b"true"
-            } else {
-                b"false"
-            });
+            match ctx.outside_words.get(usize::from(!p.outside_trial_data)) {
+                Some(w) => out.word(w),
+                None => out.extend(if p.outside_trial_data {
+                    b",true"
+                } else {
+                    b",false"
+                }),
+            }
         }
     }
 
@@ -971,6 +1013,7 @@ pub fn run<E>(
             let work_rx = Arc::clone(&work_rx);
             s.spawn(move || {
                 let mut worker = Worker {
+                    row_text: Counter::default(),
                     fields: Fields::default(),
                     margins: Vec::new(),
                 };
