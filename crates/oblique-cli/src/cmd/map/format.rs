@@ -292,7 +292,7 @@ impl RowWriter<'_> {
 
     /// Append the first `word.len` bytes of a padded word with one fixed-size copy (the
     /// padding lands in the scratch past the text and is overwritten by what follows).
-    #[inline]
+    #[inline(always)]
     pub fn word(&mut self, word: &Word) {
         self.buf[self.pos..self.pos + WORD].copy_from_slice(&word.bytes);
         self.pos += word.len;
