@@ -141,8 +141,10 @@ pub struct Classifier {
     /// The governing (smaller) Wittman melting coefficient; the limit is this over
     /// `melting_divisor(Vc)`, as for `deribas`.
     melting: f64,
-    strength: (f64, f64),
-    pressure: (f64, f64),
+    /// The governing (larger) strength limit of the two plates, m/s.
+    strength: f64,
+    /// The governing (larger) pressure limit of the two plates, Pa.
+    pressure: f64,
     boundaries: Vec<FastBoundary>,
     /// The decisive limits, in the order `classify_with_jetting` ranks them.
     pub limits: Vec<LimitInfo>,
@@ -251,8 +253,16 @@ impl Classifier {
             table: OnceLock::new(),
             deribas: if df >= dp { df } else { dp },
             melting: if mf <= mp { mf } else { mp },
-            strength,
-            pressure,
+            strength: if strength.0 >= strength.1 {
+                strength.0
+            } else {
+                strength.1
+            },
+            pressure: if pressure.0 >= pressure.1 {
+                pressure.0
+            } else {
+                pressure.1
+            },
             boundaries,
             limits,
             criteria,
@@ -374,7 +384,7 @@ impl Classifier {
         Ok((direct, true))
     }
 
-    /// Classify one point; `margins` receives one value per limit (cleared first).
+    /// Classify one point; `margins` receives one value per limit (resized to one slot per limit and overwritten).
     ///
     /// # Errors
     /// As `classify_with_jetting` (a relation that cannot be evaluated), plus out-of-domain
@@ -423,7 +433,8 @@ impl Classifier {
         jetting_direct: bool,
         margins: &mut Vec<f64>,
     ) -> Result<Point, PhysicsError> {
-        margins.clear();
+        // One slot per limit, written by index (sized once, then reused row after row).
+        margins.resize(self.limits.len(), f64::NAN);
         let (f, p) = (&self.setup.flyer, &self.setup.parent);
         let vp = c.impact_velocity;
         let vc = c.collision_velocity;
@@ -459,14 +470,12 @@ impl Classifier {
                     )
                 }
                 CriterionId::StrengthLower => {
-                    let (lf, lp) = self.strength;
-                    let limit = if lf >= lp { lf } else { lp };
+                    let limit = self.strength;
                     let v = vp.si();
                     (v, limit, v - limit, v >= limit, LimitKind::Lower)
                 }
                 CriterionId::PressureLower => {
-                    let (lf, lp) = self.pressure;
-                    let limit = if lf >= lp { lf } else { lp };
+                    let limit = self.pressure;
                     let v = impact.pressure.si();
                     (v, limit, v - limit, v >= limit, LimitKind::Lower)
                 }
@@ -493,7 +502,9 @@ impl Classifier {
                     iterations: 0,
                 });
             }
-            margins.push(margin);
+            if let Some(slot) = margins.get_mut(k) {
+                *slot = margin;
+            }
             consider(
                 k,
                 relative(margin, limit),
@@ -536,7 +547,9 @@ impl Classifier {
             };
             match (margin, limit) {
                 (Some(m), Some(l)) => {
-                    margins.push(m);
+                    if let Some(slot) = margins.get_mut(n_crit + i) {
+                        *slot = m;
+                    }
                     consider(
                         n_crit + i,
                         relative(m, l),
@@ -545,7 +558,9 @@ impl Classifier {
                     );
                 }
                 _ => {
-                    margins.push(f64::NAN);
+                    if let Some(slot) = margins.get_mut(n_crit + i) {
+                        *slot = f64::NAN;
+                    }
                     outside_trial_data = true;
                 }
             }
