@@ -11,31 +11,10 @@
 # bench/.venv (git-ignored) on first use.
 set -euo pipefail
 
-HERE="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
-ROOT="$(cd "$HERE/.." && pwd)"
-ROWS="${ROWS:-5000000}"
 REPEAT="${REPEAT:-2}"
-PAIR="${PAIR:-demo-al6061-on-cu}"
-OUT="$HERE/out"
-VENV="$HERE/.venv"
-mkdir -p "$OUT"
-
-if [ ! -x "$VENV/bin/python" ]; then
-    python3 -m venv "$VENV"
-    "$VENV/bin/pip" install --quiet pandas numpy pyarrow
-fi
-PY="$VENV/bin/python"
-
-(cd "$ROOT" && cargo build --release -p oblique-cli --quiet)
-BIN="$ROOT/target/release/oblique"
-
-INPUT="$OUT/interface-$ROWS.csv"
-if [ ! -s "$INPUT" ]; then
-    echo "generating $ROWS rows ..." >&2
-    "$PY" "$HERE/gen_interface.py" "$ROWS" "$INPUT"
-fi
+# shellcheck source=bench/common.sh
+source "$(dirname "${BASH_SOURCE[0]}")/common.sh"
 "$BIN" pair show "$PAIR" --json > "$OUT/window.json"
-BYTES=$(stat -c %s "$INPUT")
 
 # run NAME CMD...: best wall time and its peak RSS over REPEAT runs, into $OUT/NAME.best
 run() {

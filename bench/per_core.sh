@@ -12,31 +12,13 @@
 #
 # Usage: bench/per_core.sh               (5 000 000 rows, RUNS=7)
 #        ROWS=1000000 RUNS=3 bench/per_core.sh
-# Needs: cargo, python3 with venv (the generator uses numpy; installed into bench/.venv, shared
-# with compare.sh, on first use), /usr/bin/time.
+# Needs: cargo, python3 with venv (bench/common.sh installs the generator's numpy, with pandas
+# and pyarrow for compare.sh, into bench/.venv on first use), /usr/bin/time.
 set -euo pipefail
 
-HERE="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
-ROOT="$(cd "$HERE/.." && pwd)"
-ROWS="${ROWS:-5000000}"
 RUNS="${RUNS:-7}"
-PAIR="${PAIR:-demo-al6061-on-cu}"
-OUT="$HERE/out"
-mkdir -p "$OUT"
-
-(cd "$ROOT" && cargo build --release -p oblique-cli --quiet)
-BIN="$ROOT/target/release/oblique"
-INPUT="$OUT/interface-$ROWS.csv"
-if [ ! -s "$INPUT" ]; then
-    VENV="$HERE/.venv"
-    if [ ! -x "$VENV/bin/python" ]; then
-        python3 -m venv "$VENV"
-        "$VENV/bin/pip" install --quiet numpy
-    fi
-    echo "generating $ROWS rows ..." >&2
-    "$VENV/bin/python" "$HERE/gen_interface.py" "$ROWS" "$INPUT"
-fi
-BYTES=$(stat -c %s "$INPUT")
+# shellcheck source=bench/common.sh
+source "$(dirname "${BASH_SOURCE[0]}")/common.sh"
 CORES=$(nproc)
 steal() { awk '/^cpu / {print $9}' /proc/stat; }
 
