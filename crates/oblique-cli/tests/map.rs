@@ -329,6 +329,28 @@ fn rejected_rows_leave_a_stretch_without_verdict() {
     assert_eq!(v["welded_length_m"].as_f64(), Some(0.0));
     assert!((v["unclassified_length_m"].as_f64().expect("length") - 0.010).abs() < 1e-12);
     assert_eq!(v["welded_fraction"].as_f64(), Some(0.0));
+    assert_eq!(v["no_verdict_stretches"], 1);
+}
+
+/// A rejected row inside the unbonded start does not shorten it: the unbonded end runs through
+/// the stretch without verdict to the first welded segment, and says how much had no verdict.
+#[test]
+fn a_rejected_row_does_not_shorten_the_unbonded_end() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = dir.path().join("gap-start.csv");
+    std::fs::write(
+        &input,
+        "position[mm],velocity[m/s],angle[deg]\n0,250,12\n0.5,,12\n1,250,12\n2,450,12\n3,450,12\n",
+    )
+    .expect("write");
+    let (v, _) = summary_json(&[path_str(&input), "--bad-rows", "skip"]);
+    assert_eq!(v["rows_rejected"], 1);
+    // Welded from half-way between 1 and 2 mm: 1.5 mm unbonded, 1 mm of it without verdict.
+    let start = v["unbonded_length_start_m"].as_f64().expect("length");
+    assert!((start - 1.5e-3).abs() < 1e-12, "{start}");
+    let nv = v["unbonded_no_verdict_start_m"].as_f64().expect("length");
+    assert!((nv - 1.0e-3).abs() < 1e-12, "{nv}");
+    assert_eq!(v["unbonded_length_end_m"].as_f64(), Some(0.0));
 }
 
 #[test]

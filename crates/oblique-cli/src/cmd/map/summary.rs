@@ -252,10 +252,18 @@ pub struct Summary {
     pub segments: Vec<Run>,
     /// Segments counted, welded and unwelded.
     pub segments_total: [u64; 2],
-    /// The first segment (for the unbonded length at the start).
-    pub first_segment: Option<Run>,
-    /// The last segment.
-    pub last_segment: Option<Run>,
+    /// Where the first welded segment starts and the last one ends, m (the unbonded ends run
+    /// from the interface's ends to these, through any stretch without a verdict).
+    pub first_weld_start: Option<f64>,
+    /// See `first_weld_start`.
+    pub last_weld_end: Option<f64>,
+    /// Length without a verdict before the first welded segment and after the last one, m.
+    pub no_verdict_at_ends: (f64, f64),
+    /// Stretches without a verdict (rejected rows between classified ones), m, file order; at
+    /// most `GAP_CAP` kept.
+    pub gaps: Vec<(f64, f64)>,
+    /// Stretches without a verdict, all counted.
+    pub gaps_total: u64,
     /// The longest welded segment.
     pub longest_welded: Option<Run>,
     /// Smallest binding relative margin among welded rows: (rel, limit, margin, row, pos).
@@ -316,8 +324,11 @@ impl Summary {
             cur_seg: None,
             segments: Vec::new(),
             segments_total: [0; 2],
-            first_segment: None,
-            last_segment: None,
+            first_weld_start: None,
+            last_weld_end: None,
+            no_verdict_at_ends: (0.0, 0.0),
+            gaps: Vec::new(),
+            gaps_total: 0,
             longest_welded: None,
             smallest: None,
             samples: Vec::new(),
@@ -406,8 +417,19 @@ impl Summary {
             if let Some(st) = &mut self.strip {
                 st.add(self.prev_boundary, px, pv as usize);
             }
-            self.length_unclassified += (x - px).abs();
+            let gap = (x - px).abs();
+            self.length_unclassified += gap;
             self.close_segment(px);
+            // Not welded as far as anyone knows: it belongs to an unbonded end if no welded
+            // segment lies beyond it on that side.
+            if self.first_weld_start.is_none() {
+                self.no_verdict_at_ends.0 += gap;
+            }
+            self.no_verdict_at_ends.1 += gap;
+            self.gaps_total += 1;
+            if self.gaps.len() < GAP_CAP {
+                self.gaps.push((px, x));
+            }
             self.cur_seg = Some(new_run(u8::from(p.verdict != 0), x, p));
             self.prev_boundary = x;
             self.prev = Some((x, p.verdict, p.row));
@@ -446,11 +468,12 @@ impl Summary {
         if let Some(mut s) = self.cur_seg.take() {
             s.end = end;
             self.segments_total[s.verdict as usize] += 1;
-            if self.first_segment.is_none() {
-                self.first_segment = Some(s);
-            }
-            self.last_segment = Some(s);
             if s.verdict == 0 {
+                if self.first_weld_start.is_none() {
+                    self.first_weld_start = Some(s.start);
+                }
+                self.last_weld_end = Some(s.end);
+                self.no_verdict_at_ends.1 = 0.0;
                 let longer = match self.longest_welded {
                     Some(l) => (s.end - s.start).abs() > (l.end - l.start).abs(),
                     None => true,
@@ -500,15 +523,23 @@ impl Summary {
         }
     }
 
+    /// The unbonded length at each end: from the interface's end to the nearest welded
+    /// segment, stretches without a verdict included (they are not known to be welded); the
+    /// whole interface at both ends when nothing is welded.
     fn unbonded_ends(&self) -> (Option<f64>, Option<f64>) {
-        if self.unsorted || self.prev.is_none() {
+        if self.unsorted {
             return (None, None);
         }
-        let len = |s: Option<Run>| match s {
-            Some(s) if s.verdict == 1 => (s.end - s.start).abs(),
-            _ => 0.0,
+        let Some((first, last)) = self.span() else {
+            return (None, None);
         };
-        (Some(len(self.first_segment)), Some(len(self.last_segment)))
+        match (self.first_weld_start, self.last_weld_end) {
+            (Some(a), Some(b)) => (Some((a - first).abs()), Some((last - b).abs())),
+            _ => {
+                let all = (last - first).abs();
+                (Some(all), Some(all))
+            }
+        }
     }
 }
 
@@ -525,6 +556,9 @@ fn new_run(verdict: u8, start: f64, p: &Lite) -> Run {
         by_verdict,
     }
 }
+
+/// Stretches without a verdict kept for the strip plot (all are counted).
+pub const GAP_CAP: usize = 2000;
 
 /// Margin in a display unit: Pa shown in GPa.
 pub fn display_margin(margin: f64, unit: &str) -> (f64, &'static str) {
@@ -678,6 +712,18 @@ impl Summary {
         );
         o.insert("unbonded_length_start_m".into(), json!(u_start.map(sig)));
         o.insert("unbonded_length_end_m".into(), json!(u_end.map(sig)));
+        o.insert(
+            "unbonded_no_verdict_start_m".into(),
+            json!(sorted.then(|| sig(self.no_verdict_at_ends.0))),
+        );
+        o.insert(
+            "unbonded_no_verdict_end_m".into(),
+            json!(sorted.then(|| sig(self.no_verdict_at_ends.1))),
+        );
+        o.insert(
+            "no_verdict_stretches".into(),
+            json!(sorted.then_some(self.gaps_total)),
+        );
         o.insert(
             "smallest_welded_margin".into(),
             match self.smallest {
@@ -837,11 +883,33 @@ impl Summary {
             }
             s.push('\n');
             let (us, ue) = self.unbonded_ends();
-            s.push_str(&format!(
-                "unbonded at the start: {:.3} mm; at the end: {:.3} mm\n",
-                us.unwrap_or(0.0) * 1e3,
-                ue.unwrap_or(0.0) * 1e3
-            ));
+            let (ns, ne) = self.no_verdict_at_ends;
+            if self.first_weld_start.is_none() {
+                s.push_str(&format!(
+                    "unbonded: the whole classified interface, {:.3} mm (no welded point)\n",
+                    us.unwrap_or(0.0) * 1e3
+                ));
+            } else {
+                s.push_str(&format!(
+                    "unbonded at the start: {:.3} mm; at the end: {:.3} mm",
+                    us.unwrap_or(0.0) * 1e3,
+                    ue.unwrap_or(0.0) * 1e3
+                ));
+                if ns > 0.0 || ne > 0.0 {
+                    s.push_str(&format!(
+                        " ({:.3} mm and {:.3} mm of them without verdict: rejected rows, not known to be welded)",
+                        ns * 1e3,
+                        ne * 1e3
+                    ));
+                }
+                s.push('\n');
+            }
+            if self.gaps_total > 0 {
+                s.push_str(&format!(
+                    "segments break at the {} stretch(es) without verdict: a welded segment is never assumed to run through a rejected row\n",
+                    self.gaps_total
+                ));
+            }
         }
         match self.smallest {
             Some((_, k, m, row, pos)) => {
@@ -963,6 +1031,52 @@ mod tests {
         assert_eq!(s.segments.len(), 4);
         // Smallest relative margin among welded rows: row 3.
         assert_eq!(s.smallest.unwrap().3, 3);
+    }
+
+    /// A rejected row inside the unbonded start does not shorten it: the unbonded ends run to
+    /// the nearest welded segment, the stretch without verdict included; a rejected row inside a
+    /// welded stretch breaks the segment.
+    #[test]
+    fn stretches_without_verdict_stay_in_the_unbonded_ends() {
+        let mut s = Summary::new(limits(), false, (true, false));
+        // mm: 0 not, [gap], 1 not, 2 welded, 3 welded, [gap], 4 welded, 5 not, [gap], 6 not.
+        let pts = [
+            (0.0, 1, false),
+            (1.0, 1, true),
+            (2.0, 0, false),
+            (3.0, 0, false),
+            (4.0, 0, true),
+            (5.0, 1, false),
+            (6.0, 1, true),
+        ];
+        for (row, (x, v, gap_before)) in pts.into_iter().enumerate() {
+            s.pending_gap = gap_before;
+            s.push(&lite(row as u64 + 2, x, v)).unwrap();
+        }
+        s.finish();
+        let (us, ue) = s.unbonded_ends();
+        // First welded segment starts half-way between 1 and 2 mm; the last ends at 4.5 mm.
+        assert!((us.unwrap() * 1e3 - 1.5).abs() < 1e-12, "{us:?}");
+        assert!((ue.unwrap() * 1e3 - 1.5).abs() < 1e-12, "{ue:?}");
+        let (ns, ne) = s.no_verdict_at_ends;
+        assert!((ns * 1e3 - 1.0).abs() < 1e-12, "{ns}");
+        assert!((ne * 1e3 - 1.0).abs() < 1e-12, "{ne}");
+        assert_eq!(s.gaps_total, 3);
+        assert_eq!(s.gaps.len(), 3);
+        // The welded stretch 1.5-4.5 mm is broken by the gap between 3 and 4 mm.
+        let longest = s.longest_welded.unwrap();
+        assert!((longest.start * 1e3 - 1.5).abs() < 1e-12);
+        assert!((longest.end * 1e3 - 3.0).abs() < 1e-12);
+        assert_eq!(s.segments_total[0], 2);
+        // Nothing welded: both ends are the whole interface.
+        let mut n = Summary::new(limits(), false, (false, false));
+        for (row, x) in [0.0, 1.0, 2.0].into_iter().enumerate() {
+            n.push(&lite(row as u64 + 2, x, 1)).unwrap();
+        }
+        n.finish();
+        let (a, b) = n.unbonded_ends();
+        assert!((a.unwrap() * 1e3 - 2.0).abs() < 1e-12);
+        assert!((b.unwrap() * 1e3 - 2.0).abs() < 1e-12);
     }
 
     #[test]

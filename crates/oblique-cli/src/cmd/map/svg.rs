@@ -18,6 +18,8 @@ use plotters::style::text_anchor::{HPos, Pos, VPos};
 const C_WELDED: RGBColor = RGBColor(24, 54, 118);
 const C_NOT: RGBColor = RGBColor(225, 135, 0);
 const C_MELTED: RGBColor = RGBColor(196, 44, 44);
+/// Stretches without a verdict (rejected rows) on the strip.
+const C_NO_VERDICT: RGBColor = RGBColor(20, 20, 20);
 const T_WELDED: RGBColor = RGBColor(212, 226, 243);
 const T_MELTED: RGBColor = RGBColor(246, 212, 208);
 /// Welded by the model limits alone, where no user boundary spans (outside the trial data).
@@ -166,6 +168,17 @@ pub fn strip(
                 l.end * 1e3
             ));
         }
+        if s.gaps_total > 0 {
+            sub.push_str(&format!(
+                "; {} stretch(es) without verdict{}",
+                s.gaps_total,
+                if s.gaps_total as usize > s.gaps.len() {
+                    format!(" (the first {} drawn)", s.gaps.len())
+                } else {
+                    String::new()
+                }
+            ));
+        }
         head.draw(&Text::new(
             sub,
             (16, 36),
@@ -215,11 +228,27 @@ pub fn strip(
             .map_err(perr)?;
             lx += 52 + 8 * label.len() as i32;
         }
+        if s.gaps_total > 0 {
+            head.draw(&Rectangle::new(
+                [(lx + 12, ly - 7), (lx + 15, ly + 7)],
+                C_NO_VERDICT.filled(),
+            ))
+            .map_err(perr)?;
+            let label = "no verdict";
+            head.draw(&Text::new(
+                label,
+                (lx + 22, ly),
+                TextStyle::from(("sans-serif", 13).into_font())
+                    .pos(Pos::new(HPos::Left, VPos::Center)),
+            ))
+            .map_err(perr)?;
+            lx += 30 + 7 * label.len() as i32;
+        }
         let note = if s.samples.len() as u64 == s.rows_classified {
-            "strip: length share of each verdict per column; traces: min-max band (grey) and mean (black)".to_string()
+            "strip: verdict share per column; traces: min-max (grey), mean (black)".to_string()
         } else {
             format!(
-                "strip: length share of each verdict per column (all rows); traces from {} evenly spaced rows: min-max band and mean",
+                "strip: all rows; traces: min-max and mean of {} evenly spaced rows",
                 s.samples.len()
             )
         };
@@ -333,6 +362,18 @@ pub fn strip(
             }
         }
         chart.draw_series(lines).map_err(perr)?;
+        // Stretches without a verdict, at least 2 px wide so that none is lost between pixels.
+        let min_w = 2.0 * cw;
+        let gaps = s.gaps.iter().map(|&(a, b)| {
+            let (a, b) = (a.min(b) * 1e3, a.max(b) * 1e3);
+            let mid = 0.5 * (a + b);
+            let half = (0.5 * (b - a)).max(0.5 * min_w);
+            Rectangle::new(
+                [(mid - half, 0.0), (mid + half, 1.0)],
+                C_NO_VERDICT.filled(),
+            )
+        });
+        chart.draw_series(gaps).map_err(perr)?;
 
         // Traces.
         for (area, label, pick, y_floor) in [
