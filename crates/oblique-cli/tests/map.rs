@@ -730,3 +730,96 @@ fn line_endings_and_quotes_do_not_change_the_map() {
     // Row c (negative velocity) is skipped, so row d is the third data line.
     assert_eq!(tail(lines[1]), tail(lines[3]), "{plain}");
 }
+
+/// A map with no classified row is a failure (exit 2), not an empty success: the header alone,
+/// or every row rejected (the reasons and a hint about the header's units are shown, the side
+/// file keeps every rejected row, and no map file is written).
+#[test]
+fn nothing_classified_is_an_error() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let header_only = dir.path().join("header.csv");
+    std::fs::write(&header_only, "position[mm],velocity[m/s],angle[deg]\n").expect("write");
+    let map = dir.path().join("map.csv");
+    let o = run(&[
+        "map",
+        path_str(&header_only),
+        "--pair",
+        PAIR,
+        "-o",
+        path_str(&map),
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        text(&o.stderr).contains("no data rows"),
+        "{}",
+        text(&o.stderr)
+    );
+    assert!(!map.exists());
+
+    // Degrees under a radians header: every angle is out of range.
+    let rad = dir.path().join("rad.csv");
+    std::fs::write(
+        &rad,
+        "position[mm],velocity[m/s],angle[rad]\n0,450,12\n1,480,16\n",
+    )
+    .expect("write");
+    let side = dir.path().join("rejected.csv");
+    let policy = format!("save:{}", path_str(&side));
+    let o = run(&[
+        "map",
+        path_str(&rad),
+        "--pair",
+        PAIR,
+        "-o",
+        path_str(&map),
+        "--bad-rows",
+        &policy,
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = text(&o.stderr);
+    assert!(
+        err.contains("no row could be classified: all 2 row(s) were rejected"),
+        "{err}"
+    );
+    assert!(
+        err.contains("'12' (angle[rad]) = 687.549 deg is outside (0, 90) deg"),
+        "{err}"
+    );
+    assert!(err.contains("write angle[deg] in the header"), "{err}");
+    assert!(!map.exists());
+    let kept = std::fs::read_to_string(&side).expect("side file kept");
+    assert_eq!(column(&kept, "row"), ["2", "3"]);
+}
+
+/// Magnitudes no impact weld has (a unit wrong in the header) are classified but warned about,
+/// in the text and in the JSON summary.
+#[test]
+fn implausible_magnitudes_are_warned_about() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = dir.path().join("kms.csv");
+    // km/s values under an m/s header, radians under a degrees header.
+    std::fs::write(
+        &input,
+        "position[mm],velocity[m/s],angle[deg]\n0,0.45,0.21\n1,0.48,0.28\n",
+    )
+    .expect("write");
+    let (v, _) = summary_json(&[path_str(&input)]);
+    let w: Vec<&str> = v["warnings"]
+        .as_array()
+        .expect("warnings")
+        .iter()
+        .filter_map(Value::as_str)
+        .collect();
+    assert_eq!(w.len(), 2, "{w:?}");
+    assert!(
+        w[0].contains("every impact velocity is below 50 m/s"),
+        "{w:?}"
+    );
+    assert!(
+        w[1].contains("every collision angle is below 1 deg"),
+        "{w:?}"
+    );
+    let o = run(&["map", path_str(&input), "--pair", PAIR]);
+    assert!(o.status.success());
+    assert!(text(&o.stderr).contains("warning: every impact velocity is below 50 m/s"));
+}

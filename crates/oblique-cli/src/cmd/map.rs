@@ -43,7 +43,8 @@ Examples:
   sim-export | oblique map - --pair demo-al6061-on-cu --bad-rows skip > map.csv
   oblique map run7.jsonl --pair demo-al6061-on-cu --velocity-column vp --angle-column beta -o map.jsonl --json
 
-Exit status: 0 when the map was made, 2 on bad input (first bad row with --bad-rows stop).
+Exit status: 0 when the map was made, 2 on bad input (first bad row with --bad-rows stop, or no
+row that could be classified).
 Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts
 are involved in every real shot; follow local codes and licensed practice.";
 
@@ -537,8 +538,32 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
     summary.finish();
 
     if summary.rows_read == 0 {
-        to_stderr(&format!("warning: {file_name}: no data rows\n"));
+        return Err(Fail::input(format!(
+            "{file_name}: no data rows after the header: nothing to map"
+        )));
     }
+    if summary.rows_classified == 0 {
+        // Keep the side file with every rejected row and its reason; no map is written.
+        if let Some(f) = side {
+            f.commit()?;
+        }
+        let mut msg = format!(
+            "{file_name}: no row could be classified: all {} row(s) were rejected",
+            summary.rows_rejected
+        );
+        for r in summary.examples.iter().take(3) {
+            msg.push_str(&format!(
+                "\n  row {}, field '{}': {}",
+                r.row, r.field, r.reason
+            ));
+        }
+        msg.push_str(&format!(
+            "\n  hint: check the units in the header ('{}', '{}'); --bad-rows save:FILE lists every rejected row with its reason",
+            header.velocity.cell, header.angle.cell
+        ));
+        return Err(Fail::input(msg));
+    }
+    summary.check_plausibility(&header.velocity.cell, &header.angle.cell);
     if let Out::File(f) = out {
         f.commit()?;
     }

@@ -533,20 +533,51 @@ impl Worker {
         if !position.is_finite() {
             return Err((h.position.cell.clone(), "not a finite length".into()));
         }
+        // The value as written, with its conversion when the header's unit is not the one the
+        // message speaks in.
+        let as_written = |col: &super::input::Column, si_unit: &str, shown: f64| -> String {
+            let unit = super::input::split_cell(&col.cell).1.unwrap_or("");
+            if unit == si_unit {
+                format!("{} {si_unit}", fmt_short(shown))
+            } else {
+                let raw = match cells {
+                    Cells::Csv { line, fields } => String::from_utf8_lossy(trim_spaces(
+                        fields.get(line, col.index).unwrap_or(b""),
+                    ))
+                    .into_owned(),
+                    Cells::Json { obj } => obj.get(&col.cell).map_or(String::new(), |v| {
+                        v.as_str().map_or_else(|| v.to_string(), str::to_string)
+                    }),
+                };
+                format!("'{raw}' ({}) = {} {si_unit}", col.cell, fmt_short(shown))
+            }
+        };
         if !(velocity > 0.0 && velocity.is_finite()) {
             return Err((
                 h.velocity.cell.clone(),
                 format!(
-                    "{} m/s is not above zero (velocities must be positive)",
-                    fmt_g(velocity)
+                    "{} is not above zero (velocities must be positive)",
+                    as_written(&h.velocity, "m/s", velocity)
                 ),
             ));
         }
         let deg = angle.to_degrees();
         if !(deg > 0.0 && deg < 90.0) {
+            let unit = super::input::split_cell(&h.angle.cell).1.unwrap_or("");
+            let hint = if unit != "deg" && deg >= 90.0 {
+                format!(
+                    "; if this column holds degrees, write {}[deg] in the header",
+                    super::input::split_cell(&h.angle.cell).0
+                )
+            } else {
+                String::new()
+            };
             return Err((
                 h.angle.cell.clone(),
-                format!("{} deg is outside (0, 90) deg", fmt_g(deg)),
+                format!(
+                    "{} is outside (0, 90) deg{hint}",
+                    as_written(&h.angle, "deg", deg)
+                ),
             ));
         }
         Ok(RowValues {
@@ -925,6 +956,27 @@ pub fn fmt_g(x: f64) -> String {
     format!("{x}")
 }
 
+/// A number for a message: at most 6 significant digits, no trailing zeros.
+pub fn fmt_short(x: f64) -> String {
+    if !x.is_finite() {
+        return format!("{x}");
+    }
+    if x != 0.0 && !(1e-4..1e9).contains(&x.abs()) {
+        return format!("{x:.5e}");
+    }
+    let digits = if x == 0.0 {
+        0
+    } else {
+        (5 - x.abs().log10().floor() as i32).clamp(0, 12) as usize
+    };
+    let t = format!("{x:.digits$}");
+    if t.contains('.') {
+        t.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        t
+    }
+}
+
 fn write_bad(ctx: &Ctx<'_>, out: &mut Vec<u8>, row: u64, field: &str, reason: &str, rec: &[u8]) {
     match ctx.in_format {
         Format::Csv => {
@@ -1060,4 +1112,20 @@ pub fn run<E>(
         return Err(io_error(e));
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::fmt_short;
+
+    #[test]
+    fn short_numbers_for_messages() {
+        assert_eq!(fmt_short(167.475_563_516_739_64), "167.476");
+        assert_eq!(fmt_short(-450.0), "-450");
+        assert_eq!(fmt_short(0.5), "0.5");
+        assert_eq!(fmt_short(0.0), "0");
+        assert_eq!(fmt_short(12.000_01), "12");
+        assert_eq!(fmt_short(1e-7), "1.00000e-7");
+        assert_eq!(fmt_short(-2.5e12), "-2.50000e12");
+    }
 }

@@ -276,6 +276,8 @@ pub struct Summary {
     pub histogram: Option<Histogram>,
     /// First points for marking on the window plot.
     pub marks: Vec<(f32, f32, u8)>,
+    /// Warnings about the data as a whole (implausible magnitudes: a unit wrong in the header?).
+    pub warnings: Vec<String>,
     /// Largest Vp and angle seen.
     pub max_vp: f64,
     /// See `max_vp`.
@@ -336,6 +338,7 @@ impl Summary {
             seen: 0,
             histogram: plots.1.then(Histogram::new),
             marks: Vec::new(),
+            warnings: Vec::new(),
             max_vp: 0.0,
             max_beta: 0.0,
         }
@@ -497,6 +500,28 @@ impl Summary {
             }
             self.prev_boundary = px;
             self.close_segment(px);
+        }
+    }
+
+    /// Warn when every classified point has an implausible magnitude, the usual sign of a unit
+    /// that is wrong in the header. Thresholds are common practice, not physics: impact welding
+    /// runs at impact velocities of about 100-1000 m/s and collision angles of a few degrees
+    /// up to about 30 deg.
+    pub fn check_plausibility(&mut self, velocity_cell: &str, angle_cell: &str) {
+        if self.rows_classified == 0 {
+            return;
+        }
+        if self.max_vp < 50.0 {
+            self.warnings.push(format!(
+                "every impact velocity is below 50 m/s (the largest is {:.3} m/s), far below any impact welding process (common practice: about 100-1000 m/s): is the unit in the header right ('{velocity_cell}'; e.g. velocity[km/s])?",
+                self.max_vp
+            ));
+        }
+        if self.max_beta < 1.0 {
+            self.warnings.push(format!(
+                "every collision angle is below 1 deg (the largest is {:.4} deg; common practice: a few degrees up to about 30 deg): is the unit in the header right ('{angle_cell}'; angle[rad] for radians)?",
+                self.max_beta
+            ));
         }
     }
 
@@ -783,6 +808,7 @@ impl Summary {
                 "rows_solved_directly": self.jetting_direct,
             }),
         );
+        o.insert("warnings".into(), json!(self.warnings));
         o.insert("caution".into(), json!(CAUTION));
         Value::Object(o)
     }
@@ -965,6 +991,9 @@ impl Summary {
             )),
             ("direct", _) => s.push_str("jetting: solved directly for every row (--exact-jetting)\n"),
             _ => s.push_str("jetting: criterion disabled in the window\n"),
+        }
+        for w in &self.warnings {
+            s.push_str(&format!("warning: {w}\n"));
         }
         s.push_str(CAUTION);
         s.push('\n');
