@@ -823,3 +823,25 @@ fn implausible_magnitudes_are_warned_about() {
     assert!(o.status.success());
     assert!(text(&o.stderr).contains("warning: every impact velocity is below 50 m/s"));
 }
+
+/// Lines starting with '#' before the header are a preamble: skipped, counted, and the row
+/// numbers still count every line of the file.
+#[test]
+fn comment_lines_before_the_header_are_skipped_and_counted() {
+    let input = b"# invented data for a test\n  # exported by hand\nposition[mm],velocity[m/s],angle[deg]\n0,450,12\n1,480,16\n";
+    let o = run_stdin(&["map", "-", "--pair", PAIR], input);
+    assert!(o.status.success(), "{}", text(&o.stderr));
+    assert_eq!(column(&text(&o.stdout), "row"), ["4", "5"]);
+    assert!(text(&o.stderr).contains("2 comment line(s) before the header skipped"));
+    // A header problem is reported at the header's own line.
+    let o = run_stdin(
+        &["map", "-", "--pair", PAIR],
+        b"# note\nposition,velocity[m/s],angle[deg]\n0,450,12\n",
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        text(&o.stderr).contains("row 2 (header)"),
+        "{}",
+        text(&o.stderr)
+    );
+}

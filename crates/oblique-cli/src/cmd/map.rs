@@ -26,7 +26,8 @@ const AFTER_HELP: &str = "Input layout (CSV; JSON lines take the same names as k
   position[mm],velocity[m/s],angle[deg]          required
   time[us], id, anything else                    optional, passed through to the output
 Units are converted (position[m], velocity[km/s], angle[rad], time[s], ...) and never guessed:
-a header without a unit for position, velocity, angle or time is an error.
+a header without a unit for position, velocity, angle or time is an error. Lines starting with
+'#' before the header are skipped (and counted).
 The velocity is the impact (flyer) velocity Vp in the pair window's convention
 (`oblique pair show NAME` names it); --velocity-kind collision reads the collision-point
 velocity Vc instead, which is the same in every convention.
@@ -396,16 +397,27 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         ],
     };
     let io = |e: std::io::Error| Fail::input(format!("{file_name}: cannot read: {e}"));
+    let mut comment_lines = 0u64;
     let (cells, first_line) = match in_format {
         Format::Csv => {
-            let Some(head) = source
-                .first_line(true, true, pipeline::MAX_RECORD)
-                .map_err(io)?
-            else {
-                return Err(Fail::input(format!(
-                    "{file_name}: empty input: expected a header row such as position[mm],velocity[m/s],angle[deg]"
-                )));
-            };
+            // Lines starting with '#' before the header are a preamble (an export's notes,
+            // provenance, an "invented data" label): skipped, counted and reported.
+            let mut head;
+            loop {
+                let Some(line) = source
+                    .first_line(true, true, pipeline::MAX_RECORD)
+                    .map_err(io)?
+                else {
+                    return Err(Fail::input(format!(
+                        "{file_name}: empty input: expected a header row such as position[mm],velocity[m/s],angle[deg]"
+                    )));
+                };
+                head = line;
+                if !head.trim_ascii_start().starts_with(b"#") {
+                    break;
+                }
+                comment_lines += 1 + head.iter().filter(|&&b| b == b'\n').count() as u64;
+            }
             let mut f = Fields::default();
             let quoted = head.contains(&b'"');
             split_fields(&head, quoted, &mut f);
@@ -417,7 +429,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
                 })
                 .collect();
             let inside = head.iter().filter(|&&b| b == b'\n').count() as u64;
-            (cells, 2 + inside)
+            (cells, 2 + inside + comment_lines)
         }
         Format::Jsonl => {
             let Some(first) = source
@@ -437,7 +449,8 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
             (obj.keys().cloned().collect(), 1)
         }
     };
-    let header = parse_header(&file_name, cells, &wanted).map_err(Fail::input)?;
+    let header =
+        parse_header(&file_name, 1 + comment_lines, cells, &wanted).map_err(Fail::input)?;
 
     let classifier = Classifier::new(&window, kind, mode)?;
     let ctx = Ctx::new(
@@ -490,6 +503,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         a.unsorted,
         (a.strip_svg.is_some(), a.window_svg.is_some()),
     );
+    summary.comment_lines = comment_lines;
 
     // Progress: only for a regular file, on a terminal, after about a second.
     let progress_allowed = is_file

@@ -64,13 +64,22 @@ const KINDS: [QuantityKind; 4] = [
     QuantityKind::Time,
 ];
 
-/// Build the header from its cells. `file` names the input in messages.
+/// Build the header from its cells. `file` names the input in messages, `header_row` is the
+/// header's line number (after any comment lines).
 ///
 /// # Errors
 /// A message naming the column: missing required column, missing or unknown unit, duplicate.
-pub fn parse_header(file: &str, cells: Vec<String>, wanted: &Wanted) -> Result<Header, String> {
-    let where_ = |s: &str| format!("{file}: row 1 (header): {s}");
+pub fn parse_header(
+    file: &str,
+    header_row: u64,
+    cells: Vec<String>,
+    wanted: &Wanted,
+) -> Result<Header, String> {
+    let where_ = |s: &str| format!("{file}: row {header_row} (header): {s}");
     let mut found: [Option<Column>; 4] = [None, None, None, None];
+    // Every problem with units, so that one run names them all.
+    let mut problems: Vec<String> = Vec::new();
+    let mut seen: [Option<usize>; 4] = [None; 4];
     for (i, cell) in cells.iter().enumerate() {
         let (name, unit) = split_cell(cell);
         for r in 0..4 {
@@ -78,45 +87,65 @@ pub fn parse_header(file: &str, cells: Vec<String>, wanted: &Wanted) -> Result<H
             if name != w && cell.trim() != w {
                 continue;
             }
-            if let Some(prev) = &found[r] {
+            if let Some(prev) = seen[r] {
                 return Err(where_(&format!(
                     "column '{}' appears twice (columns {} and {})",
                     w,
-                    prev.index + 1,
+                    prev + 1,
                     i + 1
                 )));
             }
+            seen[r] = Some(i);
             let kind = KINDS[r];
             let Some(unit) = unit.filter(|u| !u.is_empty()) else {
-                return Err(where_(&format!(
+                problems.push(format!(
                     "column '{cell}' has no unit: units are never guessed; write it as {name}[UNIT] with one of {}, e.g. {}",
                     kind.accepted_units(),
                     example_cell(r, name)
-                )));
+                ));
+                continue;
             };
-            let factor = parse_quantity(&format!("1 {unit}"), kind).map_err(|_| {
-                where_(&format!(
+            match parse_quantity(&format!("1 {unit}"), kind) {
+                Ok(factor) => {
+                    found[r] = Some(Column {
+                        index: i,
+                        cell: cell.clone(),
+                        factor,
+                    })
+                }
+                Err(_) => problems.push(format!(
                     "column '{cell}': unknown unit '{unit}' for {}: expected one of {}",
                     kind.describe(),
                     kind.accepted_units()
-                ))
-            })?;
-            found[r] = Some(Column {
-                index: i,
-                cell: cell.clone(),
-                factor,
-            });
+                )),
+            }
         }
     }
-    let req: Vec<usize> = (0..3).filter(|&r| found[r].is_none()).collect();
-    if let Some(&r) = req.first() {
-        let names: Vec<&str> = req.iter().map(|&r| wanted.names[r].as_str()).collect();
-        return Err(format!(
-            "{}\n  hint: the columns are: {}\n  hint: the default layout is position[mm],velocity[m/s],angle[deg]; name other columns with {}",
-            where_(&format!("no column named '{}'", names.join("', '"))),
+    let missing: Vec<usize> = (0..3).filter(|&r| seen[r].is_none()).collect();
+    if !missing.is_empty() {
+        let names: Vec<&str> = missing.iter().map(|&r| wanted.names[r].as_str()).collect();
+        let flags: Vec<String> = missing
+            .iter()
+            .map(|&r| format!("{} NAME", wanted.flags[r]))
+            .collect();
+        problems.push(format!(
+            "no column named '{}'\n  hint: the columns are: {}\n  hint: the default layout is position[mm],velocity[m/s],angle[deg]; name other columns with {}",
+            names.join("', '"),
             cells.join(", "),
-            wanted.flags[r]
+            flags.join(", ")
         ));
+    }
+    match problems.len() {
+        0 => {}
+        1 => return Err(where_(&problems[0])),
+        n => {
+            let mut m = where_(&format!("{n} problems:"));
+            for p in &problems {
+                m.push_str("\n  ");
+                m.push_str(p);
+            }
+            return Err(m);
+        }
     }
     let [p, v, a, t] = found;
     match (p, v, a) {
@@ -735,6 +764,7 @@ mod tests {
     fn header_units_become_factors() {
         let h = parse_header(
             "f.csv",
+            1,
             cells("id,position [m],velocity[km/s],angle[rad],time[s],note"),
             &wanted(),
         )
@@ -746,6 +776,7 @@ mod tests {
         assert_eq!(h.time.as_ref().map(|t| t.factor), Some(1.0));
         let h = parse_header(
             "f.csv",
+            1,
             cells("position[mm],velocity[m/s],angle[deg]"),
             &wanted(),
         )
@@ -759,6 +790,7 @@ mod tests {
     fn header_errors_name_the_column() {
         let e = parse_header(
             "f.csv",
+            1,
             cells("position[mm],velocity,angle[deg]"),
             &wanted(),
         )
@@ -769,17 +801,24 @@ mod tests {
         );
         let e = parse_header(
             "f.csv",
+            1,
             cells("position[mm],velocity[mph],angle[deg]"),
             &wanted(),
         )
         .unwrap_err();
         assert!(e.contains("unknown unit 'mph'"), "{e}");
-        let e =
-            parse_header("f.csv", cells("x[mm],velocity[m/s],angle[deg]"), &wanted()).unwrap_err();
+        let e = parse_header(
+            "f.csv",
+            1,
+            cells("x[mm],velocity[m/s],angle[deg]"),
+            &wanted(),
+        )
+        .unwrap_err();
         assert!(e.contains("no column named 'position'"), "{e}");
         assert!(e.contains("--position-column"), "{e}");
         let e = parse_header(
             "f.csv",
+            1,
             cells("position[mm],velocity[m/s],angle[deg],angle[rad]"),
             &wanted(),
         )
@@ -887,6 +926,25 @@ mod tests {
             split_fields(&line, false, &mut b);
             prop_assert_eq!(a.ranges, b.ranges);
         }
+    }
+
+    #[test]
+    fn header_problems_are_named_together() {
+        let e =
+            parse_header("f.csv", 1, cells("position,velocity[mph],angle"), &wanted()).unwrap_err();
+        assert!(e.starts_with("f.csv: row 1 (header): 3 problems:"), "{e}");
+        assert!(e.contains("column 'position' has no unit"), "{e}");
+        assert!(e.contains("unknown unit 'mph'"), "{e}");
+        assert!(e.contains("column 'angle' has no unit"), "{e}");
+        let e = parse_header("f.csv", 1, cells("x[mm],vp[m/s],beta[deg]"), &wanted()).unwrap_err();
+        assert!(
+            e.contains("no column named 'position', 'velocity', 'angle'"),
+            "{e}"
+        );
+        assert!(
+            e.contains("--position-column NAME, --velocity-column NAME, --angle-column NAME"),
+            "{e}"
+        );
     }
 
     #[test]

@@ -276,6 +276,8 @@ pub struct Summary {
     pub histogram: Option<Histogram>,
     /// First points for marking on the window plot.
     pub marks: Vec<(f32, f32, u8)>,
+    /// Lines starting with '#' before the header (skipped).
+    pub comment_lines: u64,
     /// Warnings about the data as a whole (implausible magnitudes: a unit wrong in the header?).
     pub warnings: Vec<String>,
     /// Largest Vp and angle seen.
@@ -338,6 +340,7 @@ impl Summary {
             seen: 0,
             histogram: plots.1.then(Histogram::new),
             marks: Vec::new(),
+            comment_lines: 0,
             warnings: Vec::new(),
             max_vp: 0.0,
             max_beta: 0.0,
@@ -651,6 +654,7 @@ impl Summary {
         o.insert("rows_classified".into(), json!(self.rows_classified));
         o.insert("rows_rejected".into(), json!(self.rows_rejected));
         o.insert("blank_lines".into(), json!(self.blank_lines));
+        o.insert("comment_lines".into(), json!(self.comment_lines));
         o.insert("bad_rows".into(), json!(info.bad_rows));
         o.insert(
             "rejected_examples".into(),
@@ -835,13 +839,21 @@ impl Summary {
             }
         ));
         s.push_str(&format!(
-            "rows: {} read, {} classified, {} rejected (--bad-rows {}){}\n",
+            "rows: {} read, {} classified, {} rejected (--bad-rows {}){}{}\n",
             self.rows_read,
             self.rows_classified,
             self.rows_rejected,
             info.bad_rows,
             if self.blank_lines > 0 {
                 format!("; {} blank line(s) ignored", self.blank_lines)
+            } else {
+                String::new()
+            },
+            if self.comment_lines > 0 {
+                format!(
+                    "; {} comment line(s) before the header skipped",
+                    self.comment_lines
+                )
             } else {
                 String::new()
             }
