@@ -845,3 +845,31 @@ fn comment_lines_before_the_header_are_skipped_and_counted() {
         text(&o.stderr)
     );
 }
+
+/// Rejected rows before the first and after the last classified row stay where they are along
+/// the interface (no verdict there, in the unbonded ends), and make no stretch between the
+/// first classified rows; the stretches are listed.
+#[test]
+fn rejected_rows_at_the_ends_stay_at_the_ends() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = dir.path().join("ends.csv");
+    std::fs::write(
+        &input,
+        "position[mm],velocity[m/s],angle[deg]\n0,,12\n1,450,12\n2,450,12\n3,450,12\n4,450,12\n5,NaN,12\n",
+    )
+    .expect("write");
+    let (v, _) = summary_json(&[path_str(&input), "--bad-rows", "skip"]);
+    assert_eq!(v["rows_rejected"], 2);
+    assert_eq!(v["interface_start_m"].as_f64(), Some(0.0));
+    assert!((v["interface_end_m"].as_f64().expect("end") - 5e-3).abs() < 1e-12);
+    assert!((v["welded_length_m"].as_f64().expect("welded") - 3e-3).abs() < 1e-12);
+    assert!((v["unbonded_length_start_m"].as_f64().expect("start") - 1e-3).abs() < 1e-12);
+    assert!((v["unbonded_length_end_m"].as_f64().expect("end") - 1e-3).abs() < 1e-12);
+    assert_eq!(v["no_verdict_stretches"], 2);
+    let list = v["no_verdict"].as_array().expect("list");
+    assert_eq!(list.len(), 2);
+    assert_eq!(list[0]["start_m"].as_f64(), Some(0.0));
+    assert_eq!(v["welded_segments"], 1);
+    assert_eq!(v["unwelded_segments"], 0);
+    assert_eq!(v["unplaced_end_rows"]["start"], 0);
+}

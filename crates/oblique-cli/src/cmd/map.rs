@@ -669,19 +669,21 @@ fn fold_chunk(
     // Rows of this chunk in order: classified points are in `lites`, rejected in `bad`; the
     // out-of-order check runs over the classified ones.
     let mut cut: Option<(usize, OutOfOrder)> = None;
-    let mut bad_rows = slot.bad.iter().map(|b| b.row).peekable();
+    let mut bad_rows = slot.bad.iter().peekable();
     for l in &slot.lites {
         // A rejected row since the previous classified one leaves a stretch without a verdict.
-        while bad_rows.next_if(|r| *r < l.row).is_some() {
-            summary.pending_gap = true;
+        while let Some(b) = bad_rows.next_if(|b| b.row < l.row) {
+            summary.reject(b.pos);
         }
         if let Err(e) = summary.push(l) {
             cut = Some((l.out_start as usize, e));
             break;
         }
     }
-    if bad_rows.next().is_some() {
-        summary.pending_gap = true;
+    if cut.is_none() {
+        for b in bad_rows {
+            summary.reject(b.pos);
+        }
     }
     let written = cut.as_ref().map_or(slot.out.len(), |c| c.0);
     if !slot.out.is_empty() {

@@ -644,7 +644,13 @@ impl Worker {
                 if let Policy::Save(_) = ctx.policy {
                     write_bad(ctx, &mut slot.bad_out, row, &field, &reason, rec);
                 }
-                slot.bad.push(Rejected { row, field, reason });
+                let pos = rejected_position(ctx, rec, quoted);
+                slot.bad.push(Rejected {
+                    row,
+                    field,
+                    reason,
+                    pos,
+                });
                 if *ctx.policy == Policy::Stop {
                     slot.stopped = true;
                     break;
@@ -949,6 +955,28 @@ impl MinSlot for Option<(f64, u64)> {
             None => true,
         }
     }
+}
+
+/// The position of a rejected row, m, when its position cell can still be read (it places
+/// the row along the interface for the summary); `None` otherwise.
+fn rejected_position(ctx: &Ctx<'_>, rec: &[u8], quoted: bool) -> Option<f64> {
+    let col = &ctx.header.position;
+    let x = match ctx.in_format {
+        Format::Csv => {
+            let mut f = Fields::default();
+            split_fields(rec, quoted, &mut f);
+            parse_number(f.get(rec, col.index)?)?
+        }
+        Format::Jsonl => {
+            let obj = serde_json::from_slice::<Map<String, Value>>(rec).ok()?;
+            match obj.get(&col.cell)? {
+                Value::Number(n) => n.as_f64()?,
+                Value::String(t) => parse_number(t.as_bytes())?,
+                _ => return None,
+            }
+        }
+    };
+    Some(x * col.factor).filter(|v| v.is_finite())
 }
 
 /// A number in the shortest form that reads back the same.

@@ -187,6 +187,8 @@ pub struct Rejected {
     pub field: String,
     /// Why.
     pub reason: String,
+    /// Its position, m, when that cell could be read (it places the row along the interface).
+    pub pos: Option<f64>,
 }
 
 /// Per-limit facts, in `Classifier::limits` order.
@@ -242,8 +244,18 @@ pub struct Summary {
     pub length_by_verdict: [f64; 3],
     /// Length between classified rows that had rejected rows between them: no verdict there.
     pub length_unclassified: f64,
-    /// Rejected rows came after the previous classified row (set by the caller before `push`).
+    /// Rejected rows came after the previous classified row (set by `reject`).
     pub pending_gap: bool,
+    /// Rejected rows before the first classified row: how many, and the first readable
+    /// position among them.
+    lead: (u64, Option<f64>),
+    /// Rejected rows since the last classified row: how many, and the last readable position.
+    trail: (u64, Option<f64>),
+    /// Rejected rows before the first or after the last classified row whose position could not
+    /// be read or lies on the wrong side: the interface's end there is not known.
+    pub unplaced_end_rows: (u64, u64),
+    /// Where the interface ends (m) when rejected rows with readable positions extend it.
+    end_override: Option<f64>,
     /// Strip accumulator (only when asked for).
     pub strip: Option<StripAcc>,
     want_strip: bool,
@@ -323,6 +335,10 @@ impl Summary {
             length_by_verdict: [0.0; 3],
             length_unclassified: 0.0,
             pending_gap: false,
+            lead: (0, None),
+            trail: (0, None),
+            unplaced_end_rows: (0, 0),
+            end_override: None,
             strip: None,
             want_strip: plots.0,
             cur_seg: None,
@@ -394,9 +410,30 @@ impl Summary {
         Ok(())
     }
 
+    /// Note a rejected row (in file order, before the classified row that follows it): the
+    /// stretch up to the next classified row has no verdict.
+    pub fn reject(&mut self, pos: Option<f64>) {
+        self.pending_gap = true;
+        if self.prev.is_none() {
+            self.lead.0 += 1;
+            if self.lead.1.is_none() {
+                self.lead.1 = pos.filter(|x| x.is_finite());
+            }
+        } else {
+            self.trail.0 += 1;
+            if let Some(x) = pos.filter(|x| x.is_finite()) {
+                self.trail.1 = Some(x);
+            }
+        }
+    }
+
     fn along(&mut self, p: &Lite) -> Result<(), OutOfOrder> {
         let x = p.pos;
+        self.trail = (0, None);
         let Some((px, pv, prow)) = self.prev else {
+            // Rejected rows before the first classified row are settled in `finish`, once the
+            // direction is known; they make no stretch between classified rows.
+            self.pending_gap = false;
             self.first_pos = Some(x);
             self.prev = Some((x, p.verdict, p.row));
             self.prev_boundary = x;
@@ -494,7 +531,10 @@ impl Summary {
         }
     }
 
-    /// Close the last run and segment after the last point.
+    /// Close the last run and segment after the last point, and place the rejected rows
+    /// before the first and after the last classified row: with a readable position on the
+    /// right side, the interface runs to it without a verdict there (counted in the unbonded
+    /// end); otherwise that end of the interface is unknown, and said so.
     pub fn finish(&mut self) {
         if let Some((px, pv, _)) = self.prev {
             self.length_by_verdict[pv as usize] += (px - self.prev_boundary).abs();
@@ -504,6 +544,67 @@ impl Summary {
             self.prev_boundary = px;
             self.close_segment(px);
         }
+        if self.unsorted {
+            return;
+        }
+        let (Some(first), Some((last, _, _))) = (self.first_pos, self.prev) else {
+            return;
+        };
+        // The direction of travel; with a single classified position, the rejected rows' own.
+        let dir = if self.direction != 0.0 {
+            self.direction
+        } else {
+            match (self.lead.1, self.trail.1) {
+                (Some(a), _) if a != first => (first - a).signum(),
+                (_, Some(b)) if b != last => (b - last).signum(),
+                _ => 0.0,
+            }
+        };
+        if self.lead.0 > 0 {
+            match self
+                .lead
+                .1
+                .filter(|&a| dir != 0.0 && (first - a) * dir > 0.0)
+            {
+                Some(a) => {
+                    let gap = (first - a).abs();
+                    self.length_unclassified += gap;
+                    self.no_verdict_at_ends.0 += gap;
+                    if self.first_weld_start.is_none() {
+                        self.no_verdict_at_ends.1 += gap;
+                    }
+                    self.first_pos = Some(a);
+                    self.gaps_total += 1;
+                    if self.gaps.len() < GAP_CAP {
+                        self.gaps.insert(0, (a, first));
+                    }
+                }
+                None => self.unplaced_end_rows.0 = self.lead.0,
+            }
+        }
+        if self.trail.0 > 0 {
+            match self
+                .trail
+                .1
+                .filter(|&b| dir != 0.0 && (b - last) * dir > 0.0)
+            {
+                Some(b) => {
+                    let gap = (b - last).abs();
+                    self.length_unclassified += gap;
+                    self.no_verdict_at_ends.1 += gap;
+                    if self.first_weld_start.is_none() {
+                        self.no_verdict_at_ends.0 += gap;
+                    }
+                    self.end_override = Some(b);
+                    self.gaps_total += 1;
+                    if self.gaps.len() < GAP_CAP {
+                        self.gaps.push((last, b));
+                    }
+                }
+                None => self.unplaced_end_rows.1 = self.trail.0,
+            }
+        }
+        self.pending_gap = false;
     }
 
     /// Warn when every classified point has an implausible magnitude, the usual sign of a unit
@@ -528,9 +629,13 @@ impl Summary {
         }
     }
 
-    /// Span from the first to the last classified position, m.
+    /// The interface, m: from the first to the last classified position, extended to the
+    /// readable positions of rejected rows before the first or after the last one.
     pub fn span(&self) -> Option<(f64, f64)> {
-        Some((self.first_pos?, self.prev?.0))
+        Some((
+            self.first_pos?,
+            self.end_override.or(self.prev.map(|p| p.0))?,
+        ))
     }
 
     /// Welded fraction and its basis.
@@ -754,6 +859,26 @@ impl Summary {
             json!(sorted.then_some(self.gaps_total)),
         );
         o.insert(
+            "no_verdict".into(),
+            if sorted {
+                Value::Array(
+                    self.gaps
+                        .iter()
+                        .take(SEGMENT_CAP)
+                        .map(|&(a, b)| {
+                            json!({"start_m": sig(a), "end_m": sig(b), "length_m": sig((b - a).abs())})
+                        })
+                        .collect(),
+                )
+            } else {
+                Value::Null
+            },
+        );
+        o.insert(
+            "unplaced_end_rows".into(),
+            json!({"start": self.unplaced_end_rows.0, "end": self.unplaced_end_rows.1}),
+        );
+        o.insert(
             "smallest_welded_margin".into(),
             match self.smallest {
                 Some((rel, k, m, row, pos)) => {
@@ -901,7 +1026,7 @@ impl Summary {
             ));
             if self.length_unclassified > 0.0 {
                 s.push_str(&format!(
-                    "no verdict over {:.3} mm between classified rows where rows were rejected (counted in the total, not as welded)\n",
+                    "no verdict over {:.3} mm where rows were rejected (counted in the interface, never as welded)\n",
                     self.length_unclassified * 1e3
                 ));
             }
@@ -943,9 +1068,31 @@ impl Summary {
                 s.push('\n');
             }
             if self.gaps_total > 0 {
+                let shown: Vec<String> = self
+                    .gaps
+                    .iter()
+                    .take(5)
+                    .map(|&(a, b)| format!("{:.3}-{:.3} mm", a.min(b) * 1e3, a.max(b) * 1e3))
+                    .collect();
                 s.push_str(&format!(
-                    "segments break at the {} stretch(es) without verdict: a welded segment is never assumed to run through a rejected row\n",
-                    self.gaps_total
+                    "no verdict at {}{} (rejected rows); segments break there: a welded segment is never assumed to run through a rejected row\n",
+                    shown.join(", "),
+                    if self.gaps_total > 5 {
+                        format!(" and {} more", self.gaps_total - 5)
+                    } else {
+                        String::new()
+                    }
+                ));
+            }
+            let (us_rows, ue_rows) = self.unplaced_end_rows;
+            if us_rows > 0 {
+                s.push_str(&format!(
+                    "{us_rows} rejected row(s) before the first classified row have no readable position: where the interface starts is not known, and its start may be unbonded\n"
+                ));
+            }
+            if ue_rows > 0 {
+                s.push_str(&format!(
+                    "{ue_rows} rejected row(s) after the last classified row have no readable position: where the interface ends is not known, and its end may be unbonded\n"
                 ));
             }
         }
@@ -1091,7 +1238,9 @@ mod tests {
             (6.0, 1, true),
         ];
         for (row, (x, v, gap_before)) in pts.into_iter().enumerate() {
-            s.pending_gap = gap_before;
+            if gap_before {
+                s.reject(None);
+            }
             s.push(&lite(row as u64 + 2, x, v)).unwrap();
         }
         s.finish();
@@ -1118,6 +1267,42 @@ mod tests {
         let (a, b) = n.unbonded_ends();
         assert!((a.unwrap() * 1e3 - 2.0).abs() < 1e-12);
         assert!((b.unwrap() * 1e3 - 2.0).abs() < 1e-12);
+    }
+
+    /// Rejected rows before the first and after the last classified row: placed at their
+    /// readable positions (no verdict there, part of the unbonded ends and of the interface),
+    /// never as a stretch between the first two classified rows; without a readable position
+    /// that end is reported as unknown.
+    #[test]
+    fn rejected_rows_at_the_ends_are_placed_or_reported() {
+        let mut s = Summary::new(limits(), false, (false, false));
+        s.reject(Some(0.0));
+        s.reject(Some(0.5e-3));
+        for (row, x) in [1.0, 2.0, 3.0].into_iter().enumerate() {
+            s.push(&lite(row as u64 + 4, x, 0)).unwrap();
+        }
+        s.reject(None);
+        s.reject(Some(4.0e-3));
+        s.finish();
+        assert_eq!(s.span(), Some((0.0, 4.0e-3)));
+        assert_eq!(s.gaps, vec![(0.0, 1.0e-3), (3.0e-3, 4.0e-3)]);
+        let (us, ue) = s.unbonded_ends();
+        assert!((us.unwrap() * 1e3 - 1.0).abs() < 1e-12);
+        assert!((ue.unwrap() * 1e3 - 1.0).abs() < 1e-12);
+        assert!((s.length_unclassified * 1e3 - 2.0).abs() < 1e-12);
+        assert!((s.length_by_verdict[0] * 1e3 - 2.0).abs() < 1e-12);
+        assert_eq!(s.unplaced_end_rows, (0, 0));
+        // No readable position, or one on the wrong side: the end is unknown.
+        let mut u = Summary::new(limits(), false, (false, false));
+        u.reject(None);
+        for (row, x) in [1.0, 2.0].into_iter().enumerate() {
+            u.push(&lite(row as u64 + 3, x, 0)).unwrap();
+        }
+        u.reject(Some(0.5e-3));
+        u.finish();
+        assert_eq!(u.span(), Some((1.0e-3, 2.0e-3)));
+        assert_eq!(u.unplaced_end_rows, (1, 1));
+        assert_eq!(u.gaps_total, 0);
     }
 
     #[test]

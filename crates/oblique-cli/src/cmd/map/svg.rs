@@ -362,16 +362,14 @@ pub fn strip(
             }
         }
         chart.draw_series(lines).map_err(perr)?;
-        // Stretches without a verdict, at least 2 px wide so that none is lost between pixels.
-        let min_w = 2.0 * cw;
+        // Stretches without a verdict, at least 3 px wide so that none is lost between pixels,
+        // kept inside the strip so that one at an end does not merge with the axis.
+        let min_w = 3.0 * cw;
         let gaps = s.gaps.iter().map(|&(a, b)| {
             let (a, b) = (a.min(b) * 1e3, a.max(b) * 1e3);
-            let mid = 0.5 * (a + b);
-            let half = (0.5 * (b - a)).max(0.5 * min_w);
-            Rectangle::new(
-                [(mid - half, 0.0), (mid + half, 1.0)],
-                C_NO_VERDICT.filled(),
-            )
+            let w = (b - a).max(min_w);
+            let left = (0.5 * (a + b) - 0.5 * w).max(x0).min(x1 - w);
+            Rectangle::new([(left, 0.0), (left + w, 1.0)], C_NO_VERDICT.filled())
         });
         chart.draw_series(gaps).map_err(perr)?;
 
