@@ -873,3 +873,27 @@ fn rejected_rows_at_the_ends_stay_at_the_ends() {
     assert_eq!(v["unwelded_segments"], 0);
     assert_eq!(v["unplaced_end_rows"]["start"], 0);
 }
+
+/// Messages for bad cells say how to fix them; `-o -` is standard output.
+#[test]
+fn bad_cell_messages_say_how_to_fix_and_dash_is_stdout() {
+    let input = b"position[mm],velocity[m/s],angle[deg],note\n0,450,12,ok\n# late\n1,480,16,a,b\n2,,16,x\n3,NaN,16,y\n";
+    let o = run_stdin(
+        &["map", "-", "--pair", PAIR, "--bad-rows", "skip", "-o", "-"],
+        input,
+    );
+    assert!(o.status.success(), "{}", text(&o.stderr));
+    assert_eq!(column(&text(&o.stdout), "row"), ["2"]);
+    let err = text(&o.stderr);
+    for want in [
+        "'#' lines are skipped only before the header",
+        "a text field that holds a comma must be in double quotes",
+        "empty: every row needs a value here",
+        "'NaN' is not a finite number (write a plain decimal",
+    ] {
+        assert!(err.contains(want), "{want}: {err}");
+    }
+    assert!(!Path::new("-").exists());
+    let o = run_stdin(&["map", "-", "--pair", PAIR, "-o", "-", "--json"], input);
+    assert_eq!(o.status.code(), Some(2));
+}

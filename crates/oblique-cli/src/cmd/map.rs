@@ -77,7 +77,7 @@ pub struct MapArgs {
     /// Pair window to classify against (`oblique pair list`).
     #[arg(long, value_name = "NAME")]
     pub pair: String,
-    /// Write the per-point map to FILE (default: standard output).
+    /// Write the per-point map to FILE (default, or `-`: standard output).
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: Option<PathBuf>,
     /// Input layout (default: jsonl for .jsonl/.ndjson files, else csv).
@@ -305,6 +305,16 @@ fn same_file(a: &Path, b: &Path) -> bool {
 
 /// Run `oblique map`.
 pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
+    let mut a = a;
+    // `-o -` is standard output, as `-` is standard input.
+    if a.output.as_deref().is_some_and(|p| p.as_os_str() == "-") {
+        if a.json {
+            return Err(Fail::input(
+                "--json prints the summary on standard output, where -o - sends the map: give -o FILE",
+            ));
+        }
+        a.output = None;
+    }
     let stdin = a.input.as_os_str() == "-";
     let file_name = if stdin {
         "<stdin>".to_string()
@@ -408,9 +418,15 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
                     .first_line(true, true, pipeline::MAX_RECORD)
                     .map_err(io)?
                 else {
-                    return Err(Fail::input(format!(
-                        "{file_name}: empty input: expected a header row such as position[mm],velocity[m/s],angle[deg]"
-                    )));
+                    return Err(Fail::input(if comment_lines > 0 {
+                        format!(
+                            "{file_name}: no header row after {comment_lines} comment line(s): expected a header such as position[mm],velocity[m/s],angle[deg]"
+                        )
+                    } else {
+                        format!(
+                            "{file_name}: empty input: expected a header row such as position[mm],velocity[m/s],angle[deg]"
+                        )
+                    }));
                 };
                 head = line;
                 if !head.trim_ascii_start().starts_with(b"#") {
@@ -699,8 +715,8 @@ fn fold_chunk(
             ctx.file,
             e.row,
             ctx.header.position.cell,
-            e.pos * 1e3,
-            e.prev_pos * 1e3,
+            pipeline::fmt_short(e.pos * 1e3),
+            pipeline::fmt_short(e.prev_pos * 1e3),
             e.prev_row,
             if e.increasing { "upwards" } else { "downwards" }
         )));

@@ -458,7 +458,7 @@ fn cell_name(ctx: &Ctx<'_>, i: usize) -> String {
 fn number_reason(text: &[u8], cell: &str) -> String {
     let t = String::from_utf8_lossy(trim_spaces(text)).into_owned();
     if t.is_empty() {
-        "empty".into()
+        "empty: every row needs a value here (fill it in, or take the row out)".into()
     } else if t.starts_with(|c: char| c.is_ascii_digit() || c == '-' || c == '+' || c == '.')
         && t.chars().any(|c| c.is_alphabetic())
         && !t.to_ascii_lowercase().starts_with("inf")
@@ -466,7 +466,7 @@ fn number_reason(text: &[u8], cell: &str) -> String {
     {
         format!("'{t}' is not a plain number (the unit belongs in the header, as in {cell})")
     } else {
-        format!("'{t}' is not a finite number")
+        format!("'{t}' is not a finite number (write a plain decimal such as 12.5 or 1.25e1)")
     }
 }
 
@@ -677,6 +677,12 @@ impl Worker {
                     split_fields(rec, quoted, &mut self.fields);
                 }
                 let got = self.fields.ranges.len();
+                if trim_spaces(rec).starts_with(b"#") {
+                    return Err((
+                        "(row)".into(),
+                        "a comment line after the header: '#' lines are skipped only before the header".into(),
+                    ));
+                }
                 if got < n {
                     return Err((
                         cell_name(ctx, got),
@@ -686,7 +692,9 @@ impl Worker {
                 if got > n {
                     return Err((
                         "(row)".into(),
-                        format!("the row has {got} fields, the header {n}"),
+                        format!(
+                            "the row has {got} fields, the header {n} (a text field that holds a comma must be in double quotes)"
+                        ),
                     ));
                 }
                 Cells::Csv {
