@@ -560,50 +560,8 @@ impl Summary {
                 _ => 0.0,
             }
         };
-        if self.lead.0 > 0 {
-            match self
-                .lead
-                .1
-                .filter(|&a| dir != 0.0 && (first - a) * dir > 0.0)
-            {
-                Some(a) => {
-                    let gap = (first - a).abs();
-                    self.length_unclassified += gap;
-                    self.no_verdict_at_ends.0 += gap;
-                    if self.first_weld_start.is_none() {
-                        self.no_verdict_at_ends.1 += gap;
-                    }
-                    self.first_pos = Some(a);
-                    self.gaps_total += 1;
-                    if self.gaps.len() < GAP_CAP {
-                        self.gaps.insert(0, (a, first));
-                    }
-                }
-                None => self.unplaced_end_rows.0 = self.lead.0,
-            }
-        }
-        if self.trail.0 > 0 {
-            match self
-                .trail
-                .1
-                .filter(|&b| dir != 0.0 && (b - last) * dir > 0.0)
-            {
-                Some(b) => {
-                    let gap = (b - last).abs();
-                    self.length_unclassified += gap;
-                    self.no_verdict_at_ends.1 += gap;
-                    if self.first_weld_start.is_none() {
-                        self.no_verdict_at_ends.0 += gap;
-                    }
-                    self.end_override = Some(b);
-                    self.gaps_total += 1;
-                    if self.gaps.len() < GAP_CAP {
-                        self.gaps.push((last, b));
-                    }
-                }
-                None => self.unplaced_end_rows.1 = self.trail.0,
-            }
-        }
+        self.place_end(true, first, dir);
+        self.place_end(false, last, dir);
         self.pending_gap = false;
     }
 
@@ -626,6 +584,47 @@ impl Summary {
                 "every collision angle is below 1 deg (the largest is {:.4} deg; common practice: a few degrees up to about 30 deg): is the unit in the header right ('{angle_cell}'; angle[rad] for radians)?",
                 self.max_beta
             ));
+        }
+    }
+
+    /// Place the rejected rows before the first (`start`) or after the last classified row,
+    /// whose outermost classified position is `edge`, given the direction of travel.
+    fn place_end(&mut self, start: bool, edge: f64, dir: f64) {
+        let (count, pos) = if start { self.lead } else { self.trail };
+        if count == 0 {
+            return;
+        }
+        // The rejected position must lie beyond the edge, outwards.
+        let outwards = if start { -dir } else { dir };
+        let Some(x) = pos.filter(|&x| dir != 0.0 && (x - edge) * outwards > 0.0) else {
+            if start {
+                self.unplaced_end_rows.0 = count;
+            } else {
+                self.unplaced_end_rows.1 = count;
+            }
+            return;
+        };
+        let gap = (x - edge).abs();
+        self.length_unclassified += gap;
+        // Nothing welded: the whole interface is one unbonded stretch, seen from either end.
+        let both = self.first_weld_start.is_none();
+        if start || both {
+            self.no_verdict_at_ends.0 += gap;
+        }
+        if !start || both {
+            self.no_verdict_at_ends.1 += gap;
+        }
+        self.gaps_total += 1;
+        if start {
+            self.first_pos = Some(x);
+            if self.gaps.len() < GAP_CAP {
+                self.gaps.insert(0, (x, edge));
+            }
+        } else {
+            self.end_override = Some(x);
+            if self.gaps.len() < GAP_CAP {
+                self.gaps.push((edge, x));
+            }
         }
     }
 
