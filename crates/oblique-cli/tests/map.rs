@@ -897,3 +897,49 @@ fn bad_cell_messages_say_how_to_fix_and_dash_is_stdout() {
     let o = run_stdin(&["map", "-", "--pair", PAIR, "-o", "-", "--json"], input);
     assert_eq!(o.status.code(), Some(2));
 }
+
+/// Constants set on the command line are recorded (text and JSON) and warned about when
+/// outside the documented range; an all-equal position column is warned about.
+#[test]
+fn overridden_constants_are_recorded() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = dir.path().join("same.csv");
+    std::fs::write(
+        &input,
+        "position[mm],velocity[m/s],angle[deg]\n1,450,12\n1,480,16\n",
+    )
+    .expect("write");
+    let (v, _) = summary_json(&[path_str(&input), "--deribas-k", "1.5"]);
+    assert_eq!(v["constants"]["deribas_k"]["value"].as_f64(), Some(1.5));
+    assert_eq!(v["constants"]["deribas_k"]["overridden"], true);
+    assert_eq!(v["constants"]["wittman_n"]["overridden"], false);
+    let w = v["warnings"].to_string();
+    assert!(w.contains("Deribas k 1.5"), "{w}");
+    assert!(w.contains("the same position"), "{w}");
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        PAIR,
+        "--deribas-k",
+        "1.5",
+    ]);
+    assert!(text(&o.stderr).contains("deribas_k 1.5 (set by --deribas-k"));
+}
+
+/// JSON lines take '#' comment lines before the first object; a JSON file read as CSV gets a
+/// hint to use --format jsonl.
+#[test]
+fn json_lines_comments_and_format_hint() {
+    let input = b"# invented\n{\"position[mm]\": 0, \"velocity[m/s]\": 450, \"angle[deg]\": 12}\n";
+    let o = run_stdin(&["map", "-", "--pair", PAIR, "--format", "jsonl"], input);
+    assert!(o.status.success(), "{}", text(&o.stderr));
+    assert_eq!(column(&text(&o.stdout), "row"), ["2"]);
+    let o = run_stdin(&["map", "-", "--pair", PAIR], &input[11..]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        text(&o.stderr).contains("--format jsonl"),
+        "{}",
+        text(&o.stderr)
+    );
+}

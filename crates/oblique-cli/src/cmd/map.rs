@@ -36,7 +36,8 @@ but then computes no lengths or segments.
 
 Output: one row per classified input row: row (line number), the input fields as written, then
 verdict, binding limit, Vc, Vf, impact pressure, and the margin of every decisive limit
-(positive = on the welding side); --all-columns adds Vp and the jetting critical angle. The summary goes to standard error, or to
+(positive = on the welding side); --all-columns adds Vp, the jetting critical angle and the
+binding limit's relative margin (its margin over the limit's own value). The summary goes to standard error, or to
 standard output when -o is given; --json prints it as JSON instead (needs -o).
 
 Examples:
@@ -366,7 +367,28 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         .pair(&a.pair)
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
+    let window_criteria = window.criteria.clone();
     window.criteria = apply_constants(window.criteria.clone(), &a.constants);
+    let constants = vec![
+        (
+            "deribas_k",
+            "--deribas-k",
+            window.criteria.deribas_k,
+            window_criteria.deribas_k,
+        ),
+        (
+            "wittman_n",
+            "--wittman-n",
+            window.criteria.wittman_n,
+            window_criteria.wittman_n,
+        ),
+        (
+            "hel_multiple",
+            "--hel-multiple",
+            window.criteria.hel_multiple,
+            window_criteria.hel_multiple,
+        ),
+    ];
     let threads = a.threads.map(usize::from).unwrap_or_else(|| {
         std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get)
     });
@@ -448,25 +470,44 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
             (cells, 2 + inside + comment_lines)
         }
         Format::Jsonl => {
-            let Some(first) = source
-                .first_line(false, false, pipeline::MAX_RECORD)
-                .map_err(io)?
-            else {
-                return Err(Fail::input(format!(
-                    "{file_name}: empty input: expected JSON lines such as {{\"position[mm]\": 0.5, \"velocity[m/s]\": 420, \"angle[deg]\": 8}}"
-                )));
+            // '#' lines before the first object are a preamble, as for CSV.
+            let first = loop {
+                let Some(line) = source
+                    .first_line(false, false, pipeline::MAX_RECORD)
+                    .map_err(io)?
+                else {
+                    return Err(Fail::input(format!(
+                        "{file_name}: empty input: expected JSON lines such as {{\"position[mm]\": 0.5, \"velocity[m/s]\": 420, \"angle[deg]\": 8}}"
+                    )));
+                };
+                if !line.trim_ascii_start().starts_with(b"#") {
+                    break line;
+                }
+                source
+                    .first_line(true, false, pipeline::MAX_RECORD)
+                    .map_err(io)?;
+                comment_lines += 1;
             };
             let obj: serde_json::Map<String, serde_json::Value> =
                 serde_json::from_slice(&first).map_err(|e| {
                     Fail::input(format!(
-                        "{file_name}: row 1: not a JSON object: {e} (the first object sets the columns)"
+                        "{file_name}: row {}: not a JSON object: {e} (the first object sets the columns)",
+                        1 + comment_lines
                     ))
                 })?;
-            (obj.keys().cloned().collect(), 1)
+            (obj.keys().cloned().collect(), 1 + comment_lines)
         }
     };
-    let header =
-        parse_header(&file_name, 1 + comment_lines, cells, &wanted).map_err(Fail::input)?;
+    let header = parse_header(&file_name, 1 + comment_lines, cells, &wanted).map_err(|m| {
+        // A JSON object read as a CSV header: say which flag reads it.
+        if in_format == Format::Csv && m.contains("no column named") && m.contains('{') {
+            Fail::input(format!(
+                "{m}\n  hint: the first line looks like a JSON object: read the file as JSON lines with --format jsonl"
+            ))
+        } else {
+            Fail::input(m)
+        }
+    })?;
 
     let classifier = Classifier::new(&window, kind, mode)?;
     let ctx = Ctx::new(
@@ -520,6 +561,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         (a.strip_svg.is_some(), a.window_svg.is_some()),
     );
     summary.comment_lines = comment_lines;
+    summary.constants = constants;
 
     // Progress: only for a regular file, on a terminal, after about a second.
     let progress_allowed = is_file

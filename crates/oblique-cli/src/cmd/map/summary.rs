@@ -290,6 +290,8 @@ pub struct Summary {
     pub marks: Vec<(f32, f32, u8)>,
     /// Lines starting with '#' before the header (skipped).
     pub comment_lines: u64,
+    /// The criterion constants used: (name, flag, value, the window's value).
+    pub constants: Vec<(&'static str, &'static str, f64, f64)>,
     /// Warnings about the data as a whole (implausible magnitudes: a unit wrong in the header?).
     pub warnings: Vec<String>,
     /// Largest Vp and angle seen.
@@ -357,6 +359,7 @@ impl Summary {
             histogram: plots.1.then(Histogram::new),
             marks: Vec::new(),
             comment_lines: 0,
+            constants: Vec::new(),
             warnings: Vec::new(),
             max_vp: 0.0,
             max_beta: 0.0,
@@ -579,6 +582,25 @@ impl Summary {
                 self.max_vp
             ));
         }
+        if self.max_vp > 5000.0 {
+            self.warnings.push(format!(
+                "impact velocities reach {:.0} m/s, above any impact welding process (common practice: up to about 1000 m/s): is the unit in the header right ('{velocity_cell}'), and are those rows real?",
+                self.max_vp
+            ));
+        }
+        if !self.unsorted && self.rows_classified > 1 && self.direction == 0.0 {
+            self.warnings.push(
+                "every classified row has the same position: no lengths can be measured (is the right column read as the position?)".into(),
+            );
+        }
+        if let Some(&(_, flag, k, _)) = self.constants.iter().find(|c| c.0 == "deribas_k") {
+            if !(0.6..=1.2).contains(&k) {
+                self.warnings.push(format!(
+                    "Deribas k {} ({flag}) is outside 0.6 (carefully cleaned surfaces) to 1.2, the range the physics notes give (from memory)",
+                    fmt_num(k)
+                ));
+            }
+        }
         if self.max_beta < 1.0 {
             self.warnings.push(format!(
                 "every collision angle is below 1 deg (the largest is {:.4} deg; common practice: a few degrees up to about 30 deg): is the unit in the header right ('{angle_cell}'; angle[rad] for radians)?",
@@ -687,6 +709,11 @@ fn new_run(verdict: u8, start: f64, p: &Lite) -> Run {
         points: 1,
         by_verdict,
     }
+}
+
+/// A constant for a message: shortest form that reads back the same.
+fn fmt_num(x: f64) -> String {
+    format!("{x}")
 }
 
 /// Stretches without a verdict kept for the strip plot (all are counted).
@@ -936,6 +963,14 @@ impl Summary {
                 "rows_solved_directly": self.jetting_direct,
             }),
         );
+        let mut consts = Map::new();
+        for &(name, _, value, window) in &self.constants {
+            consts.insert(
+                name.into(),
+                json!({"value": value, "window": window, "overridden": value != window}),
+            );
+        }
+        o.insert("constants".into(), Value::Object(consts));
         o.insert("warnings".into(), json!(self.warnings));
         o.insert("caution".into(), json!(CAUTION));
         Value::Object(o)
@@ -1005,7 +1040,7 @@ impl Summary {
         ));
         let (frac, basis) = self.welded_fraction();
         if self.unsorted {
-            s.push_str("positions not used (--unsorted): no lengths or segments\n");
+            s.push_str("positions not used (--unsorted): no lengths or segments, which need the points in order along the interface\n");
             if let Some(f) = frac {
                 s.push_str(&format!("welded fraction {:.1} % of the rows\n", 100.0 * f));
             }
@@ -1147,8 +1182,29 @@ impl Summary {
                 oblique_core::jetting_table::JettingTable::ERROR_BOUND_DEG,
                 self.jetting_direct
             )),
-            ("direct", _) => s.push_str("jetting: solved directly for every row (--exact-jetting)\n"),
+            ("direct", _) => s.push_str(&format!(
+                "jetting: solved directly for every row with supersonic inflow (--exact-jetting): {} row(s); the subsonic ones need no solve\n",
+                self.jetting_direct
+            )),
             _ => s.push_str("jetting: criterion disabled in the window\n"),
+        }
+        if !self.constants.is_empty() {
+            let parts: Vec<String> = self
+                .constants
+                .iter()
+                .map(|&(name, flag, value, window)| {
+                    if value == window {
+                        format!("{name} {}", fmt_num(value))
+                    } else {
+                        format!(
+                            "{name} {} (set by {flag}; the window's is {})",
+                            fmt_num(value),
+                            fmt_num(window)
+                        )
+                    }
+                })
+                .collect();
+            s.push_str(&format!("constants: {}\n", parts.join(", ")));
         }
         for w in &self.warnings {
             s.push_str(&format!("warning: {w}\n"));

@@ -115,6 +115,21 @@ fn envelope(
         .collect()
 }
 
+/// `; constants set on the command line: ...` when any differs from the window's, else empty.
+fn overridden_note(s: &Summary) -> String {
+    let set: Vec<String> = s
+        .constants
+        .iter()
+        .filter(|c| c.2 != c.3)
+        .map(|&(name, _, value, window)| format!("{name} {value} (window {window})"))
+        .collect();
+    if set.is_empty() {
+        String::new()
+    } else {
+        format!("; constants set on the command line: {}", set.join(", "))
+    }
+}
+
 fn title_text(info: &RunInfo<'_>, what: &str) -> String {
     format!(
         "{what}: pair {} ({}), convention {}",
@@ -140,7 +155,7 @@ pub fn strip(
         x0 -= 0.5;
         x1 += 0.5;
     }
-    let (frac, _) = s.welded_fraction();
+    let (frac, basis) = s.welded_fraction();
     let mut svg = String::new();
     {
         crate::plot::register_fonts();
@@ -154,13 +169,20 @@ pub fn strip(
             ("sans-serif", 18).into_font(),
         ))
         .map_err(perr)?;
-        let mut sub = format!(
-            "{} rows classified, {} rejected; welded {} of {:.3} mm (length-weighted)",
-            s.rows_classified,
-            s.rows_rejected,
-            frac.map_or("-".to_string(), |f| format!("{:.1} %", 100.0 * f)),
-            (x1 - x0).abs()
-        );
+        let welded = frac.map_or("-".to_string(), |f| format!("{:.1} %", 100.0 * f));
+        let mut sub = if basis == "length" {
+            format!(
+                "{} rows classified, {} rejected; welded {welded} of {:.3} mm (length-weighted)",
+                s.rows_classified,
+                s.rows_rejected,
+                (x1 - x0).abs()
+            )
+        } else {
+            format!(
+                "{} rows classified, {} rejected; welded {welded} of the rows (by count: the positions span no length)",
+                s.rows_classified, s.rows_rejected
+            )
+        };
         if let Some(l) = s.longest_welded {
             sub.push_str(&format!(
                 "; longest welded segment {:.3} to {:.3} mm",
@@ -168,6 +190,7 @@ pub fn strip(
                 l.end * 1e3
             ));
         }
+        sub.push_str(&overridden_note(s));
         if s.gaps_total > 0 {
             sub.push_str(&format!(
                 "; {} stretch(es) without verdict{}",
@@ -527,8 +550,10 @@ pub fn window_plane(
         .map_err(perr)?;
         head.draw(&Text::new(
             format!(
-                "{}; convention {}; each point classified against the window (tints: the window's verdict regions)",
-                info.pair_line, info.convention
+                "{}; convention {}; each point classified against the window (tints: the window's verdict regions){}",
+                info.pair_line,
+                info.convention,
+                overridden_note(s)
             ),
             (16, 34),
             ("sans-serif", 13).into_font().color(&GREY),
