@@ -42,12 +42,11 @@ fn run_stdin(args: &[&str], input: &[u8]) -> Output {
         .stderr(Stdio::piped())
         .spawn()
         .expect("the binary starts");
-    child
-        .stdin
-        .take()
-        .expect("stdin")
-        .write_all(input)
-        .expect("write stdin");
+    // A run that fails on its arguments may exit before reading: a broken pipe is not a test
+    // failure (the exit status and messages are checked by the caller).
+    if let Err(e) = child.stdin.take().expect("stdin").write_all(input) {
+        assert_eq!(e.kind(), std::io::ErrorKind::BrokenPipe, "write stdin: {e}");
+    }
     child.wait_with_output().expect("the binary ends")
 }
 
@@ -941,5 +940,19 @@ fn json_lines_comments_and_format_hint() {
         text(&o.stderr).contains("--format jsonl"),
         "{}",
         text(&o.stderr)
+    );
+}
+
+/// A JSON-lines key given twice is refused, never silently overwritten.
+#[test]
+fn repeated_json_keys_are_refused() {
+    let input = b"{\"position[mm]\": 0, \"velocity[m/s]\": 450, \"angle[deg]\": 12}\n{\"position[mm]\": 1, \"velocity[m/s]\": 450, \"angle[deg]\": 8, \"angle[deg]\": 30}\n";
+    let o = run_stdin(&["map", "-", "--pair", PAIR, "--format", "jsonl"], input);
+    assert_eq!(o.status.code(), Some(2));
+    let err = text(&o.stderr);
+    assert!(err.contains("row 2"), "{err}");
+    assert!(
+        err.contains("key 'angle[deg]' appears twice (at column"),
+        "{err}"
     );
 }

@@ -489,10 +489,11 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
                 comment_lines += 1;
             };
             let obj: serde_json::Map<String, serde_json::Value> =
-                serde_json::from_slice(&first).map_err(|e| {
+                input::json_object(&first).map_err(|e| {
                     Fail::input(format!(
-                        "{file_name}: row {}: not a JSON object: {e} (the first object sets the columns)",
-                        1 + comment_lines
+                        "{file_name}: row {}: not a JSON object: {} (the first object sets the columns)",
+                        1 + comment_lines,
+                        input::json_reason(&e)
                     ))
                 })?;
             (obj.keys().cloned().collect(), 1 + comment_lines)
@@ -551,8 +552,17 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
                 oblique_window::LimitRef::Criterion(_) => "criterion",
                 oblique_window::LimitRef::Boundary(_) => "boundary",
             },
+            ceiling: match l.limit {
+                oblique_window::LimitRef::Criterion(id) => {
+                    id == oblique_core::CriterionId::MeltingUpper
+                }
+                oblique_window::LimitRef::Boundary(i) => window
+                    .boundaries
+                    .get(i)
+                    .is_some_and(|b| b.weld_side.is_velocity_ceiling()),
+            },
             welded_min: None,
-            unwelded_binding: 0,
+            unwelded_binding: [0; 2],
         })
         .collect();
     let mut summary = Summary::new(
@@ -774,7 +784,8 @@ fn fold_chunk(
         .iter_mut()
         .zip(st.welded_min.iter().zip(&st.unwelded_binding))
     {
-        l.unwelded_binding += b;
+        l.unwelded_binding[0] += b[0];
+        l.unwelded_binding[1] += b[1];
         if let Some((m, row)) = m {
             let better = match l.welded_min {
                 Some((old, _)) => *m < old,

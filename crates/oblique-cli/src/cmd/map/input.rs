@@ -165,6 +165,48 @@ fn example_cell(role: usize, name: &str) -> String {
     format!("{name}[{unit}]")
 }
 
+/// One JSON object, refusing a key that appears twice (a plain map would keep the last value
+/// and drop the first without a word).
+///
+/// # Errors
+/// Not a JSON object, or a repeated key (the message names it).
+pub fn json_object(
+    bytes: &[u8],
+) -> Result<serde_json::Map<String, serde_json::Value>, serde_json::Error> {
+    use serde::de::{Deserializer, Error, MapAccess, Visitor};
+    struct Unique;
+    impl<'de> Visitor<'de> for Unique {
+        type Value = serde_json::Map<String, serde_json::Value>;
+        fn expecting(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+            f.write_str("a JSON object")
+        }
+        fn visit_map<A: MapAccess<'de>>(self, mut a: A) -> Result<Self::Value, A::Error> {
+            let mut m = serde_json::Map::new();
+            while let Some((k, v)) = a.next_entry::<String, serde_json::Value>()? {
+                if m.contains_key(&k) {
+                    return Err(A::Error::custom(format!("key '{k}' appears twice")));
+                }
+                m.insert(k, v);
+            }
+            Ok(m)
+        }
+    }
+    let mut de = serde_json::Deserializer::from_slice(bytes);
+    let m = (&mut de).deserialize_map(Unique)?;
+    de.end()?;
+    Ok(m)
+}
+
+/// A JSON error for a message about one line of a file: serde's "at line 1 column N" counts
+/// within that line only, so it becomes "at column N of the line".
+pub fn json_reason(e: &serde_json::Error) -> String {
+    let t = e.to_string();
+    match t.rfind(" at line ") {
+        Some(i) => format!("{} (at column {} of the line)", &t[..i], e.column()),
+        None => t,
+    }
+}
+
 /// Parse a decimal number fast; the result is the same as `str::parse::<f64>` (correctly
 /// rounded). Surrounding ASCII spaces are allowed. `None` if the text is not a finite number.
 #[inline]
@@ -945,6 +987,19 @@ mod tests {
             e.contains("--position-column NAME, --velocity-column NAME, --angle-column NAME"),
             "{e}"
         );
+    }
+
+    #[test]
+    fn json_objects_refuse_repeated_keys() {
+        let m = json_object(br#"{"a": 1, "b": [1, {"a": 2}]}"#).unwrap();
+        assert_eq!(m.len(), 2);
+        let e = json_object(br#"{"angle[deg]": 8, "angle[deg]": 30}"#).unwrap_err();
+        assert!(
+            e.to_string().contains("key 'angle[deg]' appears twice"),
+            "{e}"
+        );
+        assert!(json_object(b"[1, 2]").is_err());
+        assert!(json_object(br#"{"a": 1} x"#).is_err());
     }
 
     #[test]

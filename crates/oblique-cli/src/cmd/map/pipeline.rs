@@ -56,7 +56,7 @@ pub struct ChunkStats {
     /// Smallest margin per limit among welded rows, with its row.
     pub welded_min: Vec<Option<(f64, u64)>>,
     /// Binding-limit counts of unwelded rows.
-    pub unwelded_binding: Vec<u64>,
+    pub unwelded_binding: Vec<[u64; 2]>,
 }
 
 /// A unit of work and its results; slots are recycled.
@@ -590,7 +590,7 @@ impl Worker {
     fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot) {
         let n_limits = ctx.classifier.limits.len();
         slot.stats.welded_min = vec![None; n_limits];
-        slot.stats.unwelded_binding = vec![0; n_limits];
+        slot.stats.unwelded_binding = vec![[0; 2]; n_limits];
         let data = std::mem::take(&mut slot.data);
         let mut pos = 0;
         let mut line_no = slot.first_line;
@@ -703,9 +703,14 @@ impl Worker {
                 }
             }
             Format::Jsonl => {
-                obj = match serde_json::from_slice::<Map<String, Value>>(rec) {
+                obj = match super::input::json_object(rec) {
                     Ok(o) => o,
-                    Err(e) => return Err(("(line)".into(), format!("not a JSON object: {e}"))),
+                    Err(e) => {
+                        return Err((
+                            "(line)".into(),
+                            format!("not a JSON object: {}", super::input::json_reason(&e)),
+                        ))
+                    }
                 };
                 if let Some(k) = obj.keys().find(|k| !ctx.header.cells.contains(k)) {
                     return Err((
@@ -836,7 +841,7 @@ impl Worker {
                 }
             }
         } else if let Some(b) = p.binding {
-            slot.stats.unwelded_binding[b] += 1;
+            slot.stats.unwelded_binding[b][usize::from(verdict == 2)] += 1;
         }
         let (margin, binding) = match p.binding {
             Some(b) => (self.margins[b], b as u16),

@@ -204,10 +204,12 @@ pub struct LimitStat {
     pub unit: &'static str,
     /// `criterion` or `boundary`.
     pub kind: &'static str,
+    /// A velocity ceiling (the melting limit, or a boundary with the weld below or left of it).
+    pub ceiling: bool,
     /// Smallest margin among welded rows, and its row.
     pub welded_min: Option<(f64, u64)>,
-    /// Rows outside the window with this binding limit.
-    pub unwelded_binding: u64,
+    /// Rows outside the window with this binding limit: not welded, melted.
+    pub unwelded_binding: [u64; 2],
 }
 
 /// The streaming summary.
@@ -940,11 +942,16 @@ impl Summary {
                     .collect(),
             ),
         );
-        let mut b = Map::new();
+        let (mut b, mut bn, mut bm) = (Map::new(), Map::new(), Map::new());
         for l in &self.limits {
-            b.insert(l.label.clone(), json!(l.unwelded_binding));
+            let [n, m] = l.unwelded_binding;
+            b.insert(l.label.clone(), json!(n + m));
+            bn.insert(l.label.clone(), json!(n));
+            bm.insert(l.label.clone(), json!(m));
         }
         o.insert("binding_counts_unwelded".into(), Value::Object(b));
+        o.insert("binding_counts_not_welded".into(), Value::Object(bn));
+        o.insert("binding_counts_melted".into(), Value::Object(bm));
         o.insert(
             "outside_trial_data_rows".into(),
             json!(self.outside_trial_data),
@@ -1148,22 +1155,31 @@ impl Summary {
             }
             None => s.push_str("no welded point\n"),
         }
-        let mut bind: Vec<(&LimitStat, u64)> = self
+        for (k, what) in [(0usize, "not-welded"), (1, "melted")] {
+            let mut bind: Vec<(&LimitStat, u64)> = self
+                .limits
+                .iter()
+                .filter(|l| l.unwelded_binding[k] > 0)
+                .map(|l| (l, l.unwelded_binding[k]))
+                .collect();
+            bind.sort_by_key(|b| std::cmp::Reverse(b.1));
+            if !bind.is_empty() {
+                let parts: Vec<String> = bind
+                    .iter()
+                    .map(|(l, n)| format!("{} {}", l.label, n))
+                    .collect();
+                s.push_str(&format!(
+                    "binding (most violated) limits of the {what} rows: {}\n",
+                    parts.join(", ")
+                ));
+            }
+        }
+        if self
             .limits
             .iter()
-            .filter(|l| l.unwelded_binding > 0)
-            .map(|l| (l, l.unwelded_binding))
-            .collect();
-        bind.sort_by_key(|b| std::cmp::Reverse(b.1));
-        if !bind.is_empty() {
-            let parts: Vec<String> = bind
-                .iter()
-                .map(|(l, n)| format!("{} {}", l.label, n))
-                .collect();
-            s.push_str(&format!(
-                "binding limits of the unwelded rows: {}\n",
-                parts.join(", ")
-            ));
+            .any(|l| l.ceiling && l.unwelded_binding[0] > 0)
+        {
+            s.push_str("  (a not-welded row bound by a ceiling also fails a lower limit: the binding limit is the most violated one, not the only one)\n");
         }
         if self.outside_trial_data > 0 {
             s.push_str(&format!(
@@ -1241,7 +1257,8 @@ mod tests {
             unit: "deg",
             kind: "criterion",
             welded_min: None,
-            unwelded_binding: 0,
+            unwelded_binding: [0; 2],
+            ceiling: false,
         }]
     }
 
