@@ -62,7 +62,7 @@ const C_PARTIAL: RGBColor = RGBColor(123, 50, 148);
 const C_MELTED: RGBColor = RGBColor(165, 15, 21);
 const C_INFO: RGBColor = RGBColor(120, 120, 120);
 /// Inside the model limits, but where a user boundary does not span (outside the trial data).
-const REGION_UNTRIED: RGBColor = RGBColor(236, 241, 247);
+const REGION_UNTRIED: RGBColor = RGBColor(224, 229, 235);
 const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
 const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
 

@@ -23,7 +23,7 @@ const C_NO_VERDICT: RGBColor = RGBColor(20, 20, 20);
 const T_WELDED: RGBColor = RGBColor(212, 226, 243);
 const T_MELTED: RGBColor = RGBColor(246, 212, 208);
 /// Welded by the model limits alone, where no user boundary spans (outside the trial data).
-const T_UNTRIED: RGBColor = RGBColor(236, 241, 247);
+const T_UNTRIED: RGBColor = RGBColor(224, 229, 235);
 const GREY: RGBColor = RGBColor(90, 90, 90);
 const TRACE: RGBColor = RGBColor(30, 30, 30);
 const BAND: RGBColor = RGBColor(190, 190, 190);
