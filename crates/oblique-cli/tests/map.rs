@@ -956,3 +956,45 @@ fn repeated_json_keys_are_refused() {
         "{err}"
     );
 }
+
+/// `--min-segment` joins short runs in the segment statistics only, is recorded, needs a unit,
+/// and is refused with `--unsorted`.
+#[test]
+fn min_segment_joins_short_runs() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = dir.path().join("flicker.csv");
+    // Welded at 450 m/s 12 deg, one not-welded flicker (250 m/s) in the middle.
+    let mut t = String::from("position[mm],velocity[m/s],angle[deg]\n");
+    for k in 0..21 {
+        let v = if k == 10 { 250 } else { 450 };
+        t.push_str(&format!("{},{v},12\n", k as f64 * 0.1));
+    }
+    std::fs::write(&input, t).expect("write");
+    let (raw, _) = summary_json(&[path_str(&input)]);
+    assert_eq!(raw["welded_segments"], 2);
+    assert_eq!(raw["min_segment_m"], Value::Null);
+    let (joined, _) = summary_json(&[path_str(&input), "--min-segment", "0.2mm"]);
+    assert_eq!(joined["welded_segments"], 1);
+    assert_eq!(joined["unwelded_segments"], 0);
+    assert_eq!(joined["min_segment_m"].as_f64(), Some(2e-4));
+    assert_eq!(joined["welded_length_m"], raw["welded_length_m"]);
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        PAIR,
+        "--min-segment",
+        "2",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        PAIR,
+        "--min-segment",
+        "0.2mm",
+        "--unsorted",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+}

@@ -116,6 +116,11 @@ pub struct MapArgs {
     /// Accept positions in any order; then no lengths or segments are computed.
     #[arg(long)]
     pub unsorted: bool,
+    /// Join welded or unwelded runs shorter than LENGTH (e.g. 0.2mm) to their neighbours in the
+    /// segment statistics (segments, longest welded segment, unbonded ends); welded length and
+    /// verdicts stay point by point. For noisy exports that flicker at the window's edges.
+    #[arg(long, value_name = "LENGTH", value_parser = crate::qarg::positive_length)]
+    pub min_segment: Option<f64>,
     /// Also write the summary as JSON to FILE.
     #[arg(long = "summary-json", value_name = "FILE")]
     pub summary_json: Option<PathBuf>,
@@ -333,6 +338,11 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         .output_format
         .map(fmt_arg)
         .unwrap_or_else(|| a.output.as_deref().map_or(Format::Csv, format_of));
+    if a.unsorted && a.min_segment.is_some() {
+        return Err(Fail::input(
+            "--min-segment joins runs along the interface and needs sorted positions: it cannot be used with --unsorted",
+        ));
+    }
     if a.unsorted && a.strip_svg.is_some() {
         return Err(Fail::input(
             "--strip-svg draws along the interface and needs sorted positions: it cannot be used with --unsorted",
@@ -571,6 +581,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         (a.strip_svg.is_some(), a.window_svg.is_some()),
     );
     summary.comment_lines = comment_lines;
+    summary.min_segment = a.min_segment.unwrap_or(0.0);
     summary.constants = constants;
 
     // Progress: only for a regular file, on a terminal, after about a second.

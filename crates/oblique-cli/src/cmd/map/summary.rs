@@ -264,6 +264,12 @@ pub struct Summary {
     cur_seg: Option<Run>,
     /// Stored welded/unwelded segments.
     pub segments: Vec<Run>,
+    /// `--min-segment`, m (0: off).
+    pub min_segment: f64,
+    /// The run being merged (`--min-segment`).
+    merged: Option<Run>,
+    /// Short runs waiting for a long run to join (`--min-segment`).
+    held: Vec<Run>,
     /// Segments counted, welded and unwelded.
     pub segments_total: [u64; 2],
     /// Where the first welded segment starts and the last one ends, m (the unbonded ends run
@@ -347,6 +353,9 @@ impl Summary {
             want_strip: plots.0,
             cur_seg: None,
             segments: Vec::new(),
+            min_segment: 0.0,
+            merged: None,
+            held: Vec::new(),
             segments_total: [0; 2],
             first_weld_start: None,
             last_weld_end: None,
@@ -468,6 +477,7 @@ impl Summary {
             let gap = (x - px).abs();
             self.length_unclassified += gap;
             self.close_segment(px);
+            self.flush_runs();
             // Not welded as far as anyone knows: it belongs to an unbonded end if no welded
             // segment lies beyond it on that side.
             if self.first_weld_start.is_none() {
@@ -515,6 +525,61 @@ impl Summary {
     fn close_segment(&mut self, end: f64) {
         if let Some(mut s) = self.cur_seg.take() {
             s.end = end;
+            if self.min_segment > 0.0 {
+                self.merge_run(s);
+            } else {
+                self.commit_segment(s);
+            }
+        }
+    }
+
+    /// With `--min-segment L`: a run shorter than L joins the run before it (or, with none
+    /// before it, the next run at least L long); runs of one state then join. Runs on either
+    /// side of a stretch without a verdict never join (`flush_runs` runs there).
+    fn merge_run(&mut self, s: Run) {
+        if (s.end - s.start).abs() < self.min_segment {
+            match &mut self.merged {
+                Some(p) => extend_run(p, &s),
+                None => self.held.push(s),
+            }
+            return;
+        }
+        let mut s = s;
+        if !self.held.is_empty() {
+            let mut lead = self.held.remove(0);
+            for h in self.held.drain(..) {
+                extend_run(&mut lead, &h);
+            }
+            extend_run(&mut lead, &s);
+            lead.verdict = s.verdict;
+            s = lead;
+        }
+        match self.merged.take() {
+            Some(mut p) if p.verdict == s.verdict => {
+                extend_run(&mut p, &s);
+                self.merged = Some(p);
+            }
+            Some(p) => {
+                self.commit_segment(p);
+                self.merged = Some(s);
+            }
+            None => self.merged = Some(s),
+        }
+    }
+
+    /// Commit what `merge_run` holds (at a stretch without a verdict, and at the end); short
+    /// runs with no long run to join stay as they are.
+    fn flush_runs(&mut self) {
+        if let Some(p) = self.merged.take() {
+            self.commit_segment(p);
+        }
+        for h in std::mem::take(&mut self.held) {
+            self.commit_segment(h);
+        }
+    }
+
+    fn commit_segment(&mut self, s: Run) {
+        {
             self.segments_total[s.verdict as usize] += 1;
             if s.verdict == 0 {
                 if self.first_weld_start.is_none() {
@@ -548,6 +613,7 @@ impl Summary {
             }
             self.prev_boundary = px;
             self.close_segment(px);
+            self.flush_runs();
         }
         if self.unsorted {
             return;
@@ -699,6 +765,16 @@ impl Summary {
     }
 }
 
+/// Extend run `a` by the run `b` that follows it (the state stays `a`'s).
+fn extend_run(a: &mut Run, b: &Run) {
+    a.end = b.end;
+    a.last_row = b.last_row;
+    a.points += b.points;
+    for (x, y) in a.by_verdict.iter_mut().zip(b.by_verdict) {
+        *x += y;
+    }
+}
+
 fn new_run(verdict: u8, start: f64, p: &Lite) -> Run {
     let mut by_verdict = [0; 3];
     by_verdict[p.verdict as usize] = 1;
@@ -847,6 +923,10 @@ impl Summary {
             } else {
                 Value::Null
             },
+        );
+        o.insert(
+            "min_segment_m".into(),
+            json!((self.min_segment > 0.0).then(|| sig(self.min_segment))),
         );
         o.insert(
             "segments_total".into(),
@@ -1072,8 +1152,17 @@ impl Summary {
                 ));
             }
             s.push_str(&format!(
-                "segments: {} welded, {} unwelded",
-                self.segments_total[0], self.segments_total[1]
+                "segments{}: {} welded, {} unwelded",
+                if self.min_segment > 0.0 {
+                    format!(
+                        " (runs shorter than {:.3} mm joined to their neighbours, --min-segment)",
+                        self.min_segment * 1e3
+                    )
+                } else {
+                    String::new()
+                },
+                self.segments_total[0],
+                self.segments_total[1]
             ));
             if let Some(l) = self.longest_welded {
                 s.push_str(&format!(
@@ -1375,6 +1464,41 @@ mod tests {
         assert_eq!(u.span(), Some((1.0e-3, 2.0e-3)));
         assert_eq!(u.unplaced_end_rows, (1, 1));
         assert_eq!(u.gaps_total, 0);
+    }
+
+    /// `--min-segment`: runs shorter than the length join the run before them (or the next long
+    /// one at the start), runs of one state then join; a stretch without verdict still breaks.
+    #[test]
+    fn short_runs_join_their_neighbours() {
+        // mm: W W N W W W W N N N W N [gap] W W, each point owning 1 mm (half to each side).
+        let verdicts = [0, 0, 1, 0, 0, 0, 0, 1, 1, 1, 0, 1, 0, 0];
+        let run = |min_mm: f64| {
+            let mut s = Summary::new(limits(), false, (false, false));
+            s.min_segment = min_mm * 1e-3;
+            for (i, v) in verdicts.into_iter().enumerate() {
+                if i == 12 {
+                    s.reject(Some(11.5e-3));
+                }
+                s.push(&lite(i as u64 + 2, i as f64, v)).unwrap();
+            }
+            s.finish();
+            s
+        };
+        let raw = run(0.0);
+        assert_eq!(raw.segments_total, [4, 3]);
+        let merged = run(1.5);
+        // The 1 mm unwelded run at 2 mm joins the welded stretch; the 1 mm welded run at 10 mm
+        // joins the unwelded one before it, and so does the 0.5 mm unwelded run after it (up to
+        // the gap); after the gap one welded run.
+        assert_eq!(merged.segments_total, [2, 1], "{:?}", merged.segments);
+        let first = merged.segments[0];
+        assert_eq!((first.verdict, first.first_row, first.last_row), (0, 2, 8));
+        assert_eq!(first.points, 7);
+        let longest = merged.longest_welded.unwrap();
+        assert!((longest.start - 0.0).abs() < 1e-15 && (longest.end * 1e3 - 6.5).abs() < 1e-12);
+        // Welded length is point by point either way.
+        assert_eq!(raw.length_by_verdict, merged.length_by_verdict);
+        assert_eq!(merged.gaps_total, 1);
     }
 
     #[test]
