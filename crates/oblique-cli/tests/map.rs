@@ -58,6 +58,23 @@ fn path_str(p: &Path) -> &str {
     p.to_str().expect("utf-8 path")
 }
 
+/// The run failed with exit 2 and its message names `needle`.
+fn assert_fails_with(o: &Output, needle: &str) {
+    assert_eq!(o.status.code(), Some(2), "{}", text(&o.stderr));
+    assert!(
+        text(&o.stderr).contains(needle),
+        "{needle}: {}",
+        text(&o.stderr)
+    );
+}
+
+/// Write `body` to `name` in `dir`; its path.
+fn write_input(dir: &tempfile::TempDir, name: &str, body: &str) -> PathBuf {
+    let p = dir.path().join(name);
+    std::fs::write(&p, body).expect("write the input");
+    p
+}
+
 /// The values of one column of a CSV text.
 fn column(csv: &str, name: &str) -> Vec<String> {
     // Flexible: the bad-row side file keeps each raw line, whatever its field count.
@@ -336,12 +353,11 @@ fn rejected_rows_leave_a_stretch_without_verdict() {
 #[test]
 fn a_rejected_row_does_not_shorten_the_unbonded_end() {
     let dir = tempfile::tempdir().expect("tempdir");
-    let input = dir.path().join("gap-start.csv");
-    std::fs::write(
-        &input,
+    let input = write_input(
+        &dir,
+        "gap-start.csv",
         "position[mm],velocity[m/s],angle[deg]\n0,250,12\n0.5,,12\n1,250,12\n2,450,12\n3,450,12\n",
-    )
-    .expect("write");
+    );
     let (v, _) = summary_json(&[path_str(&input), "--bad-rows", "skip"]);
     assert_eq!(v["rows_rejected"], 1);
     // Welded from half-way between 1 and 2 mm: 1.5 mm unbonded, 1 mm of it without verdict.
@@ -386,12 +402,7 @@ fn stdin_input_and_output() {
         &["map", "-", "--pair", PAIR],
         b"position[mm],velocity[m/s],angle[deg]\n0,450,12\n1,450,nope\n",
     );
-    assert_eq!(o.status.code(), Some(2));
-    assert!(
-        text(&o.stderr).contains("<stdin>: row 3, field 'angle[deg]'"),
-        "{}",
-        text(&o.stderr)
-    );
+    assert_fails_with(&o, "<stdin>: row 3, field 'angle[deg]'");
 }
 
 #[test]
@@ -526,8 +537,7 @@ fn unknown_pair_and_missing_file_exit_2() {
 #[test]
 fn output_over_a_symbolic_link_is_written_through_not_replaced() {
     let dir = tempfile::tempdir().expect("tempdir");
-    let target = dir.path().join("target.csv");
-    std::fs::write(&target, "old").expect("write");
+    let target = write_input(&dir, "target.csv", "old");
     let link = dir.path().join("link.csv");
     std::os::unix::fs::symlink(&target, &link).expect("symlink");
     let o = run(&[
@@ -736,8 +746,11 @@ fn line_endings_and_quotes_do_not_change_the_map() {
 #[test]
 fn nothing_classified_is_an_error() {
     let dir = tempfile::tempdir().expect("tempdir");
-    let header_only = dir.path().join("header.csv");
-    std::fs::write(&header_only, "position[mm],velocity[m/s],angle[deg]\n").expect("write");
+    let header_only = write_input(
+        &dir,
+        "header.csv",
+        "position[mm],velocity[m/s],angle[deg]\n",
+    );
     let map = dir.path().join("map.csv");
     let o = run(&[
         "map",
@@ -747,21 +760,15 @@ fn nothing_classified_is_an_error() {
         "-o",
         path_str(&map),
     ]);
-    assert_eq!(o.status.code(), Some(2));
-    assert!(
-        text(&o.stderr).contains("no data rows"),
-        "{}",
-        text(&o.stderr)
-    );
+    assert_fails_with(&o, "no data rows");
     assert!(!map.exists());
 
     // Degrees under a radians header: every angle is out of range.
-    let rad = dir.path().join("rad.csv");
-    std::fs::write(
-        &rad,
+    let rad = write_input(
+        &dir,
+        "rad.csv",
         "position[mm],velocity[m/s],angle[rad]\n0,450,12\n1,480,16\n",
-    )
-    .expect("write");
+    );
     let side = dir.path().join("rejected.csv");
     let policy = format!("save:{}", path_str(&side));
     let o = run(&[
@@ -837,12 +844,7 @@ fn comment_lines_before_the_header_are_skipped_and_counted() {
         &["map", "-", "--pair", PAIR],
         b"# note\nposition,velocity[m/s],angle[deg]\n0,450,12\n",
     );
-    assert_eq!(o.status.code(), Some(2));
-    assert!(
-        text(&o.stderr).contains("row 2 (header)"),
-        "{}",
-        text(&o.stderr)
-    );
+    assert_fails_with(&o, "row 2 (header)");
 }
 
 /// Rejected rows before the first and after the last classified row stay where they are along
@@ -851,12 +853,7 @@ fn comment_lines_before_the_header_are_skipped_and_counted() {
 #[test]
 fn rejected_rows_at_the_ends_stay_at_the_ends() {
     let dir = tempfile::tempdir().expect("tempdir");
-    let input = dir.path().join("ends.csv");
-    std::fs::write(
-        &input,
-        "position[mm],velocity[m/s],angle[deg]\n0,,12\n1,450,12\n2,450,12\n3,450,12\n4,450,12\n5,NaN,12\n",
-    )
-    .expect("write");
+    let input = write_input(&dir, "ends.csv", "position[mm],velocity[m/s],angle[deg]\n0,,12\n1,450,12\n2,450,12\n3,450,12\n4,450,12\n5,NaN,12\n");
     let (v, _) = summary_json(&[path_str(&input), "--bad-rows", "skip"]);
     assert_eq!(v["rows_rejected"], 2);
     assert_eq!(v["interface_start_m"].as_f64(), Some(0.0));
@@ -902,12 +899,11 @@ fn bad_cell_messages_say_how_to_fix_and_dash_is_stdout() {
 #[test]
 fn overridden_constants_are_recorded() {
     let dir = tempfile::tempdir().expect("tempdir");
-    let input = dir.path().join("same.csv");
-    std::fs::write(
-        &input,
+    let input = write_input(
+        &dir,
+        "same.csv",
         "position[mm],velocity[m/s],angle[deg]\n1,450,12\n1,480,16\n",
-    )
-    .expect("write");
+    );
     let (v, _) = summary_json(&[path_str(&input), "--deribas-k", "1.5"]);
     assert_eq!(v["constants"]["deribas_k"]["value"].as_f64(), Some(1.5));
     assert_eq!(v["constants"]["deribas_k"]["overridden"], true);
@@ -935,12 +931,7 @@ fn json_lines_comments_and_format_hint() {
     assert!(o.status.success(), "{}", text(&o.stderr));
     assert_eq!(column(&text(&o.stdout), "row"), ["2"]);
     let o = run_stdin(&["map", "-", "--pair", PAIR], &input[11..]);
-    assert_eq!(o.status.code(), Some(2));
-    assert!(
-        text(&o.stderr).contains("--format jsonl"),
-        "{}",
-        text(&o.stderr)
-    );
+    assert_fails_with(&o, "--format jsonl");
 }
 
 /// A JSON-lines key given twice is refused, never silently overwritten.
