@@ -345,17 +345,7 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
     // Criteria.
     let _ = writeln!(h, "<h2>Criteria and margins</h2>\n<table><tr><th>criterion</th><th>formula</th><th>constants</th><th>limit (flyer / parent)</th><th>value</th><th>limit used</th><th>margin at this Vc</th><th>holds</th><th>reached at (this angle: Vp; this Vp: angle)</th><th>governs</th><th>source</th></tr>");
     for r in &e.criteria {
-        let consts: Vec<String> = r
-            .constants
-            .iter()
-            .map(|(k, v)| {
-                if *k == "form" {
-                    format!("form = {}", if *v < 1.5 { "A" } else { "B" })
-                } else {
-                    format!("{k} = {v}")
-                }
-            })
-            .collect();
+        let consts = r.constants_text(" = ");
         let per = match (r.limit_flyer, r.limit_parent) {
             (Some(f), Some(p)) => format!(
                 "{} / {}",

@@ -266,16 +266,24 @@ pub struct CriterionResult {
 }
 
 impl CriterionResult {
-    /// Margin relative to the limit, for ranking unlike criteria. Infinite when the limit is
-    /// zero (subsonic jetting: satisfied whatever the angle).
+    /// Margin relative to the limit, for ranking unlike criteria (see [`relative_margin`]).
     pub fn relative_margin(&self) -> f64 {
-        if self.limit.abs() > 0.0 {
-            self.margin / self.limit.abs()
-        } else if self.margin >= 0.0 {
-            f64::INFINITY
-        } else {
-            f64::NEG_INFINITY
-        }
+        relative_margin(self.margin, self.limit)
+    }
+
+    /// The criterion's constants as `name{eq}value` texts, the Wittman form (stored as 1 or 2)
+    /// written A or B; `eq` is "=" for tables, " = " for prose.
+    pub fn constants_text(&self, eq: &str) -> Vec<String> {
+        self.constants
+            .iter()
+            .map(|(k, v)| {
+                if *k == "form" {
+                    format!("form{eq}{}", if *v < 1.5 { "A" } else { "B" })
+                } else {
+                    format!("{k}{eq}{v}")
+                }
+            })
+            .collect()
     }
 
     /// What the criterion says at this point, in words. It describes the limit at the point's
@@ -386,6 +394,20 @@ impl PointEvaluation {
     /// The binding criterion's result.
     pub fn binding_result(&self) -> Option<&CriterionResult> {
         self.binding.and_then(|id| self.criterion(id))
+    }
+}
+
+/// A margin relative to its limit, margin / |limit|, for ranking unlike limits (criteria and
+/// user boundaries alike). Infinite, with the margin's sign, when the limit is zero (subsonic
+/// jetting: satisfied whatever the angle).
+#[inline]
+pub fn relative_margin(margin: f64, limit: f64) -> f64 {
+    if limit.abs() > 0.0 {
+        margin / limit.abs()
+    } else if margin >= 0.0 {
+        f64::INFINITY
+    } else {
+        f64::NEG_INFINITY
     }
 }
 

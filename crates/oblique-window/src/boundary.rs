@@ -116,20 +116,15 @@ pub struct BoundaryResult {
 impl BoundaryResult {
     /// Margin relative to the limit, for ranking against the model criteria.
     pub fn relative_margin(&self) -> Option<f64> {
-        match (self.margin, self.limit) {
-            (Some(m), Some(l)) if l.abs() > 0.0 => Some(m / l.abs()),
-            (Some(m), _) => Some(if m >= 0.0 {
-                f64::INFINITY
-            } else {
-                f64::NEG_INFINITY
-            }),
-            _ => None,
-        }
+        self.margin
+            .map(|m| oblique_core::criteria::relative_margin(m, self.limit.unwrap_or(0.0)))
     }
 }
 
-/// Linear interpolation of y at x along sorted (x, y) points; `None` outside the span.
-fn interpolate(points: &[(f64, f64)], x: f64) -> Option<f64> {
+/// Linear interpolation of y at x along sorted (x, y) points; `None` outside the span. The
+/// weld map's classifier uses it too, so that both give the same bits.
+#[inline]
+pub fn interpolate(points: &[(f64, f64)], x: f64) -> Option<f64> {
     let first = points.first()?;
     let last = points.last()?;
     if !(x >= first.0 && x <= last.0) {

@@ -65,6 +65,26 @@ pub fn ad_hoc_window(
 }
 
 /// Build the collision from Vp or Vc.
+/// The point as the user gave it (velocity or collision velocity, angle, convention; the
+/// window's convention when none is given), classified against `window` with its advice in
+/// the convention the user typed the point in.
+///
+/// # Errors
+/// No velocity, or a point or window the physics refuses.
+pub fn classify_given(
+    window: &PairWindow,
+    convention: Option<crate::cli::ConventionArg>,
+    v: &crate::cli::VelocityInput,
+    angle: f64,
+) -> CmdResult<(Collision, oblique_window::Classification)> {
+    let convention: Convention = convention.map_or(window.convention, Into::into);
+    let point = collision(convention, v.velocity, v.collision_velocity, angle)?;
+    let setup = window.setup()?;
+    let mut c = oblique_window::classify::classify(window, &setup, &point)?;
+    oblique_window::classify::explain_in(window, &setup, &mut c, point.convention);
+    Ok((point, c))
+}
+
 pub fn collision(
     convention: Convention,
     velocity: Option<f64>,
@@ -113,17 +133,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         window.parent_thickness = Some(Length::from_m(t));
     }
     window.criteria = apply_constants(window.criteria.clone(), &a.constants);
-    let convention: Convention = a.convention.map_or(window.convention, Into::into);
-    let point = collision(
-        convention,
-        a.velocity.velocity,
-        a.velocity.collision_velocity,
-        a.angle,
-    )?;
-    let setup = window.setup()?;
-    let mut c = oblique_window::classify::classify(&window, &setup, &point)?;
-    // Advice in the convention the user typed the point in.
-    oblique_window::classify::explain_in(&window, &setup, &mut c, point.convention);
+    let (point, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     // A point given in another convention than the window's is re-expressed in the window's
     // (same Vc and beta, so the same collision); say so, with the value as given.
     let converted = (point.convention != window.convention).then(|| {
@@ -257,17 +267,7 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
     s.push('\n');
     let mut crit_rows = Vec::new();
     for r in &e.criteria {
-        let consts: Vec<String> = r
-            .constants
-            .iter()
-            .map(|(k, v)| {
-                if *k == "form" {
-                    format!("form={}", if *v < 1.5 { "A" } else { "B" })
-                } else {
-                    format!("{k}={v}")
-                }
-            })
-            .collect();
+        let consts = r.constants_text("=");
         crit_rows.push(vec![
             r.id.as_str().to_string(),
             fmt_value(r.value, r.unit),

@@ -1,7 +1,7 @@
 //! `oblique report`: the decision report for one proposed point.
 
 use crate::cli::{ConstantArgs, ConventionArg, VelocityInput};
-use crate::cmd::check::{apply_constants, collision};
+use crate::cmd::check::{apply_constants, classify_given};
 use crate::cmd::load_library;
 use crate::cmd::plot::{read_point_csv, write_output};
 use crate::fail::{CmdResult, Fail};
@@ -10,7 +10,6 @@ use crate::plot::ProcessCurve;
 use crate::qarg;
 use crate::report::{command_line, html, json, ReportInput};
 use clap::Args;
-use oblique_core::Convention;
 use oblique_window::agreement;
 use std::path::PathBuf;
 
@@ -52,16 +51,7 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
     window.criteria = apply_constants(window.criteria.clone(), &a.constants);
-    let convention: Convention = a.convention.map_or(window.convention, Into::into);
-    let point = collision(
-        convention,
-        a.velocity.velocity,
-        a.velocity.collision_velocity,
-        a.angle,
-    )?;
-    let setup = window.setup()?;
-    let mut c = oblique_window::classify::classify(&window, &setup, &point)?;
-    oblique_window::classify::explain_in(&window, &setup, &mut c, point.convention);
+    let (_, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     let agr = agreement(&window)?;
     let mut curves = Vec::new();
     for f in &a.curve {

@@ -11,13 +11,15 @@
 //! reported critical angle and jetting margin of the other points carry the table's error
 //! (at most `JettingTable::ERROR_BOUND_DEG`).
 
-use oblique_core::criteria::{deribas_coefficient, melting_coefficient, melting_divisor};
+use oblique_core::criteria::{
+    deribas_coefficient, melting_coefficient, melting_divisor, relative_margin,
+};
 use oblique_core::hugoniot::impedance_match;
 use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime};
 use oblique_core::jetting_table::{JettingTable, Lookup};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{Collision, Convention, CriterionId, LimitKind, PairSetup, PhysicsError};
-use oblique_window::boundary::{Plane, WeldSide};
+use oblique_window::boundary::{interpolate, Plane, WeldSide};
 use oblique_window::classify::{limit_label, LimitRef, Prediction};
 use oblique_window::PairWindow;
 use std::sync::OnceLock;
@@ -61,37 +63,6 @@ struct FastBoundary {
     /// (independent, dependent) in the units of `Boundary::evaluate`: (m/s, deg) for
     /// above/below, (deg, m/s) for left/right.
     points: Vec<(f64, f64)>,
-}
-
-/// Same as the window crate's boundary interpolation (linear, `None` outside the span).
-#[inline]
-fn interpolate(points: &[(f64, f64)], x: f64) -> Option<f64> {
-    let first = points.first()?;
-    let last = points.last()?;
-    if !(x >= first.0 && x <= last.0) {
-        return None;
-    }
-    let k = points
-        .partition_point(|p| p.0 < x)
-        .max(1)
-        .min(points.len() - 1);
-    let (x0, y0) = points[k - 1];
-    let (x1, y1) = points[k];
-    if x1 == x0 {
-        return Some(y0);
-    }
-    Some(y0 + (y1 - y0) * (x - x0) / (x1 - x0))
-}
-
-#[inline]
-fn relative(margin: f64, limit: f64) -> f64 {
-    if limit.abs() > 0.0 {
-        margin / limit.abs()
-    } else if margin >= 0.0 {
-        f64::INFINITY
-    } else {
-        f64::NEG_INFINITY
-    }
 }
 
 /// The classification of one point. Margins are in `Classifier::limits` order, in the units of
@@ -507,7 +478,7 @@ impl Classifier {
             }
             consider(
                 k,
-                relative(margin, limit),
+                relative_margin(margin, limit),
                 satisfied,
                 kind == LimitKind::Upper,
             );
@@ -552,7 +523,7 @@ impl Classifier {
                     }
                     consider(
                         n_crit + i,
-                        relative(m, l),
+                        relative_margin(m, l),
                         m >= 0.0,
                         b.side.is_velocity_ceiling(),
                     );

@@ -326,24 +326,20 @@ impl<'a> Ctx<'a> {
                 cell_role[col.index] = Some(r);
             }
         }
-        let binding_csv: Vec<Vec<u8>> = classifier
-            .limits
-            .iter()
-            .map(|l| {
-                let mut v = Vec::new();
-                push_csv_field(&mut v, l.id.as_bytes());
-                v
-            })
-            .collect();
-        let binding_json = classifier
-            .limits
-            .iter()
-            .map(|l| {
-                let mut v = Vec::new();
-                push_json_string(&mut v, l.id.as_bytes());
-                v
-            })
-            .collect();
+        // The binding limit ids, escaped once for each output layout.
+        let ids = |escape: fn(&mut Vec<u8>, &[u8])| -> Vec<Vec<u8>> {
+            classifier
+                .limits
+                .iter()
+                .map(|l| {
+                    let mut v = Vec::new();
+                    escape(&mut v, l.id.as_bytes());
+                    v
+                })
+                .collect()
+        };
+        let binding_csv = ids(push_csv_field);
+        let binding_json = ids(push_json_string);
         let binding_max = binding_csv.iter().map(Vec::len).max().unwrap_or(0);
         // Short constants: they always fit a word.
         let verdict_words: Vec<Word> = [

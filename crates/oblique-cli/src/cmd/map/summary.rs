@@ -443,7 +443,9 @@ impl Summary {
 
     fn along(&mut self, p: &Lite) -> Result<(), OutOfOrder> {
         let x = p.pos;
-        self.trail = (0, None);
+        if self.trail.0 > 0 {
+            self.trail = (0, None);
+        }
         let Some((px, pv, prow)) = self.prev else {
             // Rejected rows before the first classified row are settled in `finish`, once the
             // direction is known; they make no stretch between classified rows.
@@ -665,7 +667,7 @@ impl Summary {
             if !(0.6..=1.2).contains(&k) {
                 self.warnings.push(format!(
                     "Deribas k {} ({flag}) is outside 0.6 (carefully cleaned surfaces) to 1.2, the range the physics notes give (from memory)",
-                    fmt_num(k)
+                    super::pipeline::fmt_g(k)
                 ));
             }
         }
@@ -787,11 +789,6 @@ fn new_run(verdict: u8, start: f64, p: &Lite) -> Run {
         points: 1,
         by_verdict,
     }
-}
-
-/// A constant for a message: shortest form that reads back the same.
-fn fmt_num(x: f64) -> String {
-    format!("{x}")
 }
 
 /// Stretches without a verdict kept for the strip plot (all are counted).
@@ -1299,12 +1296,12 @@ impl Summary {
                 .iter()
                 .map(|&(name, flag, value, window)| {
                     if value == window {
-                        format!("{name} {}", fmt_num(value))
+                        format!("{name} {}", super::pipeline::fmt_g(value))
                     } else {
                         format!(
                             "{name} {} (set by {flag}; the window's is {})",
-                            fmt_num(value),
-                            fmt_num(window)
+                            super::pipeline::fmt_g(value),
+                            super::pipeline::fmt_g(window)
                         )
                     }
                 })
