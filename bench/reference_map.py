@@ -21,6 +21,10 @@ Relations (the same as the Rust crates; see physics-notes.md, sections 1-4):
 
 Usage:
   reference_map.py INPUT.csv WINDOW.json -o OUT.csv [--summary-json FILE] [--bad-rows stop|skip]
+                   [--all-columns]
+
+The map has the same columns as `oblique map`: the binding limit with its margin (in that
+limit's unit) and relative margin by default, every limit's margin with --all-columns.
 """
 
 import argparse
@@ -220,6 +224,7 @@ def main(argv):
     ap.add_argument("-o", "--output", required=True)
     ap.add_argument("--summary-json")
     ap.add_argument("--bad-rows", choices=["stop", "skip"], default="stop")
+    ap.add_argument("--all-columns", action="store_true", help="also write every limit's margin")
     a = ap.parse_args(argv)
     t0 = time.perf_counter()
     w = json.load(open(a.window))
@@ -353,11 +358,23 @@ def main(argv):
     vnames = np.array(["welded", "not-welded", "melted"], dtype=object)
     cols["verdict"] = pa.array(vnames[verdict])
     cols["binding"] = pa.array(names[binding])
+    # The binding limit's margin in its own output unit (rounded to its decimals), and its
+    # relative margin.
+    if limits:
+        at = np.arange(len(vp))
+        bm = np.full(len(vp), np.nan)
+        for k, (_, _, margin, _, _, _, factor, dec) in enumerate(limits):
+            pick = binding == k
+            bm[pick] = np.round(margin[pick] * factor, dec)
+        brel = np.vstack([l[3] for l in limits])[binding, at]
+        cols["binding_margin"] = pa.array(bm, from_pandas=True)
+        cols["binding_relative_margin"] = pa.array(np.round(brel, 4), from_pandas=True)
     cols["collision_velocity[m/s]"] = pa.array(np.round(vc, 1))
     cols["flow_velocity[m/s]"] = pa.array(np.round(vf, 1))
     cols["impact_pressure[GPa]"] = pa.array(np.round(pressure * 1e-9, 3))
-    for name, col, margin, _, _, _, factor, dec in limits:
-        cols[col] = pa.array(np.round(margin * factor, dec), from_pandas=True)
+    if a.all_columns:
+        for name, col, margin, _, _, _, factor, dec in limits:
+            cols[col] = pa.array(np.round(margin * factor, dec), from_pandas=True)
     if w["boundary_list"]:
         cols["outside_trial_data"] = pa.array(outside)
     pacsv.write_csv(pa.table(cols), a.output, write_options=pacsv.WriteOptions(quoting_style="needed"))

@@ -405,6 +405,61 @@ fn stdin_input_and_output() {
     assert_fails_with(&o, "<stdin>: row 3, field 'angle[deg]'");
 }
 
+/// The default row carries the binding limit's margin in that limit's unit and its relative
+/// margin; `--all-columns` adds every limit's margin, and the binding one is the same number.
+#[test]
+fn default_row_has_the_binding_margin_and_all_columns_every_margin() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let (short, long) = (dir.path().join("short.csv"), dir.path().join("long.csv"));
+    let input = data("map-basic.csv");
+    for (out, extra) in [(&short, None), (&long, Some("--all-columns"))] {
+        let mut args = vec!["map", path_str(&input), "--pair", PAIR, "-o", path_str(out)];
+        args.extend(extra);
+        let o = run(&args);
+        assert!(o.status.success(), "{}", text(&o.stderr));
+    }
+    let short = std::fs::read_to_string(&short).expect("map");
+    let long = std::fs::read_to_string(&long).expect("map");
+    let header = short.lines().next().expect("header");
+    assert!(
+        header.ends_with(
+            "verdict,binding,binding_margin,binding_relative_margin,collision_velocity[m/s],\
+             flow_velocity[m/s],impact_pressure[GPa],outside_trial_data"
+        ),
+        "{header}"
+    );
+    assert!(!header.contains("margin_jetting"), "{header}");
+    let bindings = column(&short, "binding");
+    let margins = column(&short, "binding_margin");
+    assert_eq!(bindings, column(&long, "binding"));
+    assert_eq!(margins, column(&long, "binding_margin"));
+    assert_eq!(
+        column(&short, "binding_relative_margin"),
+        column(&long, "binding_relative_margin")
+    );
+    let long_header = long.lines().next().expect("header");
+    for (row, (b, m)) in bindings.iter().zip(&margins).enumerate() {
+        // The binding limit's own margin column, whatever its unit.
+        let col = long_header
+            .split(',')
+            .find(|c| {
+                let id = c
+                    .trim_start_matches("margin_")
+                    .split('[')
+                    .next()
+                    .unwrap_or("");
+                c.starts_with("margin_") && id.replace('_', "-") == *b
+            })
+            .unwrap_or_else(|| panic!("no margin column for {b} in {long_header}"));
+        assert_eq!(&column(&long, col)[row], m, "row {row}: {b}");
+    }
+    // Welded rows have a non-negative binding margin, unwelded ones a negative one.
+    for (v, m) in column(&short, "verdict").iter().zip(&margins) {
+        let m: f64 = m.parse().expect("a number");
+        assert_eq!(v == "welded", m >= 0.0, "{v} {m}");
+    }
+}
+
 #[test]
 fn json_lines_in_and_out() {
     let dir = tempfile::tempdir().expect("tempdir");
@@ -417,6 +472,7 @@ fn json_lines_in_and_out() {
         "-o",
         path_str(&out),
         "--json",
+        "--all-columns",
     ]);
     assert!(o.status.success(), "{}", text(&o.stderr));
     let v: Value = serde_json::from_slice(&o.stdout).expect("summary");
@@ -436,7 +492,12 @@ fn json_lines_in_and_out() {
     assert_eq!(lines[6]["note"], "tip, fast");
     assert_eq!(lines[3]["velocity[m/s]"], "480");
     assert!(lines[0]["collision_velocity[m/s]"].is_number());
-    assert!(lines[1]["margin_boundary_1[m/s]"].is_null());
+    // Outside a boundary's span its margin is null (the key is there).
+    let row = lines[1].as_object().expect("object");
+    assert!(row
+        .get("margin_boundary_1[m/s]")
+        .is_some_and(Value::is_null));
+    assert!(row.get("binding_margin").is_some_and(Value::is_number));
     // CSV in, JSON lines out, by flag.
     let o = run(&[
         "map",
@@ -577,9 +638,9 @@ fn many_rows_keep_their_order_and_verdicts() {
     std::fs::write(&input, &s).expect("write");
     let mut outputs = Vec::new();
     for extra in [
-        &["--threads", "1"][..],
-        &["--threads", "3"][..],
-        &["--exact-jetting"][..],
+        &["--threads", "1", "--all-columns"][..],
+        &["--threads", "3", "--all-columns"][..],
+        &["--exact-jetting", "--all-columns"][..],
     ] {
         let out = dir.path().join(format!("out-{}.csv", outputs.len()));
         let mut args = vec![

@@ -35,10 +35,10 @@ Positions must run monotonically along the interface (either way); --unsorted ac
 but then computes no lengths or segments.
 
 Output: one row per classified input row: row (line number), the input fields as written, then
-verdict, binding limit, Vc, Vf, impact pressure, and the margin of every decisive limit
-(positive = on the welding side); --all-columns adds Vp, the jetting critical angle and the
-binding limit's relative margin (its margin over the limit's own value). The summary goes to standard error, or to
-standard output when -o is given; --json prints it as JSON instead (needs -o).
+verdict, binding limit, its margin (in that limit's unit, positive = on the welding side) and
+relative margin (over the limit's own value), Vc, Vf and impact pressure; --all-columns adds Vp,
+the jetting critical angle and the margin of every decisive limit. The summary goes to standard
+error, or to standard output when -o is given; --json prints it as JSON instead (needs -o).
 
 Examples:
   oblique map interface.csv --pair demo-al6061-on-cu -o map.csv --strip-svg strip.svg
@@ -139,7 +139,7 @@ pub struct MapArgs {
     /// Solve the jetting test directly for every row instead of using the table (slow).
     #[arg(long = "exact-jetting")]
     pub exact_jetting: bool,
-    /// Add Vp, the jetting critical angle and the binding relative margin to the output.
+    /// Add Vp, the jetting critical angle and the margin of every limit to the output.
     #[arg(long = "all-columns")]
     pub all_columns: bool,
     /// Never show a progress bar.

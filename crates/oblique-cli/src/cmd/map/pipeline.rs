@@ -134,6 +134,8 @@ pub struct Ctx<'a> {
     pub row_bound: usize,
     /// The computed CSV columns as straight-line writes.
     pub csv_plan: CsvPlan,
+    /// The output unit of each limit's margin (for the binding margin).
+    pub margin_units: Vec<MarginUnit>,
     /// `,verdict,` for each verdict (welded, not-welded, melted), padded.
     pub verdict_words: Vec<Word>,
     /// Binding limit ids as CSV fields, padded (`None` if one is too long to pad).
@@ -159,6 +161,8 @@ pub enum Col {
     Pressure,
     /// Jetting critical angle, deg.
     JettingAngle,
+    /// Margin of the binding limit, in that limit's output unit (see `MarginUnit`).
+    BindingMargin,
     /// Relative margin of the binding limit.
     BindingRelative,
     /// Margin of limit k, in its output unit.
@@ -189,11 +193,35 @@ impl MarginUnit {
     }
 }
 
-/// The computed columns for a classifier: names (with units) and kinds. `all` adds Vp (always there for collision-velocity
-/// input), the jetting critical angle and the binding relative margin.
+/// The output unit of each limit's margin.
+pub fn margin_units(c: &Classifier) -> Vec<(&'static str, MarginUnit)> {
+    c.limits
+        .iter()
+        .map(|l| match l.unit {
+            "Pa" => ("GPa", MarginUnit::Gigapascals),
+            "deg" => ("deg", MarginUnit::Degrees),
+            _ => ("m/s", MarginUnit::MetresPerSecond),
+        })
+        .collect()
+}
+
+/// The computed columns for a classifier: names (with units) and kinds. Every row has the
+/// verdict, the binding limit with its margin (in that limit's unit) and relative margin, Vc,
+/// Vf and the impact pressure; `all` adds Vp (always there for collision-velocity input), the
+/// jetting critical angle and the margin of every limit.
 pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
-    let mut names: Vec<String> = vec!["verdict".into(), "binding".into()];
-    let mut cols = vec![Col::Verdict, Col::Binding];
+    let mut names: Vec<String> = vec![
+        "verdict".into(),
+        "binding".into(),
+        "binding_margin".into(),
+        "binding_relative_margin".into(),
+    ];
+    let mut cols = vec![
+        Col::Verdict,
+        Col::Binding,
+        Col::BindingMargin,
+        Col::BindingRelative,
+    ];
     if all || c.kind() == super::classifier::VelocityKind::Collision {
         names.push("impact_velocity[m/s]".into());
         cols.push(Col::ImpactVelocity);
@@ -211,17 +239,10 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
         cols.push(Col::JettingAngle);
     }
     if all {
-        names.push("binding_relative_margin".into());
-        cols.push(Col::BindingRelative);
-    }
-    for (k, l) in c.limits.iter().enumerate() {
-        let (unit, mu) = match l.unit {
-            "Pa" => ("GPa", MarginUnit::Gigapascals),
-            "deg" => ("deg", MarginUnit::Degrees),
-            _ => ("m/s", MarginUnit::MetresPerSecond),
-        };
-        names.push(format!("{}[{unit}]", l.column));
-        cols.push(Col::Margin(k, mu));
+        for (k, (l, (unit, mu))) in c.limits.iter().zip(margin_units(c)).enumerate() {
+            names.push(format!("{}[{unit}]", l.column));
+            cols.push(Col::Margin(k, mu));
+        }
     }
     if c.has_boundaries() {
         names.push("outside_trial_data".into());
@@ -237,7 +258,6 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
 pub struct CsvPlan {
     vp: bool,
     jetting: bool,
-    rel: bool,
     margins: Vec<(usize, MarginUnit)>,
     outside: bool,
 }
@@ -249,11 +269,10 @@ impl CsvPlan {
             match *c {
                 Col::ImpactVelocity => plan.vp = true,
                 Col::JettingAngle => plan.jetting = true,
-                Col::BindingRelative => plan.rel = true,
                 Col::Margin(k, u) => plan.margins.push((k, u)),
                 Col::Outside => plan.outside = true,
-                Col::Verdict | Col::Binding | Col::CollisionVelocity | Col::FlowVelocity => {}
-                Col::Pressure => {}
+                Col::Verdict | Col::Binding | Col::BindingMargin | Col::BindingRelative => {}
+                Col::CollisionVelocity | Col::FlowVelocity | Col::Pressure => {}
             }
         }
         plan
@@ -261,16 +280,18 @@ impl CsvPlan {
 
     /// The columns this plan writes, in its order (checked against `computed_columns`).
     fn columns(&self) -> Vec<Col> {
-        let mut v = vec![Col::Verdict, Col::Binding];
+        let mut v = vec![
+            Col::Verdict,
+            Col::Binding,
+            Col::BindingMargin,
+            Col::BindingRelative,
+        ];
         if self.vp {
             v.push(Col::ImpactVelocity);
         }
         v.extend([Col::CollisionVelocity, Col::FlowVelocity, Col::Pressure]);
         if self.jetting {
             v.push(Col::JettingAngle);
-        }
-        if self.rel {
-            v.push(Col::BindingRelative);
         }
         v.extend(self.margins.iter().map(|&(k, u)| Col::Margin(k, u)));
         if self.outside {
@@ -376,6 +397,7 @@ impl<'a> Ctx<'a> {
             "the CSV plan must write the columns in header order"
         );
         Self {
+            margin_units: margin_units(classifier).into_iter().map(|u| u.1).collect(),
             verdict_words,
             binding_words,
             outside_words,
@@ -874,12 +896,25 @@ impl Worker {
                 out.push(b',');
             }
         }
+        // The verdict word ends in the binding column's comma.
         if let Some(b) = p.binding {
             match ctx.binding_words.as_ref().and_then(|w| w.get(b)) {
                 Some(w) => out.word(w),
                 None => out.extend(&ctx.binding_csv[b]),
             }
+            out.push(b',');
+            let m = self.margins.get(b).copied().unwrap_or(f64::NAN);
+            match ctx.margin_units.get(b) {
+                Some(MarginUnit::MetresPerSecond) => out.fixed_n::<1>(m),
+                Some(MarginUnit::Degrees) => out.fixed_n::<3>(m),
+                Some(MarginUnit::Gigapascals) => out.fixed_n::<3>(m * 1e-9),
+                None => {}
+            }
+        } else {
+            out.push(b',');
         }
+        out.push(b',');
+        out.fixed_n::<4>(p.binding_relative);
         if plan.vp {
             out.push(b',');
             out.fixed_n::<1>(p.vp);
@@ -893,10 +928,6 @@ impl Worker {
         if plan.jetting {
             out.push(b',');
             out.fixed_n::<3>(p.jetting_deg);
-        }
-        if plan.rel {
-            out.push(b',');
-            out.fixed_n::<4>(p.binding_relative);
         }
         for &(k, unit) in &plan.margins {
             out.push(b',');
@@ -938,6 +969,15 @@ impl Worker {
                 Col::FlowVelocity => out.json_number(p.vf, 1),
                 Col::Pressure => out.json_number(p.pressure * 1e-9, 3),
                 Col::JettingAngle => out.json_number(p.jetting_deg, 3),
+                Col::BindingMargin => {
+                    match (p.binding, p.binding.and_then(|b| ctx.margin_units.get(b))) {
+                        (Some(b), Some(unit)) => {
+                            let (f, d) = unit.factor_decimals();
+                            out.json_number(self.margins[b] * f, d);
+                        }
+                        _ => out.extend(b"null"),
+                    }
+                }
                 Col::BindingRelative => out.json_number(p.binding_relative, 4),
                 Col::Margin(k, unit) => {
                     let (f, d) = unit.factor_decimals();
