@@ -6,7 +6,7 @@
 #
 # Usage: bench/compare.sh            (5 000 000 rows, each program run REPEAT=2 times, best kept)
 #        ROWS=1000000 REPEAT=1 bench/compare.sh
-#        ROWCHECK=1 bench/compare.sh  (also compare the verdicts row by row)
+#        ROWCHECK=1 bench/compare.sh  (also compare verdict, binding limit and margin row by row)
 # Needs: cargo, python3 with venv, /usr/bin/time. Installs pandas, numpy and pyarrow into
 # bench/.venv (git-ignored) on first use.
 set -euo pipefail
@@ -67,17 +67,26 @@ print(f"jetting rows solved directly: oblique {rs['jetting']['rows_solved_direct
 sys.exit(0 if ok else 1)
 EOF
 
-# ROWCHECK=1: also compare the verdict of every row (reads both maps back; slow, memory-hungry).
+# ROWCHECK=1: also compare every row's verdict, binding limit and binding margin (reads both
+# maps back; slow, memory-hungry).
 if [ "${ROWCHECK:-0}" = 1 ]; then
     "$PY" - "$OUT" <<'EOF'
 import sys
 import pandas as pd
 out = sys.argv[1]
-a = pd.read_csv(f"{out}/map-rust.csv", usecols=["row", "verdict"])
-b = pd.read_csv(f"{out}/map-python.csv", usecols=["row", "verdict"])
+cols = ["row", "verdict", "binding", "binding_margin"]
+a = pd.read_csv(f"{out}/map-rust.csv", usecols=cols, dtype={"binding_margin": str})
+b = pd.read_csv(f"{out}/map-python.csv", usecols=cols)
 same_rows = bool((a["row"].to_numpy() == b["row"].to_numpy()).all())
 diff = int((a["verdict"].to_numpy() != b["verdict"].to_numpy()).sum())
-print(f"row by row: {len(a)} rows, {diff} verdicts differ, rows aligned: {same_rows}")
-sys.exit(0 if diff == 0 and same_rows else 1)
+bdiff = int((a["binding"].to_numpy() != b["binding"].to_numpy()).sum())
+# The binding margin within one unit of its last written decimal (the two round alike but for
+# ties and the last bit of a division).
+dec = a["binding_margin"].str.split(".").str[1].str.len().fillna(0).to_numpy()
+gap = (a["binding_margin"].astype(float) - b["binding_margin"]).abs().to_numpy()
+mdiff = int((gap > 1.0001 * 10.0 ** (-dec)).sum())
+print(f"row by row: {len(a)} rows, {diff} verdicts differ, {bdiff} binding limits differ, "
+      f"{mdiff} binding margins differ by more than their last decimal, rows aligned: {same_rows}")
+sys.exit(0 if diff == 0 and bdiff == 0 and mdiff == 0 and same_rows else 1)
 EOF
 fi

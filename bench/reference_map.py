@@ -333,7 +333,7 @@ def main(argv):
             unit, dec = "m/s", 1
         inr = np.isfinite(lim)
         outside |= ~inr
-        label = f'boundary "{b["label"]}"'
+        label = f"boundary-{i + 1}"  # the map's id for the window's (i+1)-th boundary
         add(label, f"margin_boundary_{i + 1}[{unit}]", margin, lim, np.where(inr, margin >= 0, True), side == "left", 1.0, dec)
 
     # Verdict and binding limit.
