@@ -367,7 +367,10 @@ def main(argv):
             pick = binding == k
             bm[pick] = np.round(margin[pick] * factor, dec)
         brel = np.vstack([l[3] for l in limits])[binding, at]
+        # The unit of each limit's margin column, e.g. margin_jetting[deg] -> deg.
+        units = np.array([l[1].split("[")[1].rstrip("]") for l in limits], dtype=object)
         cols["binding_margin"] = pa.array(bm, from_pandas=True)
+        cols["binding_margin_unit"] = pa.array(units[binding])
         cols["binding_relative_margin"] = pa.array(np.round(brel, 4), from_pandas=True)
     cols["collision_velocity[m/s]"] = pa.array(np.round(vc, 1))
     cols["flow_velocity[m/s]"] = pa.array(np.round(vf, 1))

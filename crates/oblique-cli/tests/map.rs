@@ -423,8 +423,8 @@ fn default_row_has_the_binding_margin_and_all_columns_every_margin() {
     let header = short.lines().next().expect("header");
     assert!(
         header.ends_with(
-            "verdict,binding,binding_margin,binding_relative_margin,collision_velocity[m/s],\
-             flow_velocity[m/s],impact_pressure[GPa],outside_trial_data"
+            "verdict,binding,binding_margin,binding_margin_unit,binding_relative_margin,\
+             collision_velocity[m/s],flow_velocity[m/s],impact_pressure[GPa],outside_trial_data"
         ),
         "{header}"
     );
@@ -437,8 +437,10 @@ fn default_row_has_the_binding_margin_and_all_columns_every_margin() {
         column(&short, "binding_relative_margin"),
         column(&long, "binding_relative_margin")
     );
+    let units = column(&short, "binding_margin_unit");
+    assert_eq!(units, column(&long, "binding_margin_unit"));
     let long_header = long.lines().next().expect("header");
-    for (row, (b, m)) in bindings.iter().zip(&margins).enumerate() {
+    for (row, ((b, m), unit)) in bindings.iter().zip(&margins).zip(&units).enumerate() {
         // The binding limit's own margin column, whatever its unit.
         let col = long_header
             .split(',')
@@ -452,6 +454,10 @@ fn default_row_has_the_binding_margin_and_all_columns_every_margin() {
             })
             .unwrap_or_else(|| panic!("no margin column for {b} in {long_header}"));
         assert_eq!(&column(&long, col)[row], m, "row {row}: {b}");
+        assert!(
+            col.ends_with(&format!("[{unit}]")),
+            "row {row}: {col} in {unit}"
+        );
     }
     // Welded rows have a non-negative binding margin, unwelded ones a negative one.
     for (v, m) in column(&short, "verdict").iter().zip(&margins) {
@@ -498,6 +504,7 @@ fn json_lines_in_and_out() {
         .get("margin_boundary_1[m/s]")
         .is_some_and(Value::is_null));
     assert!(row.get("binding_margin").is_some_and(Value::is_number));
+    assert!(row.get("binding_margin_unit").is_some_and(Value::is_string));
     // CSV in, JSON lines out, by flag.
     let o = run(&[
         "map",

@@ -136,6 +136,8 @@ pub struct Ctx<'a> {
     pub csv_plan: CsvPlan,
     /// The output unit of each limit's margin (for the binding margin).
     pub margin_units: Vec<MarginUnit>,
+    /// `,m/s`, `,deg`, `,GPa` (in `MarginUnit` order), padded.
+    pub unit_words: Vec<Word>,
     /// `,verdict,` for each verdict (welded, not-welded, melted), padded.
     pub verdict_words: Vec<Word>,
     /// Binding limit ids as CSV fields, padded (`None` if one is too long to pad).
@@ -163,6 +165,8 @@ pub enum Col {
     JettingAngle,
     /// Margin of the binding limit, in that limit's output unit (see `MarginUnit`).
     BindingMargin,
+    /// The unit of `BindingMargin`.
+    BindingUnit,
     /// Relative margin of the binding limit.
     BindingRelative,
     /// Margin of limit k, in its output unit.
@@ -183,6 +187,15 @@ pub enum MarginUnit {
 }
 
 impl MarginUnit {
+    /// The unit as written in the map.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Self::MetresPerSecond => "m/s",
+            Self::Degrees => "deg",
+            Self::Gigapascals => "GPa",
+        }
+    }
+
     /// Factor from the computed unit, and decimals.
     pub fn factor_decimals(self) -> (f64, usize) {
         match self {
@@ -214,12 +227,14 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
         "verdict".into(),
         "binding".into(),
         "binding_margin".into(),
+        "binding_margin_unit".into(),
         "binding_relative_margin".into(),
     ];
     let mut cols = vec![
         Col::Verdict,
         Col::Binding,
         Col::BindingMargin,
+        Col::BindingUnit,
         Col::BindingRelative,
     ];
     if all || c.kind() == super::classifier::VelocityKind::Collision {
@@ -271,7 +286,8 @@ impl CsvPlan {
                 Col::JettingAngle => plan.jetting = true,
                 Col::Margin(k, u) => plan.margins.push((k, u)),
                 Col::Outside => plan.outside = true,
-                Col::Verdict | Col::Binding | Col::BindingMargin | Col::BindingRelative => {}
+                Col::Verdict | Col::Binding | Col::BindingMargin | Col::BindingUnit => {}
+                Col::BindingRelative => {}
                 Col::CollisionVelocity | Col::FlowVelocity | Col::Pressure => {}
             }
         }
@@ -284,6 +300,7 @@ impl CsvPlan {
             Col::Verdict,
             Col::Binding,
             Col::BindingMargin,
+            Col::BindingUnit,
             Col::BindingRelative,
         ];
         if self.vp {
@@ -398,6 +415,14 @@ impl<'a> Ctx<'a> {
         );
         Self {
             margin_units: margin_units(classifier).into_iter().map(|u| u.1).collect(),
+            unit_words: [
+                MarginUnit::MetresPerSecond,
+                MarginUnit::Degrees,
+                MarginUnit::Gigapascals,
+            ]
+            .iter()
+            .filter_map(|u| Word::new(format!(",{}", u.as_str()).as_bytes()))
+            .collect(),
             verdict_words,
             binding_words,
             outside_words,
@@ -904,14 +929,19 @@ impl Worker {
             }
             out.push(b',');
             let m = self.margins.get(b).copied().unwrap_or(f64::NAN);
-            match ctx.margin_units.get(b) {
+            let unit = ctx.margin_units.get(b);
+            match unit {
                 Some(MarginUnit::MetresPerSecond) => out.fixed_n::<1>(m),
                 Some(MarginUnit::Degrees) => out.fixed_n::<3>(m),
                 Some(MarginUnit::Gigapascals) => out.fixed_n::<3>(m * 1e-9),
                 None => {}
             }
+            match unit.and_then(|u| ctx.unit_words.get(*u as usize)) {
+                Some(w) => out.word(w),
+                None => out.push(b','),
+            }
         } else {
-            out.push(b',');
+            out.extend(b",,");
         }
         out.push(b',');
         out.fixed_n::<4>(p.binding_relative);
@@ -969,6 +999,14 @@ impl Worker {
                 Col::FlowVelocity => out.json_number(p.vf, 1),
                 Col::Pressure => out.json_number(p.pressure * 1e-9, 3),
                 Col::JettingAngle => out.json_number(p.jetting_deg, 3),
+                Col::BindingUnit => match p.binding.and_then(|b| ctx.margin_units.get(b)) {
+                    Some(unit) => {
+                        out.push(b'"');
+                        out.extend(unit.as_str().as_bytes());
+                        out.push(b'"');
+                    }
+                    None => out.extend(b"null"),
+                },
                 Col::BindingMargin => {
                     match (p.binding, p.binding.and_then(|b| ctx.margin_units.get(b))) {
                         (Some(b), Some(unit)) => {
