@@ -67,26 +67,27 @@ print(f"jetting rows solved directly: oblique {rs['jetting']['rows_solved_direct
 sys.exit(0 if ok else 1)
 EOF
 
-# ROWCHECK=1: also compare every row's verdict, binding limit and binding margin (reads both
-# maps back; slow, memory-hungry).
+# ROWCHECK=1: also compare every row's verdict, binding limit, binding margin and unit, and
+# failing limits (reads both maps back; slow, memory-hungry).
 if [ "${ROWCHECK:-0}" = 1 ]; then
     "$PY" - "$OUT" <<'EOF'
 import sys
 import pandas as pd
 out = sys.argv[1]
-cols = ["row", "verdict", "binding", "binding_margin", "binding_margin_unit"]
-a = pd.read_csv(f"{out}/map-rust.csv", usecols=cols, dtype={"binding_margin": str})
-b = pd.read_csv(f"{out}/map-python.csv", usecols=cols)
+cols = ["row", "verdict", "binding", "binding_margin", "binding_margin_unit", "failing_limits"]
+a = pd.read_csv(f"{out}/map-rust.csv", usecols=cols, dtype={"binding_margin": str}, keep_default_na=False)
+b = pd.read_csv(f"{out}/map-python.csv", usecols=cols, keep_default_na=False)
 same_rows = bool((a["row"].to_numpy() == b["row"].to_numpy()).all())
 diff = int((a["verdict"].to_numpy() != b["verdict"].to_numpy()).sum())
 bdiff = int(((a["binding"].to_numpy() != b["binding"].to_numpy())
-             | (a["binding_margin_unit"].to_numpy() != b["binding_margin_unit"].to_numpy())).sum())
+             | (a["binding_margin_unit"].to_numpy() != b["binding_margin_unit"].to_numpy())
+             | (a["failing_limits"].to_numpy() != b["failing_limits"].to_numpy())).sum())
 # The binding margin within one unit of its last written decimal (the two round alike but for
 # ties and the last bit of a division).
 dec = a["binding_margin"].str.split(".").str[1].str.len().fillna(0).to_numpy()
-gap = (a["binding_margin"].astype(float) - b["binding_margin"]).abs().to_numpy()
+gap = (a["binding_margin"].astype(float) - b["binding_margin"].astype(float)).abs().to_numpy()
 mdiff = int((gap > 1.0001 * 10.0 ** (-dec)).sum())
-print(f"row by row: {len(a)} rows, {diff} verdicts differ, {bdiff} binding limits or units differ, "
+print(f"row by row: {len(a)} rows, {diff} verdicts differ, {bdiff} binding limits, units or failing limits differ, "
       f"{mdiff} binding margins differ by more than their last decimal, rows aligned: {same_rows}")
 sys.exit(0 if diff == 0 and bdiff == 0 and mdiff == 0 and same_rows else 1)
 EOF

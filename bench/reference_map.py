@@ -372,6 +372,14 @@ def main(argv):
         cols["binding_margin"] = pa.array(bm, from_pandas=True)
         cols["binding_margin_unit"] = pa.array(units[binding])
         cols["binding_relative_margin"] = pa.array(np.round(brel, 4), from_pandas=True)
+        # Every failing limit, ';'-separated in limit order: one bit per limit, then one text
+        # per distinct combination (few), looked up for every row.
+        code = np.zeros(len(vp), np.int64)
+        for k in range(len(limits)):
+            code |= (~sat[k]).astype(np.int64) << k
+        combos, inverse = np.unique(code, return_inverse=True)
+        texts = np.array([";".join(l[0] for k, l in enumerate(limits) if (c >> k) & 1) for c in combos], dtype=object)
+        cols["failing_limits"] = pa.array(texts[inverse.reshape(-1)])
     cols["collision_velocity[m/s]"] = pa.array(np.round(vc, 1))
     cols["flow_velocity[m/s]"] = pa.array(np.round(vf, 1))
     cols["impact_pressure[GPa]"] = pa.array(np.round(pressure * 1e-9, 3))

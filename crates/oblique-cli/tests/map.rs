@@ -405,65 +405,140 @@ fn stdin_input_and_output() {
     assert_fails_with(&o, "<stdin>: row 3, field 'angle[deg]'");
 }
 
-/// The default row carries the binding limit's margin in that limit's unit and its relative
-/// margin; `--all-columns` adds every limit's margin, and the binding one is the same number.
-#[test]
-fn default_row_has_the_binding_margin_and_all_columns_every_margin() {
+/// The default map and the `--all-columns` map of `input` against a pair (`lib` adds a library).
+fn short_and_long(input: &Path, pair: &str, lib: Option<&Path>) -> (String, String) {
     let dir = tempfile::tempdir().expect("tempdir");
     let (short, long) = (dir.path().join("short.csv"), dir.path().join("long.csv"));
-    let input = data("map-basic.csv");
     for (out, extra) in [(&short, None), (&long, Some("--all-columns"))] {
-        let mut args = vec!["map", path_str(&input), "--pair", PAIR, "-o", path_str(out)];
+        let mut args = vec!["map", path_str(input), "--pair", pair, "-o", path_str(out)];
+        if let Some(l) = lib {
+            args.extend(["--library", path_str(l)]);
+        }
         args.extend(extra);
         let o = run(&args);
         assert!(o.status.success(), "{}", text(&o.stderr));
     }
-    let short = std::fs::read_to_string(&short).expect("map");
-    let long = std::fs::read_to_string(&long).expect("map");
+    (
+        std::fs::read_to_string(&short).expect("map"),
+        std::fs::read_to_string(&long).expect("map"),
+    )
+}
+
+/// The default row against the `--all-columns` row of the same run: the same binding limit,
+/// its margin the limit's own margin column in the unit named, the sign of that margin the
+/// verdict's, and `failing_limits` exactly the limits with a negative margin, in column order
+/// (empty for welded rows, the binding limit among them otherwise, only velocity ceilings,
+/// `ceilings`, for melted rows).
+fn assert_binding_columns_agree(short: &str, long: &str, ceilings: &[&str]) {
+    let bindings = column(short, "binding");
+    let margins = column(short, "binding_margin");
+    let units = column(short, "binding_margin_unit");
+    let verdicts = column(short, "verdict");
+    let failing = column(short, "failing_limits");
+    for name in [
+        "binding",
+        "binding_margin",
+        "binding_margin_unit",
+        "binding_relative_margin",
+        "failing_limits",
+    ] {
+        assert_eq!(column(short, name), column(long, name), "{name}");
+    }
+    let long_header = long.lines().next().expect("header");
+    let margin_cols: Vec<&str> = long_header
+        .split(',')
+        .filter(|c| c.starts_with("margin_"))
+        .collect();
+    let id_of = |c: &str| {
+        c.trim_start_matches("margin_")
+            .split('[')
+            .next()
+            .unwrap_or("")
+            .replace('_', "-")
+    };
+    let long_margins: Vec<Vec<String>> = margin_cols.iter().map(|c| column(long, c)).collect();
+    for row in 0..verdicts.len() {
+        let (v, b, m, unit, f) = (
+            &verdicts[row],
+            &bindings[row],
+            &margins[row],
+            &units[row],
+            &failing[row],
+        );
+        let k = margin_cols
+            .iter()
+            .position(|c| id_of(c) == *b)
+            .unwrap_or_else(|| panic!("no margin column for {b} in {long_header}"));
+        assert_eq!(&long_margins[k][row], m, "row {row}: {b}");
+        assert!(
+            margin_cols[k].ends_with(&format!("[{unit}]")),
+            "row {row}: {unit}"
+        );
+        // A sign kept even where the margin rounds to zero.
+        assert_eq!(v == "welded", !m.starts_with('-'), "row {row}: {v} {m}");
+        let negative: Vec<String> = (0..margin_cols.len())
+            .filter(|&j| long_margins[j][row].starts_with('-'))
+            .map(|j| id_of(margin_cols[j]))
+            .collect();
+        let listed: Vec<&str> = f.split(';').filter(|s| !s.is_empty()).collect();
+        assert_eq!(listed, negative, "row {row}");
+        assert_eq!(v == "welded", listed.is_empty(), "row {row}: {v} '{f}'");
+        if v != "welded" {
+            assert!(listed.contains(&b.as_str()), "row {row}: {b} not in {f}");
+        }
+        if v == "melted" {
+            assert!(
+                listed.iter().all(|l| ceilings.contains(l)),
+                "row {row}: {f}"
+            );
+        }
+    }
+}
+
+/// The default row carries the binding limit's margin in that limit's unit, its relative
+/// margin and every failing limit; `--all-columns` adds every limit's margin, and they agree.
+/// Both ways of writing the failing limits: a table of every combination (the demo window's
+/// seven limits) and limit by limit (a fixture window of nine).
+#[test]
+fn default_row_has_the_binding_margin_and_all_columns_every_margin() {
+    let (short, long) = short_and_long(&data("map-basic.csv"), PAIR, None);
     let header = short.lines().next().expect("header");
     assert!(
         header.ends_with(
             "verdict,binding,binding_margin,binding_margin_unit,binding_relative_margin,\
-             collision_velocity[m/s],flow_velocity[m/s],impact_pressure[GPa],outside_trial_data"
+             failing_limits,collision_velocity[m/s],flow_velocity[m/s],impact_pressure[GPa],\
+             outside_trial_data"
         ),
         "{header}"
     );
     assert!(!header.contains("margin_jetting"), "{header}");
-    let bindings = column(&short, "binding");
-    let margins = column(&short, "binding_margin");
-    assert_eq!(bindings, column(&long, "binding"));
-    assert_eq!(margins, column(&long, "binding_margin"));
-    assert_eq!(
-        column(&short, "binding_relative_margin"),
-        column(&long, "binding_relative_margin")
+    assert_binding_columns_agree(&short, &long, &["melting-upper"]);
+    // A sweep over angle and velocity, every verdict and many failing sets.
+    let dir = tempfile::tempdir().expect("tempdir");
+    let mut sweep = String::from("position[mm],velocity[m/s],angle[deg]\n");
+    let mut i = 0;
+    for v in (150..=900).step_by(25) {
+        for a in (3..=57).step_by(2) {
+            sweep.push_str(&format!("{},{v},{:.1}\n", i, f64::from(a) / 2.0));
+            i += 1;
+        }
+    }
+    let input = write_input(&dir, "sweep.csv", &sweep);
+    let (short, long) = short_and_long(&input, PAIR, None);
+    assert_binding_columns_agree(&short, &long, &["melting-upper"]);
+    let wide = data("map-lib-wide");
+    let (short, long) = short_and_long(&input, "map-wide-al-on-cu", Some(&wide));
+    assert!(long
+        .lines()
+        .next()
+        .is_some_and(|h| h.contains("margin_boundary_4")));
+    // Its third boundary (weld side left, in the collision-velocity plane) is a ceiling too.
+    assert_binding_columns_agree(&short, &long, &["melting-upper", "boundary-3"]);
+    let failing = column(&short, "failing_limits");
+    assert!(
+        failing.iter().any(|f| f.split(';').count() >= 3),
+        "{failing:?}"
     );
-    let units = column(&short, "binding_margin_unit");
-    assert_eq!(units, column(&long, "binding_margin_unit"));
-    let long_header = long.lines().next().expect("header");
-    for (row, ((b, m), unit)) in bindings.iter().zip(&margins).zip(&units).enumerate() {
-        // The binding limit's own margin column, whatever its unit.
-        let col = long_header
-            .split(',')
-            .find(|c| {
-                let id = c
-                    .trim_start_matches("margin_")
-                    .split('[')
-                    .next()
-                    .unwrap_or("");
-                c.starts_with("margin_") && id.replace('_', "-") == *b
-            })
-            .unwrap_or_else(|| panic!("no margin column for {b} in {long_header}"));
-        assert_eq!(&column(&long, col)[row], m, "row {row}: {b}");
-        assert!(
-            col.ends_with(&format!("[{unit}]")),
-            "row {row}: {col} in {unit}"
-        );
-    }
-    // Welded rows have a non-negative binding margin, unwelded ones a negative one.
-    for (v, m) in column(&short, "verdict").iter().zip(&margins) {
-        let m: f64 = m.parse().expect("a number");
-        assert_eq!(v == "welded", m >= 0.0, "{v} {m}");
-    }
 }
 
 #[test]
@@ -505,6 +580,16 @@ fn json_lines_in_and_out() {
         .is_some_and(Value::is_null));
     assert!(row.get("binding_margin").is_some_and(Value::is_number));
     assert!(row.get("binding_margin_unit").is_some_and(Value::is_string));
+    // Every failing limit as a list: empty for a welded row.
+    for l in &lines {
+        let failing = l["failing_limits"]
+            .as_array()
+            .expect("failing_limits is a list");
+        assert_eq!(failing.is_empty(), l["verdict"] == "welded", "{l}");
+        if !failing.is_empty() {
+            assert!(failing.contains(&l["binding"]), "{l}");
+        }
+    }
     // CSV in, JSON lines out, by flag.
     let o = run(&[
         "map",
@@ -959,7 +1044,10 @@ fn bad_cell_messages_say_how_to_fix_and_dash_is_stdout() {
     }
     assert!(!Path::new("-").exists());
     let o = run_stdin(&["map", "-", "--pair", PAIR, "-o", "-", "--json"], input);
-    assert_eq!(o.status.code(), Some(2));
+    assert_fails_with(&o, "--json prints the summary on standard output");
+    // Without -o the map itself goes to standard output: the same refusal, said in words.
+    let o = run_stdin(&["map", "-", "--pair", PAIR, "--json"], input);
+    assert_fails_with(&o, "give the map a file with -o FILE");
 }
 
 /// Constants set on the command line are recorded (text and JSON) and warned about when

@@ -36,8 +36,8 @@ but then computes no lengths or segments.
 
 Output: one row per classified input row: row (line number), the input fields as written, then
 verdict, binding limit, its margin (in that limit's unit, positive = on the welding side) and
-relative margin (over the limit's own value), Vc, Vf and impact pressure; --all-columns adds Vp,
-the jetting critical angle and the margin of every decisive limit. The summary goes to standard
+relative margin (over the limit's own value), every failing limit, Vc, Vf and impact pressure;
+--all-columns adds Vp, the jetting critical angle and the margin of every decisive limit. The summary goes to standard
 error, or to standard output when -o is given; --json prints it as JSON instead (needs -o).
 
 Examples:
@@ -125,7 +125,7 @@ pub struct MapArgs {
     #[arg(long = "summary-json", value_name = "FILE")]
     pub summary_json: Option<PathBuf>,
     /// Print the summary as JSON on standard output instead of the text (needs -o).
-    #[arg(long, requires = "output")]
+    #[arg(long)]
     pub json: bool,
     /// Draw the verdict strip along the interface with velocity and angle traces (SVG).
     #[arg(long = "strip-svg", value_name = "FILE")]
@@ -313,6 +313,11 @@ fn same_file(a: &Path, b: &Path) -> bool {
 pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
     let mut a = a;
     // `-o -` is standard output, as `-` is standard input.
+    if a.json && a.output.is_none() {
+        return Err(Fail::input(
+            "--json prints the summary on standard output, where the map goes without -o: give the map a file with -o FILE",
+        ));
+    }
     if a.output.as_deref().is_some_and(|p| p.as_os_str() == "-") {
         if a.json {
             return Err(Fail::input(
@@ -556,7 +561,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         .map(|l| LimitStat {
             label: l.label.clone(),
             id: l.id.clone(),
-            column: l.column.clone(),
+            column: l.map_column(),
             unit: l.unit,
             kind: match l.limit {
                 oblique_window::LimitRef::Criterion(_) => "criterion",

@@ -57,6 +57,22 @@ pub struct LimitInfo {
     pub unit: &'static str,
 }
 
+impl LimitInfo {
+    /// The unit of this limit's margin in the map (GPa for a pressure, else as computed).
+    pub fn map_unit(&self) -> &'static str {
+        match self.unit {
+            "Pa" => "GPa",
+            "deg" => "deg",
+            _ => "m/s",
+        }
+    }
+
+    /// This limit's margin column in the map, unit included (`margin_jetting[deg]`).
+    pub fn map_column(&self) -> String {
+        format!("{}[{}]", self.column, self.map_unit())
+    }
+}
+
 struct FastBoundary {
     plane: Plane,
     side: WeldSide,
@@ -93,6 +109,21 @@ pub struct Point {
     pub binding_relative: f64,
     /// Some boundary does not span the point.
     pub outside_trial_data: bool,
+    /// Bit k set: limit k (index into `Classifier::limits`) fails, for k below 64 (a limit from
+    /// 64 on is a user boundary, which fails exactly when its margin is negative).
+    pub failing: u64,
+}
+
+impl Point {
+    /// Whether limit `k` fails at this point (`margins` as the classification wrote them).
+    #[inline]
+    pub fn fails(&self, k: usize, margins: &[f64]) -> bool {
+        match 1u64.checked_shl(k as u32) {
+            Some(bit) => self.failing & bit != 0,
+            // Only user boundaries come this far: they fail exactly when the margin is below 0.
+            None => margins.get(k).is_some_and(|m| *m < 0.0),
+        }
+    }
 }
 
 /// Everything fixed for a window, precomputed once.
@@ -415,8 +446,10 @@ impl Classifier {
         let mut inside = true;
         let mut only_ceilings_fail = true;
         let mut best: Option<(usize, f64)> = None;
+        let mut failing = 0u64;
         let mut consider = |k: usize, rel: f64, sat: bool, ceiling: bool| {
             if !sat {
+                failing |= 1u64.checked_shl(k as u32).unwrap_or(0);
                 inside = false;
                 if !ceiling {
                     only_ceilings_fail = false;
@@ -556,6 +589,7 @@ impl Classifier {
             binding: best.map(|b| b.0),
             binding_relative: best.map_or(f64::NAN, |b| b.1),
             outside_trial_data,
+            failing,
         })
     }
 }
@@ -643,6 +677,12 @@ pub(crate) mod tests {
             want.binding_relative_margin.unwrap_or(f64::NAN).to_bits()
         );
         prop_assert_eq!(got.outside_trial_data, want.outside_trial_data);
+        // The same failing limits, in the same order.
+        let failing: Vec<LimitRef> = (0..cl.limits.len())
+            .filter(|&k| got.fails(k, &margins))
+            .map(|k| cl.limits[k].limit.clone())
+            .collect();
+        prop_assert_eq!(failing, want.failing.clone());
         prop_assert_eq!(
             got.pressure.to_bits(),
             want.evaluation.impact.pressure.si().to_bits()

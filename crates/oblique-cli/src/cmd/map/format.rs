@@ -128,7 +128,9 @@ fn fixed<const DEC: usize>(out: &mut Vec<u8>, x: f64) {
         return;
     }
     let n = scaled as u64;
-    let neg = usize::from(x < 0.0 && n != 0);
+    // A negative value keeps its sign even where it rounds to zero: a failing margin of
+    // -0.04 m/s is written -0.0, never as a zero margin.
+    let neg = usize::from(x < 0.0);
     let int = n / POW10_INT[DEC];
     let ilen = digit_count(int);
     let len = neg + ilen + if DEC > 0 { DEC + 1 } else { 0 };
@@ -353,7 +355,7 @@ impl RowWriter<'_> {
             return;
         }
         let n = scaled as u32;
-        let neg = usize::from(x < 0.0 && n != 0);
+        let neg = usize::from(x < 0.0);
         let d = eight_digits(n);
         let skip = ((d.trailing_zeros() / 8) as usize).min(7 - DEC);
         let ascii = d | 0x3030_3030_3030_3030;
@@ -594,8 +596,10 @@ mod tests {
     #[test]
     fn fixed_decimals() {
         assert_eq!(fixed(1.5, 2), "1.50");
-        assert_eq!(fixed(-0.004, 2), "0.00");
-        assert_eq!(fixed(-0.005, 0), "0");
+        // A negative value keeps its sign where it rounds to zero (as std's `{:.2}` does).
+        assert_eq!(fixed(-0.004, 2), "-0.00");
+        assert_eq!(fixed(-0.004, 2), format!("{:.2}", -0.004));
+        assert_eq!(fixed(-0.005, 0), "-0");
         assert_eq!(fixed(123456789.5, 9).len(), "123456789.500000000".len());
         assert_eq!(fixed(-0.006, 2), "-0.01");
         assert_eq!(fixed(12345.678, 0), "12346");
@@ -675,7 +679,11 @@ mod tests {
         }
         assert_eq!(text_fixed(f64::NAN, 2), "");
         assert_eq!(text_fixed(f64::INFINITY, 2), "");
-        assert_eq!(text_fixed(-0.04, 1), "0.0");
+        // The sign survives rounding to zero; a negative zero has none.
+        assert_eq!(text_fixed(-0.04, 1), "-0.0");
+        assert_eq!(fixed(-0.04, 1), "-0.0");
+        assert_eq!(text_fixed(-0.0, 1), "0.0");
+        assert_eq!(text_fixed(0.04, 1), "0.0");
         assert_eq!(text_fixed(-0.06, 1), "-0.1");
         assert_eq!(text_fixed(7157.06, 1), "7157.1");
     }

@@ -138,6 +138,9 @@ pub struct Ctx<'a> {
     pub margin_units: Vec<MarginUnit>,
     /// `,m/s`, `,deg`, `,GPa` (in `MarginUnit` order), padded.
     pub unit_words: Vec<Word>,
+    /// For a window of at most eight limits, the `failing_limits` text of every failing set,
+    /// indexed by its bit mask (`Point::failing`); empty otherwise.
+    pub failing_texts: Vec<Vec<u8>>,
     /// `,verdict,` for each verdict (welded, not-welded, melted), padded.
     pub verdict_words: Vec<Word>,
     /// Binding limit ids as CSV fields, padded (`None` if one is too long to pad).
@@ -169,6 +172,8 @@ pub enum Col {
     BindingUnit,
     /// Relative margin of the binding limit.
     BindingRelative,
+    /// Every failing limit.
+    Failing,
     /// Margin of limit k, in its output unit.
     Margin(usize, MarginUnit),
     /// Outside the span of a user boundary.
@@ -207,13 +212,13 @@ impl MarginUnit {
 }
 
 /// The output unit of each limit's margin.
-pub fn margin_units(c: &Classifier) -> Vec<(&'static str, MarginUnit)> {
+pub fn margin_units(c: &Classifier) -> Vec<MarginUnit> {
     c.limits
         .iter()
-        .map(|l| match l.unit {
-            "Pa" => ("GPa", MarginUnit::Gigapascals),
-            "deg" => ("deg", MarginUnit::Degrees),
-            _ => ("m/s", MarginUnit::MetresPerSecond),
+        .map(|l| match l.map_unit() {
+            "GPa" => MarginUnit::Gigapascals,
+            "deg" => MarginUnit::Degrees,
+            _ => MarginUnit::MetresPerSecond,
         })
         .collect()
 }
@@ -229,6 +234,7 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
         "binding_margin".into(),
         "binding_margin_unit".into(),
         "binding_relative_margin".into(),
+        "failing_limits".into(),
     ];
     let mut cols = vec![
         Col::Verdict,
@@ -236,6 +242,7 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
         Col::BindingMargin,
         Col::BindingUnit,
         Col::BindingRelative,
+        Col::Failing,
     ];
     if all || c.kind() == super::classifier::VelocityKind::Collision {
         names.push("impact_velocity[m/s]".into());
@@ -254,8 +261,8 @@ pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
         cols.push(Col::JettingAngle);
     }
     if all {
-        for (k, (l, (unit, mu))) in c.limits.iter().zip(margin_units(c)).enumerate() {
-            names.push(format!("{}[{unit}]", l.column));
+        for (k, (l, mu)) in c.limits.iter().zip(margin_units(c)).enumerate() {
+            names.push(l.map_column());
             cols.push(Col::Margin(k, mu));
         }
     }
@@ -287,7 +294,7 @@ impl CsvPlan {
                 Col::Margin(k, u) => plan.margins.push((k, u)),
                 Col::Outside => plan.outside = true,
                 Col::Verdict | Col::Binding | Col::BindingMargin | Col::BindingUnit => {}
-                Col::BindingRelative => {}
+                Col::BindingRelative | Col::Failing => {}
                 Col::CollisionVelocity | Col::FlowVelocity | Col::Pressure => {}
             }
         }
@@ -302,6 +309,7 @@ impl CsvPlan {
             Col::BindingMargin,
             Col::BindingUnit,
             Col::BindingRelative,
+            Col::Failing,
         ];
         if self.vp {
             v.push(Col::ImpactVelocity);
@@ -402,6 +410,9 @@ impl<'a> Ctx<'a> {
                     1 + match c {
                         Col::Verdict => 16,
                         Col::Binding => binding_max,
+                        // Every limit's id and a separator (the word stores' overrun is in
+                        // the `WORD * 4` above).
+                        Col::Failing => binding_csv.iter().map(|b| b.len() + 1).sum::<usize>(),
                         Col::Outside => 5,
                         _ => NUMBER_MAX,
                     }
@@ -413,8 +424,22 @@ impl<'a> Ctx<'a> {
             cols,
             "the CSV plan must write the columns in header order"
         );
+        let failing_texts = if binding_csv.len() <= 8 {
+            (0..1usize << binding_csv.len())
+                .map(|mask| {
+                    let ids: Vec<&[u8]> = (0..binding_csv.len())
+                        .filter(|k| mask & (1 << k) != 0)
+                        .map(|k| binding_csv[k].as_slice())
+                        .collect();
+                    ids.join(&b';')
+                })
+                .collect()
+        } else {
+            Vec::new()
+        };
         Self {
-            margin_units: margin_units(classifier).into_iter().map(|u| u.1).collect(),
+            failing_texts,
+            margin_units: margin_units(classifier),
             unit_words: [
                 MarginUnit::MetresPerSecond,
                 MarginUnit::Degrees,
@@ -945,6 +970,10 @@ impl Worker {
         }
         out.push(b',');
         out.fixed_n::<4>(p.binding_relative);
+        out.push(b',');
+        if p.verdict != Prediction::Welded {
+            self.failing_csv(ctx, out, p);
+        }
         if plan.vp {
             out.push(b',');
             out.fixed_n::<1>(p.vp);
@@ -976,6 +1005,36 @@ impl Worker {
                 } else {
                     b",false"
                 }),
+            }
+        }
+    }
+
+    /// The failing limits' ids, `;`-separated, in the order of the limits.
+    #[inline]
+    fn failing_csv(&self, ctx: &Ctx<'_>, out: &mut RowWriter<'_>, p: &Point) {
+        // Windows of up to eight limits: the text of every combination, made once.
+        if let Some(text) = ctx.failing_texts.get(p.failing as usize) {
+            out.extend(text);
+            return;
+        }
+        let mut sep = false;
+        let mut write = |out: &mut RowWriter<'_>, k: usize| {
+            if std::mem::replace(&mut sep, true) {
+                out.push(b';');
+            }
+            match ctx.binding_words.as_ref().and_then(|w| w.get(k)) {
+                Some(w) => out.word(w),
+                None => out.extend(&ctx.binding_csv[k]),
+            }
+        };
+        let mut bits = p.failing;
+        while bits != 0 {
+            write(out, bits.trailing_zeros() as usize);
+            bits &= bits - 1;
+        }
+        for k in 64..ctx.binding_csv.len() {
+            if p.fails(k, &self.margins) {
+                write(out, k);
             }
         }
     }
@@ -1017,6 +1076,20 @@ impl Worker {
                     }
                 }
                 Col::BindingRelative => out.json_number(p.binding_relative, 4),
+                Col::Failing => {
+                    out.push(b'[');
+                    let mut first = true;
+                    for k in 0..ctx.binding_json.len() {
+                        if p.fails(k, &self.margins) {
+                            if !first {
+                                out.push(b',');
+                            }
+                            first = false;
+                            out.extend(&ctx.binding_json[k]);
+                        }
+                    }
+                    out.push(b']');
+                }
                 Col::Margin(k, unit) => {
                     let (f, d) = unit.factor_decimals();
                     out.json_number(self.margins[k] * f, d);

@@ -198,7 +198,7 @@ pub struct LimitStat {
     pub label: String,
     /// Short id used in the per-row `binding` column.
     pub id: String,
-    /// Output column (without unit).
+    /// The margin's column in the map (`--all-columns`), unit included.
     pub column: String,
     /// Unit of the margin (deg, m/s, Pa).
     pub unit: &'static str,
@@ -1265,7 +1265,7 @@ impl Summary {
             .iter()
             .any(|l| l.ceiling && l.unwelded_binding[0] > 0)
         {
-            s.push_str("  (a not-welded row bound by a ceiling also fails a lower limit: the binding limit is the most violated one, not the only one)\n");
+            s.push_str("  (a not-welded row bound by a ceiling also fails a lower limit: the binding limit is the most violated one, not the only one; the map's failing_limits column lists them all)\n");
         }
         if self.outside_trial_data > 0 {
             s.push_str(&format!(
@@ -1339,7 +1339,7 @@ mod tests {
         vec![LimitStat {
             label: "deribas-lower".into(),
             id: "deribas-lower".into(),
-            column: "margin_deribas_lower".into(),
+            column: "margin_deribas_lower[deg]".into(),
             unit: "deg",
             kind: "criterion",
             welded_min: None,
