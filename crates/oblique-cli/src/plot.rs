@@ -61,7 +61,8 @@ const C_NOT: RGBColor = RGBColor(224, 138, 0);
 const C_PARTIAL: RGBColor = RGBColor(123, 50, 148);
 const C_MELTED: RGBColor = RGBColor(165, 15, 21);
 const C_INFO: RGBColor = RGBColor(120, 120, 120);
-/// Inside the model limits, but where a user boundary does not span (outside the trial data).
+/// Predicted welded (model limits and the boundaries that span the point), but where some user
+/// boundary does not span (outside the trial data).
 const REGION_UNTRIED: RGBColor = RGBColor(224, 229, 235);
 const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
 const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
@@ -532,7 +533,8 @@ fn draw<DB: DrawingBackend>(
     )];
     if field.region.contains(&2) {
         legend.push((
-            "inside the model limits only: a user boundary does not span here (outside the trial data)".into(),
+            "predicted welded, but a user boundary does not span here (outside the trial data)"
+                .into(),
             REGION_UNTRIED.filled(),
             0,
         ));

@@ -168,6 +168,14 @@ fn basic_fixture_verdicts_and_summary() {
     assert_eq!(v["unbonded_length_end_m"].as_f64(), Some(0.0));
     assert_eq!(v["outside_trial_data_rows"], 1);
     assert!(v["smallest_welded_margin"]["limit"].is_string());
+    // Its id is the map's binding id of that row.
+    let small = &v["smallest_welded_margin"];
+    let want = small["row"].to_string();
+    let at = column(&csv, "row")
+        .iter()
+        .position(|r| *r == want)
+        .expect("the row is in the map");
+    assert_eq!(small["id"], column(&csv, "binding")[at].as_str());
     assert!(v["caution"]
         .as_str()
         .expect("string")

@@ -49,7 +49,8 @@ pub struct ChunkStats {
     pub rejected: u64,
     /// Rows outside the span of a boundary.
     pub outside: u64,
-    /// Welded rows outside the span of a boundary (welded by the model limits alone).
+    /// Welded rows outside the span of some boundary (welded by the model limits and the
+    /// boundaries that do span them).
     pub welded_outside: u64,
     /// Rows solved directly for jetting.
     pub jetting_direct: u64,

@@ -230,7 +230,8 @@ pub struct Summary {
     pub limits: Vec<LimitStat>,
     /// Rows outside the span of some user boundary.
     pub outside_trial_data: u64,
-    /// Welded rows among them: welded by the model limits alone, with no trial data there.
+    /// Welded rows among them: welded by the model limits and the boundaries that do span them,
+    /// while some boundary is silent there.
     pub welded_outside_trial_data: u64,
     /// Rows whose jetting test was solved directly.
     pub jetting_direct: u64,
@@ -990,6 +991,7 @@ impl Summary {
                     let l = &self.limits[k as usize];
                     json!({
                         "limit": l.label,
+                        "id": l.id,
                         "margin": sig(m),
                         "unit": l.unit,
                         "relative_margin": sig(rel),
@@ -1269,7 +1271,7 @@ impl Summary {
         }
         if self.outside_trial_data > 0 {
             s.push_str(&format!(
-                "{} row(s) lie outside the span of a user boundary (outside the trial data; not extrapolated); {} of them are welded by the model limits alone\n",
+                "{} row(s) lie outside the span of a user boundary (outside the trial data; not extrapolated); {} of them are welded there by the model limits and the boundaries that do span them\n",
                 self.outside_trial_data, self.welded_outside_trial_data
             ));
         }

@@ -22,7 +22,8 @@ const C_MELTED: RGBColor = RGBColor(196, 44, 44);
 const C_NO_VERDICT: RGBColor = RGBColor(20, 20, 20);
 const T_WELDED: RGBColor = RGBColor(212, 226, 243);
 const T_MELTED: RGBColor = RGBColor(246, 212, 208);
-/// Welded by the model limits alone, where no user boundary spans (outside the trial data).
+/// Welded by the model limits and the boundaries that span the cell, where some user boundary
+/// does not span it (outside the trial data).
 const T_UNTRIED: RGBColor = RGBColor(224, 229, 235);
 const GREY: RGBColor = RGBColor(90, 90, 90);
 const TRACE: RGBColor = RGBColor(30, 30, 30);
@@ -522,7 +523,7 @@ pub fn window_plane(
             let vp = x_max * (i as f64 + 0.5) / NX as f64;
             let v = match c.classify_impact(vp, beta.to_radians(), &mut margins) {
                 Ok(p) => match p.verdict {
-                    // Welded by the model limits alone: no user boundary spans the cell.
+                    // Welded, but some user boundary does not span the cell.
                     oblique_window::classify::Prediction::Welded if p.outside_trial_data => 3,
                     oblique_window::classify::Prediction::Welded => 0,
                     oblique_window::classify::Prediction::NotWelded => 1,
@@ -676,10 +677,7 @@ pub fn window_plane(
         y += 24;
         for (label, colour) in [
             ("window predicts welded", T_WELDED),
-            (
-                "welded by the model limits only (outside the trial data)",
-                T_UNTRIED,
-            ),
+            ("welded, outside a boundary's span", T_UNTRIED),
             ("window predicts melted", T_MELTED),
         ] {
             legend
