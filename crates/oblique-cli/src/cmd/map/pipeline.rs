@@ -212,6 +212,17 @@ impl MarginUnit {
     }
 }
 
+/// The computed columns every row starts with, in order: the verdict and the binding limit's
+/// group (the CSV writer's straight line writes them first).
+const LEADING: [(&str, Col); 6] = [
+    ("verdict", Col::Verdict),
+    ("binding", Col::Binding),
+    ("binding_margin", Col::BindingMargin),
+    ("binding_margin_unit", Col::BindingUnit),
+    ("binding_relative_margin", Col::BindingRelative),
+    ("failing_limits", Col::Failing),
+];
+
 /// The output unit of each limit's margin.
 pub fn margin_units(c: &Classifier) -> Vec<MarginUnit> {
     c.limits
@@ -229,22 +240,8 @@ pub fn margin_units(c: &Classifier) -> Vec<MarginUnit> {
 /// Vf and the impact pressure; `all` adds Vp (always there for collision-velocity input), the
 /// jetting critical angle and the margin of every limit.
 pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
-    let mut names: Vec<String> = vec![
-        "verdict".into(),
-        "binding".into(),
-        "binding_margin".into(),
-        "binding_margin_unit".into(),
-        "binding_relative_margin".into(),
-        "failing_limits".into(),
-    ];
-    let mut cols = vec![
-        Col::Verdict,
-        Col::Binding,
-        Col::BindingMargin,
-        Col::BindingUnit,
-        Col::BindingRelative,
-        Col::Failing,
-    ];
+    let mut names: Vec<String> = LEADING.iter().map(|(n, _)| n.to_string()).collect();
+    let mut cols: Vec<Col> = LEADING.iter().map(|(_, c)| *c).collect();
     if all || c.kind() == super::classifier::VelocityKind::Collision {
         names.push("impact_velocity[m/s]".into());
         cols.push(Col::ImpactVelocity);
@@ -304,14 +301,7 @@ impl CsvPlan {
 
     /// The columns this plan writes, in its order (checked against `computed_columns`).
     fn columns(&self) -> Vec<Col> {
-        let mut v = vec![
-            Col::Verdict,
-            Col::Binding,
-            Col::BindingMargin,
-            Col::BindingUnit,
-            Col::BindingRelative,
-            Col::Failing,
-        ];
+        let mut v: Vec<Col> = LEADING.iter().map(|(_, c)| *c).collect();
         if self.vp {
             v.push(Col::ImpactVelocity);
         }
