@@ -864,15 +864,9 @@ fn draw<DB: DrawingBackend>(
     Ok(())
 }
 
-/// Draw text wrapped to the legend width; returns the next free y.
-fn draw_wrapped<DB: DrawingBackend>(
-    area: &DrawingArea<DB, plotters::coord::Shift>,
-    text: &str,
-    x: i32,
-    y: i32,
-    font: &TextStyle<'_>,
-) -> CmdResult<i32> {
-    let max_chars = ((LEGEND_W as i32 - x - 8) / 6).max(10) as usize;
+/// `text` in lines of at most `max_chars` characters, broken between words (a longer word has a
+/// line of its own).
+pub fn wrap_words(text: &str, max_chars: usize) -> Vec<String> {
     let mut lines = Vec::new();
     let mut cur = String::new();
     for word in text.split_whitespace() {
@@ -887,8 +881,20 @@ fn draw_wrapped<DB: DrawingBackend>(
     if !cur.is_empty() {
         lines.push(cur);
     }
+    lines
+}
+
+/// Draw text wrapped to the legend width; returns the next free y.
+fn draw_wrapped<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    text: &str,
+    x: i32,
+    y: i32,
+    font: &TextStyle<'_>,
+) -> CmdResult<i32> {
+    let max_chars = ((LEGEND_W as i32 - x - 8) / 6).max(10) as usize;
     let mut y = y;
-    for l in lines {
+    for l in wrap_words(text, max_chars) {
         area.draw(&Text::new(
             l,
             (x, y),

@@ -81,6 +81,17 @@ pub struct Classification {
     pub inside_stretch: Option<InsideStretch>,
 }
 
+impl Classification {
+    /// The point's impact velocity (m/s) in the convention of the headroom figures.
+    pub fn headroom_impact_velocity(&self) -> f64 {
+        self.evaluation
+            .collision
+            .with_convention(self.headroom_convention)
+            .impact_velocity
+            .si()
+    }
+}
+
 /// Classify `collision` against `window` (the collision is re-expressed in the window's
 /// convention, keeping the geometry Vc and beta).
 ///
@@ -525,12 +536,7 @@ pub fn limit_label(window: &PairWindow, limit: &LimitRef) -> String {
 /// Plain-words advice for one limit at this point, from its headroom along the two controls
 /// (call [`explain`] first; without it the advice only states the margin).
 pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -> String {
-    let vp = c
-        .evaluation
-        .collision
-        .with_convention(c.headroom_convention)
-        .impact_velocity
-        .si();
+    let vp = c.headroom_impact_velocity();
     let beta = c.evaluation.collision.angle.degrees();
     let satisfied = match limit {
         LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),

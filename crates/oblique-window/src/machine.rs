@@ -34,7 +34,7 @@ use crate::diag::{close_matches, parse_ron, Collector, Diagnostic, Diagnostics};
 use crate::library::{sha256_hex, BUILTIN_FILES};
 use crate::materials::Revision;
 use crate::pair::Origin;
-use crate::write::{atomic_write, ron_string, WriteError};
+use crate::write::{ron_string, update_file, WriteError};
 use oblique_core::process::{
     identify_ring_down, BarCoil, CapacitorBank, CompressionCoil, MassRatio, RingDownFit,
 };
@@ -1203,33 +1203,12 @@ pub fn append_calibration(
     entry: &CalibrationEntry,
     expected_sha256: Option<&str>,
 ) -> Result<MachineRecord, WriteError> {
-    let bytes = std::fs::read(path).map_err(|source| WriteError::Io {
-        path: path.to_path_buf(),
-        source,
-    })?;
-    let read_sha = sha256_hex(&bytes);
-    if let Some(expected) = expected_sha256 {
-        if expected != read_sha {
-            return Err(WriteError::Conflict {
-                path: path.to_path_buf(),
-                expected: expected.to_string(),
-                found: read_sha,
-            });
-        }
-    }
-    let text = String::from_utf8(bytes).map_err(|e| WriteError::Structure {
-        path: path.to_path_buf(),
-        message: format!("not UTF-8 text: {e}"),
-    })?;
-    let new_text = append_calibration_text(path, &text, entry)?;
-    let origin = Origin {
-        display: path.display().to_string(),
-        path: Some(path.to_path_buf()),
-        sha256: sha256_hex(new_text.as_bytes()),
-    };
-    let (_, record) = parse_machine_file(origin, &new_text).map_err(WriteError::Invalid)?;
-    atomic_write(path, new_text.as_bytes(), Some(&read_sha))?;
-    Ok(record)
+    update_file(
+        path,
+        expected_sha256,
+        |text| append_calibration_text(path, text, entry),
+        |origin, text| parse_machine_file(origin, text).map(|(_, r)| r),
+    )
 }
 
 #[cfg(test)]

@@ -269,18 +269,19 @@ fn strip_trailing_comments(s: &str) -> &str {
     }
 }
 
-/// Append observations to the pair file at `path`: validate the new text against `materials`,
-/// then write atomically, refusing if the file changed since it was read (or since
-/// `expected_sha256`, when the caller read it earlier).
+/// Update the user's file at `path`: read it (refusing if it is not `expected_sha256`, when the
+/// caller read it earlier), make the new text with `edit`, check it with `parse` (given the
+/// new text's origin), then write it atomically, refusing if the file changed on disk since it
+/// was read. What `parse` returns is the result.
 ///
 /// # Errors
 /// [`WriteError`]; the file is untouched on every error.
-pub fn append_observations(
+pub fn update_file<T>(
     path: &Path,
-    entries: &[ObservationEntry],
-    materials: &BTreeMap<String, MaterialRecord>,
     expected_sha256: Option<&str>,
-) -> Result<PairWindow, WriteError> {
+    edit: impl FnOnce(&str) -> Result<String, WriteError>,
+    parse: impl FnOnce(Origin, &str) -> Result<T, Diagnostics>,
+) -> Result<T, WriteError> {
     let bytes = std::fs::read(path).map_err(io(path))?;
     let read_sha = sha256_hex(&bytes);
     if let Some(expected) = expected_sha256 {
@@ -296,15 +297,35 @@ pub fn append_observations(
         path: path.to_path_buf(),
         message: format!("not UTF-8 text: {e}"),
     })?;
-    let new_text = append_observation_text(path, &text, entries)?;
+    let new_text = edit(&text)?;
     let origin = Origin {
         display: path.display().to_string(),
         path: Some(path.to_path_buf()),
         sha256: sha256_hex(new_text.as_bytes()),
     };
-    let (_, window) = parse_pair_file(origin, &new_text, materials).map_err(WriteError::Invalid)?;
+    let parsed = parse(origin, &new_text).map_err(WriteError::Invalid)?;
     atomic_write(path, new_text.as_bytes(), Some(&read_sha))?;
-    Ok(window)
+    Ok(parsed)
+}
+
+/// Append observations to the pair file at `path`: validate the new text against `materials`,
+/// then write atomically, refusing if the file changed since it was read (or since
+/// `expected_sha256`, when the caller read it earlier).
+///
+/// # Errors
+/// [`WriteError`]; the file is untouched on every error.
+pub fn append_observations(
+    path: &Path,
+    entries: &[ObservationEntry],
+    materials: &BTreeMap<String, MaterialRecord>,
+    expected_sha256: Option<&str>,
+) -> Result<PairWindow, WriteError> {
+    update_file(
+        path,
+        expected_sha256,
+        |text| append_observation_text(path, text, entries),
+        |origin, text| parse_pair_file(origin, text, materials).map(|(_, w)| w),
+    )
 }
 
 /// What a new pair window file starts with.

@@ -170,12 +170,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
 /// impact velocity where the limit is reached.
 fn headroom_cells(c: &Classification, limit: &LimitRef) -> (String, String) {
     let h = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h);
-    let vp = c
-        .evaluation
-        .collision
-        .with_convention(c.headroom_convention)
-        .impact_velocity
-        .si();
+    let vp = c.headroom_impact_velocity();
     let beta = c.evaluation.collision.angle.degrees();
     match h {
         Some(h) => (

@@ -26,13 +26,7 @@ pub fn run_tube(dirs: &[PathBuf], a: TubeCalibrateArgs) -> CmdResult {
     let parts = setup::tube_parts(&ctx, &a.bank, &a.tube, window, &mut inputs)?;
     let u = setup::charge(&parts.bank, &a.charge, &mut inputs)?;
     setup::check_tube_standoff(&parts, a.standoff)?;
-    inputs.push(
-        "standoff",
-        "standoff_m",
-        a.standoff,
-        fmt::mm(a.standoff),
-        "flag --standoff".into(),
-    );
+    inputs.standoff_flag(a.standoff);
     let s = setup::tube_setup(&parts, u, a.standoff, 1.0);
     let shot = Shot {
         model: "mpw-tube",
@@ -52,13 +46,7 @@ pub fn run_sheet(dirs: &[PathBuf], a: SheetCalibrateArgs) -> CmdResult {
     let mut inputs = Inputs::default();
     let parts = setup::sheet_parts(&ctx, &a.bank, &a.sheet, window, &mut inputs)?;
     let u = setup::charge(&parts.bank, &a.charge, &mut inputs)?;
-    inputs.push(
-        "standoff",
-        "standoff_m",
-        a.standoff,
-        fmt::mm(a.standoff),
-        "flag --standoff".into(),
-    );
+    inputs.standoff_flag(a.standoff);
     let s = setup::sheet_setup(&parts, u, a.standoff, 1.0);
     let shot = Shot {
         model: "mpw-sheet",

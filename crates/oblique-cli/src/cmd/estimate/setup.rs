@@ -99,6 +99,17 @@ impl Inputs {
             from,
         });
     }
+
+    /// The standoff given by `--standoff` (m).
+    pub fn standoff_flag(&mut self, standoff: f64) {
+        self.push(
+            "standoff",
+            "standoff_m",
+            standoff,
+            fmt::mm(standoff),
+            "flag --standoff".into(),
+        );
+    }
 }
 
 /// Human forms of SI values.

@@ -32,13 +32,7 @@ pub fn run_tube(dirs: &[PathBuf], a: TubeEstimateArgs) -> CmdResult {
     let u = setup::charge(&parts.bank, &a.charge, &mut inputs)?;
     setup::check_tube_standoff(&parts, a.standoff)?;
     setup::compression_warning(&parts, a.standoff, &mut inputs);
-    inputs.push(
-        "standoff",
-        "standoff_m",
-        a.standoff,
-        fmt::mm(a.standoff),
-        "flag --standoff".into(),
-    );
+    inputs.standoff_flag(a.standoff);
     let eta = setup::efficiency(
         a.common.efficiency,
         &parts.bank,
@@ -67,13 +61,7 @@ pub fn run_sheet(dirs: &[PathBuf], a: SheetEstimateArgs) -> CmdResult {
     let mut inputs = Inputs::default();
     let parts = setup::sheet_parts(&ctx, &a.bank, &a.sheet, window, &mut inputs)?;
     let u = setup::charge(&parts.bank, &a.charge, &mut inputs)?;
-    inputs.push(
-        "standoff",
-        "standoff_m",
-        a.standoff,
-        fmt::mm(a.standoff),
-        "flag --standoff".into(),
-    );
+    inputs.standoff_flag(a.standoff);
     let eta = setup::efficiency(
         a.common.efficiency,
         &parts.bank,

@@ -57,19 +57,50 @@ pub struct LimitInfo {
     pub unit: &'static str,
 }
 
+/// The output unit of a margin column, which fixes its factor and decimals.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum MarginUnit {
+    /// m/s, 1 decimal.
+    MetresPerSecond,
+    /// deg, 3 decimals.
+    Degrees,
+    /// GPa (from Pa), 3 decimals.
+    Gigapascals,
+}
+
+impl MarginUnit {
+    /// The unit as written in the map.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Self::MetresPerSecond => "m/s",
+            Self::Degrees => "deg",
+            Self::Gigapascals => "GPa",
+        }
+    }
+
+    /// Factor from the computed unit, and decimals.
+    pub fn factor_decimals(self) -> (f64, usize) {
+        match self {
+            Self::MetresPerSecond => (1.0, 1),
+            Self::Degrees => (1.0, 3),
+            Self::Gigapascals => (1e-9, 3),
+        }
+    }
+}
+
 impl LimitInfo {
     /// The unit of this limit's margin in the map (GPa for a pressure, else as computed).
-    pub fn map_unit(&self) -> &'static str {
+    pub fn margin_unit(&self) -> MarginUnit {
         match self.unit {
-            "Pa" => "GPa",
-            "deg" => "deg",
-            _ => "m/s",
+            "Pa" => MarginUnit::Gigapascals,
+            "deg" => MarginUnit::Degrees,
+            _ => MarginUnit::MetresPerSecond,
         }
     }
 
     /// This limit's margin column in the map, unit included (`margin_jetting[deg]`).
     pub fn map_column(&self) -> String {
-        format!("{}[{}]", self.column, self.map_unit())
+        format!("{}[{}]", self.column, self.margin_unit().as_str())
     }
 }
 

@@ -1,19 +1,6 @@
 //! Fast text output: fixed-decimal numbers, CSV and JSON string escaping.
 
 const POW10: [f64; 10] = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
-const POW10_INT: [u64; 10] = [
-    1,
-    10,
-    100,
-    1_000,
-    10_000,
-    100_000,
-    1_000_000,
-    10_000_000,
-    100_000_000,
-    1_000_000_000,
-];
-
 const DIGIT_PAIRS: &[u8; 200] = b"0001020304050607080910111213141516171819\
 2021222324252627282930313233343536373839\
 4041424344454647484950515253545556575859\
@@ -131,7 +118,7 @@ fn fixed<const DEC: usize>(out: &mut Vec<u8>, x: f64) {
     // A negative value keeps its sign even where it rounds to zero: a failing margin of
     // -0.04 m/s is written -0.0, never as a zero margin.
     let neg = usize::from(x < 0.0);
-    let int = n / POW10_INT[DEC];
+    let int = n / POW10_U64[DEC];
     let ilen = digit_count(int);
     let len = neg + ilen + if DEC > 0 { DEC + 1 } else { 0 };
     write_in_place(out, |buf| {

@@ -3,7 +3,7 @@
 //! and the calling thread takes the chunks back in file order (summary, writing). A fixed set of
 //! slots circulates between the three, so memory stays bounded whatever the input size.
 
-use super::classifier::{Classifier, Point};
+use super::classifier::{Classifier, LimitInfo, MarginUnit, Point};
 use super::format::{
     is_json_number, push_csv_field, push_json_string, push_u64, Counter, RowWriter, TextBuf, Word,
     NUMBER_MAX, WORD,
@@ -181,37 +181,6 @@ pub enum Col {
     Outside,
 }
 
-/// The output unit of a margin column, which fixes its factor and decimals.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum MarginUnit {
-    /// m/s, 1 decimal.
-    MetresPerSecond,
-    /// deg, 3 decimals.
-    Degrees,
-    /// GPa (from Pa), 3 decimals.
-    Gigapascals,
-}
-
-impl MarginUnit {
-    /// The unit as written in the map.
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Self::MetresPerSecond => "m/s",
-            Self::Degrees => "deg",
-            Self::Gigapascals => "GPa",
-        }
-    }
-
-    /// Factor from the computed unit, and decimals.
-    pub fn factor_decimals(self) -> (f64, usize) {
-        match self {
-            Self::MetresPerSecond => (1.0, 1),
-            Self::Degrees => (1.0, 3),
-            Self::Gigapascals => (1e-9, 3),
-        }
-    }
-}
-
 /// The computed columns every row starts with, in order: the verdict and the binding limit's
 /// group (the CSV writer's straight line writes them first).
 const LEADING: [(&str, Col); 6] = [
@@ -225,14 +194,7 @@ const LEADING: [(&str, Col); 6] = [
 
 /// The output unit of each limit's margin.
 pub fn margin_units(c: &Classifier) -> Vec<MarginUnit> {
-    c.limits
-        .iter()
-        .map(|l| match l.map_unit() {
-            "GPa" => MarginUnit::Gigapascals,
-            "deg" => MarginUnit::Degrees,
-            _ => MarginUnit::MetresPerSecond,
-        })
-        .collect()
+    c.limits.iter().map(LimitInfo::margin_unit).collect()
 }
 
 /// The computed columns for a classifier: names (with units) and kinds. Every row has the

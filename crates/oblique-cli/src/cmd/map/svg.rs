@@ -780,24 +780,7 @@ pub fn window_plane(
         if let Some(inv) = &w.invented {
             y += 8;
             let text = format!("INVENTED DATA in the window: {inv}");
-            let mut line = String::new();
-            for word in text.split_whitespace() {
-                if line.len() + word.len() + 1 > 46 {
-                    legend
-                        .draw(&Text::new(
-                            std::mem::take(&mut line),
-                            (10, y),
-                            ("sans-serif", 11).into_font().color(&C_MELTED),
-                        ))
-                        .map_err(perr)?;
-                    y += 14;
-                }
-                if !line.is_empty() {
-                    line.push(' ');
-                }
-                line.push_str(word);
-            }
-            if !line.is_empty() {
+            for line in crate::plot::wrap_words(&text, 46) {
                 legend
                     .draw(&Text::new(
                         line,
@@ -805,6 +788,7 @@ pub fn window_plane(
                         ("sans-serif", 11).into_font().color(&C_MELTED),
                     ))
                     .map_err(perr)?;
+                y += 14;
             }
         }
         foot.draw(&Text::new(
