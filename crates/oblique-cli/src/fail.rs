@@ -55,3 +55,13 @@ impl From<oblique_core::PhysicsError> for Fail {
 
 /// Result alias for commands.
 pub type CmdResult<T = ()> = Result<T, Fail>;
+
+impl From<oblique_render::RenderError> for Fail {
+    fn from(e: oblique_render::RenderError) -> Self {
+        if e.is_input() {
+            Fail::input(e.to_string())
+        } else {
+            Fail::other(e.to_string())
+        }
+    }
+}

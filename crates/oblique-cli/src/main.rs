@@ -10,9 +10,7 @@ mod cli;
 mod cmd;
 mod fail;
 mod output;
-mod plot;
 mod qarg;
-mod report;
 
 use clap::Parser;
 use std::process::ExitCode;

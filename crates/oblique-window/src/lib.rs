@@ -18,6 +18,7 @@ pub mod library;
 pub mod machine;
 pub mod materials;
 pub mod pair;
+pub mod present;
 pub mod ronpath;
 pub mod write;
 

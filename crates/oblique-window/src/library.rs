@@ -244,6 +244,44 @@ impl Library {
         }
     }
 
+    /// A window made on the spot from two material ids and a flyer thickness, with the
+    /// published default criteria, no boundaries and no trials.
+    ///
+    /// # Errors
+    /// An unknown material id, as `(which, message)` with `which` "flyer" or "parent".
+    pub fn ad_hoc_window(
+        &self,
+        flyer: &str,
+        parent: &str,
+        flyer_thickness: oblique_core::units::Length,
+        parent_thickness: Option<oblique_core::units::Length>,
+        convention: oblique_core::Convention,
+    ) -> Result<crate::PairWindow, (&'static str, String)> {
+        let f = self.material(flyer).map_err(|m| ("flyer", m))?;
+        let p = self.material(parent).map_err(|m| ("parent", m))?;
+        Ok(crate::PairWindow {
+            name: format!("{flyer}-on-{parent}"),
+            description: "made from the command line with the published default criteria".into(),
+            invented: None,
+            flyer: f.clone(),
+            parent: p.clone(),
+            flyer_thickness,
+            parent_thickness,
+            convention,
+            maintainer: String::new(),
+            revisions: Vec::new(),
+            criteria: oblique_core::CriteriaConfig::default(),
+            criteria_reasons: std::collections::BTreeMap::new(),
+            boundaries: Vec::new(),
+            observations: Vec::new(),
+            origin: crate::pair::Origin {
+                display: "command line".into(),
+                path: None,
+                sha256: String::new(),
+            },
+        })
+    }
+
     /// A material by id, or a message with close ids.
     ///
     /// # Errors

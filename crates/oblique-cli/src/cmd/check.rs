@@ -7,9 +7,7 @@ use crate::output::{classification_json, emit, emit_json, fmt_margin, fmt_value,
 use oblique_core::units::{Angle, Length, Velocity};
 use oblique_core::{Collision, Convention, CriteriaConfig};
 use oblique_window::classify::{limit_advice, limit_label, Classification, LimitRef};
-use oblique_window::pair::Origin;
 use oblique_window::{Library, PairWindow};
-use std::collections::BTreeMap;
 use std::path::PathBuf;
 
 /// Apply command-line constant overrides to a criteria configuration.
@@ -35,33 +33,14 @@ pub fn ad_hoc_window(
     parent_thickness: Option<f64>,
     convention: Convention,
 ) -> CmdResult<PairWindow> {
-    let f = lib
-        .material(flyer)
-        .map_err(|m| Fail::input(format!("--flyer: {m}")))?;
-    let p = lib
-        .material(parent)
-        .map_err(|m| Fail::input(format!("--parent: {m}")))?;
-    Ok(PairWindow {
-        name: format!("{flyer}-on-{parent}"),
-        description: "made from the command line with the published default criteria".into(),
-        invented: None,
-        flyer: f.clone(),
-        parent: p.clone(),
-        flyer_thickness: Length::from_m(flyer_thickness),
-        parent_thickness: parent_thickness.map(Length::from_m),
+    lib.ad_hoc_window(
+        flyer,
+        parent,
+        Length::from_m(flyer_thickness),
+        parent_thickness.map(Length::from_m),
         convention,
-        maintainer: String::new(),
-        revisions: Vec::new(),
-        criteria: CriteriaConfig::default(),
-        criteria_reasons: BTreeMap::new(),
-        boundaries: Vec::new(),
-        observations: Vec::new(),
-        origin: Origin {
-            display: "command line".into(),
-            path: None,
-            sha256: String::new(),
-        },
-    })
+    )
+    .map_err(|(which, m)| Fail::input(format!("--{which}: {m}")))
 }
 
 /// Build the collision from Vp or Vc.

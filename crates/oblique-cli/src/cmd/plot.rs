@@ -4,10 +4,10 @@ use crate::cli::ConventionArg;
 use crate::cmd::check::ad_hoc_window;
 use crate::cmd::{load_library, need};
 use crate::fail::{CmdResult, Fail};
-use crate::plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
 use crate::qarg;
 use clap::{Args, ValueEnum};
 use oblique_core::units::{parse_quantity, QuantityKind};
+use oblique_render::window_plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
 use oblique_window::boundary::Plane;
 use oblique_window::PairWindow;
 use std::path::{Path, PathBuf};
@@ -241,7 +241,7 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         curves,
     };
     let bytes = if ext == "png" {
-        crate::plot::render_png(&request)?
+        oblique_render::window_plot::render_png(&request)?
     } else {
         render_svg(&request)?.into_bytes()
     };

@@ -6,10 +6,10 @@ use crate::cmd::load_library;
 use crate::cmd::plot::{read_point_csv, write_output};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json};
-use crate::plot::ProcessCurve;
 use crate::qarg;
-use crate::report::{command_line, html, json, ReportInput};
 use clap::Args;
+use oblique_render::report::{command_line, html, json, ReportInput};
+use oblique_render::window_plot::ProcessCurve;
 use oblique_window::agreement;
 use std::path::PathBuf;
 

@@ -8,9 +8,9 @@ use super::show::{check_point, inputs_json, inputs_table, ASSUMPTIONS_SHEET, ASS
 use super::{SheetSweepArgs, SweepCommon, TubeSweepArgs};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json, sig, table, CAUTION};
-use crate::plot::{render_svg, PlotRequest, ProcessCurve};
 use oblique_core::process::{sweep, ImpactOutcome, PulseSetup, SweepResult};
 use oblique_core::units::{Length, Voltage};
+use oblique_render::window_plot::{render_svg, PlotRequest, ProcessCurve};
 use oblique_window::boundary::Plane;
 use oblique_window::classify::{limit_label, Classification};
 use oblique_window::PairWindow;

@@ -159,7 +159,7 @@ pub fn strip(
     let (frac, basis) = s.welded_fraction();
     let mut svg = String::new();
     {
-        crate::plot::register_fonts();
+        oblique_render::window_plot::register_fonts();
         let root = SVGBackend::with_string(&mut svg, (W, H)).into_drawing_area();
         root.fill(&WHITE).map_err(perr)?;
         let (head, rest) = root.split_vertically(96);
@@ -537,7 +537,7 @@ pub fn window_plane(
     let many = s.rows_classified as usize > s.marks.len();
     let mut svg = String::new();
     {
-        crate::plot::register_fonts();
+        oblique_render::window_plot::register_fonts();
         let root = SVGBackend::with_string(&mut svg, (W, H)).into_drawing_area();
         root.fill(&WHITE).map_err(perr)?;
         let (head, rest) = root.split_vertically(52);
@@ -780,7 +780,7 @@ pub fn window_plane(
         if let Some(inv) = &w.invented {
             y += 8;
             let text = format!("INVENTED DATA in the window: {inv}");
-            for line in crate::plot::wrap_words(&text, 46) {
+            for line in oblique_render::window_plot::wrap_words(&text, 46) {
                 legend
                     .draw(&Text::new(
                         line,

@@ -1,13 +1,13 @@
 //! The decision report: one self-contained HTML file (inline CSS and SVG, no script, no external
 //! resource) and its JSON twin. Every user-supplied string is escaped.
 
-use crate::fail::CmdResult;
-use crate::output::{classification_json, material_json, sig, CAUTION};
-use crate::plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
+use crate::error::RenderResult;
+use crate::window_plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
 use oblique_core::CriterionId;
 use oblique_window::boundary::Plane;
 use oblique_window::classify::{limit_advice, limit_label, Classification, LimitRef};
 use oblique_window::materials::PROPERTIES;
+use oblique_window::present::{classification_json, material_json, sig, CAUTION};
 use oblique_window::{Agreement, Library, PairWindow};
 use serde_json::{json, Value};
 use std::fmt::Write as _;
@@ -118,7 +118,7 @@ fn reached_at(c: &Classification, limit: &LimitRef) -> String {
 ///
 /// # Errors
 /// Plot errors.
-pub fn html(input: &ReportInput<'_>) -> CmdResult<String> {
+pub fn html(input: &ReportInput<'_>) -> RenderResult<String> {
     let w = input.window;
     let c = input.classification;
     let e = &c.evaluation;
@@ -349,8 +349,8 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
         let per = match (r.limit_flyer, r.limit_parent) {
             (Some(f), Some(p)) => format!(
                 "{} / {}",
-                crate::output::fmt_value(f, r.unit),
-                crate::output::fmt_value(p, r.unit)
+                oblique_window::present::fmt_value(f, r.unit),
+                oblique_window::present::fmt_value(p, r.unit)
             ),
             _ => "pair".into(),
         };
@@ -371,13 +371,13 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
         let _ = writeln!(
             h,
             "<tr><td>{}</td><td><code>{}</code></td><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
-            esc(&crate::plot::criterion_label(w, r.id)),
+            esc(&crate::window_plot::criterion_label(w, r.id)),
             esc(r.id.formula()),
             esc(&consts.join(", ")),
             esc(&per),
-            esc(&crate::output::fmt_value(r.value, r.unit)),
-            esc(&crate::output::fmt_value(r.limit, r.unit)),
-            esc(&crate::output::fmt_margin(r.margin, r.unit)),
+            esc(&oblique_window::present::fmt_value(r.value, r.unit)),
+            esc(&oblique_window::present::fmt_value(r.limit, r.unit)),
+            esc(&oblique_window::present::fmt_margin(r.margin, r.unit)),
             holds,
             esc(&reached_at(c, &LimitRef::Criterion(r.id))),
             esc(r.governing.as_str()),
@@ -416,8 +416,8 @@ footer {{ margin-top: 2.5em; font-size: 0.85em; color: #444; border-top: 1px sol
                 esc(&b.label),
                 esc(b.plane.as_str()),
                 esc(b.weld_side.as_str()),
-                esc(&r.limit.map_or("outside its span".into(), |l| crate::output::fmt_value(l, r.unit))),
-                esc(&r.margin.map_or("-".into(), |m| crate::output::fmt_margin(m, r.unit))),
+                esc(&r.limit.map_or("outside its span".into(), |l| oblique_window::present::fmt_value(l, r.unit))),
+                esc(&r.margin.map_or("-".into(), |m| oblique_window::present::fmt_margin(m, r.unit))),
                 match r.satisfied {
                     Some(true) => "<span class=\"ok\">yes</span>",
                     Some(false) => "<span class=\"fail\">NO</span>",

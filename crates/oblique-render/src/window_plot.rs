@@ -3,7 +3,7 @@
 //! proposed points and process curves with their verdicts. SVG through plotters, rendered into a
 //! `String`; deterministic for the same input.
 
-use crate::fail::{CmdResult, Fail};
+use crate::error::{RenderError, RenderResult};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{Collision, CriterionId};
 use oblique_window::boundary::Plane;
@@ -124,7 +124,7 @@ fn nice_ceil(x: f64, step: f64) -> f64 {
 }
 
 /// Classify one point (the jetting test solved directly).
-pub fn classify_point(window: &PairWindow, vp: f64, beta: f64) -> CmdResult<Classification> {
+pub fn classify_point(window: &PairWindow, vp: f64, beta: f64) -> RenderResult<Classification> {
     let setup = window.setup()?;
     let c = Collision::from_impact(
         window.convention,
@@ -144,7 +144,12 @@ struct Field {
     sonic_flyer: Vec<f64>,
 }
 
-fn evaluate_field(window: &PairWindow, plane: Plane, x_max: f64, y_max: f64) -> CmdResult<Field> {
+fn evaluate_field(
+    window: &PairWindow,
+    plane: Plane,
+    x_max: f64,
+    y_max: f64,
+) -> RenderResult<Field> {
     let setup = window.setup()?;
     let xs: Vec<f64> = (0..NX)
         .map(|i| x_max * (i as f64 + 0.5) / NX as f64)
@@ -296,12 +301,12 @@ fn chain(segs: Vec<((f64, f64), (f64, f64))>) -> Vec<Vec<(f64, f64)>> {
     out
 }
 
-fn plot_err<E: std::fmt::Display>(e: E) -> Fail {
-    Fail::other(format!("plot: {e}"))
+fn plot_err<E: std::fmt::Display>(e: E) -> RenderError {
+    RenderError::Draw(e.to_string())
 }
 
 /// Ranges from the data and the region evaluated on the grid.
-fn prepare<'a>(req: &'a PlotRequest<'a>) -> CmdResult<Prepared<'a>> {
+fn prepare<'a>(req: &'a PlotRequest<'a>) -> RenderResult<Prepared<'a>> {
     let w = req.window;
     let plane = req.plane;
     // Ranges from the data: trials, proposed points, curves.
@@ -365,7 +370,7 @@ struct Prepared<'a> {
 ///
 /// # Errors
 /// A physics error in the window, or a drawing error.
-pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
+pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
     register_fonts();
     let p = prepare(req)?;
     let mut svg = String::new();
@@ -380,7 +385,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> CmdResult<String> {
 ///
 /// # Errors
 /// A physics error in the window, or a drawing or encoding error.
-pub fn render_png(req: &PlotRequest<'_>) -> CmdResult<Vec<u8>> {
+pub fn render_png(req: &PlotRequest<'_>) -> RenderResult<Vec<u8>> {
     register_fonts();
     let p = prepare(req)?;
     let mut rgb = vec![0u8; (WIDTH * HEIGHT * 3) as usize];
@@ -392,7 +397,7 @@ pub fn render_png(req: &PlotRequest<'_>) -> CmdResult<Vec<u8>> {
 }
 
 /// Encode an RGB buffer as PNG.
-fn encode_png(rgb: &[u8], width: u32, height: u32) -> CmdResult<Vec<u8>> {
+fn encode_png(rgb: &[u8], width: u32, height: u32) -> RenderResult<Vec<u8>> {
     use image::ImageEncoder;
     let mut out = Vec::new();
     image::codecs::png::PngEncoder::new(&mut out)
@@ -416,7 +421,7 @@ pub fn register_fonts() {
 fn draw<DB: DrawingBackend>(
     root: DrawingArea<DB, plotters::coord::Shift>,
     p: &Prepared<'_>,
-) -> CmdResult {
+) -> RenderResult {
     let (req, field, x_max, y_max, x_label) = (p.req, &p.field, p.x_max, p.y_max, p.x_label);
     let w = req.window;
     let plane = req.plane;
@@ -742,7 +747,7 @@ fn draw<DB: DrawingBackend>(
                             format!("outside: {}", binding_text(w, &c))
                         }
                     })
-                    .unwrap_or_else(|e| e.message);
+                    .unwrap_or_else(|e| e.to_string());
                 chart
                     .draw_series(std::iter::once(Text::new(
                         format!("{} ({verdict})", p.label),
@@ -891,7 +896,7 @@ fn draw_wrapped<DB: DrawingBackend>(
     x: i32,
     y: i32,
     font: &TextStyle<'_>,
-) -> CmdResult<i32> {
+) -> RenderResult<i32> {
     let max_chars = ((LEGEND_W as i32 - x - 8) / 6).max(10) as usize;
     let mut y = y;
     for l in wrap_words(text, max_chars) {

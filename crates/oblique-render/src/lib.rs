@@ -1,0 +1,36 @@
+//! # oblique-render
+//!
+//! Pictures and documents from typed results: the weldability-window plot (SVG and PNG) with
+//! trials, proposed points and process curves, and the self-contained HTML and JSON decision
+//! report. Nothing here parses flags or reads files; every function takes the window, the
+//! classification or the ranking it draws, and returns a `String` or bytes.
+//!
+//! ```
+//! use oblique_render::window_plot::{render_svg, PlotRequest, ProposedPoint};
+//! use oblique_window::{boundary::Plane, Library};
+//!
+//! let lib = Library::load(&[]).expect("the built-in library loads");
+//! let window = lib.pair("demo-al6061-on-cu").expect("the demo pair");
+//! let svg = render_svg(&PlotRequest {
+//!     window,
+//!     plane: Plane::AngleImpactVelocity,
+//!     points: vec![ProposedPoint {
+//!         label: "proposed".into(),
+//!         velocity_m_s: 450.0,
+//!         angle_rad: 10f64.to_radians(),
+//!     }],
+//!     curves: Vec::new(),
+//! })
+//! .expect("the demo window plots");
+//! assert!(svg.starts_with("<svg"));
+//! ```
+// Negated comparisons such as `!(x > 0.0)` are deliberate: they reject NaN together with
+// out-of-range values, which the suggested rewrite would let through.
+#![allow(clippy::neg_cmp_op_on_partial_ord)]
+#![deny(missing_docs)]
+
+pub mod error;
+pub mod report;
+pub mod window_plot;
+
+pub use error::{RenderError, RenderResult};
