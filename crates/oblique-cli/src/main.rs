@@ -8,6 +8,7 @@
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 mod cli;
 mod cmd;
+mod common;
 mod fail;
 mod output;
 mod qarg;

@@ -1,9 +1,10 @@
 //! # oblique-render
 //!
 //! Pictures and documents from typed results: the weldability-window plot (SVG and PNG) with
-//! trials, proposed points and process curves, and the self-contained HTML and JSON decision
-//! report. Nothing here parses flags or reads files; every function takes the window, the
-//! classification or the ranking it draws, and returns a `String` or bytes.
+//! trials, proposed points and process curves, the window plot of a sweep (one process curve
+//! per standoff or voltage, from `oblique_setup::SweepRanking`), and the self-contained HTML and
+//! JSON decision report. Nothing here parses flags or reads files; every function takes the
+//! window, the classification or the ranking it draws, and returns a `String` or bytes.
 //!
 //! ```
 //! use oblique_render::window_plot::{render_svg, PlotRequest, ProposedPoint};
@@ -31,6 +32,7 @@
 
 pub mod error;
 pub mod report;
+pub mod sweep_plot;
 pub mod window_plot;
 
 pub use error::{RenderError, RenderResult};

@@ -1,22 +1,21 @@
-//! `oblique estimate`, `oblique sweep`, `oblique calibrate`: the process models of
-//! `oblique_core::process` driven from machine files (`oblique_window::machine`) and flags.
+//! `oblique estimate`, `oblique sweep`, `oblique calibrate`: the flags (this module), turned into
+//! typed requests (`request`) for `oblique_setup`, whose results are printed with
+//! `oblique_setup::present` (`show`, `sweep`, `calib`).
 //!
 //! Every machine and tooling value comes from a library file (`--machine`, `--coil`, `--setup`)
 //! or a flag, flags winning; the output says where each value came from. Every result is a
 //! screening estimate, not a guarantee, and says so.
 
 mod calib;
-mod grid;
-mod setup;
+mod request;
 mod show;
 mod sweep;
 
 use crate::fail::CmdResult;
 use crate::qarg;
 use clap::{Args, Subcommand};
+use oblique_setup::grid::{self, Grid};
 use std::path::PathBuf;
-
-pub use grid::Grid;
 
 /// A strictly positive quantity, with the flag's quantity name in the message.
 fn positive(v: f64, what: &str, unit: &str) -> Result<f64, String> {

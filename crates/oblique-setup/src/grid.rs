@@ -1,5 +1,5 @@
-//! Grid flags of the sweeps: a comma list (`1mm,1.5mm,2mm`) or a range `A..B` spread over a
-//! number of steps given by another flag.
+//! Grids of the sweeps: a comma list (`1mm,1.5mm,2mm`) or a range `A..B` spread over a number
+//! of steps given by another field; every value with its unit (`oblique_core::units`).
 
 use oblique_core::units::{parse_quantity, QuantityKind};
 
@@ -13,17 +13,18 @@ pub enum Grid {
 }
 
 impl Grid {
-    /// The values; a range is spread evenly over `steps` values (at least 2).
+    /// The values; a range is spread evenly over `steps` values (at least 2); `steps_field`
+    /// names where the steps come from in the message.
     ///
     /// # Errors
     /// A message when a range has fewer than two steps.
-    pub fn values(&self, steps: usize, steps_flag: &str) -> Result<Vec<f64>, String> {
+    pub fn values(&self, steps: usize, steps_field: &str) -> Result<Vec<f64>, String> {
         match self {
             Grid::List(v) => Ok(v.clone()),
             Grid::Range(a, b) => {
                 if steps < 2 {
                     return Err(format!(
-                        "{steps_flag} must be at least 2 for a range, got {steps}"
+                        "{steps_field} must be at least 2 for a range, got {steps}"
                     ));
                 }
                 let n = steps - 1;
@@ -60,22 +61,34 @@ fn grid(s: &str, kind: QuantityKind, allow_zero: bool) -> Result<Grid, String> {
     Ok(Grid::List(v))
 }
 
-/// Charging voltages.
+/// Charging voltages, e.g. `6kV..12kV` or `6kV,8kV`.
+///
+/// # Errors
+/// A message for a value without its unit, not above zero, or a range the wrong way round.
 pub fn voltage_grid(s: &str) -> Result<Grid, String> {
     grid(s, QuantityKind::Voltage, false)
 }
 
-/// Stored energies.
+/// Stored energies, e.g. `5kJ..20kJ`.
+///
+/// # Errors
+/// As [`voltage_grid`].
 pub fn energy_grid(s: &str) -> Result<Grid, String> {
     grid(s, QuantityKind::Energy, false)
 }
 
-/// Standoffs.
+/// Standoffs, e.g. `1mm,1.5mm,2mm`.
+///
+/// # Errors
+/// As [`voltage_grid`].
 pub fn length_grid(s: &str) -> Result<Grid, String> {
     grid(s, QuantityKind::Length, false)
 }
 
-/// Collision angles (each strictly between 0 and 90 deg).
+/// Collision angles (each strictly between 0 and 90 deg), e.g. `6deg..14deg`.
+///
+/// # Errors
+/// As [`voltage_grid`], and for an angle not below 90 deg.
 pub fn angle_grid(s: &str) -> Result<Grid, String> {
     let g = grid(s, QuantityKind::Angle, false)?;
     let check = |v: f64| {
