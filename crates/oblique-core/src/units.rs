@@ -149,7 +149,7 @@ impl Pressure {
 pub const VICKERS_TO_PA: f64 = 9.80665e6;
 
 /// Electrical conductivity of the International Annealed Copper Standard (100 %IACS), in S/m:
-/// 1 / (1.7241e-8 ohm m) (IEC 60028; [CDA] Table 5 in `materials-sources.md`).
+/// 1 / (1.7241e-8 ohm m) (IEC 60028; \[CDA\] Table 5 in `materials-sources.md`).
 pub const IACS_100_S_M: f64 = 1.0 / 1.7241e-8;
 
 /// A plane angle, stored in radians. Built only through named constructors.

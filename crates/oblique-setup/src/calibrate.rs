@@ -6,8 +6,9 @@ use crate::error::{SetupError, SetupResult};
 use crate::estimate::validate_options;
 use crate::human::{self, round12};
 use crate::inputs::Inputs;
+use crate::parts::resolve_parts;
 use crate::request::{field, Charge, Integration, MagneticRequest};
-use crate::resolve::{resolve_parts, standoff_input, Catalog, MagneticModel, ResolvedBank};
+use crate::resolve::{standoff_input, Catalog, MagneticModel, ResolvedBank};
 use oblique_core::process::{
     calibrate_efficiency, identify_ring_down, EfficiencyFit, ProcessError, PulseSetup, RingDownFit,
 };

@@ -3,8 +3,9 @@
 
 use crate::error::{SetupError, SetupResult};
 use crate::inputs::Inputs;
+use crate::parts::resolve_parts;
 use crate::request::{field, EstimateRequest};
-use crate::resolve::{resolve_parts, standoff_input, Catalog, MagneticModel};
+use crate::resolve::{standoff_input, Catalog, MagneticModel};
 use oblique_core::process::{estimate, IntegrationOptions, PulseEstimate, PulseSetup};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{Collision, Convention, PhysicsError};

@@ -8,6 +8,7 @@ use crate::resolve::Catalog;
 use oblique_core::process::{explosive_estimate, ExplosiveEstimate, ExplosiveSetup, MassRatio};
 use oblique_core::units::{Angle, Velocity};
 use oblique_window::classify::{classify_explained, Classification};
+use oblique_window::machine::{MachineRecord, Valued};
 use oblique_window::PairWindow;
 
 /// An explosive estimate with its inputs and (with a pair window) the verdict.
@@ -132,54 +133,7 @@ pub fn estimate_explosive<'a>(
         }),
         Unit::Degree,
     )?;
-    let ratio = match (a.mass_ratio, a.charge_ratio, found) {
-        (Some(m), _, _) => {
-            need(
-                &mut inputs,
-                "mass ratio M/C",
-                "mass_ratio_flyer_to_charge",
-                field::MASS_RATIO,
-                Some(m),
-                None,
-                Unit::Number,
-            )?;
-            MassRatio::FlyerToCharge(m)
-        }
-        (None, Some(r), _) => {
-            need(
-                &mut inputs,
-                "charge ratio C/M",
-                "charge_ratio_charge_to_flyer",
-                field::CHARGE_RATIO,
-                Some(r),
-                None,
-                Unit::Number,
-            )?;
-            MassRatio::ChargeToFlyer(r)
-        }
-        (None, None, Some((rec, s))) => {
-            let (key, label, v) = match s.mass_ratio.value {
-                MassRatio::FlyerToCharge(m) => ("mass_ratio_flyer_to_charge", "mass ratio M/C", m),
-                MassRatio::ChargeToFlyer(r) => {
-                    ("charge_ratio_charge_to_flyer", "charge ratio C/M", r)
-                }
-            };
-            inputs.quantity(
-                label,
-                key,
-                v,
-                Unit::Number,
-                from_file(&rec.name, &s.mass_ratio.source),
-            );
-            s.mass_ratio.value
-        }
-        (None, None, None) => {
-            return Err(SetupError::missing(
-                field::MASS_RATIO,
-                "--mass-ratio (M/C) or --charge-ratio (C/M) is required here: give one, or name a set-up file with --setup",
-            ))
-        }
-    };
+    let ratio = mass_ratio(&mut inputs, a, found.map(|(r, s)| (r, &s.mass_ratio)))?;
     let setup = ExplosiveSetup {
         gurney_velocity: Velocity::from_m_s(g),
         mass_ratio: ratio,
@@ -198,4 +152,61 @@ pub fn estimate_explosive<'a>(
         estimate,
         check,
     })
+}
+
+/// The mass ratio: M/C given, else C/M given, else the set-up file's.
+fn mass_ratio(
+    inputs: &mut Inputs,
+    a: &ExplosiveRequest,
+    file: Option<(&MachineRecord, &Valued<MassRatio>)>,
+) -> SetupResult<MassRatio> {
+    match (a.mass_ratio, a.charge_ratio, file) {
+        (Some(m), _, _) => {
+            need(
+                inputs,
+                "mass ratio M/C",
+                "mass_ratio_flyer_to_charge",
+                field::MASS_RATIO,
+                Some(m),
+                None,
+                Unit::Number,
+            )?;
+            Ok(MassRatio::FlyerToCharge(m))
+        }
+        (None, Some(r), _) => {
+            need(
+                inputs,
+                "charge ratio C/M",
+                "charge_ratio_charge_to_flyer",
+                field::CHARGE_RATIO,
+                Some(r),
+                None,
+                Unit::Number,
+            )?;
+            Ok(MassRatio::ChargeToFlyer(r))
+        }
+        (None, None, Some((rec, ratio))) => {
+            let (key, label, v) = match ratio.value {
+                MassRatio::FlyerToCharge(m) => ("mass_ratio_flyer_to_charge", "mass ratio M/C", m),
+                MassRatio::ChargeToFlyer(r) => {
+                    ("charge_ratio_charge_to_flyer", "charge ratio C/M", r)
+                }
+            };
+            inputs.quantity(
+                label,
+                key,
+                v,
+                Unit::Number,
+                Provenance::File {
+                    name: rec.name.clone(),
+                    source: ratio.source.clone(),
+                },
+            );
+            Ok(ratio.value)
+        }
+        (None, None, None) => Err(SetupError::missing(
+            field::MASS_RATIO,
+            "--mass-ratio (M/C) or --charge-ratio (C/M) is required here: give one, or name a set-up file with --setup",
+        )),
+    }
 }

@@ -60,6 +60,7 @@ pub mod explosive;
 pub mod grid;
 pub mod human;
 pub mod inputs;
+pub mod parts;
 pub mod present;
 pub mod request;
 pub mod resolve;
@@ -71,10 +72,11 @@ pub use estimate::{classify_impact, resolve_estimate, PulseReport, ResolvedSetup
 pub use explosive::{estimate_explosive, ExplosiveReport};
 pub use grid::Grid;
 pub use inputs::{Input, InputValue, Inputs, Provenance, Unit};
+pub use parts::{resolve_parts, Plant, ResolvedParts};
 pub use present::{ASSUMPTIONS_EXPLOSIVE, ASSUMPTIONS_SHEET, ASSUMPTIONS_TUBE};
 pub use request::{
     field, BankRequest, Charge, EstimateRequest, ExplosiveRequest, Integration, MagneticRequest,
     SheetRequest, TubeRequest,
 };
-pub use resolve::{Catalog, MagneticModel, Plant, ResolvedBank, ResolvedParts};
+pub use resolve::{resolve_bank, Catalog, MagneticModel, ResolvedBank};
 pub use sweep::{run_sweep, AngleGrid, ChargeGrid, Setting, SweepGrid, SweepRanking, SweepRequest};

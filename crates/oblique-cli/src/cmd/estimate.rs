@@ -384,6 +384,8 @@ pub struct SweepCommon {
     /// Write the window plot with one process curve per standoff (SVG).
     #[arg(long, value_name = "OUT.svg", requires = "pair")]
     pub plot: Option<PathBuf>,
+    // The help text names the CSV columns with their units in brackets (not doc links).
+    #[allow(rustdoc::broken_intra_doc_links)]
     /// Write one CSV per standoff (velocity[m/s],angle[deg],label,...) into this folder.
     #[arg(long = "curves-csv", value_name = "DIR")]
     pub curves_csv: Option<PathBuf>,
