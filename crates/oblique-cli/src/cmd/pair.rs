@@ -1,9 +1,11 @@
 //! `oblique pair ...`: list, show, new, observe, import, validate, agreement.
 
-use crate::cli::{MethodArg, OutcomeArg, PairCommand, ProcessArg};
-use crate::cmd::{load_library, today, user_dirs};
+use crate::args::ConventionArg;
+use crate::common::{load_library, today, user_dirs};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json, material_json, sig, table};
+use crate::qarg;
+use clap::{Subcommand, ValueEnum};
 use oblique_core::units::{parse_quantity, QuantityKind};
 use oblique_window::library::sha256_hex;
 use oblique_window::pair::{parse_pair_file, Origin};
@@ -137,6 +139,172 @@ pub fn pair_json(w: &PairWindow) -> Value {
             .collect::<Vec<_>>()),
     );
     Value::Object(o)
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum OutcomeArg {
+    /// Sound weld.
+    Welded,
+    /// No bond.
+    NotWelded,
+    /// Bond over part of the interface.
+    Partial,
+    /// Melted or brittle interface.
+    Melted,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ProcessArg {
+    /// Magnetic pulse welding.
+    MagneticPulse,
+    /// Explosive welding.
+    Explosive,
+    /// Vaporizing foil actuator welding.
+    FoilActuator,
+    /// Laser impact welding.
+    Laser,
+    /// Gas gun.
+    GasGun,
+    /// Anything else.
+    Other,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum MethodArg {
+    /// Measured (PDV, high-speed imaging, ...).
+    Measured,
+    /// From a simulation.
+    Simulated,
+    /// Estimated.
+    Estimated,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum PairCommand {
+    /// List the pair windows.
+    List {
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Show one pair window: materials, criteria, boundaries, observations, provenance.
+    Show {
+        /// Pair name.
+        name: String,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Create a new pair window file in the first --library folder.
+    #[command(
+        after_help = "Example:\n  oblique --library ./shop pair new al-on-cu --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1.5mm --convention normal-to-flyer"
+    )]
+    New {
+        /// Pair name (also the file name: NAME.ron).
+        name: String,
+        /// Flyer material id.
+        #[arg(long, value_name = "ID")]
+        flyer: String,
+        /// Parent material id.
+        #[arg(long, value_name = "ID")]
+        parent: String,
+        /// Flyer thickness, e.g. 1.5mm.
+        #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
+        flyer_thickness: f64,
+        /// Parent thickness, e.g. 12mm (only for the dissipated energy; default: a massive parent).
+        #[arg(long = "parent-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
+        parent_thickness: Option<f64>,
+        /// What the window is for, e.g. "busbar connector, tube on rod".
+        #[arg(long, value_name = "TEXT")]
+        description: Option<String>,
+        /// Convention in which the trials' velocities are recorded.
+        #[arg(long, value_enum, default_value = "normal-to-flyer")]
+        convention: ConventionArg,
+        /// Who maintains the file (default: $USER).
+        #[arg(long, value_name = "TEXT")]
+        maintainer: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Record one trial shot in a pair window (appended; the rest of the file is kept byte for byte).
+    #[command(
+        after_help = "Example:\n  oblique --library ./shop pair observe al-on-cu --velocity 320m/s --angle 9deg --outcome welded --source \"shot log 2026-11-30 #4\""
+    )]
+    Observe {
+        /// Pair name.
+        name: String,
+        /// Measured impact velocity in the pair's convention, e.g. 320m/s.
+        #[arg(long, value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
+        velocity: f64,
+        /// Collision angle, strictly between 0 and 90 deg, e.g. 9deg.
+        #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+        angle: f64,
+        /// What the section or peel test showed.
+        #[arg(long, value_enum)]
+        outcome: OutcomeArg,
+        /// Report, shot log or paper the shot comes from.
+        #[arg(long, value_name = "TEXT")]
+        source: String,
+        /// Free note.
+        #[arg(long, value_name = "TEXT")]
+        note: Option<String>,
+        /// Process that drove the flyer.
+        #[arg(long, value_enum, default_value = "magnetic-pulse")]
+        process: ProcessArg,
+        /// How velocity and angle were obtained.
+        #[arg(long, value_enum, default_value = "measured")]
+        method: MethodArg,
+        /// Standard uncertainty of the velocity, e.g. 15m/s.
+        #[arg(long = "velocity-uncertainty", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
+        velocity_uncertainty: Option<f64>,
+        /// Standard uncertainty of the angle, e.g. 1deg.
+        #[arg(long = "angle-uncertainty", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+        angle_uncertainty: Option<f64>,
+        /// Date of the shot, YYYY-MM-DD (default: today).
+        #[arg(long, value_name = "DATE", value_parser = qarg::date)]
+        date: Option<String>,
+        /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
+        #[arg(long = "if-unchanged", value_name = "SHA256")]
+        if_unchanged: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Import many shots from a CSV file (all rows are checked before anything is written).
+    #[command(
+        after_help = "CSV header (units in brackets; velocity in m/s or km/s, angle in deg or rad):
+  velocity[m/s],angle[deg],outcome,source,process,method,date,note,velocity_uncertainty[m/s],angle_uncertainty[deg]
+The first four columns are required; the others are optional."
+    )]
+    Import {
+        /// Pair name.
+        name: String,
+        /// CSV file.
+        file: PathBuf,
+        /// Refuse to write unless the pair file still has this SHA-256 (from `pair show --json`).
+        #[arg(long = "if-unchanged", value_name = "SHA256")]
+        if_unchanged: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Validate pair window files (default: the whole library); every problem at once, exit 2 if any.
+    Validate {
+        /// Files to validate.
+        files: Vec<PathBuf>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Compare the window's predictions with its trial observations.
+    Agreement {
+        /// Pair name.
+        name: String,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
 }
 
 pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {

@@ -5,7 +5,7 @@
 use super::setup::{self, fmt, BankPick, Inputs};
 use super::show::{inputs_json, inputs_table, pulse_table};
 use super::{CalibrateCommon, RingDownArgs, SheetCalibrateArgs, TubeCalibrateArgs};
-use crate::cmd::{today, user_dirs};
+use crate::common::{today, user_dirs};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json, sig, table, CAUTION};
 use oblique_core::process::{calibrate_efficiency, identify_ring_down, ProcessError, PulseSetup};

@@ -2,7 +2,7 @@
 //! from (flags win over files).
 
 use super::{BankFlags, ChargeFlags, IntegrationFlags, SheetFlags, TubeFlags};
-use crate::cmd::{load_library, user_dirs};
+use crate::common::{load_library, user_dirs};
 use crate::fail::{CmdResult, Fail};
 use oblique_core::process::{
     BarCoil, CapacitorBank, CompressionCoil, IntegrationOptions, ProcessError, PulseSetup, Sheet,

@@ -579,7 +579,7 @@ fn write_curves(dir: &Path, res: &SweepResult, grid: &GridValues, rows: &[Row]) 
         }
         let name = format!("standoff-{}mm.csv", fmt::g(g * 1e3));
         let path = dir.join(name);
-        crate::cmd::plot::write_output(&path, s.as_bytes())?;
+        crate::common::write_output(&path, s.as_bytes())?;
     }
     Ok(())
 }
@@ -740,7 +740,7 @@ fn write_plot(path: &Path, w: &PairWindow, res: &SweepResult, grid: &GridValues)
         points: Vec::new(),
         curves,
     })?;
-    crate::cmd::plot::write_output(path, svg.as_bytes())
+    crate::common::write_output(path, svg.as_bytes())
 }
 
 #[cfg(test)]
