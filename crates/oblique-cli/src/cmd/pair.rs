@@ -470,9 +470,12 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 source,
                 note,
             };
-            let expected = if_unchanged.as_deref().or(Some(w.origin.sha256.as_str()));
-            let updated = append_observations(&path, &[entry], &lib.materials, expected)
-                .map_err(write_fail)?;
+            // The append re-reads and re-validates the file under the folder's lock, so a shot
+            // recorded meanwhile by another process is kept; only --if-unchanged pins the file.
+            note_target(&path);
+            let updated =
+                append_observations(&path, &[entry], &lib.materials, if_unchanged.as_deref())
+                    .map_err(write_fail)?;
             finish_append(&updated, &path, 1, json)
         }
         PairCommand::Import {
@@ -488,13 +491,10 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             if entries.is_empty() {
                 return Err(Fail::input(format!("{}: no data rows", file.display())));
             }
-            let updated = append_observations(
-                &path,
-                &entries,
-                &lib.materials,
-                Some(if_unchanged.as_deref().unwrap_or(&w.origin.sha256)),
-            )
-            .map_err(write_fail)?;
+            note_target(&path);
+            let updated =
+                append_observations(&path, &entries, &lib.materials, if_unchanged.as_deref())
+                    .map_err(write_fail)?;
             finish_append(&updated, &path, entries.len(), json)
         }
         PairCommand::Validate { files, json } => validate(dirs, &files, json),
@@ -510,6 +510,15 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 return emit_json(&v);
             }
             emit(&agreement_human(w, &a))
+        }
+    }
+}
+
+/// Say so when a library file is written through a symbolic link.
+fn note_target(path: &Path) {
+    if let Ok(t) = oblique_window::write::resolve_target(path) {
+        if let Some(n) = t.note(path) {
+            eprintln!("note: {n}");
         }
     }
 }

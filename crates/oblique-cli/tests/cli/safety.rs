@@ -1,0 +1,205 @@
+//! Data safety under concurrent writers and special files (each test failed before the folder
+//! lock, the target resolution and the string-aware append existed).
+
+use super::*;
+use std::path::Path;
+
+fn new_pair(dir: &Path, name: &str) -> std::process::Output {
+    run_in(
+        dir,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "new",
+            name,
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+        ],
+    )
+}
+
+fn observe(dir: &Path, name: &str, source: &str) -> std::process::Output {
+    run_in(
+        dir,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            name,
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            source,
+        ],
+    )
+}
+
+#[test]
+fn two_concurrent_writers_never_lose_an_acknowledged_shot() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "race").status.code(), Some(0));
+    const PER_WRITER: usize = 60;
+    let writers: Vec<_> = (0..2)
+        .map(|w| {
+            let d = dir.path().to_path_buf();
+            std::thread::spawn(move || {
+                let mut acked = Vec::new();
+                for i in 0..PER_WRITER {
+                    let tag = format!("writer {w} shot {i}");
+                    let o = observe(&d, "race", &tag);
+                    if o.status.code() == Some(0) {
+                        acked.push(tag);
+                    } else {
+                        assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
+                    }
+                }
+                acked
+            })
+        })
+        .collect();
+    let mut acked = Vec::new();
+    for w in writers {
+        acked.extend(w.join().expect("writer thread"));
+    }
+    let text = std::fs::read_to_string(dir.path().join("race.ron")).expect("pair file");
+    for tag in &acked {
+        assert!(
+            text.contains(&format!("\"{tag}\"")),
+            "acknowledged shot '{tag}' is missing"
+        );
+    }
+    assert_eq!(
+        text.matches("source:").count(),
+        acked.len(),
+        "the file holds other shots than the acknowledged ones"
+    );
+    // With the lock, writers wait for each other instead of failing.
+    assert_eq!(acked.len(), 2 * PER_WRITER);
+}
+
+#[test]
+fn pair_new_from_two_processes_creates_once_and_never_replaces() {
+    for round in 0..10 {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let name = format!("twin{round}");
+        let handles: Vec<_> = (0..2)
+            .map(|_| {
+                let d = dir.path().to_path_buf();
+                let n = name.clone();
+                std::thread::spawn(move || new_pair(&d, &n).status.code())
+            })
+            .collect();
+        let codes: Vec<Option<i32>> = handles
+            .into_iter()
+            .map(|h| h.join().expect("thread"))
+            .collect();
+        let created = codes.iter().filter(|c| **c == Some(0)).count();
+        assert_eq!(created, 1, "round {round}: exit codes {codes:?}");
+    }
+}
+
+#[cfg(unix)]
+#[test]
+fn a_symlinked_pair_file_gets_the_shot_and_stays_a_link() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let shared = tempfile::tempdir().expect("shared dir");
+    assert_eq!(new_pair(shared.path(), "shared").status.code(), Some(0));
+    std::os::unix::fs::symlink(
+        shared.path().join("shared.ron"),
+        dir.path().join("shared.ron"),
+    )
+    .expect("symlink");
+    let o = observe(dir.path(), "shared", "via the link");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).contains("symbolic link"), "{}", stderr(&o));
+    let link = dir.path().join("shared.ron");
+    assert!(std::fs::symlink_metadata(&link)
+        .expect("meta")
+        .file_type()
+        .is_symlink());
+    let target = std::fs::read_to_string(shared.path().join("shared.ron")).expect("target");
+    assert!(target.contains("via the link"));
+}
+
+#[cfg(unix)]
+#[test]
+fn a_pair_file_keeps_its_mode() {
+    use std::os::unix::fs::PermissionsExt;
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "private").status.code(), Some(0));
+    let p = dir.path().join("private.ron");
+    for mode in [0o600, 0o664] {
+        std::fs::set_permissions(&p, std::fs::Permissions::from_mode(mode)).expect("chmod");
+        let o = observe(dir.path(), "private", "mode test");
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        let now = std::fs::metadata(&p).expect("meta").permissions().mode() & 0o777;
+        assert_eq!(now, mode, "mode {mode:o} became {now:o}");
+    }
+}
+
+#[cfg(unix)]
+#[test]
+fn outputs_to_a_fifo_or_a_device_are_written_in_place() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let fifo = dir.path().join("plot.svg");
+    let status = std::process::Command::new("mkfifo")
+        .arg(&fifo)
+        .status()
+        .expect("mkfifo runs");
+    assert!(status.success());
+    let reader = {
+        let f = fifo.clone();
+        std::thread::spawn(move || std::fs::read(f).expect("read the fifo"))
+    };
+    let o = run_in(
+        dir.path(),
+        &[
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--point",
+            "450m/s,10deg",
+            "-o",
+            fifo.to_str().expect("utf-8"),
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let got = reader.join().expect("reader");
+    assert!(got.starts_with(b"<svg"), "the SVG went through the pipe");
+    let meta = std::fs::symlink_metadata(&fifo).expect("meta");
+    use std::os::unix::fs::FileTypeExt;
+    assert!(
+        meta.file_type().is_fifo(),
+        "the FIFO was replaced by a file"
+    );
+    // A device is written in place, never replaced (needs no privileges: /dev/null).
+    let input = dir.path().join("in.csv");
+    std::fs::write(
+        &input,
+        "position[mm],velocity[m/s],angle[deg]\n0,400,10\n1,410,11\n",
+    )
+    .expect("input");
+    let o = run(&[
+        "map",
+        input.to_str().expect("utf-8"),
+        "--pair",
+        "demo-al6061-on-cu",
+        "-o",
+        "/dev/null",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(std::fs::symlink_metadata("/dev/null")
+        .expect("meta")
+        .file_type()
+        .is_char_device());
+}
