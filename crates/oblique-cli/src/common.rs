@@ -21,6 +21,9 @@ pub fn load_library(cli_dirs: &[PathBuf]) -> CmdResult<Library> {
     for w in &lib.warnings {
         eprintln!("warning: {w}");
     }
+    for p in &lib.problems {
+        eprintln!("warning: {}", p.summary());
+    }
     Ok(lib)
 }
 

@@ -21,6 +21,23 @@ pub struct Diagnostic {
     pub hint: Option<String>,
 }
 
+impl Diagnostic {
+    /// The first line: position, field and message, without the hint.
+    #[must_use]
+    pub fn headline(&self) -> String {
+        let mut s = if self.line == 0 {
+            format!("{}: ", self.file)
+        } else {
+            format!("{}:{}:{}: ", self.file, self.line, self.col)
+        };
+        if !self.field.is_empty() {
+            s.push_str(&format!("field `{}`: ", self.field));
+        }
+        s.push_str(self.message.lines().next().unwrap_or(""));
+        s
+    }
+}
+
 impl fmt::Display for Diagnostic {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         if self.line == 0 {

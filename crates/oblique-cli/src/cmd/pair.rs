@@ -401,6 +401,17 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             {
                 return Err(Fail::input(format!("pair name '{name}' must be non-empty, without spaces or slashes, and not start with a dot")));
             }
+            if name.len() > MAX_PAIR_NAME {
+                return Err(Fail::input(format!(
+                    "pair name of {} bytes is too long (at most {MAX_PAIR_NAME}): it is also the file name",
+                    name.len()
+                )));
+            }
+            if RESERVED_NAMES.contains(&name.to_ascii_lowercase().as_str()) {
+                return Err(Fail::input(format!(
+                    "pair name '{name}' is reserved: the library folder uses {name}.ron (or {name}/) for something else\n  hint: name the pair after its materials, e.g. al6061-on-cu-1mm"
+                )));
+            }
             let who = maintainer
                 .or_else(|| std::env::var("USER").ok())
                 .unwrap_or_else(|| "unknown".into());
@@ -513,6 +524,14 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
         }
     }
 }
+
+/// Names a pair file may not take: the library reads `materials.ron` as a materials file and
+/// `machines/` as the machine folder.
+const RESERVED_NAMES: [&str; 2] = ["materials", "machines"];
+
+/// The longest pair name (it is also the file name; file systems allow 255 bytes, and the
+/// temporary name of a safe write adds about 40).
+const MAX_PAIR_NAME: usize = 100;
 
 /// Say so when a library file is written through a symbolic link.
 fn note_target(path: &Path) {
@@ -735,10 +754,9 @@ fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdResult {
     let mut problems: Vec<oblique_window::Diagnostic> = Vec::new();
     let mut checked = Vec::new();
     if files.is_empty() {
-        match Library::load(&user_dirs(dirs)) {
-            Ok(lib) => checked.extend(lib.files.iter().map(|f| f.display.clone())),
-            Err(d) => problems.extend(d.0),
-        }
+        let lib = Library::load(&user_dirs(dirs))?;
+        checked.extend(lib.files.iter().map(|f| f.display.clone()));
+        problems.extend(lib.all_problems());
     } else {
         // Materials come from the library (which must itself load).
         let lib = Library::load(&user_dirs(dirs))?;

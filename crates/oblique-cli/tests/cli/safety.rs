@@ -203,3 +203,90 @@ fn outputs_to_a_fifo_or_a_device_are_written_in_place() {
         .file_type()
         .is_char_device());
 }
+
+#[test]
+fn one_broken_pair_file_does_not_break_the_library() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "good").status.code(), Some(0));
+    std::fs::write(
+        dir.path().join("broken.ron"),
+        "(\n    format: \"oblique-window/1\",\n    name: \"broken\",\n    flyer: 12,\n)\n",
+    )
+    .expect("write");
+    let lib = dir.path().to_str().expect("utf-8");
+    // Commands that do not need the broken file warn once and carry on.
+    for args in [
+        vec!["--library", lib, "material", "list"],
+        vec![
+            "--library", lib, "check", "--pair", "good", "--velocity", "400m/s", "--angle",
+            "10deg",
+        ],
+        vec![
+            "--library",
+            lib,
+            "check",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--convention",
+            "normal-to-flyer",
+        ],
+    ] {
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(0), "{args:?}: {}", stderr(&o));
+        let err = stderr(&o);
+        assert_eq!(err.matches("warning: skipped").count(), 1, "{err}");
+        assert!(err.contains("broken.ron:"), "{err}");
+    }
+    // The command that needs it fails with the diagnostics, position included.
+    let o = run(&[
+        "--library", lib, "check", "--pair", "broken", "--velocity", "400m/s", "--angle", "10deg",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("could not be loaded"), "{err}");
+    assert!(err.contains("broken.ron:4:"), "{err}");
+    // And pair validate lists it with exit 2.
+    let o = run(&["--library", lib, "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2));
+}
+
+#[test]
+fn the_same_folder_twice_is_read_once() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "once").status.code(), Some(0));
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&["--library", lib, "--library", lib, "pair", "list"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("duplicate"), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("shadows"), "{}", stderr(&o));
+    let o = std::process::Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args(["--library", lib, "pair", "list"])
+        .env("OBLIQUE_LIBRARY", lib)
+        .output()
+        .expect("runs");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("duplicate"), "{}", stderr(&o));
+}
+
+#[test]
+fn reserved_and_overlong_pair_names_are_refused() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    for name in ["materials", "Machines"] {
+        let o = new_pair(dir.path(), name);
+        assert_eq!(o.status.code(), Some(2), "{name}");
+        assert!(stderr(&o).contains("reserved"), "{}", stderr(&o));
+    }
+    let long = "p".repeat(245);
+    let o = new_pair(dir.path(), &long);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("too long"), "{}", stderr(&o));
+    assert!(!dir.path().join("materials.ron").exists());
+}
