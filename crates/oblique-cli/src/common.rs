@@ -19,10 +19,10 @@ pub fn user_dirs(cli_dirs: &[PathBuf]) -> Vec<PathBuf> {
 pub fn load_library(cli_dirs: &[PathBuf]) -> CmdResult<Library> {
     let lib = Library::load(&user_dirs(cli_dirs))?;
     for w in &lib.warnings {
-        eprintln!("warning: {w}");
+        eprintln!("warning: {}", crate::fail::for_terminal(w));
     }
     for p in &lib.problems {
-        eprintln!("warning: {}", p.summary());
+        eprintln!("warning: {}", crate::fail::for_terminal(&p.summary()));
     }
     Ok(lib)
 }

@@ -78,11 +78,8 @@ pub fn point(s: &str) -> Result<(f64, f64), String> {
 
 /// A calendar date YYYY-MM-DD.
 pub fn date(s: &str) -> Result<String, String> {
-    if oblique_window::pair::is_iso_date(s) {
-        Ok(s.to_string())
-    } else {
-        Err(format!(
-            "'{s}' is not a calendar date: write it as YYYY-MM-DD, e.g. 2026-11-30"
-        ))
+    match oblique_window::diag::date_problem(s) {
+        None => Ok(s.to_string()),
+        Some(p) => Err(format!("{p}: write it as YYYY-MM-DD, e.g. 2026-11-30")),
     }
 }

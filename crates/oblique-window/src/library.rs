@@ -285,17 +285,21 @@ impl Library {
                         if same_folder {
                             let (line, col) =
                                 crate::ronpath::RonIndex::scan(&s.text).locate(&s.text, "name");
-                            file_problem(&mut lib.problems, s, Diagnostic {
-                                file: w.origin.display.clone(),
-                                line,
-                                col,
-                                field: "name".into(),
-                                message: format!(
-                                    "duplicate pair name '{}' (also in {})",
-                                    w.name, old.origin.display
-                                ),
-                                hint: Some("give each pair file its own name".into()),
-                            });
+                            file_problem(
+                                &mut lib.problems,
+                                s,
+                                Diagnostic {
+                                    file: w.origin.display.clone(),
+                                    line,
+                                    col,
+                                    field: "name".into(),
+                                    message: format!(
+                                        "duplicate pair name '{}' (also in {})",
+                                        w.name, old.origin.display
+                                    ),
+                                    hint: Some("give each pair file its own name".into()),
+                                },
+                            );
                             continue;
                         }
                         lib.warnings.push(format!(

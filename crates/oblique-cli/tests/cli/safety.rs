@@ -218,7 +218,14 @@ fn one_broken_pair_file_does_not_break_the_library() {
     for args in [
         vec!["--library", lib, "material", "list"],
         vec![
-            "--library", lib, "check", "--pair", "good", "--velocity", "400m/s", "--angle",
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "good",
+            "--velocity",
+            "400m/s",
+            "--angle",
             "10deg",
         ],
         vec![
@@ -247,7 +254,15 @@ fn one_broken_pair_file_does_not_break_the_library() {
     }
     // The command that needs it fails with the diagnostics, position included.
     let o = run(&[
-        "--library", lib, "check", "--pair", "broken", "--velocity", "400m/s", "--angle", "10deg",
+        "--library",
+        lib,
+        "check",
+        "--pair",
+        "broken",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
     ]);
     assert_eq!(o.status.code(), Some(2));
     let err = stderr(&o);
@@ -289,4 +304,141 @@ fn reserved_and_overlong_pair_names_are_refused() {
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("too long"), "{}", stderr(&o));
     assert!(!dir.path().join("materials.ron").exists());
+}
+
+#[test]
+fn hostile_text_stays_text_in_svg_html_and_the_terminal() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "hostile").status.code(), Some(0));
+    let lib = dir.path().to_str().expect("utf-8");
+    let evil = "shot \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed nul\u{0}";
+    // A NUL cannot pass through a command line: the file gets it as a RON escape.
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "hostile",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "shot \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let path = dir.path().join("hostile.ron");
+    let text = std::fs::read_to_string(&path).expect("pair");
+    let text = text.replace(
+        "    boundaries: [\n    ],",
+        &format!(
+            "    boundaries: [\n        (label: {}, plane: \"angle-impact-velocity\", weld_side: \"right\", points: [(\"300 m/s\", \"5 deg\"), (\"300 m/s\", \"20 deg\")], provenance: \"test\"),\n    ],",
+            oblique_window::write::ron_string(evil)
+        ),
+    );
+    std::fs::write(&path, text).expect("write");
+    for args in [
+        vec!["--library", lib, "pair", "show", "hostile"],
+        vec!["--library", lib, "pair", "agreement", "hostile"],
+        vec![
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "hostile",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+        ],
+    ] {
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(0), "{args:?}: {}", stderr(&o));
+        for b in [&o.stdout, &o.stderr] {
+            assert!(!b.contains(&0x1b), "{args:?}: raw ESC reached the terminal");
+            assert!(!b.contains(&0x07), "{args:?}: raw BEL reached the terminal");
+            assert!(
+                !b.contains(&0x0c),
+                "{args:?}: raw form feed reached the terminal"
+            );
+        }
+    }
+    let svg = dir.path().join("w.svg");
+    let html = dir.path().join("r.html");
+    let o = run(&[
+        "--library",
+        lib,
+        "plot",
+        "--pair",
+        "hostile",
+        "--point",
+        "400m/s,10deg",
+        "-o",
+        svg.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let s = std::fs::read_to_string(&svg).expect("svg");
+    roxmltree::Document::parse(&s).expect("the SVG is well-formed XML");
+    let o = run(&[
+        "--library",
+        lib,
+        "report",
+        "--pair",
+        "hostile",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        html.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let h = std::fs::read(&html).expect("html");
+    for bad in [0u8, 0x1b, 0x07, 0x0c] {
+        assert!(!h.contains(&bad), "byte {bad:#x} in the report");
+    }
+}
+
+#[test]
+fn absurd_observations_and_dates_are_refused_naming_the_field() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "absurd").status.code(), Some(0));
+    let path = dir.path().join("absurd.ron");
+    let text = std::fs::read_to_string(&path).expect("pair").replace(
+        "    observations: [\n    ],",
+        "    observations: [\n        (velocity: \"1e200 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"x\"),\n    ],",
+    );
+    std::fs::write(&path, text).expect("write");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&["--library", lib, "pair", "agreement", "absurd"]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("absurd.ron:"), "{err}");
+    assert!(err.contains("observations[0].velocity"), "{err}");
+    assert!(err.contains("10 km/s"), "{err}");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "absurd",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "x",
+        "--date",
+        "9999-12-31",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("outside the accepted years 1900-2999"),
+        "{}",
+        stderr(&o)
+    );
 }
