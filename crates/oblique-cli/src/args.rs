@@ -42,13 +42,13 @@ pub struct VelocityInput {
 #[derive(Debug, Clone, Default, Args)]
 pub struct ConstantArgs {
     /// Deribas constant k (default 0.6, carefully cleaned surfaces; up to 1.2).
-    #[arg(long = "deribas-k", value_name = "K", allow_hyphen_values = true, value_parser = qarg::positive_number)]
+    #[arg(long = "deribas-k", value_name = "K", allow_hyphen_values = true, value_parser = qarg::deribas_k)]
     pub deribas_k: Option<f64>,
     /// Wittman melting constant N (default 0.11).
-    #[arg(long = "wittman-n", value_name = "N", allow_hyphen_values = true, value_parser = qarg::positive_number)]
+    #[arg(long = "wittman-n", value_name = "N", allow_hyphen_values = true, value_parser = qarg::wittman_n)]
     pub wittman_n: Option<f64>,
     /// Required multiple of the Hugoniot elastic limit for the pressure limit (default 5).
-    #[arg(long = "hel-multiple", value_name = "M", allow_hyphen_values = true, value_parser = qarg::positive_number)]
+    #[arg(long = "hel-multiple", value_name = "M", allow_hyphen_values = true, value_parser = qarg::hel_multiple)]
     pub hel_multiple: Option<f64>,
 }
 

@@ -442,3 +442,29 @@ fn absurd_observations_and_dates_are_refused_naming_the_field() {
         stderr(&o)
     );
 }
+
+#[test]
+fn values_no_relation_covers_are_refused_naming_the_flag() {
+    for (flag, value, needle) in [
+        ("--velocity", "1e-320m/s", "1 mm/s to 100 km/s"),
+        ("--velocity", "1e308m/s", "1 mm/s to 100 km/s"),
+        ("--angle", "1e-300deg", "head-on"),
+        ("--deribas-k", "1e308", "up to 1e6"),
+        ("--deribas-k", "6", "published range"),
+    ] {
+        let mut args = vec!["check", "--pair", "demo-al6061-on-cu"];
+        if flag != "--velocity" {
+            args.extend(["--velocity", "400m/s"]);
+        }
+        if flag != "--angle" {
+            args.extend(["--angle", "10deg"]);
+        }
+        args.extend([flag, value]);
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        let err = stderr(&o);
+        assert!(err.contains(flag), "{err}");
+        assert!(err.contains(needle), "{err}");
+        assert!(!err.contains("did not converge"), "{err}");
+    }
+}
