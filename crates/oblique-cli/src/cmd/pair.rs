@@ -498,10 +498,12 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             let lib = load_library(dirs)?;
             let w = lib.pair(&name).map_err(Fail::input)?;
             let path = user_file(w)?;
-            let entries = read_import_csv(&file)?;
-            if entries.is_empty() {
+            let rows = read_import_csv(&file)?;
+            if rows.is_empty() {
                 return Err(Fail::input(format!("{}: no data rows", file.display())));
             }
+            precheck_import(&path, &file, &rows, &lib)?;
+            let entries: Vec<ObservationEntry> = rows.into_iter().map(|(_, e)| e).collect();
             note_target(&path);
             let updated =
                 append_observations(&path, &entries, &lib.materials, if_unchanged.as_deref())
@@ -562,12 +564,24 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
 }
 
 /// Read an import CSV: units in the header brackets, every row checked, all problems reported.
-fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
+/// The 1-based line of a byte offset.
+fn line_of(bytes: &[u8], offset: u64) -> u64 {
+    let mut end = usize::try_from(offset)
+        .unwrap_or(usize::MAX)
+        .min(bytes.len());
+    // A record after blank lines starts, for the reader, at the first of them.
+    while end < bytes.len() && matches!(bytes[end], b'\n' | b'\r') {
+        end += 1;
+    }
+    1 + bytes[..end].iter().filter(|&&b| b == b'\n').count() as u64
+}
+
+fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEntry)>> {
     let display = file.display().to_string();
+    let bytes = std::fs::read(file).map_err(|e| Fail::input(format!("{display}: {e}")))?;
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
-        .from_path(file)
-        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
+        .from_reader(&bytes[..]);
     let headers = rdr
         .headers()
         .map_err(|e| Fail::input(format!("{display}: {e}")))?
@@ -601,6 +615,13 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
                 near.map_or(String::new(), |n| format!("\n  hint: did you mean '{n}'?"))
             )));
         };
+        if let Some((first, _)) = cols.get(k) {
+            return Err(Fail::input(format!(
+                "{display}:1: column '{k}' appears twice (columns {} and {})\n  hint: keep one; oblique never picks one of two silently",
+                first + 1,
+                i + 1
+            )));
+        }
         cols.insert(k, (i, unit));
     }
     for required in ["velocity", "angle", "outcome", "source"] {
@@ -646,7 +667,14 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
     let mut problems = Vec::new();
     let mut out = Vec::new();
     for (n, rec) in rdr.records().enumerate() {
-        let row = n + 2;
+        let fallback_row = n as u64 + 2;
+        // The row is the file's line (blank lines and a byte-order mark counted), from the
+        // record's byte offset: the CSV reader's own line count skips blank lines.
+        let row = rec
+            .as_ref()
+            .ok()
+            .and_then(|r| r.position())
+            .map_or(fallback_row, |p| line_of(&bytes, p.byte()));
         let rec = match rec {
             Ok(r) => r,
             Err(e) => {
@@ -737,7 +765,7 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
                 ));
             }
         }
-        out.push(entry);
+        out.push((row, entry));
     }
     if problems.is_empty() {
         Ok(out)
@@ -748,6 +776,62 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
             problems.len()
         )))
     }
+}
+
+/// Validate the imported rows as the pair file would after the import, and word every problem
+/// at its CSV row and column (never at lines of a pair file that does not exist yet).
+fn precheck_import(
+    pair_path: &Path,
+    csv_path: &Path,
+    rows: &[(u64, ObservationEntry)],
+    lib: &Library,
+) -> CmdResult {
+    let Ok(text) = std::fs::read_to_string(pair_path) else {
+        return Ok(()); // the append itself reports an unreadable file
+    };
+    let origin = |t: &str| Origin {
+        display: pair_path.display().to_string(),
+        path: Some(pair_path.to_path_buf()),
+        sha256: sha256_hex(t.as_bytes()),
+    };
+    let Ok((_, before)) = parse_pair_file(origin(&text), &text, &lib.materials) else {
+        return Ok(()); // a file already invalid: the append reports it
+    };
+    let n_old = before.observations.len();
+    let entries: Vec<ObservationEntry> = rows.iter().map(|(_, e)| e.clone()).collect();
+    let Ok(new_text) = oblique_window::write::append_observation_text(pair_path, &text, &entries)
+    else {
+        return Ok(());
+    };
+    let Err(d) = parse_pair_file(origin(&new_text), &new_text, &lib.materials) else {
+        return Ok(());
+    };
+    let csv_display = csv_path.display();
+    let mut lines = Vec::new();
+    for p in &d.0 {
+        let mapped = p
+            .field
+            .strip_prefix("observations[")
+            .and_then(|rest| rest.split_once(']'))
+            .and_then(|(k, field)| Some((k.parse::<usize>().ok()?, field)))
+            .filter(|(k, _)| *k >= n_old)
+            .and_then(|(k, field)| Some((rows.get(k - n_old)?.0, field.trim_start_matches('.'))));
+        match mapped {
+            Some((row, field)) => {
+                let mut l = format!("{csv_display}:{row}: field '{field}': {}", p.message);
+                if let Some(h) = &p.hint {
+                    l.push_str(&format!("\n  hint: {h}"));
+                }
+                lines.push(l);
+            }
+            None => lines.push(p.to_string()),
+        }
+    }
+    Err(Fail::input(format!(
+        "{}\n{} problem(s); nothing was written",
+        lines.join("\n"),
+        lines.len()
+    )))
 }
 
 fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdResult {

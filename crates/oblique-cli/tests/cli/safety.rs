@@ -468,3 +468,39 @@ fn values_no_relation_covers_are_refused_naming_the_flag() {
         assert!(!err.contains("did not converge"), "{err}");
     }
 }
+
+#[test]
+fn pair_import_words_problems_at_the_csv_row_and_refuses_a_doubled_column() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "imp").status.code(), Some(0));
+    let lib = dir.path().to_str().expect("utf-8");
+    let csv = dir.path().join("shots.csv");
+    let import = |body: &str| {
+        std::fs::write(&csv, body).expect("csv");
+        run(&[
+            "--library",
+            lib,
+            "pair",
+            "import",
+            "imp",
+            csv.to_str().expect("utf-8"),
+        ])
+    };
+    let o = import("velocity[m/s],angle[deg],outcome,source,source\n400,10,welded,a,b\n");
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("column 'source' appears twice"),
+        "{}",
+        stderr(&o)
+    );
+    let o = import(
+        "velocity[m/s],angle[deg],outcome,source,process\n400,10,welded,a,magnetic-pulse\n\n400,10,welded,a,foo\n",
+    );
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("shots.csv:4: field 'process'"), "{err}");
+    assert!(!err.contains("imp.ron:"), "{err}");
+    // A byte-order mark and a blank line before the header are fine.
+    let o = import("\u{feff}\nvelocity[m/s],angle[deg],outcome,source\n400,10,welded,a\n");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+}
