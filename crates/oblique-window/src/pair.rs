@@ -447,6 +447,8 @@ pub fn parse_pair_file(
     materials: &BTreeMap<String, MaterialRecord>,
 ) -> Result<(PairFile, PairWindow), Diagnostics> {
     let file = origin.display.clone();
+    // A byte-order mark (some editors write one) is not RON: read past it.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let parsed: PairFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
     c.check_format(&parsed.format, WINDOW_FORMAT);

@@ -504,3 +504,21 @@ fn pair_import_words_problems_at_the_csv_row_and_refuses_a_doubled_column() {
     let o = import("\u{feff}\nvelocity[m/s],angle[deg],outcome,source\n400,10,welded,a\n");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
 }
+
+#[test]
+fn a_pair_file_with_a_byte_order_mark_loads_and_keeps_it() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "bom").status.code(), Some(0));
+    let path = dir.path().join("bom.ron");
+    let text = std::fs::read_to_string(&path).expect("pair");
+    std::fs::write(&path, format!("\u{feff}{}", text.replace('\n', "\r\n"))).expect("write");
+    let o = observe(dir.path(), "bom", "after the BOM");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let after = std::fs::read_to_string(&path).expect("pair");
+    assert!(after.starts_with('\u{feff}'));
+    assert!(after.contains("after the BOM"));
+    assert!(
+        !after.replace("\r\n", "").contains('\n'),
+        "CRLF kept throughout"
+    );
+}
