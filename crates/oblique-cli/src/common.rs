@@ -1,11 +1,13 @@
-//! Helpers shared by the subcommands: the library folders, loading the libraries, today's date,
-//! writing an output file the user asked for, and the exit code of a set-up error. Subcommand
-//! modules import from here, never from each other.
+//! Helpers shared by the subcommands: loading the libraries, the point the user gave, files the
+//! user asked for, the exit code of a set-up error. No subcommand module is imported from here.
 
+use crate::args::{ConventionArg, VelocityInput};
 use crate::fail::{CmdResult, Fail};
+use oblique_core::units::{parse_quantity, Angle, Length, QuantityKind, Velocity};
+use oblique_core::{Collision, Convention};
 use oblique_setup::{Catalog, SetupError};
 use oblique_window::machine::Machines;
-use oblique_window::Library;
+use oblique_window::{Library, PairWindow};
 use std::path::{Path, PathBuf};
 
 /// The user folders: `--library` flags first, then `OBLIQUE_LIBRARY`.
@@ -15,11 +17,14 @@ pub fn user_dirs(cli_dirs: &[PathBuf]) -> Vec<PathBuf> {
     dirs
 }
 
-/// Load the material library, printing shadowing warnings on stderr.
+/// Load the library, printing shadowing warnings on stderr.
 pub fn load_library(cli_dirs: &[PathBuf]) -> CmdResult<Library> {
     let lib = Library::load(&user_dirs(cli_dirs))?;
     for w in &lib.warnings {
-        eprintln!("warning: {w}");
+        eprintln!("warning: {}", crate::fail::for_terminal(w));
+    }
+    for p in &lib.problems {
+        eprintln!("warning: {}", crate::fail::for_terminal(&p.summary()));
     }
     Ok(lib)
 }
@@ -66,6 +71,131 @@ pub fn today() -> String {
     let m = if mp < 10 { mp + 3 } else { mp - 9 };
     let y = if m <= 2 { y + 1 } else { y };
     format!("{y:04}-{m:02}-{d:02}")
+}
+
+/// Refuse a missing value with a message naming the flag.
+pub fn need<T>(v: Option<T>, flag: &str, form: &str) -> CmdResult<T> {
+    v.ok_or_else(|| Fail::input(format!("{flag} is required here: expected {form}")))
+}
+
+/// A window made on the spot from two material ids and a thickness, with the default criteria.
+pub fn ad_hoc_window(
+    lib: &Library,
+    flyer: &str,
+    parent: &str,
+    flyer_thickness: f64,
+    parent_thickness: Option<f64>,
+    convention: Convention,
+) -> CmdResult<PairWindow> {
+    lib.ad_hoc_window(
+        flyer,
+        parent,
+        Length::from_m(flyer_thickness),
+        parent_thickness.map(Length::from_m),
+        convention,
+    )
+    .map_err(|(which, m)| Fail::input(format!("--{which}: {m}")))
+}
+
+/// Build the collision from Vp or Vc.
+/// The point as the user gave it (velocity or collision velocity, angle, convention; the
+/// window's convention when none is given), classified against `window` with its advice in
+/// the convention the user typed the point in.
+///
+/// # Errors
+/// No velocity, or a point or window the physics refuses.
+pub fn classify_given(
+    window: &PairWindow,
+    convention: Option<ConventionArg>,
+    v: &VelocityInput,
+    angle: f64,
+) -> CmdResult<(Collision, oblique_window::Classification)> {
+    let convention: Convention = convention.map_or(window.convention, Into::into);
+    let point = collision(convention, v.velocity, v.collision_velocity, angle)?;
+    let setup = window.setup()?;
+    let mut c = oblique_window::classify::classify(window, &setup, &point)?;
+    oblique_window::classify::explain_in(window, &setup, &mut c, point.convention);
+    Ok((point, c))
+}
+
+pub fn collision(
+    convention: Convention,
+    velocity: Option<f64>,
+    collision_velocity: Option<f64>,
+    angle: f64,
+) -> CmdResult<Collision> {
+    let beta = Angle::from_radians(angle);
+    let c = match (velocity, collision_velocity) {
+        (Some(vp), _) => Collision::from_impact(convention, Velocity::from_m_s(vp), beta),
+        (None, Some(vc)) => {
+            Collision::from_collision_velocity(convention, Velocity::from_m_s(vc), beta)
+        }
+        (None, None) => return Err(Fail::input("give --velocity or --collision-velocity")),
+    };
+    c.map_err(|e| Fail::input(e.to_string()))
+}
+
+/// Read `velocity[unit],angle[unit][,label]` rows.
+pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>> {
+    let display = path.display().to_string();
+    let mut rdr = csv::ReaderBuilder::new()
+        .trim(csv::Trim::All)
+        .from_path(path)
+        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
+    let headers = rdr
+        .headers()
+        .map_err(|e| Fail::input(format!("{display}: {e}")))?
+        .clone();
+    let mut vcol = None;
+    let mut acol = None;
+    let mut lcol = None;
+    for (i, h) in headers.iter().enumerate() {
+        let (name, unit) = match h.split_once('[') {
+            Some((n, u)) => (n.trim(), Some(u.trim_end_matches(']').trim().to_string())),
+            None => (h.trim(), None),
+        };
+        match name {
+            "velocity" => vcol = Some((i, unit)),
+            "angle" => acol = Some((i, unit)),
+            "label" => lcol = Some(i),
+            _ => {}
+        }
+    }
+    let (Some((vi, Some(vu))), Some((ai, Some(au)))) = (vcol, acol) else {
+        return Err(Fail::input(format!("{display}:1: the header needs velocity[UNIT] and angle[UNIT] columns, e.g. velocity[m/s],angle[deg],label")));
+    };
+    let mut out = Vec::new();
+    for (n, rec) in rdr.records().enumerate() {
+        let row = n + 2;
+        let rec = rec.map_err(|e| Fail::input(format!("{display}:{row}: {e}")))?;
+        let v = parse_quantity(
+            &format!("{} {vu}", rec.get(vi).unwrap_or("")),
+            QuantityKind::Velocity,
+        )
+        .map_err(|e| Fail::input(format!("{display}:{row}: field 'velocity': {e}")))?;
+        let a = parse_quantity(
+            &format!("{} {au}", rec.get(ai).unwrap_or("")),
+            QuantityKind::Angle,
+        )
+        .map_err(|e| Fail::input(format!("{display}:{row}: field 'angle': {e}")))?;
+        if !(v > 0.0) {
+            return Err(Fail::input(format!(
+                "{display}:{row}: field 'velocity': must be above zero"
+            )));
+        }
+        let d = a.to_degrees();
+        if !(d > 0.0 && d < 90.0) {
+            return Err(Fail::input(format!(
+                "{display}:{row}: field 'angle': {d} deg is outside (0, 90) deg"
+            )));
+        }
+        let label = lcol
+            .and_then(|i| rec.get(i))
+            .map(str::to_string)
+            .filter(|s| !s.is_empty());
+        out.push((v, a, label));
+    }
+    Ok(out)
 }
 
 /// Write a file the user asked for, atomically.

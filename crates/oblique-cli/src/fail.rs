@@ -34,7 +34,7 @@ impl Fail {
             return ExitCode::SUCCESS;
         }
         if !self.message.is_empty() {
-            eprintln!("error: {}", self.message);
+            eprintln!("error: {}", for_terminal(&self.message));
         }
         ExitCode::from(self.code)
     }
@@ -51,6 +51,17 @@ impl From<oblique_core::PhysicsError> for Fail {
     fn from(e: oblique_core::PhysicsError) -> Self {
         Fail::input(e.to_string())
     }
+}
+
+/// A message for standard error: escape sequences shown, not acted on, and no line longer
+/// than a screenful (an echoed 10 MB cell is cut, saying how much was left out).
+pub fn for_terminal(message: &str) -> String {
+    const MAX_LINE: usize = 600;
+    let safe = oblique_window::present::terminal_safe(message);
+    safe.lines()
+        .map(|l| oblique_window::present::short(l, MAX_LINE))
+        .collect::<Vec<_>>()
+        .join("\n")
 }
 
 /// Result alias for commands.

@@ -6,6 +6,7 @@
 // Negated comparisons such as `!(x > 0.0)` are deliberate: they reject NaN together with
 // out-of-range values, which the suggested rewrite would let through.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
+mod args;
 mod cli;
 mod cmd;
 mod common;
@@ -18,7 +19,7 @@ use std::process::ExitCode;
 
 fn main() -> ExitCode {
     let args = cli::Cli::parse();
-    match cmd::run(args) {
+    match args.run() {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) => e.report(),
     }

@@ -8,6 +8,8 @@ use std::io::Write;
 
 /// Write text to stdout; a closed pipe (`| head`) ends quietly.
 pub fn emit(text: &str) -> CmdResult {
+    // User text (sources, notes, labels) may hold escape sequences: show them, never act.
+    let text = terminal_safe(text);
     let mut out = std::io::stdout().lock();
     match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
         Ok(()) => Ok(()),

@@ -119,6 +119,12 @@ fn reached_at(c: &Classification, limit: &LimitRef) -> String {
 /// # Errors
 /// Plot errors.
 pub fn html(input: &ReportInput<'_>) -> RenderResult<String> {
+    // User text (names, sources, notes) may hold characters HTML forbids (NUL, ESC, ...):
+    // shown as visible control pictures, so the page stays well-formed.
+    html_page(input).map(|page| oblique_window::present::xml_safe(&page).into_owned())
+}
+
+fn html_page(input: &ReportInput<'_>) -> RenderResult<String> {
     let w = input.window;
     let c = input.classification;
     let e = &c.evaluation;

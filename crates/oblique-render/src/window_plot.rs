@@ -378,7 +378,8 @@ pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
         SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area(),
         &p,
     )?;
-    Ok(svg)
+    // User text (labels, names) may hold characters XML forbids: keep the SVG well-formed.
+    Ok(oblique_window::present::xml_safe(&svg).into_owned())
 }
 
 /// Render the window plot as PNG bytes (for slides), with the bundled font.

@@ -21,6 +21,23 @@ pub struct Diagnostic {
     pub hint: Option<String>,
 }
 
+impl Diagnostic {
+    /// The first line: position, field and message, without the hint.
+    #[must_use]
+    pub fn headline(&self) -> String {
+        let mut s = if self.line == 0 {
+            format!("{}: ", self.file)
+        } else {
+            format!("{}:{}:{}: ", self.file, self.line, self.col)
+        };
+        if !self.field.is_empty() {
+            s.push_str(&format!("field `{}`: ", self.field));
+        }
+        s.push_str(self.message.lines().next().unwrap_or(""));
+        s
+    }
+}
+
 impl fmt::Display for Diagnostic {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         if self.line == 0 {
@@ -262,9 +279,16 @@ pub fn edit_distance(a: &str, b: &str) -> usize {
 
 /// Whether `s` is a calendar date written YYYY-MM-DD (Gregorian, years 1900 to 2999).
 pub fn is_iso_date(s: &str) -> bool {
+    date_problem(s).is_none()
+}
+
+/// What is wrong with a date that should be `YYYY-MM-DD` between 1900 and 2999, if anything.
+#[must_use]
+pub fn date_problem(s: &str) -> Option<String> {
+    let shown = crate::present::short(s, 40);
     let b = s.as_bytes();
     if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
-        return false;
+        return Some(format!("date '{shown}' is not written YYYY-MM-DD"));
     }
     let num = |r: std::ops::Range<usize>| {
         s.get(r)
@@ -272,7 +296,7 @@ pub fn is_iso_date(s: &str) -> bool {
             .and_then(|t| t.parse::<u32>().ok())
     };
     let (Some(y), Some(m), Some(d)) = (num(0..4), num(5..7), num(8..10)) else {
-        return false;
+        return Some(format!("date '{shown}' is not written YYYY-MM-DD"));
     };
     let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
     let days = match m {
@@ -280,9 +304,17 @@ pub fn is_iso_date(s: &str) -> bool {
         4 | 6 | 9 | 11 => 30,
         2 if leap => 29,
         2 => 28,
-        _ => return false,
+        _ => return Some(format!("date '{shown}': there is no month {m}")),
     };
-    (1900..=2999).contains(&y) && d >= 1 && d <= days
+    if d < 1 || d > days {
+        return Some(format!("date '{shown}': month {m} of {y} has no day {d}"));
+    }
+    if !(1900..=2999).contains(&y) {
+        return Some(format!(
+            "date '{shown}' is a calendar date, but outside the accepted years 1900-2999"
+        ));
+    }
+    None
 }
 
 #[cfg(test)]

@@ -43,8 +43,42 @@ pub struct Library {
     pub warnings: Vec<String>,
     /// Every file read, in load order.
     pub files: Vec<LibraryFile>,
-    /// The user folders, in priority order.
+    /// The user folders, in priority order (each folder once).
     pub user_dirs: Vec<PathBuf>,
+    /// Files that could not be loaded, with every problem: the rest of the library is usable;
+    /// a command that needs one of these files fails with its diagnostics.
+    pub problems: Vec<FileProblem>,
+}
+
+/// A library file that could not be loaded.
+#[derive(Debug, Clone)]
+pub struct FileProblem {
+    /// As shown in messages.
+    pub display: String,
+    /// The pair name the file would define, from its file name (`NAME.ron`); `None` for a
+    /// materials file or an unreadable folder.
+    pub pair_name: Option<String>,
+    /// True for a materials file.
+    pub materials: bool,
+    /// Every problem found.
+    pub diagnostics: Diagnostics,
+}
+
+impl FileProblem {
+    /// One line for a warning: the file, the number of problems and the first one.
+    #[must_use]
+    pub fn summary(&self) -> String {
+        let n = self.diagnostics.0.len();
+        let first = self
+            .diagnostics
+            .0
+            .first()
+            .map_or_else(String::new, |d| format!("; first: {}", d.headline()));
+        format!(
+            "skipped {} ({n} problem(s){first}); commands that need it show every problem, `oblique pair validate` lists them",
+            self.display
+        )
+    }
 }
 
 /// Hex SHA-256 of bytes.
@@ -135,13 +169,45 @@ fn user_files(dir: &Path, problems: &mut Vec<Diagnostic>) -> (Option<Source>, Ve
     (materials, pairs)
 }
 
+/// The pair name a pair file defines by its file name.
+fn pair_name_of(s: &Source) -> Option<String> {
+    s.path
+        .as_ref()
+        .and_then(|p| p.file_stem())
+        .and_then(|n| n.to_str())
+        .map(str::to_string)
+}
+
+/// Record one problem of a pair file.
+fn file_problem(problems: &mut Vec<FileProblem>, s: &Source, d: Diagnostic) {
+    problems.push(FileProblem {
+        display: s.display.clone(),
+        pair_name: pair_name_of(s),
+        materials: false,
+        diagnostics: Diagnostics(vec![d]),
+    });
+}
+
 impl Library {
     /// Load the built-in library and then each user folder in `user_dirs` (earlier folders win
     /// over later ones; all win over the built-in files).
     ///
+    /// A file that cannot be loaded does not stop the rest: it is left out and recorded in
+    /// [`Library::problems`]; looking up the pair it defines gives its diagnostics.
+    ///
     /// # Errors
-    /// Every problem in every file, together.
+    /// None today (kept for callers written against the strict loader); every problem is in
+    /// [`Library::problems`].
     pub fn load(user_dirs: &[PathBuf]) -> Result<Library, Diagnostics> {
+        // The same folder named twice (two flags, or a flag and OBLIQUE_LIBRARY) is read once,
+        // at its first (highest-priority) place.
+        let mut seen = std::collections::HashSet::new();
+        let dirs: Vec<PathBuf> = user_dirs
+            .iter()
+            .filter(|d| seen.insert(std::fs::canonicalize(d).unwrap_or_else(|_| (*d).clone())))
+            .cloned()
+            .collect();
+        let user_dirs = &dirs[..];
         let mut lib = Library {
             user_dirs: user_dirs.to_vec(),
             ..Default::default()
@@ -188,7 +254,12 @@ impl Library {
                         lib.materials.insert(r.material.id.clone(), r);
                     }
                 }
-                Err(d) => problems.extend(d.0),
+                Err(d) => lib.problems.push(FileProblem {
+                    display: s.display.clone(),
+                    pair_name: None,
+                    materials: true,
+                    diagnostics: d,
+                }),
             }
         }
         for s in &pair_sources {
@@ -214,17 +285,21 @@ impl Library {
                         if same_folder {
                             let (line, col) =
                                 crate::ronpath::RonIndex::scan(&s.text).locate(&s.text, "name");
-                            problems.push(Diagnostic {
-                                file: w.origin.display.clone(),
-                                line,
-                                col,
-                                field: "name".into(),
-                                message: format!(
-                                    "duplicate pair name '{}' (also in {})",
-                                    w.name, old.origin.display
-                                ),
-                                hint: Some("give each pair file its own name".into()),
-                            });
+                            file_problem(
+                                &mut lib.problems,
+                                s,
+                                Diagnostic {
+                                    file: w.origin.display.clone(),
+                                    line,
+                                    col,
+                                    field: "name".into(),
+                                    message: format!(
+                                        "duplicate pair name '{}' (also in {})",
+                                        w.name, old.origin.display
+                                    ),
+                                    hint: Some("give each pair file its own name".into()),
+                                },
+                            );
                             continue;
                         }
                         lib.warnings.push(format!(
@@ -234,14 +309,33 @@ impl Library {
                     }
                     lib.pairs.insert(w.name.clone(), w);
                 }
-                Err(d) => problems.extend(d.0),
+                Err(d) => lib.problems.push(FileProblem {
+                    display: s.display.clone(),
+                    pair_name: pair_name_of(s),
+                    materials: false,
+                    diagnostics: d,
+                }),
             }
         }
-        if problems.is_empty() {
-            Ok(lib)
-        } else {
-            Err(Diagnostics(problems))
+        // Folder problems (unreadable folder, unreadable file) belong to no one file's pair.
+        for d in problems {
+            lib.problems.push(FileProblem {
+                display: d.file.clone(),
+                pair_name: None,
+                materials: false,
+                diagnostics: Diagnostics(vec![d]),
+            });
         }
+        Ok(lib)
+    }
+
+    /// Every problem of every file that could not be loaded, together (for `pair validate`).
+    #[must_use]
+    pub fn all_problems(&self) -> Vec<Diagnostic> {
+        self.problems
+            .iter()
+            .flat_map(|p| p.diagnostics.0.iter().cloned())
+            .collect()
     }
 
     /// A window made on the spot from two material ids and a flyer thickness, with the
@@ -289,14 +383,21 @@ impl Library {
     pub fn material(&self, id: &str) -> Result<&MaterialRecord, String> {
         self.materials.get(id).ok_or_else(|| {
             let near = crate::diag::close_matches(id, self.materials.keys().map(String::as_str));
-            if near.is_empty() {
+            let mut m = if near.is_empty() {
                 format!("unknown material id '{id}'\n  hint: `oblique material list` shows the ids")
             } else {
                 format!(
                     "unknown material id '{id}'\n  hint: did you mean {}?",
                     near.join(", ")
                 )
+            };
+            for p in self.problems.iter().filter(|p| p.materials) {
+                m.push_str(&format!(
+                    "\n  hint: the materials file {} could not be loaded, so its materials are missing:\n{}",
+                    p.display, p.diagnostics
+                ));
             }
+            m
         })
     }
 
@@ -305,6 +406,18 @@ impl Library {
     /// # Errors
     /// A message naming close pairs.
     pub fn pair(&self, name: &str) -> Result<&PairWindow, String> {
+        if let Some(p) = self
+            .problems
+            .iter()
+            .find(|p| p.pair_name.as_deref() == Some(name) && !self.pairs.contains_key(name))
+        {
+            return Err(format!(
+                "pair '{name}' is in a file that could not be loaded:\n{}\n{} problem(s) in {}",
+                p.diagnostics,
+                p.diagnostics.0.len(),
+                p.display
+            ));
+        }
         self.pairs.get(name).ok_or_else(|| {
             let near = crate::diag::close_matches(name, self.pairs.keys().map(String::as_str));
             if near.is_empty() {

@@ -816,6 +816,8 @@ pub fn parse_machine_file(
     text: &str,
 ) -> Result<(MachineFile, MachineRecord), Diagnostics> {
     let file = origin.display.clone();
+    // A byte-order mark (some editors write one) is not RON: read past it.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let parsed: MachineFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
     c.check_format(&parsed.format, MACHINE_FORMAT);

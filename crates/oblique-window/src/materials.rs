@@ -320,6 +320,8 @@ pub fn parse_material_file(
     file: &str,
     text: &str,
 ) -> Result<(MaterialFile, Vec<MaterialRecord>), Diagnostics> {
+    // A byte-order mark (some editors write one) is not RON: read past it.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let parsed: MaterialFile = parse_ron(file, text)?;
     let mut c = Collector::new(file, text);
     c.check_format(&parsed.format, MATERIALS_FORMAT);

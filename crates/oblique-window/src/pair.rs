@@ -318,6 +318,10 @@ pub const PROCESSES: [&str; 6] = [
 /// How a trial's velocity and angle were obtained.
 pub const METHODS: [&str; 3] = ["measured", "simulated", "estimated"];
 
+/// Observed impact velocities above this are refused (m/s): no impact-welding process reaches
+/// them (common practice bound; two-stage light-gas guns reach about 8 km/s).
+pub const MAX_OBSERVED_VELOCITY_M_S: f64 = 10_000.0;
+
 /// A validated observation.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Observation {
@@ -443,6 +447,8 @@ pub fn parse_pair_file(
     materials: &BTreeMap<String, MaterialRecord>,
 ) -> Result<(PairFile, PairWindow), Diagnostics> {
     let file = origin.display.clone();
+    // A byte-order mark (some editors write one) is not RON: read past it.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let parsed: PairFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
     c.check_format(&parsed.format, WINDOW_FORMAT);
@@ -733,6 +739,16 @@ pub fn parse_pair_file(
                     format!("velocity '{}' must be above zero", o.velocity),
                     None,
                 );
+            } else if v > MAX_OBSERVED_VELOCITY_M_S {
+                c.push(
+                    &format!("{base}.velocity"),
+                    format!(
+                        "velocity '{}' is above {} km/s, beyond any impact-welding process",
+                        crate::present::short(&o.velocity, 40),
+                        MAX_OBSERVED_VELOCITY_M_S / 1000.0
+                    ),
+                    Some("check the unit (m/s, km/s); the bound is common practice: two-stage light-gas guns reach about 8 km/s".into()),
+                );
             }
         }
         let a = c.quantity(&format!("{base}.angle"), &o.angle, QuantityKind::Angle);
@@ -793,21 +809,30 @@ pub fn parse_pair_file(
             .as_ref()
             .and_then(|t| c.quantity(&format!("{base}.angle_uncertainty"), t, QuantityKind::Angle));
         if let Some(d) = &o.date {
-            if !is_iso_date(d) {
+            if let Some(problem) = crate::diag::date_problem(d) {
                 c.push(
                     &format!("{base}.date"),
-                    format!("date '{d}' is not a calendar date YYYY-MM-DD"),
+                    problem,
                     Some("write it like \"2026-11-30\"".into()),
                 );
             }
         }
-        for (field, value) in [("velocity_uncertainty", vu), ("angle_uncertainty", au)] {
+        for (field, value, bound) in [
+            ("velocity_uncertainty", vu, MAX_OBSERVED_VELOCITY_M_S),
+            ("angle_uncertainty", au, std::f64::consts::FRAC_PI_2),
+        ] {
             if let Some(u) = value {
-                if !(u > 0.0) {
+                if !(u >= 0.0) {
                     c.push(
                         &format!("{base}.{field}"),
-                        format!("{field} must be above zero"),
-                        None,
+                        format!("{field} must be zero or above"),
+                        Some("a standard uncertainty; 0 means exact".into()),
+                    );
+                } else if u > bound {
+                    c.push(
+                        &format!("{base}.{field}"),
+                        format!("{field} is larger than any value the quantity can take"),
+                        Some("check the unit".into()),
                     );
                 }
             }

@@ -14,7 +14,21 @@ use std::collections::HashMap;
 pub struct RonIndex {
     starts: HashMap<String, usize>,
     list_ends: HashMap<String, usize>,
+    tails: HashMap<String, Tail>,
     line_starts: Vec<usize>,
+}
+
+/// The end of a list's or a structure's contents: where its last piece of code (a value or a
+/// comma, not a comment) ends, and where it closes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Tail {
+    /// Byte offset just after the last value or comma inside (just after the opening bracket
+    /// when empty). Comments and blank space after it belong to the tail.
+    pub code_end: usize,
+    /// True when the last thing inside is a value with no comma after it.
+    pub needs_comma: bool,
+    /// Byte offset of the closing `]` or `)`.
+    pub close: usize,
 }
 
 impl RonIndex {
@@ -48,6 +62,11 @@ impl RonIndex {
     /// Byte offset of the closing `]` of the list at `path`.
     pub fn list_end(&self, path: &str) -> Option<usize> {
         self.list_ends.get(path).copied()
+    }
+
+    /// The tail of the list or structure at `path` (`""` is the top-level structure).
+    pub fn tail(&self, path: &str) -> Option<Tail> {
+        self.tails.get(path).copied()
     }
 
     /// 1-based (line, column) of a byte offset; the column counts characters.
@@ -235,15 +254,27 @@ impl Scanner<'_> {
     fn paren(&mut self, path: String) -> Option<()> {
         self.i += 1;
         let mut n = 0;
+        let mut code_end = self.i;
+        let mut needs_comma = false;
         loop {
             self.skip_ws();
             match self.peek()? {
                 b')' => {
+                    self.index.tails.insert(
+                        path,
+                        Tail {
+                            code_end,
+                            needs_comma,
+                            close: self.i,
+                        },
+                    );
                     self.i += 1;
                     return Some(());
                 }
                 b',' => {
                     self.i += 1;
+                    code_end = self.i;
+                    needs_comma = false;
                     continue;
                 }
                 _ => {}
@@ -260,11 +291,15 @@ impl Scanner<'_> {
                         format!("{path}.{name}")
                     };
                     self.value(child)?;
+                    code_end = self.i;
+                    needs_comma = true;
                     continue;
                 }
             }
             self.i = save;
             self.value(format!("{path}[{n}]"))?;
+            code_end = self.i;
+            needs_comma = true;
             n += 1;
         }
     }
@@ -272,19 +307,33 @@ impl Scanner<'_> {
     fn list(&mut self, path: String) -> Option<()> {
         self.i += 1;
         let mut n = 0;
+        let mut code_end = self.i;
+        let mut needs_comma = false;
         loop {
             self.skip_ws();
             match self.peek()? {
                 b']' => {
-                    self.index.list_ends.insert(path, self.i);
+                    self.index.list_ends.insert(path.clone(), self.i);
+                    self.index.tails.insert(
+                        path,
+                        Tail {
+                            code_end,
+                            needs_comma,
+                            close: self.i,
+                        },
+                    );
                     self.i += 1;
                     return Some(());
                 }
                 b',' => {
                     self.i += 1;
+                    code_end = self.i;
+                    needs_comma = false;
                 }
                 _ => {
                     self.value(format!("{path}[{n}]"))?;
+                    code_end = self.i;
+                    needs_comma = true;
                     n += 1;
                 }
             }

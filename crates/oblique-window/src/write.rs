@@ -44,7 +44,16 @@ pub enum WriteError {
     /// The target already exists.
     #[error("{0}: already exists; nothing was written")]
     Exists(PathBuf),
-    /// The file's structure is not one we can append to.
+    /// Another writer held the folder's lock for longer than the wait.
+    #[error("{path}: another oblique process has been writing in this folder for {waited_ms} ms; nothing was written
+  hint: try again; if no oblique process is running, the lock is stale only if the file system does not release locks of ended processes (then delete {path})")]
+    Locked {
+        /// The lock file.
+        path: PathBuf,
+        /// How long this writer waited.
+        waited_ms: u64,
+    },
+    /// The file's structure is not one we can append to, or the path is not a writable file.
     #[error("{path}: {message}; nothing was written")]
     Structure {
         /// The file.
@@ -61,8 +70,228 @@ fn io(path: &Path) -> impl FnOnce(std::io::Error) -> WriteError + '_ {
     }
 }
 
-/// Write `bytes` to `path` atomically. When `expected_sha256` is given, the current file must
-/// still have that hash just before the rename.
+/// The name of the lock file that serialises writers in a library folder. It is hidden, so the
+/// library never reads it; it holds no data and may be deleted when no oblique process runs.
+pub const LOCK_FILE: &str = ".oblique.lock";
+
+/// Environment variable: how long (milliseconds) a writer waits for another writer's lock on a
+/// folder before it gives up (default [`DEFAULT_LOCK_WAIT_MS`]).
+pub const LOCK_WAIT_ENV: &str = "OBLIQUE_LOCK_WAIT_MS";
+
+/// How long a writer waits for the folder lock by default (30 s).
+pub const DEFAULT_LOCK_WAIT_MS: u64 = 30_000;
+
+/// An exclusive advisory lock on a folder's [`LOCK_FILE`], held until dropped. Every oblique
+/// write to a user's library file (pair observe and import, pair new, calibrations) holds it
+/// across read, check, write and rename, so that two processes never interleave.
+#[derive(Debug)]
+pub struct FolderLock {
+    _file: std::fs::File,
+}
+
+/// Take the folder lock of `dir`, waiting up to the configured time.
+///
+/// # Errors
+/// [`WriteError::Locked`] after the wait, or an IO error opening the lock file.
+pub fn lock_folder(dir: &Path) -> Result<FolderLock, WriteError> {
+    let lock_path = dir.join(LOCK_FILE);
+    let file = std::fs::OpenOptions::new()
+        .read(true)
+        .write(true)
+        .create(true)
+        .truncate(false)
+        .open(&lock_path)
+        .map_err(io(&lock_path))?;
+    let wait_ms = std::env::var(LOCK_WAIT_ENV)
+        .ok()
+        .and_then(|v| v.parse::<u64>().ok())
+        .unwrap_or(DEFAULT_LOCK_WAIT_MS);
+    let start = std::time::Instant::now();
+    let mut pause = std::time::Duration::from_millis(1);
+    loop {
+        match file.try_lock() {
+            Ok(()) => return Ok(FolderLock { _file: file }),
+            Err(std::fs::TryLockError::WouldBlock) => {
+                if start.elapsed().as_millis() >= u128::from(wait_ms) {
+                    return Err(WriteError::Locked {
+                        path: lock_path,
+                        waited_ms: wait_ms,
+                    });
+                }
+                std::thread::sleep(pause);
+                pause = (pause * 2).min(std::time::Duration::from_millis(50));
+            }
+            Err(std::fs::TryLockError::Error(e)) => {
+                return Err(WriteError::Io {
+                    path: lock_path,
+                    source: e,
+                })
+            }
+        }
+    }
+}
+
+/// What is at a path the user asked oblique to write.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Target {
+    /// Nothing yet: a new regular file at this path.
+    New(PathBuf),
+    /// A regular file (after following symbolic links): replaced atomically, its permissions
+    /// kept.
+    Regular {
+        /// The file that is replaced (the link's final target when `via_link`).
+        path: PathBuf,
+        /// The path was a symbolic link (the write goes through it, the link stays).
+        via_link: bool,
+    },
+    /// A FIFO or a character device (`/dev/null`, `/dev/stdout`, a pipe): written in place,
+    /// never replaced.
+    InPlace(PathBuf),
+}
+
+impl Target {
+    /// A note for the user when the write is not a plain replacement, else `None`.
+    #[must_use]
+    pub fn note(&self, asked: &Path) -> Option<String> {
+        match self {
+            Target::Regular {
+                path,
+                via_link: true,
+            } => Some(format!(
+                "{} is a symbolic link: wrote through it to {} (the link is kept)",
+                asked.display(),
+                path.display()
+            )),
+            Target::InPlace(_) => Some(format!(
+                "{} is not a regular file (a pipe or a device): written in place, not atomically",
+                asked.display()
+            )),
+            _ => None,
+        }
+    }
+}
+
+/// Find out what is at `path` and how a write to it must go.
+///
+/// # Errors
+/// A folder, a block device, a socket or a dangling symbolic link at `path`, or an IO error.
+pub fn resolve_target(path: &Path) -> Result<Target, WriteError> {
+    let meta = match std::fs::symlink_metadata(path) {
+        Ok(m) => m,
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => {
+            return Ok(Target::New(path.to_path_buf()))
+        }
+        Err(e) => return Err(io(path)(e)),
+    };
+    let (real, via_link) = if meta.file_type().is_symlink() {
+        match std::fs::canonicalize(path) {
+            Ok(r) => (r, true),
+            Err(_) => {
+                let to = std::fs::read_link(path)
+                    .map_or_else(|_| "?".into(), |p| p.display().to_string());
+                return Err(WriteError::Structure {
+                    path: path.to_path_buf(),
+                    message: format!(
+                        "is a symbolic link to {to}, which does not exist (or cannot be reached)"
+                    ),
+                });
+            }
+        }
+    } else {
+        (path.to_path_buf(), false)
+    };
+    let meta = std::fs::metadata(&real).map_err(io(&real))?;
+    let ft = meta.file_type();
+    if ft.is_file() {
+        return Ok(Target::Regular {
+            path: real,
+            via_link,
+        });
+    }
+    if ft.is_dir() {
+        return Err(WriteError::Structure {
+            path: path.to_path_buf(),
+            message: "is a folder, not a file".into(),
+        });
+    }
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::FileTypeExt;
+        if ft.is_fifo() || ft.is_char_device() {
+            return Ok(Target::InPlace(real));
+        }
+        let kind = if ft.is_block_device() {
+            "a block device"
+        } else if ft.is_socket() {
+            "a socket"
+        } else {
+            "not a regular file"
+        };
+        Err(WriteError::Structure {
+            path: path.to_path_buf(),
+            message: format!(
+                "is {kind}; oblique writes regular files, pipes and character devices only"
+            ),
+        })
+    }
+    #[cfg(not(unix))]
+    Err(WriteError::Structure {
+        path: path.to_path_buf(),
+        message: "is not a regular file".into(),
+    })
+}
+
+/// A temporary file beside `target`, created new (never one that exists).
+fn create_temp(dir: &Path, name: &str) -> Result<(PathBuf, std::fs::File), WriteError> {
+    use std::sync::atomic::{AtomicU64, Ordering};
+    static COUNTER: AtomicU64 = AtomicU64::new(0);
+    let mut last_err = None;
+    for _ in 0..32 {
+        let nanos = std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map_or(0, |d| d.subsec_nanos());
+        let n = COUNTER.fetch_add(1, Ordering::Relaxed);
+        // Keep the name short enough for any file system: cut a long target name.
+        let short: String = name.chars().take(80).collect();
+        let tmp = dir.join(format!(
+            ".{short}.tmp-{}-{n}-{nanos:08x}",
+            std::process::id()
+        ));
+        match std::fs::OpenOptions::new()
+            .write(true)
+            .create_new(true)
+            .open(&tmp)
+        {
+            Ok(f) => return Ok((tmp, f)),
+            Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => last_err = Some(e),
+            Err(e) => return Err(io(&tmp)(e)),
+        }
+    }
+    Err(io(dir)(last_err.unwrap_or_else(|| {
+        std::io::Error::other("no free temporary file name")
+    })))
+}
+
+/// Give the temporary file the permissions (and, where allowed, the owner) of the file it
+/// replaces, so that a group-writable or private file stays so.
+fn copy_attributes(from: &Path, to: &std::fs::File) {
+    if let Ok(meta) = std::fs::metadata(from) {
+        let _ = to.set_permissions(meta.permissions());
+        #[cfg(unix)]
+        {
+            use std::os::unix::fs::MetadataExt;
+            // Only succeeds for the owner's own group or for a privileged user; a failure
+            // leaves the writer's ownership, which is what an ordinary editor does too.
+            let _ = std::os::unix::fs::fchown(to, Some(meta.uid()), Some(meta.gid()));
+        }
+    }
+}
+
+/// Write `bytes` to `path` safely. A regular file (or a symbolic link to one) is replaced
+/// atomically through a temporary file in the same folder (fsync, rename, fsync of the folder)
+/// with its permissions kept; a pipe or character device is written in place; a folder, block
+/// device, socket or dangling link is refused. When `expected_sha256` is given, the current
+/// file must be a regular file that still has that hash just before the rename.
 ///
 /// # Errors
 /// [`WriteError`]; the target is untouched on every error.
@@ -71,18 +300,46 @@ pub fn atomic_write(
     bytes: &[u8],
     expected_sha256: Option<&str>,
 ) -> Result<(), WriteError> {
+    let target = resolve_target(path)?;
+    write_target(&target, bytes, expected_sha256)
+}
+
+/// [`atomic_write`] to an already resolved target.
+///
+/// # Errors
+/// [`WriteError`]; the target is untouched on every error.
+pub fn write_target(
+    target: &Target,
+    bytes: &[u8],
+    expected_sha256: Option<&str>,
+) -> Result<(), WriteError> {
+    let path = match target {
+        Target::InPlace(p) => {
+            if expected_sha256.is_some() {
+                return Err(WriteError::Structure {
+                    path: p.clone(),
+                    message: "is not a regular file; a library file must be one".into(),
+                });
+            }
+            let mut f = std::fs::OpenOptions::new()
+                .write(true)
+                .open(p)
+                .map_err(io(p))?;
+            f.write_all(bytes).map_err(io(p))?;
+            return f.flush().map_err(io(p));
+        }
+        Target::New(p) | Target::Regular { path: p, .. } => p.as_path(),
+    };
     let dir = path
         .parent()
         .filter(|d| !d.as_os_str().is_empty())
         .unwrap_or(Path::new("."));
     let name = path.file_name().and_then(|n| n.to_str()).unwrap_or("file");
-    let tmp = dir.join(format!(".{name}.tmp-{}", std::process::id()));
+    let (tmp, mut f) = create_temp(dir, name)?;
     let result = (|| {
-        let mut f = std::fs::OpenOptions::new()
-            .write(true)
-            .create_new(true)
-            .open(&tmp)
-            .map_err(io(&tmp))?;
+        if matches!(target, Target::Regular { .. }) {
+            copy_attributes(path, &f);
+        }
         f.write_all(bytes).map_err(io(&tmp))?;
         f.sync_all().map_err(io(&tmp))?;
         drop(f);
@@ -174,10 +431,12 @@ pub fn append_observation_text(
     append_to_top_list(path, text, "observations", &rendered)
 }
 
-/// The text of `text` with `rendered` (already indented list items) appended to the top-level
-/// list field `list`; the list is created before the top-level closing parenthesis when absent.
-/// Every other byte is kept: a missing comma goes right after the last value, and trailing
-/// comments stay where they are.
+/// The text of `text` with `rendered` (already indented list items, `\n` line ends) appended to
+/// the top-level list field `list`; the list is created before the top-level closing
+/// parenthesis when absent. Every byte of the old text is kept, in order: a missing comma goes
+/// right after the last value (found by a scanner that knows strings, raw strings and
+/// comments, so nothing inside a string is ever touched), comments after the last value stay
+/// where they are, a byte-order mark stays first and a file with CRLF line ends gets CRLF.
 ///
 /// # Errors
 /// [`WriteError::Structure`] when the file has no place to append.
@@ -187,86 +446,57 @@ pub fn append_to_top_list(
     list: &str,
     rendered: &str,
 ) -> Result<String, WriteError> {
-    let index = RonIndex::scan(text);
-    if let Some(end) = index.list_end(list) {
-        let value_end = strip_trailing_comments(&text[..end]).len();
-        let last = text[..value_end].trim_end().chars().last();
-        let needs_comma = !matches!(last, Some('[') | Some(','));
-        let line_start = text[..end].rfind('\n').map_or(0, |i| i + 1);
-        let bracket_on_own_line = text[line_start..end].trim().is_empty();
-        let mut out = String::with_capacity(text.len() + rendered.len() + 8);
-        out.push_str(&text[..value_end]);
-        if needs_comma {
+    let (bom, body) = match text.strip_prefix('\u{feff}') {
+        Some(rest) => ("\u{feff}", rest),
+        None => ("", text),
+    };
+    let crlf = body.contains("\r\n");
+    let nl = if crlf { "\r\n" } else { "\n" };
+    let rendered = if crlf {
+        rendered.replace("\r\n", "\n").replace('\n', "\r\n")
+    } else {
+        rendered.to_string()
+    };
+    let index = RonIndex::scan(body);
+    let mut out = String::with_capacity(text.len() + rendered.len() + 64);
+    out.push_str(bom);
+    if let Some(t) = index.tail(list).filter(|_| index.list_end(list).is_some()) {
+        out.push_str(&body[..t.code_end]);
+        if t.needs_comma {
             out.push(',');
         }
+        let line_start = body[..t.close].rfind('\n').map_or(0, |i| i + 1);
+        let bracket_on_own_line =
+            line_start > t.code_end && body[line_start..t.close].trim().is_empty();
         if bracket_on_own_line {
-            out.push_str(&text[value_end..line_start]);
-            out.push_str(rendered);
-            out.push_str(&text[line_start..]);
+            out.push_str(&body[t.code_end..line_start]);
+            out.push_str(&rendered);
+            out.push_str(&body[line_start..]);
         } else {
-            out.push_str(&text[value_end..end]);
-            out.push('\n');
-            out.push_str(rendered);
+            out.push_str(&body[t.code_end..t.close]);
+            out.push_str(nl);
+            out.push_str(&rendered);
             out.push_str("    ");
-            out.push_str(&text[end..]);
+            out.push_str(&body[t.close..]);
         }
         return Ok(out);
     }
-    // No such list yet: add one before the top-level struct's closing parenthesis.
-    let close = strip_trailing_comments(text)
-        .rfind(')')
-        .ok_or_else(|| WriteError::Structure {
-            path: path.to_path_buf(),
-            message: "no closing parenthesis found for the top-level structure".into(),
-        })?;
-    let head = text[..close].trim_end();
-    let comma = if head.ends_with(',') || head.ends_with('(') {
-        ""
-    } else {
-        ","
-    };
-    Ok(format!(
-        "{head}{comma}\n    {list}: [\n{rendered}    ],\n{}",
-        &text[close..]
-    ))
-}
-
-/// `s` without trailing blank space and `//` comments (a `//` inside a string does not count).
-fn strip_trailing_comments(s: &str) -> &str {
-    let mut s = s.trim_end();
-    loop {
-        let line_start = s.rfind('\n').map_or(0, |i| i + 1);
-        let line = &s[line_start..];
-        let mut in_string = false;
-        let mut escaped = false;
-        let mut comment_at = None;
-        let bytes = line.as_bytes();
-        for (i, &b) in bytes.iter().enumerate() {
-            if in_string {
-                if escaped {
-                    escaped = false;
-                } else if b == b'\\' {
-                    escaped = true;
-                } else if b == b'"' {
-                    in_string = false;
-                }
-            } else if b == b'"' {
-                in_string = true;
-            } else if b == b'/' && bytes.get(i + 1) == Some(&b'/') {
-                comment_at = Some(i);
-                break;
-            }
-        }
-        match comment_at {
-            Some(pos) => {
-                s = s[..line_start + pos].trim_end();
-                if pos > 0 {
-                    return s;
-                }
-            }
-            None => return s,
-        }
+    // No such list yet: add one before the top-level structure's closing parenthesis.
+    let t = index.tail("").ok_or_else(|| WriteError::Structure {
+        path: path.to_path_buf(),
+        message: "no closing parenthesis found for the top-level structure".into(),
+    })?;
+    out.push_str(&body[..t.code_end]);
+    if t.needs_comma {
+        out.push(',');
     }
+    out.push_str(nl);
+    out.push_str(&format!("    {list}: ["));
+    out.push_str(nl);
+    out.push_str(&rendered);
+    out.push_str("    ],");
+    out.push_str(&body[t.code_end..]);
+    Ok(out)
 }
 
 /// Update the user's file at `path`: read it (refusing if it is not `expected_sha256`, when the
@@ -282,7 +512,24 @@ pub fn update_file<T>(
     edit: impl FnOnce(&str) -> Result<String, WriteError>,
     parse: impl FnOnce(Origin, &str) -> Result<T, Diagnostics>,
 ) -> Result<T, WriteError> {
-    let bytes = std::fs::read(path).map_err(io(path))?;
+    let target = resolve_target(path)?;
+    let real = match &target {
+        Target::Regular { path, .. } => path.clone(),
+        Target::New(_) => return Err(io(path)(std::io::Error::from(std::io::ErrorKind::NotFound))),
+        Target::InPlace(_) => {
+            return Err(WriteError::Structure {
+                path: path.to_path_buf(),
+                message: "is not a regular file; a library file must be one".into(),
+            })
+        }
+    };
+    let dir = real
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    // Held across read, check, write and rename: another writer waits for it.
+    let _lock = lock_folder(dir)?;
+    let bytes = std::fs::read(&real).map_err(io(path))?;
     let read_sha = sha256_hex(&bytes);
     if let Some(expected) = expected_sha256 {
         if expected != read_sha {
@@ -304,7 +551,7 @@ pub fn update_file<T>(
         sha256: sha256_hex(new_text.as_bytes()),
     };
     let parsed = parse(origin, &new_text).map_err(WriteError::Invalid)?;
-    atomic_write(path, new_text.as_bytes(), Some(&read_sha))?;
+    write_target(&target, new_text.as_bytes(), Some(&read_sha))?;
     Ok(parsed)
 }
 
@@ -409,16 +656,54 @@ pub fn new_pair_text(p: &NewPair<'_>) -> String {
     )
 }
 
-/// Create a new file atomically; refuses to replace an existing one.
+/// Create a new file atomically; refuses to replace an existing one, also when another
+/// process creates the same file at the same moment (the folder lock is held, and the file is
+/// linked into place, which fails when the name exists).
 ///
 /// # Errors
 /// [`WriteError::Exists`] or an IO error.
 pub fn create_new(path: &Path, text: &str) -> Result<(), WriteError> {
-    if path.exists() {
+    if std::fs::symlink_metadata(path).is_ok() {
         return Err(WriteError::Exists(path.to_path_buf()));
     }
-    atomic_write(path, text.as_bytes(), None)?;
-    Ok(())
+    let dir = path
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let _lock = lock_folder(dir)?;
+    let name = path.file_name().and_then(|n| n.to_str()).unwrap_or("file");
+    let (tmp, mut f) = create_temp(dir, name)?;
+    let result = (|| {
+        f.write_all(text.as_bytes()).map_err(io(&tmp))?;
+        f.sync_all().map_err(io(&tmp))?;
+        drop(f);
+        if let Some(ms) = std::env::var(FAULT_PAUSE_ENV)
+            .ok()
+            .and_then(|v| v.parse::<u64>().ok())
+        {
+            std::thread::sleep(std::time::Duration::from_millis(ms));
+        }
+        match std::fs::hard_link(&tmp, path) {
+            Ok(()) => Ok(()),
+            Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => {
+                Err(WriteError::Exists(path.to_path_buf()))
+            }
+            // A file system without hard links: under the lock, check and rename.
+            Err(_) => {
+                if std::fs::symlink_metadata(path).is_ok() {
+                    return Err(WriteError::Exists(path.to_path_buf()));
+                }
+                std::fs::rename(&tmp, path).map_err(io(path))
+            }
+        }
+    })();
+    let _ = std::fs::remove_file(&tmp);
+    if result.is_ok() {
+        if let Ok(d) = std::fs::File::open(dir) {
+            let _ = d.sync_all();
+        }
+    }
+    result
 }
 
 #[cfg(test)]
@@ -506,5 +791,79 @@ mod tests {
             let back: String = ron::from_str(&ron_string(s)).unwrap();
             assert_eq!(back, s);
         }
+    }
+    /// What an append adds is one contiguous insertion of new text (plus at most a comma right
+    /// after the last value): every old byte is kept, in order.
+    fn only_inserted(old: &str, new: &str, rendered: &str) {
+        let mut i = 0;
+        let (o, n) = (old.as_bytes(), new.as_bytes());
+        while i < o.len() && o[i] == n[i] {
+            i += 1;
+        }
+        let mut j = 0;
+        while j < o.len() - i && o[o.len() - 1 - j] == n[n.len() - 1 - j] {
+            j += 1;
+        }
+        let inserted = &new[i..new.len() - j];
+        let core = inserted.trim_start_matches(',');
+        assert!(
+            core.replace("\r\n", "\n").contains(rendered.trim()),
+            "the insertion is not the new entry:\n---\n{inserted}\n---"
+        );
+        assert!(
+            !core.trim_start().starts_with(',')
+                && core.matches(',').count() >= rendered.matches(',').count(),
+            "{inserted}"
+        );
+    }
+
+    /// Hand-written pair-like files an append must not damage: multi-line strings whose last
+    /// line holds `//` or `/*`, comments with brackets, raw strings, CRLF, a byte-order mark,
+    /// no trailing comma, the list's bracket on the last entry's line.
+    const CORPUS: &[&str] = &[
+        "(\n    observations: [\n        (velocity: \"1 m/s\", source: \"first line\nsee http://example.org/log\"),\n    ],\n)\n",
+        "(\n    observations: [\n        (velocity: \"1 m/s\", source: \"a\nb // not a comment\")\n    ],\n)\n",
+        "(\n    observations: [\n        (velocity: \"1 m/s\", source: \"x /* not a block\"), // a ] in a comment\n        /* and ( here */\n    ],\n)\n",
+        "(\n    observations: [\n        (velocity: \"1 m/s\", source: r#\"raw \"quoted\" // text\"#)\n    ],\n)\n",
+        "(\r\n    observations: [\r\n        (velocity: \"1 m/s\", source: \"crlf\"),\r\n    ],\r\n)\r\n",
+        "\u{feff}(\n    observations: [\n        (velocity: \"1 m/s\", source: \"bom\"),\n    ],\n)\n",
+        "(\n    observations: [(velocity: \"1 m/s\", source: \"same line\")],\n)\n",
+        "(\n    observations: [\n    ],\n    // trailing comment with \"quote\n)\n",
+        "(\n    name: \"n\" // no list yet, no comma\n)\n",
+        "(\n    observations: [\n        (velocity: \"1 m/s\", source: \"escaped \\\" quote // x\"),\n    ],\n)\n",
+    ];
+
+    #[test]
+    fn appends_keep_every_old_byte_on_the_corpus() {
+        let rendered = render_observation(&obs("2 m/s"));
+        for text in CORPUS {
+            let out = append_observation_text(Path::new("p.ron"), text, &[obs("2 m/s")])
+                .unwrap_or_else(|e| panic!("{e}\n{text}"));
+            only_inserted(text, &out, &rendered);
+            let body = out.trim_start_matches('\u{feff}');
+            let v: ron::Value = ron::from_str(body).unwrap_or_else(|e| panic!("{e}\n{out}"));
+            let dump = format!("{v:?}");
+            assert!(dump.contains("2 m/s"), "{out}");
+            if text.contains("\r\n") {
+                assert!(
+                    !out.replace("\r\n", "").contains('\n'),
+                    "mixed line ends:\n{out:?}"
+                );
+            }
+            if text.starts_with('\u{feff}') {
+                assert!(out.starts_with('\u{feff}'));
+            }
+            // Appending again keeps the first append whole.
+            let again = append_observation_text(Path::new("p.ron"), &out, &[obs("3 m/s")]).unwrap();
+            only_inserted(&out, &again, &render_observation(&obs("3 m/s")));
+        }
+    }
+
+    #[test]
+    fn an_append_never_alters_a_string_with_slashes_on_its_last_line() {
+        let text = CORPUS[0];
+        let out = append_observation_text(Path::new("p.ron"), text, &[obs("2 m/s")]).unwrap();
+        assert!(out.contains("see http://example.org/log\"),"), "{out}");
+        assert!(!out.contains("http:,//"), "{out}");
     }
 }

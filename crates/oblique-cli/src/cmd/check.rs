@@ -1,84 +1,55 @@
 //! `oblique check`: one process point against the window criteria (or a pair window).
 
-use crate::cli::{CheckArgs, ConstantArgs};
-use crate::cmd::{load_library, need};
+use crate::args::{ConstantArgs, ConventionArg, VelocityInput};
+use crate::common::{ad_hoc_window, classify_given, load_library, need};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{classification_json, emit, emit_json, fmt_margin, fmt_value, table, CAUTION};
-use oblique_core::units::{Angle, Length, Velocity};
-use oblique_core::{Collision, Convention, CriteriaConfig};
+use crate::qarg;
+use clap::Args;
+use oblique_core::units::Length;
 use oblique_window::classify::{limit_advice, limit_label, Classification, LimitRef};
-use oblique_window::{Library, PairWindow};
+use oblique_window::PairWindow;
 use std::path::PathBuf;
 
-/// Apply command-line constant overrides to a criteria configuration.
-pub fn apply_constants(mut cfg: CriteriaConfig, c: &ConstantArgs) -> CriteriaConfig {
-    if let Some(k) = c.deribas_k {
-        cfg.deribas_k = k;
-    }
-    if let Some(n) = c.wittman_n {
-        cfg.wittman_n = n;
-    }
-    if let Some(m) = c.hel_multiple {
-        cfg.hel_multiple = m;
-    }
-    cfg
-}
+/// Flags of `oblique check`.
+#[derive(Debug, Args)]
+#[command(after_help = "Examples:
+  oblique check --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --velocity 350m/s --angle 12deg --convention normal-to-flyer
+  oblique check --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --collision-velocity 2.4km/s --angle 10deg --convention bisector --deribas-k 1.0 --json
+  oblique check --pair demo-al6061-on-cu --velocity 320m/s --angle 9deg
 
-/// A window made on the spot from two material ids and a thickness, with the default criteria.
-pub fn ad_hoc_window(
-    lib: &Library,
-    flyer: &str,
-    parent: &str,
-    flyer_thickness: f64,
-    parent_thickness: Option<f64>,
-    convention: Convention,
-) -> CmdResult<PairWindow> {
-    lib.ad_hoc_window(
-        flyer,
-        parent,
-        Length::from_m(flyer_thickness),
-        parent_thickness.map(Length::from_m),
-        convention,
-    )
-    .map_err(|(which, m)| Fail::input(format!("--{which}: {m}")))
-}
-
-/// Build the collision from Vp or Vc.
-/// The point as the user gave it (velocity or collision velocity, angle, convention; the
-/// window's convention when none is given), classified against `window` with its advice in
-/// the convention the user typed the point in.
-///
-/// # Errors
-/// No velocity, or a point or window the physics refuses.
-pub fn classify_given(
-    window: &PairWindow,
-    convention: Option<crate::cli::ConventionArg>,
-    v: &crate::cli::VelocityInput,
-    angle: f64,
-) -> CmdResult<(Collision, oblique_window::Classification)> {
-    let convention: Convention = convention.map_or(window.convention, Into::into);
-    let point = collision(convention, v.velocity, v.collision_velocity, angle)?;
-    let setup = window.setup()?;
-    let mut c = oblique_window::classify::classify(window, &setup, &point)?;
-    oblique_window::classify::explain_in(window, &setup, &mut c, point.convention);
-    Ok((point, c))
-}
-
-pub fn collision(
-    convention: Convention,
-    velocity: Option<f64>,
-    collision_velocity: Option<f64>,
-    angle: f64,
-) -> CmdResult<Collision> {
-    let beta = Angle::from_radians(angle);
-    let c = match (velocity, collision_velocity) {
-        (Some(vp), _) => Collision::from_impact(convention, Velocity::from_m_s(vp), beta),
-        (None, Some(vc)) => {
-            Collision::from_collision_velocity(convention, Velocity::from_m_s(vc), beta)
-        }
-        (None, None) => return Err(Fail::input("give --velocity or --collision-velocity")),
-    };
-    c.map_err(|e| Fail::input(e.to_string()))
+Exit status: 0 when the check ran (inside or not), 2 on bad input.
+Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts are
+involved in every real shot; follow local codes and licensed practice.")]
+pub struct CheckArgs {
+    /// Use a pair window from the library (materials, thickness, criteria, boundaries).
+    #[arg(long, value_name = "NAME", conflicts_with_all = ["flyer", "parent", "flyer_thickness"])]
+    pub pair: Option<String>,
+    /// Flyer (moving plate) material id, e.g. aa6061-t6 (`oblique material list`).
+    #[arg(long, value_name = "ID", required_unless_present = "pair")]
+    pub flyer: Option<String>,
+    /// Parent (stationary plate) material id, e.g. cu-c11000.
+    #[arg(long, value_name = "ID", required_unless_present = "pair")]
+    pub parent: Option<String>,
+    /// Flyer thickness, e.g. 1mm (enters the melting limit and the wavelength).
+    #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length, required_unless_present = "pair")]
+    pub flyer_thickness: Option<f64>,
+    /// Parent thickness, e.g. 10mm (only for the dissipated energy; default: a massive parent).
+    #[arg(long = "parent-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
+    pub parent_thickness: Option<f64>,
+    #[command(flatten)]
+    pub velocity: VelocityInput,
+    /// Dynamic collision angle beta, strictly between 0 and 90 deg, e.g. 12deg.
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+    pub angle: f64,
+    /// How Vp relates to Vc: bisector, normal-to-flyer or normal-to-parent (required unless --pair gives it).
+    #[arg(long, value_enum, value_name = "CONVENTION")]
+    pub convention: Option<ConventionArg>,
+    #[command(flatten)]
+    pub constants: ConstantArgs,
+    /// Print JSON (SI values, keys with unit suffixes) instead of the table.
+    #[arg(long)]
+    pub json: bool,
 }
 
 pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
@@ -111,7 +82,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
     if let Some(t) = a.parent_thickness {
         window.parent_thickness = Some(Length::from_m(t));
     }
-    window.criteria = apply_constants(window.criteria.clone(), &a.constants);
+    window.criteria = a.constants.apply(window.criteria.clone());
     let (point, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     // A point given in another convention than the window's is re-expressed in the window's
     // (same Vc and beta, so the same collision); say so, with the value as given.

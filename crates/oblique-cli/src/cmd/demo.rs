@@ -2,8 +2,8 @@
 //! bank and coil (machine files) give impact velocities for three candidate set-ups, each is
 //! checked against the pair window, and the best one is documented in a report with the plots.
 
-use crate::cmd::load_library;
-use crate::cmd::plot::write_output;
+use crate::common::load_library;
+use crate::common::write_output;
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, CAUTION};
 use clap::Args;
@@ -48,7 +48,7 @@ pub const CANDIDATES: [(&str, f64, f64, f64); 3] = [
 ];
 
 fn tube_setup(dirs: &[PathBuf], window: &PairWindow) -> CmdResult<TubeSetup> {
-    let machines = Machines::load(&crate::cmd::user_dirs(dirs))?;
+    let machines = Machines::load(&crate::common::user_dirs(dirs))?;
     let (_, bank) = machines
         .bank(DEMO_BANK)
         .map_err(|m| Fail::other(format!("the built-in demo bank is missing: {m}")))?;

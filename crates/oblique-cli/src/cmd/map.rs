@@ -9,9 +9,8 @@ mod pipeline;
 mod summary;
 mod svg;
 
-use crate::cli::ConstantArgs;
-use crate::cmd::check::apply_constants;
-use crate::cmd::load_library;
+use crate::args::ConstantArgs;
+use crate::common::load_library;
 use crate::fail::{CmdResult, Fail};
 use crate::output::CAUTION;
 use clap::{Args, ValueEnum};
@@ -383,7 +382,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
     let window_criteria = window.criteria.clone();
-    window.criteria = apply_constants(window.criteria.clone(), &a.constants);
+    window.criteria = a.constants.apply(window.criteria.clone());
     let constants = vec![
         (
             "deribas_k",

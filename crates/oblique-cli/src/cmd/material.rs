@@ -1,11 +1,30 @@
 //! `oblique material list|show`.
 
-use crate::cli::MaterialCommand;
-use crate::cmd::load_library;
+use crate::common::load_library;
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json, material_json, table};
+use clap::Subcommand;
 use oblique_window::materials::PROPERTIES;
 use std::path::PathBuf;
+
+/// Subcommands of `oblique material`.
+#[derive(Debug, Subcommand)]
+pub enum MaterialCommand {
+    /// List the materials with their ids and key properties.
+    List {
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Show one material with every property and its source.
+    Show {
+        /// Material id, e.g. aa6061-t6.
+        id: String,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+}
 
 pub fn run(dirs: &[PathBuf], c: MaterialCommand) -> CmdResult {
     let lib = load_library(dirs)?;

@@ -1,9 +1,11 @@
 //! `oblique pair ...`: list, show, new, observe, import, validate, agreement.
 
-use crate::cli::{MethodArg, OutcomeArg, PairCommand, ProcessArg};
-use crate::cmd::{load_library, today, user_dirs};
+use crate::args::ConventionArg;
+use crate::common::{load_library, today, user_dirs};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json, material_json, sig, table};
+use crate::qarg;
+use clap::{Subcommand, ValueEnum};
 use oblique_core::units::{parse_quantity, QuantityKind};
 use oblique_window::library::sha256_hex;
 use oblique_window::pair::{parse_pair_file, Origin};
@@ -139,6 +141,172 @@ pub fn pair_json(w: &PairWindow) -> Value {
     Value::Object(o)
 }
 
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum OutcomeArg {
+    /// Sound weld.
+    Welded,
+    /// No bond.
+    NotWelded,
+    /// Bond over part of the interface.
+    Partial,
+    /// Melted or brittle interface.
+    Melted,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ProcessArg {
+    /// Magnetic pulse welding.
+    MagneticPulse,
+    /// Explosive welding.
+    Explosive,
+    /// Vaporizing foil actuator welding.
+    FoilActuator,
+    /// Laser impact welding.
+    Laser,
+    /// Gas gun.
+    GasGun,
+    /// Anything else.
+    Other,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum MethodArg {
+    /// Measured (PDV, high-speed imaging, ...).
+    Measured,
+    /// From a simulation.
+    Simulated,
+    /// Estimated.
+    Estimated,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum PairCommand {
+    /// List the pair windows.
+    List {
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Show one pair window: materials, criteria, boundaries, observations, provenance.
+    Show {
+        /// Pair name.
+        name: String,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Create a new pair window file in the first --library folder.
+    #[command(
+        after_help = "Example:\n  oblique --library ./shop pair new al-on-cu --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1.5mm --convention normal-to-flyer"
+    )]
+    New {
+        /// Pair name (also the file name: NAME.ron).
+        name: String,
+        /// Flyer material id.
+        #[arg(long, value_name = "ID")]
+        flyer: String,
+        /// Parent material id.
+        #[arg(long, value_name = "ID")]
+        parent: String,
+        /// Flyer thickness, e.g. 1.5mm.
+        #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
+        flyer_thickness: f64,
+        /// Parent thickness, e.g. 12mm (only for the dissipated energy; default: a massive parent).
+        #[arg(long = "parent-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
+        parent_thickness: Option<f64>,
+        /// What the window is for, e.g. "busbar connector, tube on rod".
+        #[arg(long, value_name = "TEXT")]
+        description: Option<String>,
+        /// Convention in which the trials' velocities are recorded.
+        #[arg(long, value_enum, default_value = "normal-to-flyer")]
+        convention: ConventionArg,
+        /// Who maintains the file (default: $USER).
+        #[arg(long, value_name = "TEXT")]
+        maintainer: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Record one trial shot in a pair window (appended; the rest of the file is kept byte for byte).
+    #[command(
+        after_help = "Example:\n  oblique --library ./shop pair observe al-on-cu --velocity 320m/s --angle 9deg --outcome welded --source \"shot log 2026-11-30 #4\""
+    )]
+    Observe {
+        /// Pair name.
+        name: String,
+        /// Measured impact velocity in the pair's convention, e.g. 320m/s.
+        #[arg(long, value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
+        velocity: f64,
+        /// Collision angle, strictly between 0 and 90 deg, e.g. 9deg.
+        #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+        angle: f64,
+        /// What the section or peel test showed.
+        #[arg(long, value_enum)]
+        outcome: OutcomeArg,
+        /// Report, shot log or paper the shot comes from.
+        #[arg(long, value_name = "TEXT")]
+        source: String,
+        /// Free note.
+        #[arg(long, value_name = "TEXT")]
+        note: Option<String>,
+        /// Process that drove the flyer.
+        #[arg(long, value_enum, default_value = "magnetic-pulse")]
+        process: ProcessArg,
+        /// How velocity and angle were obtained.
+        #[arg(long, value_enum, default_value = "measured")]
+        method: MethodArg,
+        /// Standard uncertainty of the velocity, e.g. 15m/s.
+        #[arg(long = "velocity-uncertainty", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
+        velocity_uncertainty: Option<f64>,
+        /// Standard uncertainty of the angle, e.g. 1deg.
+        #[arg(long = "angle-uncertainty", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+        angle_uncertainty: Option<f64>,
+        /// Date of the shot, YYYY-MM-DD (default: today).
+        #[arg(long, value_name = "DATE", value_parser = qarg::date)]
+        date: Option<String>,
+        /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
+        #[arg(long = "if-unchanged", value_name = "SHA256")]
+        if_unchanged: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Import many shots from a CSV file (all rows are checked before anything is written).
+    #[command(
+        after_help = "CSV header (units in brackets; velocity in m/s or km/s, angle in deg or rad):
+  velocity[m/s],angle[deg],outcome,source,process,method,date,note,velocity_uncertainty[m/s],angle_uncertainty[deg]
+The first four columns are required; the others are optional."
+    )]
+    Import {
+        /// Pair name.
+        name: String,
+        /// CSV file.
+        file: PathBuf,
+        /// Refuse to write unless the pair file still has this SHA-256 (from `pair show --json`).
+        #[arg(long = "if-unchanged", value_name = "SHA256")]
+        if_unchanged: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Validate pair window files (default: the whole library); every problem at once, exit 2 if any.
+    Validate {
+        /// Files to validate.
+        files: Vec<PathBuf>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Compare the window's predictions with its trial observations.
+    Agreement {
+        /// Pair name.
+        name: String,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
+}
+
 pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
     match c {
         PairCommand::List { json } => {
@@ -233,6 +401,17 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             {
                 return Err(Fail::input(format!("pair name '{name}' must be non-empty, without spaces or slashes, and not start with a dot")));
             }
+            if name.len() > MAX_PAIR_NAME {
+                return Err(Fail::input(format!(
+                    "pair name of {} bytes is too long (at most {MAX_PAIR_NAME}): it is also the file name",
+                    name.len()
+                )));
+            }
+            if RESERVED_NAMES.contains(&name.to_ascii_lowercase().as_str()) {
+                return Err(Fail::input(format!(
+                    "pair name '{name}' is reserved: the library folder uses {name}.ron (or {name}/) for something else\n  hint: name the pair after its materials, e.g. al6061-on-cu-1mm"
+                )));
+            }
             let who = maintainer
                 .or_else(|| std::env::var("USER").ok())
                 .unwrap_or_else(|| "unknown".into());
@@ -302,9 +481,12 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 source,
                 note,
             };
-            let expected = if_unchanged.as_deref().or(Some(w.origin.sha256.as_str()));
-            let updated = append_observations(&path, &[entry], &lib.materials, expected)
-                .map_err(write_fail)?;
+            // The append re-reads and re-validates the file under the folder's lock, so a shot
+            // recorded meanwhile by another process is kept; only --if-unchanged pins the file.
+            note_target(&path);
+            let updated =
+                append_observations(&path, &[entry], &lib.materials, if_unchanged.as_deref())
+                    .map_err(write_fail)?;
             finish_append(&updated, &path, 1, json)
         }
         PairCommand::Import {
@@ -316,17 +498,16 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
             let lib = load_library(dirs)?;
             let w = lib.pair(&name).map_err(Fail::input)?;
             let path = user_file(w)?;
-            let entries = read_import_csv(&file)?;
-            if entries.is_empty() {
+            let rows = read_import_csv(&file)?;
+            if rows.is_empty() {
                 return Err(Fail::input(format!("{}: no data rows", file.display())));
             }
-            let updated = append_observations(
-                &path,
-                &entries,
-                &lib.materials,
-                Some(if_unchanged.as_deref().unwrap_or(&w.origin.sha256)),
-            )
-            .map_err(write_fail)?;
+            precheck_import(&path, &file, &rows, &lib)?;
+            let entries: Vec<ObservationEntry> = rows.into_iter().map(|(_, e)| e).collect();
+            note_target(&path);
+            let updated =
+                append_observations(&path, &entries, &lib.materials, if_unchanged.as_deref())
+                    .map_err(write_fail)?;
             finish_append(&updated, &path, entries.len(), json)
         }
         PairCommand::Validate { files, json } => validate(dirs, &files, json),
@@ -342,6 +523,23 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 return emit_json(&v);
             }
             emit(&agreement_human(w, &a))
+        }
+    }
+}
+
+/// Names a pair file may not take: the library reads `materials.ron` as a materials file and
+/// `machines/` as the machine folder.
+const RESERVED_NAMES: [&str; 2] = ["materials", "machines"];
+
+/// The longest pair name (it is also the file name; file systems allow 255 bytes, and the
+/// temporary name of a safe write adds about 40).
+const MAX_PAIR_NAME: usize = 100;
+
+/// Say so when a library file is written through a symbolic link.
+fn note_target(path: &Path) {
+    if let Ok(t) = oblique_window::write::resolve_target(path) {
+        if let Some(n) = t.note(path) {
+            eprintln!("note: {n}");
         }
     }
 }
@@ -366,12 +564,24 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
 }
 
 /// Read an import CSV: units in the header brackets, every row checked, all problems reported.
-fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
+/// The 1-based line of a byte offset.
+fn line_of(bytes: &[u8], offset: u64) -> u64 {
+    let mut end = usize::try_from(offset)
+        .unwrap_or(usize::MAX)
+        .min(bytes.len());
+    // A record after blank lines starts, for the reader, at the first of them.
+    while end < bytes.len() && matches!(bytes[end], b'\n' | b'\r') {
+        end += 1;
+    }
+    1 + bytes[..end].iter().filter(|&&b| b == b'\n').count() as u64
+}
+
+fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEntry)>> {
     let display = file.display().to_string();
+    let bytes = std::fs::read(file).map_err(|e| Fail::input(format!("{display}: {e}")))?;
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
-        .from_path(file)
-        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
+        .from_reader(&bytes[..]);
     let headers = rdr
         .headers()
         .map_err(|e| Fail::input(format!("{display}: {e}")))?
@@ -405,6 +615,13 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
                 near.map_or(String::new(), |n| format!("\n  hint: did you mean '{n}'?"))
             )));
         };
+        if let Some((first, _)) = cols.get(k) {
+            return Err(Fail::input(format!(
+                "{display}:1: column '{k}' appears twice (columns {} and {})\n  hint: keep one; oblique never picks one of two silently",
+                first + 1,
+                i + 1
+            )));
+        }
         cols.insert(k, (i, unit));
     }
     for required in ["velocity", "angle", "outcome", "source"] {
@@ -450,7 +667,14 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
     let mut problems = Vec::new();
     let mut out = Vec::new();
     for (n, rec) in rdr.records().enumerate() {
-        let row = n + 2;
+        let fallback_row = n as u64 + 2;
+        // The row is the file's line (blank lines and a byte-order mark counted), from the
+        // record's byte offset: the CSV reader's own line count skips blank lines.
+        let row = rec
+            .as_ref()
+            .ok()
+            .and_then(|r| r.position())
+            .map_or(fallback_row, |p| line_of(&bytes, p.byte()));
         let rec = match rec {
             Ok(r) => r,
             Err(e) => {
@@ -541,7 +765,7 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
                 ));
             }
         }
-        out.push(entry);
+        out.push((row, entry));
     }
     if problems.is_empty() {
         Ok(out)
@@ -554,14 +778,69 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<ObservationEntry>> {
     }
 }
 
+/// Validate the imported rows as the pair file would after the import, and word every problem
+/// at its CSV row and column (never at lines of a pair file that does not exist yet).
+fn precheck_import(
+    pair_path: &Path,
+    csv_path: &Path,
+    rows: &[(u64, ObservationEntry)],
+    lib: &Library,
+) -> CmdResult {
+    let Ok(text) = std::fs::read_to_string(pair_path) else {
+        return Ok(()); // the append itself reports an unreadable file
+    };
+    let origin = |t: &str| Origin {
+        display: pair_path.display().to_string(),
+        path: Some(pair_path.to_path_buf()),
+        sha256: sha256_hex(t.as_bytes()),
+    };
+    let Ok((_, before)) = parse_pair_file(origin(&text), &text, &lib.materials) else {
+        return Ok(()); // a file already invalid: the append reports it
+    };
+    let n_old = before.observations.len();
+    let entries: Vec<ObservationEntry> = rows.iter().map(|(_, e)| e.clone()).collect();
+    let Ok(new_text) = oblique_window::write::append_observation_text(pair_path, &text, &entries)
+    else {
+        return Ok(());
+    };
+    let Err(d) = parse_pair_file(origin(&new_text), &new_text, &lib.materials) else {
+        return Ok(());
+    };
+    let csv_display = csv_path.display();
+    let mut lines = Vec::new();
+    for p in &d.0 {
+        let mapped = p
+            .field
+            .strip_prefix("observations[")
+            .and_then(|rest| rest.split_once(']'))
+            .and_then(|(k, field)| Some((k.parse::<usize>().ok()?, field)))
+            .filter(|(k, _)| *k >= n_old)
+            .and_then(|(k, field)| Some((rows.get(k - n_old)?.0, field.trim_start_matches('.'))));
+        match mapped {
+            Some((row, field)) => {
+                let mut l = format!("{csv_display}:{row}: field '{field}': {}", p.message);
+                if let Some(h) = &p.hint {
+                    l.push_str(&format!("\n  hint: {h}"));
+                }
+                lines.push(l);
+            }
+            None => lines.push(p.to_string()),
+        }
+    }
+    Err(Fail::input(format!(
+        "{}\n{} problem(s); nothing was written",
+        lines.join("\n"),
+        lines.len()
+    )))
+}
+
 fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdResult {
     let mut problems: Vec<oblique_window::Diagnostic> = Vec::new();
     let mut checked = Vec::new();
     if files.is_empty() {
-        match Library::load(&user_dirs(dirs)) {
-            Ok(lib) => checked.extend(lib.files.iter().map(|f| f.display.clone())),
-            Err(d) => problems.extend(d.0),
-        }
+        let lib = Library::load(&user_dirs(dirs))?;
+        checked.extend(lib.files.iter().map(|f| f.display.clone()));
+        problems.extend(lib.all_problems());
     } else {
         // Materials come from the library (which must itself load).
         let lib = Library::load(&user_dirs(dirs))?;

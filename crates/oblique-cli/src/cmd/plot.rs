@@ -1,16 +1,15 @@
 //! `oblique plot`: the window with trials, proposed points and process curves, as SVG.
 
-use crate::cli::ConventionArg;
-use crate::cmd::check::ad_hoc_window;
-use crate::cmd::{load_library, need};
+use crate::args::ConventionArg;
+use crate::common::{ad_hoc_window, read_point_csv, write_output};
+use crate::common::{load_library, need};
 use crate::fail::{CmdResult, Fail};
 use crate::qarg;
 use clap::{Args, ValueEnum};
-use oblique_core::units::{parse_quantity, QuantityKind};
 use oblique_render::window_plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
 use oblique_window::boundary::Plane;
 use oblique_window::PairWindow;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub enum PlaneArg {
@@ -70,69 +69,6 @@ pub struct PlotArgs {
     pub output: PathBuf,
 }
 
-/// Read `velocity[unit],angle[unit][,label]` rows.
-pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>> {
-    let display = path.display().to_string();
-    let mut rdr = csv::ReaderBuilder::new()
-        .trim(csv::Trim::All)
-        .from_path(path)
-        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
-    let headers = rdr
-        .headers()
-        .map_err(|e| Fail::input(format!("{display}: {e}")))?
-        .clone();
-    let mut vcol = None;
-    let mut acol = None;
-    let mut lcol = None;
-    for (i, h) in headers.iter().enumerate() {
-        let (name, unit) = match h.split_once('[') {
-            Some((n, u)) => (n.trim(), Some(u.trim_end_matches(']').trim().to_string())),
-            None => (h.trim(), None),
-        };
-        match name {
-            "velocity" => vcol = Some((i, unit)),
-            "angle" => acol = Some((i, unit)),
-            "label" => lcol = Some(i),
-            _ => {}
-        }
-    }
-    let (Some((vi, Some(vu))), Some((ai, Some(au)))) = (vcol, acol) else {
-        return Err(Fail::input(format!("{display}:1: the header needs velocity[UNIT] and angle[UNIT] columns, e.g. velocity[m/s],angle[deg],label")));
-    };
-    let mut out = Vec::new();
-    for (n, rec) in rdr.records().enumerate() {
-        let row = n + 2;
-        let rec = rec.map_err(|e| Fail::input(format!("{display}:{row}: {e}")))?;
-        let v = parse_quantity(
-            &format!("{} {vu}", rec.get(vi).unwrap_or("")),
-            QuantityKind::Velocity,
-        )
-        .map_err(|e| Fail::input(format!("{display}:{row}: field 'velocity': {e}")))?;
-        let a = parse_quantity(
-            &format!("{} {au}", rec.get(ai).unwrap_or("")),
-            QuantityKind::Angle,
-        )
-        .map_err(|e| Fail::input(format!("{display}:{row}: field 'angle': {e}")))?;
-        if !(v > 0.0) {
-            return Err(Fail::input(format!(
-                "{display}:{row}: field 'velocity': must be above zero"
-            )));
-        }
-        let d = a.to_degrees();
-        if !(d > 0.0 && d < 90.0) {
-            return Err(Fail::input(format!(
-                "{display}:{row}: field 'angle': {d} deg is outside (0, 90) deg"
-            )));
-        }
-        let label = lcol
-            .and_then(|i| rec.get(i))
-            .map(str::to_string)
-            .filter(|s| !s.is_empty());
-        out.push((v, a, label));
-    }
-    Ok(out)
-}
-
 /// The window for plot/report: a pair, or one made from flags.
 pub fn window_from(
     dirs: &[PathBuf],
@@ -162,18 +98,6 @@ pub fn window_from(
             .into(),
         ),
     }
-}
-
-/// Write a file the user asked for, atomically.
-pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
-    use oblique_window::write::WriteError;
-    oblique_window::write::atomic_write(path, bytes, None).map_err(|e| match e {
-        WriteError::Io { source, .. } => Fail::input(format!(
-            "{}: cannot write: {source}\n  hint: check that the folder exists and is writable",
-            path.display()
-        )),
-        other => Fail::other(format!("cannot write {}: {other}", path.display())),
-    })
 }
 
 pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {

@@ -1,9 +1,9 @@
 //! `oblique report`: the decision report for one proposed point.
 
-use crate::cli::{ConstantArgs, ConventionArg, VelocityInput};
-use crate::cmd::check::{apply_constants, classify_given};
-use crate::cmd::load_library;
-use crate::cmd::plot::{read_point_csv, write_output};
+use crate::args::{ConstantArgs, ConventionArg, VelocityInput};
+use crate::common::classify_given;
+use crate::common::load_library;
+use crate::common::{read_point_csv, write_output};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json};
 use crate::qarg;
@@ -50,7 +50,7 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         .pair(&a.pair)
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
-    window.criteria = apply_constants(window.criteria.clone(), &a.constants);
+    window.criteria = a.constants.apply(window.criteria.clone());
     let (_, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     let agr = agreement(&window)?;
     let mut curves = Vec::new();

@@ -3,6 +3,7 @@
 mod check;
 mod pair;
 mod report;
+mod safety;
 
 use std::path::Path;
 use std::process::{Command, Output};

@@ -1188,7 +1188,7 @@ pub(crate) fn run(
         track_peaks(&s, &mut peak_current, &mut peak_eff);
         let at_rest_for_good = !plant.held && s[V] == 0.0 && plant.cannot_restart(&s);
         if let Some(k) = every {
-            if step % k == 0 || step == n_steps || at_rest_for_good {
+            if step.is_multiple_of(k) || step == n_steps || at_rest_for_good {
                 history.push(plant.sample(t, &s));
             }
         }

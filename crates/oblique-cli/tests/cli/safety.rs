@@ -1,0 +1,524 @@
+//! Data safety under concurrent writers and special files (each test failed before the folder
+//! lock, the target resolution and the string-aware append existed).
+
+use super::*;
+use std::path::Path;
+
+fn new_pair(dir: &Path, name: &str) -> std::process::Output {
+    run_in(
+        dir,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "new",
+            name,
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+        ],
+    )
+}
+
+fn observe(dir: &Path, name: &str, source: &str) -> std::process::Output {
+    run_in(
+        dir,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            name,
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            source,
+        ],
+    )
+}
+
+#[test]
+fn two_concurrent_writers_never_lose_an_acknowledged_shot() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "race").status.code(), Some(0));
+    const PER_WRITER: usize = 60;
+    let writers: Vec<_> = (0..2)
+        .map(|w| {
+            let d = dir.path().to_path_buf();
+            std::thread::spawn(move || {
+                let mut acked = Vec::new();
+                for i in 0..PER_WRITER {
+                    let tag = format!("writer {w} shot {i}");
+                    let o = observe(&d, "race", &tag);
+                    if o.status.code() == Some(0) {
+                        acked.push(tag);
+                    } else {
+                        assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
+                    }
+                }
+                acked
+            })
+        })
+        .collect();
+    let mut acked = Vec::new();
+    for w in writers {
+        acked.extend(w.join().expect("writer thread"));
+    }
+    let text = std::fs::read_to_string(dir.path().join("race.ron")).expect("pair file");
+    for tag in &acked {
+        assert!(
+            text.contains(&format!("\"{tag}\"")),
+            "acknowledged shot '{tag}' is missing"
+        );
+    }
+    assert_eq!(
+        text.matches("source:").count(),
+        acked.len(),
+        "the file holds other shots than the acknowledged ones"
+    );
+    // With the lock, writers wait for each other instead of failing.
+    assert_eq!(acked.len(), 2 * PER_WRITER);
+}
+
+#[test]
+fn pair_new_from_two_processes_creates_once_and_never_replaces() {
+    for round in 0..10 {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let name = format!("twin{round}");
+        let handles: Vec<_> = (0..2)
+            .map(|_| {
+                let d = dir.path().to_path_buf();
+                let n = name.clone();
+                std::thread::spawn(move || new_pair(&d, &n).status.code())
+            })
+            .collect();
+        let codes: Vec<Option<i32>> = handles
+            .into_iter()
+            .map(|h| h.join().expect("thread"))
+            .collect();
+        let created = codes.iter().filter(|c| **c == Some(0)).count();
+        assert_eq!(created, 1, "round {round}: exit codes {codes:?}");
+    }
+}
+
+#[cfg(unix)]
+#[test]
+fn a_symlinked_pair_file_gets_the_shot_and_stays_a_link() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let shared = tempfile::tempdir().expect("shared dir");
+    assert_eq!(new_pair(shared.path(), "shared").status.code(), Some(0));
+    std::os::unix::fs::symlink(
+        shared.path().join("shared.ron"),
+        dir.path().join("shared.ron"),
+    )
+    .expect("symlink");
+    let o = observe(dir.path(), "shared", "via the link");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).contains("symbolic link"), "{}", stderr(&o));
+    let link = dir.path().join("shared.ron");
+    assert!(std::fs::symlink_metadata(&link)
+        .expect("meta")
+        .file_type()
+        .is_symlink());
+    let target = std::fs::read_to_string(shared.path().join("shared.ron")).expect("target");
+    assert!(target.contains("via the link"));
+}
+
+#[cfg(unix)]
+#[test]
+fn a_pair_file_keeps_its_mode() {
+    use std::os::unix::fs::PermissionsExt;
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "private").status.code(), Some(0));
+    let p = dir.path().join("private.ron");
+    for mode in [0o600, 0o664] {
+        std::fs::set_permissions(&p, std::fs::Permissions::from_mode(mode)).expect("chmod");
+        let o = observe(dir.path(), "private", "mode test");
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        let now = std::fs::metadata(&p).expect("meta").permissions().mode() & 0o777;
+        assert_eq!(now, mode, "mode {mode:o} became {now:o}");
+    }
+}
+
+#[cfg(unix)]
+#[test]
+fn outputs_to_a_fifo_or_a_device_are_written_in_place() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let fifo = dir.path().join("plot.svg");
+    let status = std::process::Command::new("mkfifo")
+        .arg(&fifo)
+        .status()
+        .expect("mkfifo runs");
+    assert!(status.success());
+    let reader = {
+        let f = fifo.clone();
+        std::thread::spawn(move || std::fs::read(f).expect("read the fifo"))
+    };
+    let o = run_in(
+        dir.path(),
+        &[
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--point",
+            "450m/s,10deg",
+            "-o",
+            fifo.to_str().expect("utf-8"),
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let got = reader.join().expect("reader");
+    assert!(got.starts_with(b"<svg"), "the SVG went through the pipe");
+    let meta = std::fs::symlink_metadata(&fifo).expect("meta");
+    use std::os::unix::fs::FileTypeExt;
+    assert!(
+        meta.file_type().is_fifo(),
+        "the FIFO was replaced by a file"
+    );
+    // A device is written in place, never replaced (needs no privileges: /dev/null).
+    let input = dir.path().join("in.csv");
+    std::fs::write(
+        &input,
+        "position[mm],velocity[m/s],angle[deg]\n0,400,10\n1,410,11\n",
+    )
+    .expect("input");
+    let o = run(&[
+        "map",
+        input.to_str().expect("utf-8"),
+        "--pair",
+        "demo-al6061-on-cu",
+        "-o",
+        "/dev/null",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(std::fs::symlink_metadata("/dev/null")
+        .expect("meta")
+        .file_type()
+        .is_char_device());
+}
+
+#[test]
+fn one_broken_pair_file_does_not_break_the_library() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "good").status.code(), Some(0));
+    std::fs::write(
+        dir.path().join("broken.ron"),
+        "(\n    format: \"oblique-window/1\",\n    name: \"broken\",\n    flyer: 12,\n)\n",
+    )
+    .expect("write");
+    let lib = dir.path().to_str().expect("utf-8");
+    // Commands that do not need the broken file warn once and carry on.
+    for args in [
+        vec!["--library", lib, "material", "list"],
+        vec![
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "good",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+        ],
+        vec![
+            "--library",
+            lib,
+            "check",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--convention",
+            "normal-to-flyer",
+        ],
+    ] {
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(0), "{args:?}: {}", stderr(&o));
+        let err = stderr(&o);
+        assert_eq!(err.matches("warning: skipped").count(), 1, "{err}");
+        assert!(err.contains("broken.ron:"), "{err}");
+    }
+    // The command that needs it fails with the diagnostics, position included.
+    let o = run(&[
+        "--library",
+        lib,
+        "check",
+        "--pair",
+        "broken",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("could not be loaded"), "{err}");
+    assert!(err.contains("broken.ron:4:"), "{err}");
+    // And pair validate lists it with exit 2.
+    let o = run(&["--library", lib, "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2));
+}
+
+#[test]
+fn the_same_folder_twice_is_read_once() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "once").status.code(), Some(0));
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&["--library", lib, "--library", lib, "pair", "list"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("duplicate"), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("shadows"), "{}", stderr(&o));
+    let o = std::process::Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args(["--library", lib, "pair", "list"])
+        .env("OBLIQUE_LIBRARY", lib)
+        .output()
+        .expect("runs");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("duplicate"), "{}", stderr(&o));
+}
+
+#[test]
+fn reserved_and_overlong_pair_names_are_refused() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    for name in ["materials", "Machines"] {
+        let o = new_pair(dir.path(), name);
+        assert_eq!(o.status.code(), Some(2), "{name}");
+        assert!(stderr(&o).contains("reserved"), "{}", stderr(&o));
+    }
+    let long = "p".repeat(245);
+    let o = new_pair(dir.path(), &long);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("too long"), "{}", stderr(&o));
+    assert!(!dir.path().join("materials.ron").exists());
+}
+
+#[test]
+fn hostile_text_stays_text_in_svg_html_and_the_terminal() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "hostile").status.code(), Some(0));
+    let lib = dir.path().to_str().expect("utf-8");
+    let evil = "shot \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed nul\u{0}";
+    // A NUL cannot pass through a command line: the file gets it as a RON escape.
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "hostile",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "shot \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let path = dir.path().join("hostile.ron");
+    let text = std::fs::read_to_string(&path).expect("pair");
+    let text = text.replace(
+        "    boundaries: [\n    ],",
+        &format!(
+            "    boundaries: [\n        (label: {}, plane: \"angle-impact-velocity\", weld_side: \"right\", points: [(\"300 m/s\", \"5 deg\"), (\"300 m/s\", \"20 deg\")], provenance: \"test\"),\n    ],",
+            oblique_window::write::ron_string(evil)
+        ),
+    );
+    std::fs::write(&path, text).expect("write");
+    for args in [
+        vec!["--library", lib, "pair", "show", "hostile"],
+        vec!["--library", lib, "pair", "agreement", "hostile"],
+        vec![
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "hostile",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+        ],
+    ] {
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(0), "{args:?}: {}", stderr(&o));
+        for b in [&o.stdout, &o.stderr] {
+            assert!(!b.contains(&0x1b), "{args:?}: raw ESC reached the terminal");
+            assert!(!b.contains(&0x07), "{args:?}: raw BEL reached the terminal");
+            assert!(
+                !b.contains(&0x0c),
+                "{args:?}: raw form feed reached the terminal"
+            );
+        }
+    }
+    let svg = dir.path().join("w.svg");
+    let html = dir.path().join("r.html");
+    let o = run(&[
+        "--library",
+        lib,
+        "plot",
+        "--pair",
+        "hostile",
+        "--point",
+        "400m/s,10deg",
+        "-o",
+        svg.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let s = std::fs::read_to_string(&svg).expect("svg");
+    roxmltree::Document::parse(&s).expect("the SVG is well-formed XML");
+    let o = run(&[
+        "--library",
+        lib,
+        "report",
+        "--pair",
+        "hostile",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        html.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let h = std::fs::read(&html).expect("html");
+    for bad in [0u8, 0x1b, 0x07, 0x0c] {
+        assert!(!h.contains(&bad), "byte {bad:#x} in the report");
+    }
+}
+
+#[test]
+fn absurd_observations_and_dates_are_refused_naming_the_field() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "absurd").status.code(), Some(0));
+    let path = dir.path().join("absurd.ron");
+    let text = std::fs::read_to_string(&path).expect("pair").replace(
+        "    observations: [\n    ],",
+        "    observations: [\n        (velocity: \"1e200 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"x\"),\n    ],",
+    );
+    std::fs::write(&path, text).expect("write");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&["--library", lib, "pair", "agreement", "absurd"]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("absurd.ron:"), "{err}");
+    assert!(err.contains("observations[0].velocity"), "{err}");
+    assert!(err.contains("10 km/s"), "{err}");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "absurd",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "x",
+        "--date",
+        "9999-12-31",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("outside the accepted years 1900-2999"),
+        "{}",
+        stderr(&o)
+    );
+}
+
+#[test]
+fn values_no_relation_covers_are_refused_naming_the_flag() {
+    for (flag, value, needle) in [
+        ("--velocity", "1e-320m/s", "1 mm/s to 100 km/s"),
+        ("--velocity", "1e308m/s", "1 mm/s to 100 km/s"),
+        ("--angle", "1e-300deg", "head-on"),
+        ("--deribas-k", "1e308", "up to 1e6"),
+        ("--deribas-k", "6", "published range"),
+    ] {
+        let mut args = vec!["check", "--pair", "demo-al6061-on-cu"];
+        if flag != "--velocity" {
+            args.extend(["--velocity", "400m/s"]);
+        }
+        if flag != "--angle" {
+            args.extend(["--angle", "10deg"]);
+        }
+        args.extend([flag, value]);
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        let err = stderr(&o);
+        assert!(err.contains(flag), "{err}");
+        assert!(err.contains(needle), "{err}");
+        assert!(!err.contains("did not converge"), "{err}");
+    }
+}
+
+#[test]
+fn pair_import_words_problems_at_the_csv_row_and_refuses_a_doubled_column() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "imp").status.code(), Some(0));
+    let lib = dir.path().to_str().expect("utf-8");
+    let csv = dir.path().join("shots.csv");
+    let import = |body: &str| {
+        std::fs::write(&csv, body).expect("csv");
+        run(&[
+            "--library",
+            lib,
+            "pair",
+            "import",
+            "imp",
+            csv.to_str().expect("utf-8"),
+        ])
+    };
+    let o = import("velocity[m/s],angle[deg],outcome,source,source\n400,10,welded,a,b\n");
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("column 'source' appears twice"),
+        "{}",
+        stderr(&o)
+    );
+    let o = import(
+        "velocity[m/s],angle[deg],outcome,source,process\n400,10,welded,a,magnetic-pulse\n\n400,10,welded,a,foo\n",
+    );
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.contains("shots.csv:4: field 'process'"), "{err}");
+    assert!(!err.contains("imp.ron:"), "{err}");
+    // A byte-order mark and a blank line before the header are fine.
+    let o = import("\u{feff}\nvelocity[m/s],angle[deg],outcome,source\n400,10,welded,a\n");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+}
+
+#[test]
+fn a_pair_file_with_a_byte_order_mark_loads_and_keeps_it() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "bom").status.code(), Some(0));
+    let path = dir.path().join("bom.ron");
+    let text = std::fs::read_to_string(&path).expect("pair");
+    std::fs::write(&path, format!("\u{feff}{}", text.replace('\n', "\r\n"))).expect("write");
+    let o = observe(dir.path(), "bom", "after the BOM");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let after = std::fs::read_to_string(&path).expect("pair");
+    assert!(after.starts_with('\u{feff}'));
+    assert!(after.contains("after the BOM"));
+    assert!(
+        !after.replace("\r\n", "").contains('\n'),
+        "CRLF kept throughout"
+    );
+}
