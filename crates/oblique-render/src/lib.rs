@@ -1,9 +1,10 @@
 //! # oblique-render
 //!
 //! Pictures and documents from typed results: the weldability-window plot (SVG and PNG) with
-//! trials, proposed points and process curves, and the self-contained HTML and JSON decision
-//! report. Nothing here parses flags or reads files; every function takes the window, the
-//! classification or the ranking it draws, and returns a `String` or bytes.
+//! trials, proposed points and process curves, the weld map's strip along the interface and its
+//! points on the window plane, and the self-contained HTML and JSON decision report. Nothing
+//! here parses flags or reads files; every function takes the window, the classification, the
+//! ranking or the map summary it draws, and returns a `String` or bytes.
 //!
 //! ```
 //! use oblique_render::window_plot::{render_svg, PlotRequest, ProposedPoint};
@@ -31,6 +32,7 @@
 
 pub mod error;
 pub mod report;
+pub mod weld_map;
 pub mod window_plot;
 
 pub use error::{RenderError, RenderResult};
