@@ -30,16 +30,17 @@
 //! ```
 //!
 //! Modules, from the bottom up: `format` (fast number text, escaping), `record` (what a
-//! worker hands back per row), [`classifier`] (the per-point classification, bit for bit that
-//! of `oblique_window::classify`), `input` (header, record splitting, numbers, the chunking
-//! source), `summary` (the streaming summary and its renderings), `pipeline` (reader, workers,
-//! the in-order hand-back), `engine` ([`WeldMap`], [`classify_stream`]).
+//! worker hands back per row), `options` ([`MapOptions`]), `classifier` ([`Classifier`], the
+//! per-point classification, bit for bit that of `oblique_window::classify`), `input` (header,
+//! record splitting, numbers, the chunking source), `summary` ([`Summary`] and its renderings),
+//! `pipeline` (reader, workers, the in-order hand-back), `engine` ([`WeldMap`],
+//! [`classify_stream`]). Each imports only from those before it.
 // Negated comparisons such as `!(x > 0.0)` are deliberate: they reject NaN together with
 // out-of-range values, which the suggested rewrite would let through.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 #![deny(missing_docs)]
 
-pub mod classifier;
+mod classifier;
 mod engine;
 mod error;
 mod format;
@@ -56,6 +57,6 @@ pub use input::{Column, Header};
 pub use options::{BadRows, ColumnNames, ConstantNote, Format, MapOptions};
 pub use record::Rejected;
 pub use summary::{
-    display_margin, Histogram, LimitStat, Run, RunInfo, Sample, StripAcc, Summary, EXAMPLE_CAP,
-    GAP_CAP, MARK_CAP, SAMPLE_CAP, SEGMENT_CAP,
+    Histogram, LimitStat, Run, RunInfo, Sample, StripAcc, Summary, EXAMPLE_CAP, GAP_CAP, MARK_CAP,
+    SAMPLE_CAP, SEGMENT_CAP,
 };

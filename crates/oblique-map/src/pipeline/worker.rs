@@ -67,15 +67,11 @@ impl Worker {
         }
         let h = ctx.header;
         let ranges = &self.fields.ranges;
-        let num = |col: &Column| -> Option<f64> {
-            let &(s, e) = ranges.get(col.index)?;
-            parse_number(line.get(s..e)?).map(|v| v * col.factor)
-        };
-        let position = num(&h.position)?;
-        let velocity = num(&h.velocity)?;
-        let angle = num(&h.angle)?;
+        let position = plain_number(line, ranges, &h.position)?;
+        let velocity = plain_number(line, ranges, &h.velocity)?;
+        let angle = plain_number(line, ranges, &h.angle)?;
         if let Some(t) = &h.time {
-            num(t)?;
+            plain_number(line, ranges, t)?;
         }
         let deg = angle.to_degrees();
         (position.is_finite() && velocity > 0.0 && velocity.is_finite() && deg > 0.0 && deg < 90.0)
@@ -330,6 +326,13 @@ impl Worker {
         }
         Ok(())
     }
+}
+
+/// The value of column `col` of an unquoted CSV line split into `ranges`, in SI.
+#[inline(always)]
+fn plain_number(line: &[u8], ranges: &[(usize, usize)], col: &Column) -> Option<f64> {
+    let &(s, e) = ranges.get(col.index)?;
+    parse_number(line.get(s..e)?).map(|v| v * col.factor)
 }
 
 /// A JSON-lines record as an object whose keys are all among the first line's.

@@ -54,6 +54,7 @@ pub struct LimitStat {
 }
 
 /// The streaming summary.
+#[derive(Debug, Clone)]
 pub struct Summary {
     /// Positions may be in any order (no lengths).
     pub unsorted: bool,
@@ -257,6 +258,7 @@ impl Summary {
     ///
     /// # Errors
     /// The position goes backwards (sorted mode only).
+    #[inline]
     pub(crate) fn push(&mut self, p: &Lite) -> Result<(), OutOfOrder> {
         if !self.unsorted {
             self.along(p)?;

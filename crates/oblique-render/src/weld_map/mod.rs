@@ -1,5 +1,5 @@
 //! The weld map's two plots, SVG through plotters into a `String` (deterministic), drawn from
-//! the map's [`Summary`](oblique_map::Summary):
+//! the map's [`Summary`]:
 //! - [`strip_svg`]: the strip along the interface: verdict by position, with the
 //!   impact-velocity and collision-angle traces below it;
 //! - [`window_plane_svg`]: the window plane: angle against impact velocity, the window's
