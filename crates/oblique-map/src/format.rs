@@ -530,6 +530,7 @@ pub fn push_json_string(out: &mut Vec<u8>, s: &[u8]) {
 }
 
 /// Whether `s` is a number in JSON's grammar (so it may be copied into JSON as is).
+#[inline]
 pub fn is_json_number(s: &[u8]) -> bool {
     let mut i = 0;
     if s.first() == Some(&b'-') {

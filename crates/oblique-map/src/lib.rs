@@ -24,17 +24,17 @@
 //! let mut map = Vec::new();
 //! let summary = classify_stream(window, csv.as_bytes(), &mut map, &MapOptions::default())
 //!     .expect("three good rows");
-//! assert_eq!(summary.rows_classified, 3);
+//! assert_eq!(summary.counts, [2, 1, 0]); // welded, not welded, melted
 //! assert!(String::from_utf8(map).unwrap().starts_with("row,position[mm],"));
-//! print!("{}", summary.to_text());
+//! print!("{}", summary.to_text()); // ends with the caution line
 //! ```
 //!
-//! Modules, from the bottom up: `format` (fast number text, escaping), `record` (what a
-//! worker hands back per row), `options` ([`MapOptions`]), `classifier` ([`Classifier`], the
-//! per-point classification, bit for bit that of `oblique_window::classify`), `input` (header,
-//! record splitting, numbers, the chunking source), `summary` ([`Summary`] and its renderings),
-//! `pipeline` (reader, workers, the in-order hand-back), `engine` ([`WeldMap`],
-//! [`classify_stream`]). Each imports only from those before it.
+//! Modules, from the bottom up, each importing only from those before it: `format` (fast
+//! number text, escaping), `record` (what a worker hands back per row), `error` ([`MapError`]),
+//! `classifier` ([`Classifier`], the per-point classification, the same verdicts and margins
+//! as `oblique_window::classify`), `options` ([`MapOptions`]), `input` (header, record splitting,
+//! numbers, the chunking source), `summary` ([`Summary`] and its renderings), `pipeline` (reader,
+//! workers, the in-order hand-back), `engine` ([`WeldMap`], [`classify_stream`]).
 // Negated comparisons such as `!(x > 0.0)` are deliberate: they reject NaN together with
 // out-of-range values, which the suggested rewrite would let through.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]

@@ -250,7 +250,8 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         Some(p) => match AtomicFile::create(p, "--bad-rows save:") {
             Ok(f) => Some(f),
             Err(fail) => {
-                // The map's header went out before the side file was opened.
+                // The map's header line has always gone out before the side file is created:
+                // keep that order (standard output shows the header, then the error).
                 out.write_all(&map.map_header())
                     .map_err(|e| out.write_failure(&e))?;
                 return Err(fail);

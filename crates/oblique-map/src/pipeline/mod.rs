@@ -3,19 +3,20 @@
 //! and the calling thread takes the chunks back in file order (summary, writing). A fixed set of
 //! slots circulates between the three, so memory stays bounded whatever the input size.
 //!
-//! `layout` holds what the workers share (the output's columns, precomputed text), `worker`
-//! one worker's loop over the records of a chunk, `columns` the computed columns of a row.
+//! `slot` is the unit of work, `layout` what the workers share (the output's columns,
+//! precomputed text), `worker` one worker's loop over the records of a chunk, `columns` the
+//! computed columns of a row.
 
 mod columns;
 mod layout;
+mod slot;
 mod worker;
 
 pub use layout::Ctx;
+pub use slot::Slot;
 
-use crate::format::TextBuf;
 use crate::input::{Source, MAX_RECORD};
 use crate::options::Format;
-use crate::record::{Lite, Rejected};
 use std::collections::BTreeMap;
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::mpsc::{sync_channel, Receiver};
@@ -26,64 +27,6 @@ use worker::Worker;
 pub const CHUNK: usize = 256 * 1024;
 /// Line breaks per chunk at most (bounds the output of a chunk of very short rows).
 pub const CHUNK_LINES: usize = 8192;
-/// Per-chunk counts, merged in order by the caller.
-#[derive(Debug, Default, Clone)]
-pub struct ChunkStats {
-    /// Rows with data.
-    pub rows_read: u64,
-    /// Blank lines.
-    pub blank: u64,
-    /// Rejected rows.
-    pub rejected: u64,
-    /// Rows outside the span of a boundary.
-    pub outside: u64,
-    /// Welded rows outside the span of some boundary (welded by the model limits and the
-    /// boundaries that do span them).
-    pub welded_outside: u64,
-    /// Rows solved directly for jetting.
-    pub jetting_direct: u64,
-    /// Smallest margin per limit among welded rows, with its row.
-    pub welded_min: Vec<Option<(f64, u64)>>,
-    /// Binding-limit counts of unwelded rows.
-    pub unwelded_binding: Vec<[u64; 2]>,
-}
-
-/// A unit of work and its results; slots are recycled.
-#[derive(Default)]
-pub struct Slot {
-    /// Chunk number.
-    pub seq: u64,
-    /// Line number of the first record.
-    pub first_line: u64,
-    /// Input bytes.
-    pub data: Vec<u8>,
-    /// Whether `data` holds a double quote (else every record is one plain line).
-    pub has_quote: bool,
-    /// Output text.
-    pub out: TextBuf,
-    /// Side-file text (save mode).
-    pub bad_out: Vec<u8>,
-    /// Classified points.
-    pub lites: Vec<Lite>,
-    /// Rejected rows.
-    pub bad: Vec<Rejected>,
-    /// Counts.
-    pub stats: ChunkStats,
-    /// Stop mode: a bad row ended this chunk (it is the last of `bad`).
-    pub stopped: bool,
-}
-
-impl Slot {
-    fn reset(&mut self) {
-        self.data.clear();
-        self.out.clear();
-        self.bad_out.clear();
-        self.lites.clear();
-        self.bad.clear();
-        self.stats = ChunkStats::default();
-        self.stopped = false;
-    }
-}
 
 /// Run the pipeline: `source` positioned after the header; `first_line` is the line number of
 /// the first record; `sink` sees each chunk in file order. Returns the reader's I/O error, if

@@ -4,7 +4,7 @@
 
 use super::columns::{computed_csv, computed_json};
 use super::layout::Ctx;
-use super::Slot;
+use super::slot::Slot;
 use crate::classifier::Point;
 use crate::format::{
     fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, Counter, TextBuf,

@@ -69,3 +69,50 @@ fn title_text(info: &RunInfo, what: &str) -> String {
         info.pair, info.pair_line, info.convention
     )
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use oblique_map::{MapOptions, WeldMap};
+    use oblique_window::Library;
+
+    /// Both plots of a small map of the demo pair (an invented window) are well-formed SVG with
+    /// their titles, the caution, and one marker per point on the window plane.
+    #[test]
+    fn both_plots_of_a_small_map() {
+        let lib = Library::load(&[]).expect("the built-in library loads");
+        let window = lib.pair("demo-al6061-on-cu").expect("the demo pair");
+        let csv = "position[mm],velocity[m/s],angle[deg]\n0.0,250,12\n0.5,450,10\n1.0,460,11\n1.5,900,12\n";
+        let opts = MapOptions {
+            collect_strip: true,
+            collect_window_plane: true,
+            ..MapOptions::default()
+        };
+        let mut map = WeldMap::open(window, csv.as_bytes(), &opts).expect("a good header");
+        let summary = map
+            .run(&mut std::io::sink(), None, &mut |_| {})
+            .expect("four good rows");
+        let strip = strip_svg(window, &summary).expect("the strip draws");
+        let plane = window_plane_svg(window, map.classifier(), &summary).expect("the plane draws");
+        for (svg, title) in [
+            (
+                &strip,
+                "Weld map along the interface: pair demo-al6061-on-cu",
+            ),
+            (
+                &plane,
+                "Weld map on the window plane: pair demo-al6061-on-cu",
+            ),
+        ] {
+            let doc = roxmltree::Document::parse(svg).expect("well-formed SVG");
+            let texts: Vec<&str> = doc
+                .descendants()
+                .filter_map(|n| n.text())
+                .map(str::trim)
+                .collect();
+            assert!(texts.iter().any(|t| t.starts_with(title)), "{title}");
+            assert!(texts.contains(&PLOT_CAUTION), "{title}: the caution");
+        }
+        assert!(plane.contains("welded: 2"), "the legend counts the points");
+    }
+}
