@@ -2,9 +2,10 @@
 //!
 //! Pictures and documents from typed results: the weldability-window plot (SVG and PNG) with
 //! trials, proposed points and process curves, the window plot of a sweep (one process curve
-//! per standoff or voltage, from `oblique_setup::SweepRanking`), and the self-contained HTML and
-//! JSON decision report. Nothing here parses flags or reads files; every function takes the
-//! window, the classification or the ranking it draws, and returns a `String` or bytes.
+//! per standoff or voltage, from `oblique_setup::SweepRanking`), the weld map's strip along the
+//! interface and its points on the window plane, and the self-contained HTML and JSON decision
+//! report. Nothing here parses flags or reads files; every function takes the window, the
+//! classification, the ranking or the map summary it draws, and returns a `String` or bytes.
 //!
 //! ```
 //! use oblique_render::window_plot::{render_svg, PlotRequest, ProposedPoint};
@@ -33,6 +34,7 @@
 pub mod error;
 pub mod report;
 pub mod sweep_plot;
+pub mod weld_map;
 pub mod window_plot;
 
 pub use error::{RenderError, RenderResult};

@@ -1,25 +1,25 @@
 //! `oblique map`: classify every point of an interface export (simulation or measurement) against
 //! a pair window, streaming: the weld map (one output row per input row), a summary along the
-//! interface, and optional plots. Layout and policies: `docs/weld-map.md`.
+//! interface, and optional plots. The engine is the `oblique_map` crate, the plots
+//! `oblique_render::weld_map`; this module turns the flags into `MapOptions`, opens the files,
+//! shows the progress bar and prints. Layout and policies: `docs/weld-map.md`.
 
-mod classifier;
-mod format;
-mod input;
-mod pipeline;
-mod summary;
-mod svg;
+mod outputs;
 
 use crate::args::ConstantArgs;
 use crate::common::load_library;
 use crate::fail::{CmdResult, Fail};
 use crate::output::CAUTION;
 use clap::{Args, ValueEnum};
-use classifier::{Classifier, JettingMode, VelocityKind};
-use input::{parse_header, split_fields, Fields, Format, Source, Wanted};
-use pipeline::{Ctx, Policy, Slot};
+use oblique_core::units::Length;
+use oblique_map::{
+    BadRows, ColumnNames, ConstantNote, Format, JettingMode, MapError, MapOptions, Output, Summary,
+    VelocityKind, WeldMap,
+};
+use oblique_window::PairWindow;
+use outputs::{same_file, write_file, AtomicFile, Out};
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
-use summary::{LimitStat, OutOfOrder, Summary, EXAMPLE_CAP};
 
 const AFTER_HELP: &str = "Input layout (CSV; JSON lines take the same names as keys), units in the header:
   position[mm],velocity[m/s],angle[deg]          required
@@ -111,7 +111,7 @@ pub struct MapArgs {
     pub time_column: String,
     /// Bad rows: stop (first one, exit 2), skip (count them), or save:FILE (with the reason).
     #[arg(long = "bad-rows", value_name = "POLICY", default_value = "stop", value_parser = parse_policy)]
-    pub bad_rows: Policy,
+    pub bad_rows: BadRowsArg,
     /// Accept positions in any order; then no lengths or segments are computed.
     #[arg(long)]
     pub unsorted: bool,
@@ -148,12 +148,23 @@ pub struct MapArgs {
     pub constants: ConstantArgs,
 }
 
-fn parse_policy(s: &str) -> Result<Policy, String> {
+/// `--bad-rows`, as a flag value.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum BadRowsArg {
+    /// Stop at the first (exit 2).
+    Stop,
+    /// Skip and count.
+    Skip,
+    /// Write to a side file with the reason.
+    Save(PathBuf),
+}
+
+fn parse_policy(s: &str) -> Result<BadRowsArg, String> {
     match s {
-        "stop" => Ok(Policy::Stop),
-        "skip" => Ok(Policy::Skip),
+        "stop" => Ok(BadRowsArg::Stop),
+        "skip" => Ok(BadRowsArg::Skip),
         _ => match s.strip_prefix("save:") {
-            Some(f) if !f.is_empty() => Ok(Policy::Save(PathBuf::from(f))),
+            Some(f) if !f.is_empty() => Ok(BadRowsArg::Save(PathBuf::from(f))),
             _ => Err(format!(
                 "'{s}' is not a bad-row policy: expected stop, skip or save:FILE"
             )),
@@ -161,11 +172,28 @@ fn parse_policy(s: &str) -> Result<Policy, String> {
     }
 }
 
-fn policy_text(p: &Policy) -> String {
-    match p {
-        Policy::Stop => "stop".into(),
-        Policy::Skip => "skip".into(),
-        Policy::Save(f) => format!("save:{}", f.display()),
+impl BadRowsArg {
+    fn policy(&self) -> BadRows {
+        match self {
+            Self::Stop => BadRows::Stop,
+            Self::Skip => BadRows::Skip,
+            Self::Save(_) => BadRows::Save,
+        }
+    }
+
+    fn text(&self) -> String {
+        match self {
+            Self::Stop => "stop".into(),
+            Self::Skip => "skip".into(),
+            Self::Save(f) => format!("save:{}", f.display()),
+        }
+    }
+
+    fn side_file(&self) -> Option<&PathBuf> {
+        match self {
+            Self::Save(f) => Some(f),
+            _ => None,
+        }
     }
 }
 
@@ -183,135 +211,89 @@ fn fmt_arg(f: FormatArg) -> Format {
     }
 }
 
-/// An output file. A regular file (or a new name) is written next to its final name and
-/// renamed into place at the end, so that a failed run leaves no half-written map behind;
-/// anything else that exists (a device such as /dev/null, a pipe, a symbolic link) is written
-/// in place, never replaced.
-struct AtomicFile {
-    /// The temporary name, when renaming at the end.
-    tmp: Option<PathBuf>,
-    dest: PathBuf,
-    file: Option<std::fs::File>,
-}
-
-impl AtomicFile {
-    fn create(dest: &Path, flag: &str) -> CmdResult<Self> {
-        let cannot = |e: std::io::Error| {
-            Fail::input(format!("{flag}: cannot create {}: {e}", dest.display()))
-        };
-        let in_place = match std::fs::symlink_metadata(dest) {
-            Ok(m) => !m.file_type().is_file(),
-            Err(_) => false,
-        };
-        if in_place {
-            let file = std::fs::OpenOptions::new()
-                .write(true)
-                .truncate(true)
-                .open(dest)
-                .map_err(cannot)?;
-            return Ok(Self {
-                tmp: None,
-                dest: dest.to_path_buf(),
-                file: Some(file),
-            });
-        }
-        let name = dest
-            .file_name()
-            .map(|n| n.to_string_lossy().into_owned())
-            .ok_or_else(|| {
-                Fail::input(format!("{flag}: '{}' is not a file name", dest.display()))
-            })?;
-        let tmp = dest.with_file_name(format!(".{name}.partial-{}", std::process::id()));
-        let file = std::fs::File::create(&tmp).map_err(cannot)?;
-        Ok(Self {
-            tmp: Some(tmp),
-            dest: dest.to_path_buf(),
-            file: Some(file),
-        })
-    }
-
-    fn write_all(&mut self, b: &[u8]) -> CmdResult {
-        if let Some(f) = &mut self.file {
-            f.write_all(b)
-                .map_err(|e| Fail::other(format!("cannot write {}: {e}", self.dest.display())))?;
-        }
-        Ok(())
-    }
-
-    /// Finish: flush, and rename into place when writing under a temporary name (no fsync: a
-    /// map can be made again; the rename only keeps a failed run from leaving half a file).
-    fn commit(mut self) -> CmdResult {
-        let Some(mut f) = self.file.take() else {
-            return Ok(());
-        };
-        let tmp = self.tmp.take();
-        let dest = self.dest.clone();
-        let fail =
-            move |e: std::io::Error| Fail::other(format!("cannot write {}: {e}", dest.display()));
-        let flushed = f.flush();
-        drop(f);
-        match (flushed, tmp) {
-            (Ok(()), Some(t)) => std::fs::rename(&t, &self.dest).map_err(|e| {
-                let _ = std::fs::remove_file(&t);
-                fail(e)
-            }),
-            (Ok(()), None) => Ok(()),
-            (Err(e), Some(t)) => {
-                let _ = std::fs::remove_file(&t);
-                Err(fail(e))
-            }
-            (Err(e), None) => Err(fail(e)),
-        }
-    }
-}
-
-impl Drop for AtomicFile {
-    fn drop(&mut self) {
-        if self.file.take().is_some() {
-            if let Some(tmp) = &self.tmp {
-                let _ = std::fs::remove_file(tmp);
-            }
-        }
-    }
-}
-
-enum Out {
-    Stdout(std::io::Stdout),
-    File(AtomicFile),
-}
-
-impl Out {
-    fn write_all(&mut self, b: &[u8]) -> CmdResult {
-        match self {
-            Out::File(f) => f.write_all(b),
-            Out::Stdout(s) => match s.lock().write_all(b) {
-                Ok(()) => Ok(()),
-                Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Err(Fail {
-                    message: String::new(),
-                    code: 0,
-                }),
-                Err(e) => Err(Fail::other(format!("cannot write to standard output: {e}"))),
-            },
-        }
-    }
-}
-
-fn write_file(path: &Path, flag: &str, bytes: &[u8]) -> CmdResult {
-    std::fs::write(path, bytes)
-        .map_err(|e| Fail::input(format!("{flag}: cannot write {}: {e}", path.display())))
-}
-
-fn same_file(a: &Path, b: &Path) -> bool {
-    match (a.canonicalize(), b.canonicalize()) {
-        (Ok(x), Ok(y)) => x == y,
-        _ => false,
-    }
-}
-
 /// Run `oblique map`.
 pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
     let mut a = a;
-    // `-o -` is standard output, as `-` is standard input.
+    check_args(&mut a)?;
+    let stdin = a.input.as_os_str() == "-";
+
+    // The window with the constants of the command line.
+    let lib = load_library(dirs)?;
+    let mut window = lib
+        .pair(&a.pair)
+        .map_err(|m| Fail::input(format!("--pair: {m}")))?
+        .clone();
+    let window_criteria = window.criteria.clone();
+    window.criteria = a.constants.apply(window.criteria.clone());
+    let opts = map_options(&a, &window, &window_criteria, stdin);
+
+    // The input and its header, then the classifier.
+    let (reader, total_len, is_file): (Box<dyn std::io::Read + Send>, Option<u64>, bool) = if stdin
+    {
+        (Box::new(std::io::stdin()), None, false)
+    } else {
+        let f = std::fs::File::open(&a.input)
+            .map_err(|e| Fail::input(format!("{}: cannot open: {e}", opts.input_name)))?;
+        let meta = f.metadata().ok();
+        let is_file = meta.as_ref().is_some_and(std::fs::Metadata::is_file);
+        (Box::new(f), meta.map(|m| m.len()), is_file)
+    };
+    let mut map = WeldMap::open(&window, reader, &opts).map_err(input_fail)?;
+
+    // Outputs.
+    let mut out = match &a.output {
+        Some(p) => Out::File(AtomicFile::create(p, "-o")?),
+        None => Out::Stdout(std::io::stdout()),
+    };
+    let mut side = match a.bad_rows.side_file() {
+        Some(p) => match AtomicFile::create(p, "--bad-rows save:") {
+            Ok(f) => Some(f),
+            Err(fail) => {
+                // The map's header line has always gone out before the side file is created:
+                // keep that order (standard output shows the header, then the error).
+                out.write_all(&map.map_header())
+                    .map_err(|e| out.write_failure(&e))?;
+                return Err(fail);
+            }
+        },
+        None => None,
+    };
+
+    // Progress: only for a regular file, on a terminal, after about a second.
+    let mut bar = ProgressBar::new(
+        total_len
+            .filter(|_| is_file && !a.json && !a.no_progress && std::io::stderr().is_terminal()),
+    );
+    let result = map.run(
+        &mut out,
+        side.as_mut().map(|f| f as &mut dyn Write),
+        &mut |bytes| bar.update(bytes),
+    );
+    bar.finish();
+    let nothing_classified = matches!(result, Err(MapError::NothingClassified(_)));
+    let mut summary = match result {
+        Ok(s) => s,
+        Err(e) => {
+            let fail = map_fail(e, &out, side.as_ref());
+            if let (true, Some(f)) = (nothing_classified, side) {
+                // Keep the side file with every rejected row and its reason; no map is written.
+                f.commit()?;
+            }
+            return Err(fail);
+        }
+    };
+    if let Out::File(f) = out {
+        f.commit()?;
+    }
+    if let Some(f) = side {
+        f.commit()?;
+    }
+    summary.info.bad_rows = a.bad_rows.text();
+    report(&a, &window, &map, &summary)
+}
+
+/// Refuse flags that cannot go together; `-o -` is standard output, as `-` is standard input.
+fn check_args(a: &mut MapArgs) -> CmdResult {
     if a.json && a.output.is_none() {
         return Err(Fail::input(
             "--json prints the summary on standard output, where the map goes without -o: give the map a file with -o FILE",
@@ -325,23 +307,6 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         }
         a.output = None;
     }
-    let stdin = a.input.as_os_str() == "-";
-    let file_name = if stdin {
-        "<stdin>".to_string()
-    } else {
-        a.input.display().to_string()
-    };
-    let in_format = a.format.map(fmt_arg).unwrap_or_else(|| {
-        if stdin {
-            Format::Csv
-        } else {
-            format_of(&a.input)
-        }
-    });
-    let out_format = a
-        .output_format
-        .map(fmt_arg)
-        .unwrap_or_else(|| a.output.as_deref().map_or(Format::Csv, format_of));
     if a.unsorted && a.min_segment.is_some() {
         return Err(Fail::input(
             "--min-segment joins runs along the interface and needs sorted positions: it cannot be used with --unsorted",
@@ -352,18 +317,13 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
             "--strip-svg draws along the interface and needs sorted positions: it cannot be used with --unsorted",
         ));
     }
+    let stdin = a.input.as_os_str() == "-";
     for (flag, p) in [
         ("-o", a.output.as_ref()),
         ("--summary-json", a.summary_json.as_ref()),
         ("--strip-svg", a.strip_svg.as_ref()),
         ("--window-svg", a.window_svg.as_ref()),
-        (
-            "--bad-rows save:",
-            match &a.bad_rows {
-                Policy::Save(f) => Some(f),
-                _ => None,
-            },
-        ),
+        ("--bad-rows save:", a.bad_rows.side_file()),
     ] {
         if let Some(p) = p {
             if !stdin && same_file(p, &a.input) {
@@ -374,341 +334,131 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
             }
         }
     }
+    Ok(())
+}
 
-    // The window and the classifier.
-    let lib = load_library(dirs)?;
-    let mut window = lib
-        .pair(&a.pair)
-        .map_err(|m| Fail::input(format!("--pair: {m}")))?
-        .clone();
-    let window_criteria = window.criteria.clone();
-    window.criteria = a.constants.apply(window.criteria.clone());
-    let constants = vec![
-        (
-            "deribas_k",
-            "--deribas-k",
-            window.criteria.deribas_k,
-            window_criteria.deribas_k,
-        ),
-        (
-            "wittman_n",
-            "--wittman-n",
-            window.criteria.wittman_n,
-            window_criteria.wittman_n,
-        ),
-        (
-            "hel_multiple",
-            "--hel-multiple",
-            window.criteria.hel_multiple,
-            window_criteria.hel_multiple,
-        ),
-    ];
-    let threads = a.threads.map(usize::from).unwrap_or_else(|| {
-        std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get)
-    });
-    let kind = match a.velocity_kind {
-        VelocityKindArg::Impact => VelocityKind::Impact,
-        VelocityKindArg::Collision => VelocityKind::Collision,
+/// The engine's options from the flags.
+fn map_options(
+    a: &MapArgs,
+    window: &PairWindow,
+    window_criteria: &oblique_core::CriteriaConfig,
+    stdin: bool,
+) -> MapOptions {
+    let constant = |name, flag, value, window| ConstantNote {
+        name,
+        flag,
+        value,
+        window,
     };
-    let mode = if a.exact_jetting {
-        JettingMode::Direct
-    } else {
-        JettingMode::Table
-    };
-
-    // The input and its header.
-    let (reader, total_len, is_file): (Box<dyn std::io::Read + Send>, Option<u64>, bool) = if stdin
-    {
-        (Box::new(std::io::stdin()), None, false)
-    } else {
-        let f = std::fs::File::open(&a.input)
-            .map_err(|e| Fail::input(format!("{file_name}: cannot open: {e}")))?;
-        let meta = f.metadata().ok();
-        let is_file = meta.as_ref().is_some_and(std::fs::Metadata::is_file);
-        (Box::new(f), meta.map(|m| m.len()), is_file)
-    };
-    let mut source = Source::new(reader);
-    let wanted = Wanted {
-        names: [
-            a.position_column.clone(),
-            a.velocity_column.clone(),
-            a.angle_column.clone(),
-            a.time_column.clone(),
-        ],
-        flags: [
-            "--position-column",
-            "--velocity-column",
-            "--angle-column",
-            "--time-column",
-        ],
-    };
-    let io = |e: std::io::Error| Fail::input(format!("{file_name}: cannot read: {e}"));
-    let mut comment_lines = 0u64;
-    let (cells, first_line) = match in_format {
-        Format::Csv => {
-            // Lines starting with '#' before the header are a preamble (an export's notes,
-            // provenance, an "invented data" label): skipped, counted and reported.
-            let mut head;
-            loop {
-                let Some(line) = source
-                    .first_line(true, true, pipeline::MAX_RECORD)
-                    .map_err(io)?
-                else {
-                    return Err(Fail::input(if comment_lines > 0 {
-                        format!(
-                            "{file_name}: no header row after {comment_lines} comment line(s): expected a header such as position[mm],velocity[m/s],angle[deg]"
-                        )
-                    } else {
-                        format!(
-                            "{file_name}: empty input: expected a header row such as position[mm],velocity[m/s],angle[deg]"
-                        )
-                    }));
-                };
-                head = line;
-                if !head.trim_ascii_start().starts_with(b"#") {
-                    break;
-                }
-                comment_lines += 1 + head.iter().filter(|&&b| b == b'\n').count() as u64;
-            }
-            let mut f = Fields::default();
-            let quoted = head.contains(&b'"');
-            split_fields(&head, quoted, &mut f);
-            let cells: Vec<String> = (0..f.ranges.len())
-                .map(|i| {
-                    String::from_utf8_lossy(f.get(&head, i).unwrap_or(b""))
-                        .trim()
-                        .to_string()
-                })
-                .collect();
-            let inside = head.iter().filter(|&&b| b == b'\n').count() as u64;
-            (cells, 2 + inside + comment_lines)
-        }
-        Format::Jsonl => {
-            // '#' lines before the first object are a preamble, as for CSV.
-            let first = loop {
-                let Some(line) = source
-                    .first_line(false, false, pipeline::MAX_RECORD)
-                    .map_err(io)?
-                else {
-                    return Err(Fail::input(format!(
-                        "{file_name}: empty input: expected JSON lines such as {{\"position[mm]\": 0.5, \"velocity[m/s]\": 420, \"angle[deg]\": 8}}"
-                    )));
-                };
-                if !line.trim_ascii_start().starts_with(b"#") {
-                    break line;
-                }
-                source
-                    .first_line(true, false, pipeline::MAX_RECORD)
-                    .map_err(io)?;
-                comment_lines += 1;
-            };
-            let obj: serde_json::Map<String, serde_json::Value> =
-                input::json_object(&first).map_err(|e| {
-                    Fail::input(format!(
-                        "{file_name}: row {}: not a JSON object: {} (the first object sets the columns)",
-                        1 + comment_lines,
-                        input::json_reason(&e)
-                    ))
-                })?;
-            (obj.keys().cloned().collect(), 1 + comment_lines)
-        }
-    };
-    let header = parse_header(&file_name, 1 + comment_lines, cells, &wanted).map_err(|m| {
-        // A JSON object read as a CSV header: say which flag reads it.
-        if in_format == Format::Csv && m.contains("no column named") && m.contains('{') {
-            Fail::input(format!(
-                "{m}\n  hint: the first line looks like a JSON object: read the file as JSON lines with --format jsonl"
-            ))
+    let c = &window.criteria;
+    MapOptions {
+        input_name: if stdin {
+            "<stdin>".to_string()
         } else {
-            Fail::input(m)
-        }
-    })?;
-
-    let classifier = Classifier::new(&window, kind, mode)?;
-    let ctx = Ctx::new(
-        &file_name,
-        in_format,
-        out_format,
-        &header,
-        &classifier,
-        &a.bad_rows,
-        a.all_columns,
-    );
-
-    // Outputs.
-    let mut out = match &a.output {
-        Some(p) => Out::File(AtomicFile::create(p, "-o")?),
-        None => Out::Stdout(std::io::stdout()),
-    };
-    if out_format == Format::Csv {
-        out.write_all(&ctx.csv_header())?;
-    }
-    let mut side = match &a.bad_rows {
-        Policy::Save(p) => {
-            let mut f = AtomicFile::create(p, "--bad-rows save:")?;
-            if in_format == Format::Csv {
-                f.write_all(&ctx.bad_header())?;
-            }
-            Some(f)
-        }
-        _ => None,
-    };
-
-    let limits: Vec<LimitStat> = classifier
-        .limits
-        .iter()
-        .map(|l| LimitStat {
-            label: l.label.clone(),
-            id: l.id.clone(),
-            column: l.map_column(),
-            unit: l.unit,
-            kind: match l.limit {
-                oblique_window::LimitRef::Criterion(_) => "criterion",
-                oblique_window::LimitRef::Boundary(_) => "boundary",
-            },
-            ceiling: match l.limit {
-                oblique_window::LimitRef::Criterion(id) => {
-                    id == oblique_core::CriterionId::MeltingUpper
-                }
-                oblique_window::LimitRef::Boundary(i) => window
-                    .boundaries
-                    .get(i)
-                    .is_some_and(|b| b.weld_side.is_velocity_ceiling()),
-            },
-            welded_min: None,
-            unwelded_binding: [0; 2],
-        })
-        .collect();
-    let mut summary = Summary::new(
-        limits,
-        a.unsorted,
-        (a.strip_svg.is_some(), a.window_svg.is_some()),
-    );
-    summary.comment_lines = comment_lines;
-    summary.min_segment = a.min_segment.unwrap_or(0.0);
-    summary.constants = constants;
-
-    // Progress: only for a regular file, on a terminal, after about a second.
-    let progress_allowed = is_file
-        && !a.json
-        && !a.no_progress
-        && std::io::stderr().is_terminal()
-        && total_len.is_some();
-    let started = std::time::Instant::now();
-    let mut bar: Option<indicatif::ProgressBar> = None;
-    let mut bytes_done: u64 = 0;
-
-    let result = pipeline::run(
-        &ctx,
-        source,
-        first_line,
-        threads,
-        |slot: &mut Slot| -> CmdResult {
-            fold_chunk(&ctx, slot, &mut summary, &mut out, side.as_mut())?;
-            bytes_done += slot.data.len() as u64;
-            if progress_allowed {
-                if bar.is_none() && started.elapsed().as_secs_f64() > 1.0 {
-                    bar = Some(make_bar(total_len.unwrap_or(0), bytes_done));
-                }
-                if let Some(b) = &bar {
-                    // Own rate and time left: the bar appears late, so indicatif's estimate
-                    // would start from a jump.
-                    let secs = started.elapsed().as_secs_f64().max(1e-3);
-                    let rate = bytes_done as f64 / secs;
-                    let left = total_len.unwrap_or(0).saturating_sub(bytes_done) as f64;
-                    b.set_message(format!(
-                        "{:.0} MB/s, about {:.0} s left",
-                        rate / 1e6,
-                        left / rate.max(1.0)
-                    ));
-                    b.set_position(bytes_done);
-                }
-            }
-            Ok(())
+            a.input.display().to_string()
         },
-        |e| Fail::input(format!("{file_name}: cannot read: {e}")),
-    );
-    if let Some(b) = &bar {
-        b.finish_and_clear();
-    }
-    result?;
-    summary.finish();
-
-    if summary.rows_read == 0 {
-        return Err(Fail::input(format!(
-            "{file_name}: no data rows after the header: nothing to map"
-        )));
-    }
-    if summary.rows_classified == 0 {
-        // Keep the side file with every rejected row and its reason; no map is written.
-        if let Some(f) = side {
-            f.commit()?;
-        }
-        let mut msg = format!(
-            "{file_name}: no row could be classified: all {} row(s) were rejected",
-            summary.rows_rejected
-        );
-        for r in summary.examples.iter().take(3) {
-            msg.push_str(&format!(
-                "\n  row {}, field '{}': {}",
-                r.row, r.field, r.reason
-            ));
-        }
-        msg.push_str(&format!(
-            "\n  hint: check the units in the header ('{}', '{}'); --bad-rows save:FILE lists every rejected row with its reason",
-            header.velocity.cell, header.angle.cell
-        ));
-        return Err(Fail::input(msg));
-    }
-    summary.check_plausibility(&header.velocity.cell, &header.angle.cell);
-    if let Out::File(f) = out {
-        f.commit()?;
-    }
-    if let Some(f) = side {
-        f.commit()?;
-    }
-
-    let info = summary::RunInfo {
-        pair: &window.name,
-        convention: window.convention.as_str(),
-        velocity_kind: match kind {
-            VelocityKind::Impact => "impact",
-            VelocityKind::Collision => "collision",
+        input_format: a.format.map(fmt_arg).unwrap_or_else(|| {
+            if stdin {
+                Format::Csv
+            } else {
+                format_of(&a.input)
+            }
+        }),
+        output_format: a
+            .output_format
+            .map(fmt_arg)
+            .unwrap_or_else(|| a.output.as_deref().map_or(Format::Csv, format_of)),
+        columns: ColumnNames {
+            position: a.position_column.clone(),
+            velocity: a.velocity_column.clone(),
+            angle: a.angle_column.clone(),
+            time: a.time_column.clone(),
         },
-        input: &file_name,
-        bad_rows: &policy_text(&a.bad_rows),
-        jetting: if !classifier.jetting_enabled() {
-            "disabled"
-        } else if classifier.uses_table() {
-            "table"
+        velocity_kind: match a.velocity_kind {
+            VelocityKindArg::Impact => VelocityKind::Impact,
+            VelocityKindArg::Collision => VelocityKind::Collision,
+        },
+        jetting: if a.exact_jetting {
+            JettingMode::Direct
         } else {
-            "direct"
+            JettingMode::Table
         },
-        table: classifier.table().map(|t| (t.nodes(), t.max_inflow().si())),
-        pair_line: format!(
-            "{} flyer {:.2} mm on {} parent",
-            window.flyer.material.id,
-            window.flyer_thickness.mm(),
-            window.parent.material.id
-        ),
-    };
-    let json = summary.to_json(&info);
+        bad_rows: a.bad_rows.policy(),
+        all_columns: a.all_columns,
+        unsorted: a.unsorted,
+        min_segment: a.min_segment.map(Length::from_m),
+        collect_strip: a.strip_svg.is_some(),
+        collect_window_plane: a.window_svg.is_some(),
+        constants: vec![
+            constant(
+                "deribas_k",
+                "--deribas-k",
+                c.deribas_k,
+                window_criteria.deribas_k,
+            ),
+            constant(
+                "wittman_n",
+                "--wittman-n",
+                c.wittman_n,
+                window_criteria.wittman_n,
+            ),
+            constant(
+                "hel_multiple",
+                "--hel-multiple",
+                c.hel_multiple,
+                window_criteria.hel_multiple,
+            ),
+        ],
+        threads: a.threads.map_or(0, usize::from),
+    }
+}
+
+/// A map error before any output exists.
+fn input_fail(e: MapError) -> Fail {
+    if e.is_input() {
+        Fail::input(e.to_string())
+    } else {
+        Fail::other(e.to_string())
+    }
+}
+
+/// A map error, with the outputs named as the user gave them.
+fn map_fail(e: MapError, out: &Out, side: Option<&AtomicFile>) -> Fail {
+    match e {
+        MapError::Write {
+            output: Output::Map,
+            source,
+        } => out.write_failure(&source),
+        MapError::Write {
+            output: Output::BadRows,
+            source,
+        } => match side {
+            Some(f) => f.write_failure(&source),
+            None => Fail::other(format!("cannot write the rejected rows: {source}")),
+        },
+        e => input_fail(e),
+    }
+}
+
+/// The summary (text or JSON), the summary file and the plots.
+fn report(a: &MapArgs, window: &PairWindow, map: &WeldMap<'_>, summary: &Summary) -> CmdResult {
+    let json = summary.to_json();
     if let Some(p) = &a.summary_json {
         let text = serde_json::to_string_pretty(&json).map_err(|e| Fail::other(e.to_string()))?;
         write_file(p, "--summary-json", (text + "\n").as_bytes())?;
     }
     if let Some(p) = &a.strip_svg {
-        let svg = svg::strip(&window, &classifier, &summary, &info)?;
+        let svg = oblique_render::weld_map::strip_svg(window, summary)?;
         write_file(p, "--strip-svg", svg.as_bytes())?;
     }
     if let Some(p) = &a.window_svg {
-        let svg = svg::window_plane(&window, &classifier, &summary, &info)?;
+        let svg = oblique_render::weld_map::window_plane_svg(window, map.classifier(), summary)?;
         write_file(p, "--window-svg", svg.as_bytes())?;
     }
     if a.json {
         crate::output::emit_json(&json)?;
     } else {
-        let text = summary.to_text(&info);
+        let text = summary.to_text();
         debug_assert!(text.ends_with(&format!("{CAUTION}\n")));
         if a.output.is_some() {
             crate::output::emit(&text)?;
@@ -722,6 +472,53 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
 /// Write to standard error; a closed standard error is not worth a panic.
 fn to_stderr(text: &str) {
     let _ = std::io::stderr().lock().write_all(text.as_bytes());
+}
+
+/// The progress bar on standard error: it appears after about a second, for a regular file of
+/// known length on a terminal.
+struct ProgressBar {
+    /// The input's length, when a bar may be shown.
+    total: Option<u64>,
+    started: std::time::Instant,
+    bar: Option<indicatif::ProgressBar>,
+}
+
+impl ProgressBar {
+    fn new(total: Option<u64>) -> Self {
+        Self {
+            total,
+            started: std::time::Instant::now(),
+            bar: None,
+        }
+    }
+
+    fn update(&mut self, bytes_done: u64) {
+        let Some(total) = self.total else {
+            return;
+        };
+        if self.bar.is_none() && self.started.elapsed().as_secs_f64() > 1.0 {
+            self.bar = Some(make_bar(total, bytes_done));
+        }
+        if let Some(b) = &self.bar {
+            // Own rate and time left: the bar appears late, so indicatif's estimate would
+            // start from a jump.
+            let secs = self.started.elapsed().as_secs_f64().max(1e-3);
+            let rate = bytes_done as f64 / secs;
+            let left = total.saturating_sub(bytes_done) as f64;
+            b.set_message(format!(
+                "{:.0} MB/s, about {:.0} s left",
+                rate / 1e6,
+                left / rate.max(1.0)
+            ));
+            b.set_position(bytes_done);
+        }
+    }
+
+    fn finish(&self) {
+        if let Some(b) = &self.bar {
+            b.finish_and_clear();
+        }
+    }
 }
 
 /// The progress bar, drawn on stderr from the current position on (it appears late).
@@ -738,98 +535,4 @@ fn make_bar(len: u64, pos: u64) -> indicatif::ProgressBar {
     bar.set_position(pos);
     bar.set_draw_target(indicatif::ProgressDrawTarget::stderr());
     bar
-}
-
-/// Take one chunk in file order: summary, sortedness, output, bad rows.
-fn fold_chunk(
-    ctx: &Ctx<'_>,
-    slot: &mut Slot,
-    summary: &mut Summary,
-    out: &mut Out,
-    side: Option<&mut AtomicFile>,
-) -> CmdResult {
-    let st = &slot.stats;
-    // Rows of this chunk in order: classified points are in `lites`, rejected in `bad`; the
-    // out-of-order check runs over the classified ones.
-    let mut cut: Option<(usize, OutOfOrder)> = None;
-    let mut bad_rows = slot.bad.iter().peekable();
-    for l in &slot.lites {
-        // A rejected row since the previous classified one leaves a stretch without a verdict.
-        while let Some(b) = bad_rows.next_if(|b| b.row < l.row) {
-            summary.reject(b.pos);
-        }
-        if let Err(e) = summary.push(l) {
-            cut = Some((l.out_start as usize, e));
-            break;
-        }
-    }
-    if cut.is_none() {
-        for b in bad_rows {
-            summary.reject(b.pos);
-        }
-    }
-    let written = cut.as_ref().map_or(slot.out.len(), |c| c.0);
-    if !slot.out.is_empty() {
-        out.write_all(&slot.out.as_bytes()[..written])?;
-    }
-    if let Some((_, e)) = cut {
-        // A stop-mode bad row earlier than the out-of-order row wins.
-        if let Some(b) = slot.bad.first().filter(|b| slot.stopped && b.row < e.row) {
-            return Err(bad_row_fail(ctx, b));
-        }
-        return Err(Fail::input(format!(
-            "{}: row {}, field '{}': position {} mm comes after {} mm at row {}: positions must run {} along the interface\n  hint: sort the file by position, or pass --unsorted (then no lengths or segments are computed)",
-            ctx.file,
-            e.row,
-            ctx.header.position.cell,
-            pipeline::fmt_short(e.pos * 1e3),
-            pipeline::fmt_short(e.prev_pos * 1e3),
-            e.prev_row,
-            if e.increasing { "upwards" } else { "downwards" }
-        )));
-    }
-    summary.rows_read += st.rows_read;
-    summary.rows_rejected += st.rejected;
-    summary.blank_lines += st.blank;
-    summary.outside_trial_data += st.outside;
-    summary.welded_outside_trial_data += st.welded_outside;
-    summary.jetting_direct += st.jetting_direct;
-    for (l, (m, b)) in summary
-        .limits
-        .iter_mut()
-        .zip(st.welded_min.iter().zip(&st.unwelded_binding))
-    {
-        l.unwelded_binding[0] += b[0];
-        l.unwelded_binding[1] += b[1];
-        if let Some((m, row)) = m {
-            let better = match l.welded_min {
-                Some((old, _)) => *m < old,
-                None => true,
-            };
-            if better {
-                l.welded_min = Some((*m, *row));
-            }
-        }
-    }
-    for b in &slot.bad {
-        if summary.examples.len() < EXAMPLE_CAP {
-            summary.examples.push(b.clone());
-        }
-    }
-    if let Some(f) = side {
-        f.write_all(&slot.bad_out)?;
-    }
-    if slot.stopped {
-        if let Some(b) = slot.bad.last() {
-            return Err(bad_row_fail(ctx, b));
-        }
-    }
-    Ok(())
-}
-
-fn bad_row_fail(ctx: &Ctx<'_>, b: &summary::Rejected) -> Fail {
-    Fail::input(format!(
-        "{}: row {}, field '{}': {}\n  hint: --bad-rows skip skips and counts such rows; --bad-rows save:FILE sets them aside with the reason",
-        ctx.file, b.row, b.field, b.reason
-    ))
 }

@@ -1,4 +1,5 @@
-//! Fast text output: fixed-decimal numbers, CSV and JSON string escaping.
+//! Text output: fast fixed-decimal numbers, CSV and JSON string escaping, and numbers for
+//! messages and summaries.
 
 const POW10: [f64; 10] = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
 const DIGIT_PAIRS: &[u8; 200] = b"0001020304050607080910111213141516171819\
@@ -529,6 +530,7 @@ pub fn push_json_string(out: &mut Vec<u8>, s: &[u8]) {
 }
 
 /// Whether `s` is a number in JSON's grammar (so it may be copied into JSON as is).
+#[inline]
 pub fn is_json_number(s: &[u8]) -> bool {
     let mut i = 0;
     if s.first() == Some(&b'-') {
@@ -569,10 +571,47 @@ pub fn is_json_number(s: &[u8]) -> bool {
     i == s.len()
 }
 
+/// A number in the shortest form that reads back the same.
+pub fn fmt_g(x: f64) -> String {
+    format!("{x}")
+}
+
+/// A number for a message: at most 6 significant digits, no trailing zeros.
+pub fn fmt_short(x: f64) -> String {
+    if !x.is_finite() {
+        return format!("{x}");
+    }
+    if x != 0.0 && !(1e-4..1e9).contains(&x.abs()) {
+        return format!("{x:.5e}");
+    }
+    let digits = if x == 0.0 {
+        0
+    } else {
+        (5 - x.abs().log10().floor() as i32).clamp(0, 12) as usize
+    };
+    let t = format!("{x:.digits$}");
+    if t.contains('.') {
+        t.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        t
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use proptest::prelude::*;
+
+    #[test]
+    fn short_numbers_for_messages() {
+        assert_eq!(fmt_short(167.475_563_516_739_64), "167.476");
+        assert_eq!(fmt_short(-450.0), "-450");
+        assert_eq!(fmt_short(0.5), "0.5");
+        assert_eq!(fmt_short(0.0), "0");
+        assert_eq!(fmt_short(12.000_01), "12");
+        assert_eq!(fmt_short(1e-7), "1.00000e-7");
+        assert_eq!(fmt_short(-2.5e12), "-2.50000e12");
+    }
 
     fn fixed(x: f64, d: usize) -> String {
         let mut v = Vec::new();

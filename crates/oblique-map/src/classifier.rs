@@ -473,29 +473,42 @@ impl Classifier {
         let vc = c.collision_velocity;
         let beta_deg = c.angle.degrees();
         let impact = impedance_match(&f.hugoniot, &p.hugoniot, vp)?;
-        let cfg = &self.cfg;
-        let mut inside = true;
-        let mut only_ceilings_fail = true;
-        let mut best: Option<(usize, f64)> = None;
-        let mut failing = 0u64;
-        let mut consider = |k: usize, rel: f64, sat: bool, ceiling: bool| {
-            if !sat {
-                failing |= 1u64.checked_shl(k as u32).unwrap_or(0);
-                inside = false;
-                if !ceiling {
-                    only_ceilings_fail = false;
-                }
-            }
-            // `min_by(total_cmp)` keeps the first of equal minima.
-            match best {
-                Some((_, b)) if rel.total_cmp(&b) != std::cmp::Ordering::Less => {}
-                _ => best = Some((k, rel)),
-            }
-        };
+        let mut rank = Ranking::new();
+        let at = (vp.si(), vc.si(), beta_deg);
+        self.criteria_margins(at, impact.pressure.si(), &jet, margins, &mut rank)?;
+        let outside_trial_data = self.boundary_margins(at, margins, &mut rank);
+        Ok(Point {
+            vp: vp.si(),
+            vc: vc.si(),
+            vf: c.flow_velocity.si(),
+            beta_deg,
+            pressure: impact.pressure.si(),
+            jetting_deg: jet.critical_angle.degrees(),
+            regime: jet.regime,
+            jetting_direct,
+            verdict: rank.verdict(),
+            binding: rank.best.map(|b| b.0),
+            binding_relative: rank.best.map_or(f64::NAN, |b| b.1),
+            outside_trial_data,
+            failing: rank.failing,
+        })
+    }
+
+    /// The margins of the enabled criteria at (Vp m/s, Vc m/s, beta deg), each taken into
+    /// `rank` in the order `classify_with_jetting` ranks them.
+    #[inline(always)]
+    fn criteria_margins(
+        &self,
+        (vp, vc, beta_deg): (f64, f64, f64),
+        pressure: f64,
+        jet: &JettingAssessment,
+        margins: &mut [f64],
+        rank: &mut Ranking,
+    ) -> Result<(), PhysicsError> {
         for (k, id) in self.criteria.iter().enumerate() {
             let (value, limit, margin, satisfied, kind) = match id {
                 CriterionId::DeribasLower => {
-                    let limit = (self.deribas / vc.si()).to_degrees();
+                    let limit = (self.deribas / vc).to_degrees();
                     (
                         beta_deg,
                         limit,
@@ -506,18 +519,21 @@ impl Classifier {
                 }
                 CriterionId::StrengthLower => {
                     let limit = self.strength;
-                    let v = vp.si();
-                    (v, limit, v - limit, v >= limit, LimitKind::Lower)
+                    (vp, limit, vp - limit, vp >= limit, LimitKind::Lower)
                 }
                 CriterionId::PressureLower => {
                     let limit = self.pressure;
-                    let v = impact.pressure.si();
-                    (v, limit, v - limit, v >= limit, LimitKind::Lower)
+                    (
+                        pressure,
+                        limit,
+                        pressure - limit,
+                        pressure >= limit,
+                        LimitKind::Lower,
+                    )
                 }
                 CriterionId::MeltingUpper => {
-                    let limit = self.melting / melting_divisor(vc.si(), cfg.wittman_form);
-                    let v = vp.si();
-                    (v, limit, limit - v, v <= limit, LimitKind::Upper)
+                    let limit = self.melting / melting_divisor(vc, self.cfg.wittman_form);
+                    (vp, limit, limit - vp, vp <= limit, LimitKind::Upper)
                 }
                 CriterionId::Jetting => {
                     let limit = jet.critical_angle.degrees();
@@ -540,20 +556,31 @@ impl Classifier {
             if let Some(slot) = margins.get_mut(k) {
                 *slot = margin;
             }
-            consider(
+            rank.consider(
                 k,
                 relative_margin(margin, limit),
                 satisfied,
                 kind == LimitKind::Upper,
             );
         }
-        let deg = beta_deg;
-        let mut outside_trial_data = false;
+        Ok(())
+    }
+
+    /// The margins of the user boundaries at (Vp m/s, Vc m/s, beta deg), taken into `rank`
+    /// after the criteria; whether some boundary does not span the point.
+    #[inline(always)]
+    fn boundary_margins(
+        &self,
+        (vp, vc, deg): (f64, f64, f64),
+        margins: &mut [f64],
+        rank: &mut Ranking,
+    ) -> bool {
+        let mut outside = false;
         let n_crit = self.criteria.len();
         for (i, b) in self.boundaries.iter().enumerate() {
             let v = match b.plane {
-                Plane::AngleImpactVelocity => vp.si(),
-                Plane::AngleCollisionVelocity => vc.si(),
+                Plane::AngleImpactVelocity => vp,
+                Plane::AngleCollisionVelocity => vc,
             };
             let (limit, margin) = if b.side.along_velocity() {
                 let lim = interpolate(&b.points, v);
@@ -585,7 +612,7 @@ impl Classifier {
                     if let Some(slot) = margins.get_mut(n_crit + i) {
                         *slot = m;
                     }
-                    consider(
+                    rank.consider(
                         n_crit + i,
                         relative_margin(m, l),
                         m >= 0.0,
@@ -596,32 +623,63 @@ impl Classifier {
                     if let Some(slot) = margins.get_mut(n_crit + i) {
                         *slot = f64::NAN;
                     }
-                    outside_trial_data = true;
+                    outside = true;
                 }
             }
         }
-        let verdict = if inside {
+        outside
+    }
+}
+
+/// The running verdict of one point while its limits are taken in order: which fail, whether
+/// only velocity ceilings do, and the binding limit (the smallest relative margin).
+struct Ranking {
+    inside: bool,
+    only_ceilings_fail: bool,
+    best: Option<(usize, f64)>,
+    failing: u64,
+}
+
+impl Ranking {
+    #[inline(always)]
+    fn new() -> Self {
+        Self {
+            inside: true,
+            only_ceilings_fail: true,
+            best: None,
+            failing: 0,
+        }
+    }
+
+    /// Take limit `k` with its relative margin `rel`; `sat`: satisfied; `ceiling`: a velocity
+    /// ceiling.
+    #[inline(always)]
+    fn consider(&mut self, k: usize, rel: f64, sat: bool, ceiling: bool) {
+        if !sat {
+            self.failing |= 1u64.checked_shl(k as u32).unwrap_or(0);
+            self.inside = false;
+            if !ceiling {
+                self.only_ceilings_fail = false;
+            }
+        }
+        // `min_by(total_cmp)` keeps the first of equal minima.
+        match self.best {
+            Some((_, b)) if rel.total_cmp(&b) != std::cmp::Ordering::Less => {}
+            _ => self.best = Some((k, rel)),
+        }
+    }
+
+    /// Welded when every limit holds; melted when only velocity ceilings fail; else not
+    /// welded.
+    #[inline(always)]
+    fn verdict(&self) -> Prediction {
+        if self.inside {
             Prediction::Welded
-        } else if only_ceilings_fail {
+        } else if self.only_ceilings_fail {
             Prediction::Melted
         } else {
             Prediction::NotWelded
-        };
-        Ok(Point {
-            vp: vp.si(),
-            vc: vc.si(),
-            vf: c.flow_velocity.si(),
-            beta_deg,
-            pressure: impact.pressure.si(),
-            jetting_deg: jet.critical_angle.degrees(),
-            regime: jet.regime,
-            jetting_direct,
-            verdict,
-            binding: best.map(|b| b.0),
-            binding_relative: best.map_or(f64::NAN, |b| b.1),
-            outside_trial_data,
-            failing,
-        })
+        }
     }
 }
 

@@ -1,0 +1,142 @@
+//! Reading an interface export: the header (names and units), record splitting for CSV (quoted
+//! fields included) and JSON lines, number parsing, and the source that cuts the input into
+//! chunks of whole records.
+
+mod fields;
+mod header;
+mod number;
+mod source;
+
+pub use fields::{next_record, scan_plain, split_fields, split_plain_line, Fields};
+pub use header::{json_object, json_reason, parse_header, split_cell, Column, Header, Wanted};
+pub use number::{number_reason, parse_number, trim_spaces};
+pub use source::{Source, MAX_RECORD};
+
+use crate::error::MapError;
+use crate::options::Format;
+
+/// The header as read from the start of the input.
+pub struct HeaderRead {
+    /// The parsed header.
+    pub header: Header,
+    /// Line number of the first record after it.
+    pub first_line: u64,
+    /// Lines starting with '#' before it (skipped).
+    pub comment_lines: u64,
+}
+
+/// Read the header from the start of `source`: for CSV the header row, for JSON lines the keys
+/// of the first object (which stays in the stream: it is also the first row). Lines starting
+/// with '#' before it are a preamble (an export's notes, provenance, an "invented data"
+/// label): skipped and counted.
+///
+/// # Errors
+/// A read error, empty input, or a header that does not give the wanted columns with units.
+pub fn read_header(
+    source: &mut Source,
+    format: Format,
+    file_name: &str,
+    wanted: &Wanted,
+) -> Result<HeaderRead, MapError> {
+    let (cells, first_line, comment_lines) = match format {
+        Format::Csv => csv_header_cells(source, file_name)?,
+        Format::Jsonl => json_header_keys(source, file_name)?,
+    };
+    let header = parse_header(file_name, 1 + comment_lines, cells, wanted).map_err(|m| {
+        // A JSON object read as a CSV header: say which flag reads it.
+        if format == Format::Csv && m.contains("no column named") && m.contains('{') {
+            MapError::Input(format!(
+                "{m}\n  hint: the first line looks like a JSON object: read the file as JSON lines with --format jsonl"
+            ))
+        } else {
+            MapError::Input(m)
+        }
+    })?;
+    Ok(HeaderRead {
+        header,
+        first_line,
+        comment_lines,
+    })
+}
+
+fn read_error(file_name: &str) -> impl Fn(std::io::Error) -> MapError + '_ {
+    move |e| MapError::Input(format!("{file_name}: cannot read: {e}"))
+}
+
+/// The cells of a CSV header row, the line number of the first record, the comment lines.
+fn csv_header_cells(
+    source: &mut Source,
+    file_name: &str,
+) -> Result<(Vec<String>, u64, u64), MapError> {
+    let mut comment_lines = 0u64;
+    let head = loop {
+        let Some(line) = source
+            .first_line(true, true, MAX_RECORD)
+            .map_err(read_error(file_name))?
+        else {
+            return Err(MapError::Input(if comment_lines > 0 {
+                format!(
+                    "{file_name}: no header row after {comment_lines} comment line(s): expected a header such as position[mm],velocity[m/s],angle[deg]"
+                )
+            } else {
+                format!(
+                    "{file_name}: empty input: expected a header row such as position[mm],velocity[m/s],angle[deg]"
+                )
+            }));
+        };
+        if !line.trim_ascii_start().starts_with(b"#") {
+            break line;
+        }
+        comment_lines += 1 + line.iter().filter(|&&b| b == b'\n').count() as u64;
+    };
+    let mut f = Fields::default();
+    let quoted = head.contains(&b'"');
+    split_fields(&head, quoted, &mut f);
+    let cells: Vec<String> = (0..f.ranges.len())
+        .map(|i| {
+            String::from_utf8_lossy(f.get(&head, i).unwrap_or(b""))
+                .trim()
+                .to_string()
+        })
+        .collect();
+    let inside = head.iter().filter(|&&b| b == b'\n').count() as u64;
+    Ok((cells, 2 + inside + comment_lines, comment_lines))
+}
+
+/// The keys of the first JSON object (left in the stream), the line number of the first
+/// record, the comment lines.
+fn json_header_keys(
+    source: &mut Source,
+    file_name: &str,
+) -> Result<(Vec<String>, u64, u64), MapError> {
+    let mut comment_lines = 0u64;
+    let first = loop {
+        let Some(line) = source
+            .first_line(false, false, MAX_RECORD)
+            .map_err(read_error(file_name))?
+        else {
+            return Err(MapError::Input(format!(
+                "{file_name}: empty input: expected JSON lines such as {{\"position[mm]\": 0.5, \"velocity[m/s]\": 420, \"angle[deg]\": 8}}"
+            )));
+        };
+        if !line.trim_ascii_start().starts_with(b"#") {
+            break line;
+        }
+        source
+            .first_line(true, false, MAX_RECORD)
+            .map_err(read_error(file_name))?;
+        comment_lines += 1;
+    };
+    let obj = json_object(&first).map_err(|e| {
+        MapError::Input(format!(
+            "{file_name}: row {}: not a JSON object: {} (the first object sets the columns)",
+            1 + comment_lines,
+            json_reason(&e)
+        ))
+    })?;
+    Ok((
+        obj.keys().cloned().collect(),
+        1 + comment_lines,
+        comment_lines,
+    ))
+}

@@ -1,0 +1,255 @@
+//! Number parsing: a fast path for plain decimals and Clinger's fast path, correctly rounded
+//! (the same result as `str::parse::<f64>`), with std's parser behind them.
+
+/// Parse a decimal number fast; the result is the same as `str::parse::<f64>` (correctly
+/// rounded). Surrounding ASCII spaces are allowed. `None` if the text is not a finite number.
+#[inline]
+pub fn parse_number(bytes: &[u8]) -> Option<f64> {
+    let b = trim_spaces(bytes);
+    match plain_decimal(b) {
+        Some(v) => Some(v),
+        None => parse_number_slow(b),
+    }
+}
+
+/// Everything but the plain shape: exponents, long mantissas, and what is not a number.
+#[cold]
+#[inline(never)]
+fn parse_number_slow(b: &[u8]) -> Option<f64> {
+    if let Some(v) = fast_decimal(b) {
+        return Some(v);
+    }
+    let s = std::str::from_utf8(b).ok()?;
+    // std accepts "inf", "nan", "infinity": refuse anything not finite.
+    let v: f64 = s.parse().ok()?;
+    v.is_finite().then_some(v)
+}
+
+/// Why a field is not a number, for the message about its row: empty, a unit written in
+/// the field (it belongs in the header, as in `cell`), or not a finite number.
+pub fn number_reason(text: &[u8], cell: &str) -> String {
+    let t = String::from_utf8_lossy(trim_spaces(text)).into_owned();
+    if t.is_empty() {
+        "empty: every row needs a value here (fill it in, or take the row out)".into()
+    } else if t.starts_with(|c: char| c.is_ascii_digit() || c == '-' || c == '+' || c == '.')
+        && t.chars().any(|c| c.is_alphabetic())
+        && !t.to_ascii_lowercase().starts_with("inf")
+        && !t.to_ascii_lowercase().starts_with("nan")
+    {
+        format!("'{t}' is not a plain number (the unit belongs in the header, as in {cell})")
+    } else {
+        format!("'{t}' is not a finite number (write a plain decimal such as 12.5 or 1.25e1)")
+    }
+}
+
+/// Trim ASCII spaces and tabs.
+#[inline]
+pub fn trim_spaces(b: &[u8]) -> &[u8] {
+    let blank = |c: u8| c == b' ' || c == b'\t';
+    match (b.first(), b.last()) {
+        // Nothing to trim: the common case, two tests.
+        (Some(&f), Some(&l)) if !blank(f) && !blank(l) => b,
+        _ => trim_blank_ends(b),
+    }
+}
+
+fn trim_blank_ends(b: &[u8]) -> &[u8] {
+    let mut s = 0;
+    let mut e = b.len();
+    while s < e && (b[s] == b' ' || b[s] == b'\t') {
+        s += 1;
+    }
+    while e > s && (b[e - 1] == b' ' || b[e - 1] == b'\t') {
+        e -= 1;
+    }
+    &b[s..e]
+}
+
+const EXACT_POW10: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// The commonest shape, `[-+]digits[.digits]`, in one pass over the bytes with no index
+/// bookkeeping: each byte is a digit, the first point, or the end of this path (an exponent or
+/// anything else goes on to [`fast_decimal`] and std). Same limits and the same correctly
+/// rounded result as `fast_decimal`.
+#[inline]
+fn plain_decimal(b: &[u8]) -> Option<f64> {
+    let (neg, rest) = match b.split_first() {
+        Some((b'-', r)) => (true, r),
+        Some((b'+', r)) => (false, r),
+        _ => (false, b),
+    };
+    let mut mant: u64 = 0;
+    let mut digits = 0usize;
+    let mut point: Option<usize> = None;
+    for &c in rest {
+        let d = c.wrapping_sub(b'0');
+        if d <= 9 {
+            mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
+            digits += 1;
+        } else if c == b'.' && point.is_none() {
+            point = Some(digits);
+        } else {
+            return None;
+        }
+    }
+    let frac = point.map_or(0, |p| digits - p);
+    if digits == 0 || digits > 19 || mant > (1u64 << 53) || frac > 22 {
+        return None;
+    }
+    let v = mant as f64 / EXACT_POW10[frac];
+    Some(if neg { -v } else { v })
+}
+
+/// Clinger's fast path: a decimal whose digits (leading zeros included, at most 19 so the
+/// integer cannot overflow) form an integer of at most 2^53, with a power of ten within +-22,
+/// is one exact integer times or divided by one exact power of ten, so one correctly rounded
+/// operation gives the correctly rounded result. Anything else: `None` (std's parser).
+///
+/// The digit loops test one range per byte and nothing else, so the common plain decimal
+/// costs about one multiply-add per digit.
+#[inline]
+fn fast_decimal(b: &[u8]) -> Option<f64> {
+    let (neg, mut i) = match b.first() {
+        Some(b'-') => (true, 1),
+        Some(b'+') => (false, 1),
+        _ => (false, 0),
+    };
+    let start = i;
+    let mut mant: u64 = 0;
+    while let Some(&c) = b.get(i) {
+        let d = c.wrapping_sub(b'0');
+        if d > 9 {
+            break;
+        }
+        mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
+        i += 1;
+    }
+    let int_digits = i - start;
+    let mut frac = 0usize;
+    if b.get(i) == Some(&b'.') {
+        i += 1;
+        let fs = i;
+        while let Some(&c) = b.get(i) {
+            let d = c.wrapping_sub(b'0');
+            if d > 9 {
+                break;
+            }
+            mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
+            i += 1;
+        }
+        frac = i - fs;
+    }
+    let digits = int_digits + frac;
+    if digits == 0 || digits > 19 || mant > (1u64 << 53) {
+        return None;
+    }
+    let mut exp = -(frac as i64);
+    if i < b.len() {
+        if b[i] != b'e' && b[i] != b'E' {
+            return None;
+        }
+        i += 1;
+        let eneg = match b.get(i) {
+            Some(b'-') => {
+                i += 1;
+                true
+            }
+            Some(b'+') => {
+                i += 1;
+                false
+            }
+            _ => false,
+        };
+        let es = i;
+        let mut e: i64 = 0;
+        while let Some(&c) = b.get(i) {
+            let d = c.wrapping_sub(b'0');
+            if d > 9 || e > 10_000 {
+                break;
+            }
+            e = e * 10 + i64::from(d);
+            i += 1;
+        }
+        if i == es || i != b.len() {
+            return None;
+        }
+        exp += if eneg { -e } else { e };
+    }
+    let m = mant as f64;
+    let v = if mant == 0 {
+        0.0
+    } else if (0..=22).contains(&exp) {
+        m * EXACT_POW10[exp as usize]
+    } else if (-22..0).contains(&exp) {
+        m / EXACT_POW10[(-exp) as usize]
+    } else {
+        return None;
+    };
+    Some(if neg { -v } else { v })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    #[test]
+    fn numbers() {
+        for (t, v) in [
+            ("1", 1.0),
+            (" 2.5 ", 2.5),
+            ("-0.125", -0.125),
+            ("1e3", 1000.0),
+            ("+.5", 0.5),
+            ("5.", 5.0),
+            ("1.5E-2", 0.015),
+            ("0.000", 0.0),
+        ] {
+            assert_eq!(parse_number(t.as_bytes()), Some(v), "{t}");
+        }
+        // Past the fast path's limits (20 digits, 2^53 + 1, a long exponent): std decides.
+        for (t, v) in [
+            ("12345678901234567890", 12345678901234567890.0),
+            ("9007199254740993", 9007199254740993.0),
+            ("0.00000000000000000000000001", 1e-26),
+            ("1e000000000000000000003", 1000.0),
+        ] {
+            assert_eq!(parse_number(t.as_bytes()), Some(v), "{t}");
+        }
+        for t in [
+            "", "abc", "1.5 mm", "inf", "NaN", "1e", "--1", "1e400", ".", "1.2.3", "1e+", "e5",
+            "-", "1 2",
+        ] {
+            assert_eq!(parse_number(t.as_bytes()), None, "{t}");
+        }
+    }
+
+    proptest! {
+        /// The fast path gives exactly what std's parser gives.
+        #[test]
+        fn fast_parse_matches_std(m in 0u64..10_000_000_000_000_000, e in -30i32..30, neg in any::<bool>(), dot in 0usize..20) {
+            let mut digits = m.to_string();
+            if dot < digits.len() {
+                digits.insert(digits.len() - dot, '.');
+            }
+            let text = format!("{}{}e{}", if neg { "-" } else { "" }, digits, e);
+            let want: f64 = text.parse().unwrap();
+            prop_assert_eq!(parse_number(text.as_bytes()).map(f64::to_bits), Some(want.to_bits()), "{}", text);
+            let plain = format!("{}{}", if neg { "-" } else { "" }, digits);
+            let want: f64 = plain.parse().unwrap();
+            prop_assert_eq!(parse_number(plain.as_bytes()).map(f64::to_bits), Some(want.to_bits()), "{}", plain);
+        }
+
+        #[test]
+        fn any_float_round_trips(x in any::<f64>()) {
+            prop_assume!(x.is_finite());
+            let text = format!("{x}");
+            prop_assert_eq!(parse_number(text.as_bytes()), Some(x));
+            let text = format!("{x:e}");
+            prop_assert_eq!(parse_number(text.as_bytes()), Some(x));
+        }
+    }
+}

@@ -1,0 +1,563 @@
+//! A worker's side of the pipeline: each record of a chunk split, checked, read (a fast path for
+//! plain CSV numbers, a general one that words every fault), classified and written as an
+//! output row, with a compact record of it for the summary.
+
+use super::columns::{computed_csv, computed_json};
+use super::layout::Ctx;
+use super::slot::Slot;
+use crate::classifier::Point;
+use crate::format::{
+    fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, Counter, TextBuf,
+};
+use crate::input::{
+    json_object, json_reason, next_record, number_reason, parse_number, scan_plain, split_cell,
+    split_fields, split_plain_line, trim_spaces, Column, Fields,
+};
+use crate::options::{BadRows, Format};
+use crate::record::{Lite, Rejected};
+use oblique_window::classify::Prediction;
+use serde_json::{Map, Value};
+
+/// The values read from one row.
+struct RowValues {
+    position: f64,
+    velocity: f64,
+    angle: f64,
+}
+
+enum Cells<'r> {
+    Csv { line: &'r [u8], fields: &'r Fields },
+    Json { obj: &'r Map<String, Value> },
+}
+
+pub(super) struct Worker {
+    /// The current row number as text.
+    row_text: Counter,
+    fields: Fields,
+    margins: Vec<f64>,
+}
+
+type Bad = (String, String);
+
+fn cell_name(ctx: &Ctx<'_>, i: usize) -> String {
+    ctx.header
+        .cells
+        .get(i)
+        .cloned()
+        .unwrap_or_else(|| format!("field {}", i + 1))
+}
+
+impl Worker {
+    /// A worker with empty scratch.
+    pub(super) fn new() -> Self {
+        Self {
+            row_text: Counter::default(),
+            fields: Fields::default(),
+            margins: Vec::new(),
+        }
+    }
+
+    /// The common case of [`Worker::values`] without building any message: an unquoted CSV
+    /// record whose fields all parse and pass the checks. `None` sends the row to `values`,
+    /// which finds the same fault and words it.
+    #[inline]
+    fn plain_values(&self, ctx: &Ctx<'_>, line: &[u8]) -> Option<RowValues> {
+        if self.fields.quoted {
+            return None;
+        }
+        let h = ctx.header;
+        let ranges = &self.fields.ranges;
+        let position = plain_number(line, ranges, &h.position)?;
+        let velocity = plain_number(line, ranges, &h.velocity)?;
+        let angle = plain_number(line, ranges, &h.angle)?;
+        if let Some(t) = &h.time {
+            plain_number(line, ranges, t)?;
+        }
+        let deg = angle.to_degrees();
+        (position.is_finite() && velocity > 0.0 && velocity.is_finite() && deg > 0.0 && deg < 90.0)
+            .then_some(RowValues {
+                position,
+                velocity,
+                angle,
+            })
+    }
+
+    fn values(&self, ctx: &Ctx<'_>, cells: &Cells<'_>) -> Result<RowValues, Bad> {
+        let h = ctx.header;
+        let get = |col: &Column| -> Result<f64, Bad> {
+            match cells {
+                Cells::Csv { line, fields } => {
+                    let text = fields.get(line, col.index).unwrap_or(b"");
+                    parse_number(text)
+                        .map(|v| v * col.factor)
+                        .ok_or_else(|| (col.cell.clone(), number_reason(text, &col.cell)))
+                }
+                Cells::Json { obj } => match obj.get(&col.cell) {
+                    None | Some(Value::Null) => Err((col.cell.clone(), "missing".into())),
+                    Some(Value::Number(n)) => n
+                        .as_f64()
+                        .filter(|v| v.is_finite())
+                        .map(|v| v * col.factor)
+                        .ok_or_else(|| (col.cell.clone(), format!("{n} is not a finite number"))),
+                    Some(Value::String(s)) => parse_number(s.as_bytes())
+                        .map(|v| v * col.factor)
+                        .ok_or_else(|| (col.cell.clone(), number_reason(s.as_bytes(), &col.cell))),
+                    Some(other) => Err((col.cell.clone(), format!("{other} is not a number"))),
+                },
+            }
+        };
+        let position = get(&h.position)?;
+        let velocity = get(&h.velocity)?;
+        let angle = get(&h.angle)?;
+        if let Some(t) = &h.time {
+            get(t)?;
+        }
+        if !position.is_finite() {
+            return Err((h.position.cell.clone(), "not a finite length".into()));
+        }
+        // The value as written, with its conversion when the header's unit is not the one the
+        // message speaks in.
+        let as_written = |col: &Column, si_unit: &str, shown: f64| -> String {
+            let unit = split_cell(&col.cell).1.unwrap_or("");
+            if unit == si_unit {
+                format!("{} {si_unit}", fmt_short(shown))
+            } else {
+                let raw = match cells {
+                    Cells::Csv { line, fields } => String::from_utf8_lossy(trim_spaces(
+                        fields.get(line, col.index).unwrap_or(b""),
+                    ))
+                    .into_owned(),
+                    Cells::Json { obj } => obj.get(&col.cell).map_or(String::new(), |v| {
+                        v.as_str().map_or_else(|| v.to_string(), str::to_string)
+                    }),
+                };
+                format!("'{raw}' ({}) = {} {si_unit}", col.cell, fmt_short(shown))
+            }
+        };
+        if !(velocity > 0.0 && velocity.is_finite()) {
+            return Err((
+                h.velocity.cell.clone(),
+                format!(
+                    "{} is not above zero (velocities must be positive)",
+                    as_written(&h.velocity, "m/s", velocity)
+                ),
+            ));
+        }
+        let deg = angle.to_degrees();
+        if !(deg > 0.0 && deg < 90.0) {
+            let unit = split_cell(&h.angle.cell).1.unwrap_or("");
+            let hint = if unit != "deg" && deg >= 90.0 {
+                format!(
+                    "; if this column holds degrees, write {}[deg] in the header",
+                    split_cell(&h.angle.cell).0
+                )
+            } else {
+                String::new()
+            };
+            return Err((
+                h.angle.cell.clone(),
+                format!(
+                    "{} is outside (0, 90) deg{hint}",
+                    as_written(&h.angle, "deg", deg)
+                ),
+            ));
+        }
+        Ok(RowValues {
+            position,
+            velocity,
+            angle,
+        })
+    }
+
+    /// Parse, classify and write every record of the slot's chunk.
+    pub(super) fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot) {
+        let n_limits = ctx.classifier.limits.len();
+        slot.stats.welded_min = vec![None; n_limits];
+        slot.stats.unwelded_binding = vec![[0; 2]; n_limits];
+        let data = std::mem::take(&mut slot.data);
+        let mut pos = 0;
+        let mut line_no = slot.first_line;
+        while pos < data.len() {
+            let mut plain = false;
+            let (end, next, inside_nl, quoted) = match ctx.in_format {
+                Format::Csv if !slot.has_quote => {
+                    // No quote in the whole chunk: every record is one line.
+                    plain = true;
+                    let end = memchr::memchr(b'\n', &data[pos..]).map_or(data.len(), |p| pos + p);
+                    let content = if end > pos && data[end - 1] == b'\r' {
+                        end - 1
+                    } else {
+                        end
+                    };
+                    split_plain_line(&data[pos..content], &mut self.fields);
+                    (end, (end + 1).min(data.len()), 0, false)
+                }
+                Format::Csv => match scan_plain(&data, pos, &mut self.fields) {
+                    Some((end, next)) => {
+                        plain = true;
+                        (end, next, 0, false)
+                    }
+                    None => next_record(&data, pos),
+                },
+                Format::Jsonl => {
+                    let nl = memchr::memchr(b'\n', &data[pos..]);
+                    let end = nl.map_or(data.len(), |p| pos + p);
+                    (end, nl.map_or(data.len(), |p| pos + p + 1), 0, false)
+                }
+            };
+            let mut rec = &data[pos..end];
+            if rec.last() == Some(&b'\r') {
+                rec = &rec[..rec.len() - 1];
+                if plain {
+                    if let Some(last) = self.fields.ranges.last_mut() {
+                        last.1 = last.1.min(rec.len());
+                    }
+                }
+            }
+            let row = line_no;
+            line_no += 1 + inside_nl as u64;
+            pos = next;
+            if trim_spaces(rec).is_empty() {
+                slot.stats.blank += 1;
+                continue;
+            }
+            slot.stats.rows_read += 1;
+            if let Err((field, reason)) = self.row(ctx, slot, row, rec, quoted, plain) {
+                slot.stats.rejected += 1;
+                if ctx.policy == BadRows::Save {
+                    write_bad(ctx, &mut slot.bad_out, row, &field, &reason, rec);
+                }
+                let pos = rejected_position(ctx, rec, quoted);
+                slot.bad.push(Rejected {
+                    row,
+                    field,
+                    reason,
+                    pos,
+                });
+                if ctx.policy == BadRows::Stop {
+                    slot.stopped = true;
+                    break;
+                }
+            }
+        }
+        slot.data = data;
+    }
+
+    /// Classify one record and write its output row; the row's fault otherwise.
+    fn row(
+        &mut self,
+        ctx: &Ctx<'_>,
+        slot: &mut Slot,
+        row: u64,
+        rec: &[u8],
+        quoted: bool,
+        already_split: bool,
+    ) -> Result<(), Bad> {
+        let obj;
+        let cells = match ctx.in_format {
+            Format::Csv => {
+                self.csv_fields(ctx, rec, quoted, already_split)?;
+                Cells::Csv {
+                    line: rec,
+                    fields: &self.fields,
+                }
+            }
+            Format::Jsonl => {
+                obj = json_cells(ctx, rec)?;
+                Cells::Json { obj: &obj }
+            }
+        };
+        let fast = match &cells {
+            Cells::Csv { line, .. } => self.plain_values(ctx, line),
+            Cells::Json { .. } => None,
+        };
+        let v = match fast {
+            Some(v) => v,
+            None => self.values(ctx, &cells)?,
+        };
+        let p = ctx
+            .classifier
+            .classify(v.velocity, v.angle, &mut self.margins)
+            .map_err(|e| ("(classification)".to_string(), e.to_string()))?;
+        let out = &mut slot.out;
+        let out_start = out.len();
+        match ctx.out_format {
+            Format::Csv => csv_row(&mut self.row_text, ctx, &self.margins, out, row, &cells, &p),
+            Format::Jsonl => json_row(ctx, &self.margins, out, row, &cells, &p),
+        }
+        record(slot, &self.margins, row, v.position, out_start, &p);
+        Ok(())
+    }
+
+    /// Split a CSV record (unless the fast path did) and check its field count.
+    #[inline(always)]
+    fn csv_fields(
+        &mut self,
+        ctx: &Ctx<'_>,
+        rec: &[u8],
+        quoted: bool,
+        already_split: bool,
+    ) -> Result<(), Bad> {
+        let n = ctx.header.cells.len();
+        if !already_split {
+            split_fields(rec, quoted, &mut self.fields);
+        }
+        let got = self.fields.ranges.len();
+        if trim_spaces(rec).starts_with(b"#") {
+            return Err((
+                "(row)".into(),
+                "a comment line after the header: '#' lines are skipped only before the header"
+                    .into(),
+            ));
+        }
+        if got < n {
+            return Err((
+                cell_name(ctx, got),
+                format!("missing: the row has {got} field(s), the header {n}"),
+            ));
+        }
+        if got > n {
+            return Err((
+                "(row)".into(),
+                format!(
+                    "the row has {got} fields, the header {n} (a text field that holds a comma must be in double quotes)"
+                ),
+            ));
+        }
+        Ok(())
+    }
+}
+
+/// The value of column `col` of an unquoted CSV line split into `ranges`, in SI.
+#[inline(always)]
+fn plain_number(line: &[u8], ranges: &[(usize, usize)], col: &Column) -> Option<f64> {
+    let &(s, e) = ranges.get(col.index)?;
+    parse_number(line.get(s..e)?).map(|v| v * col.factor)
+}
+
+/// A JSON-lines record as an object whose keys are all among the first line's.
+fn json_cells(ctx: &Ctx<'_>, rec: &[u8]) -> Result<Map<String, Value>, Bad> {
+    let obj = match json_object(rec) {
+        Ok(o) => o,
+        Err(e) => {
+            return Err((
+                "(line)".into(),
+                format!("not a JSON object: {}", json_reason(&e)),
+            ))
+        }
+    };
+    if let Some(k) = obj.keys().find(|k| !ctx.header.cells.contains(k)) {
+        return Err((
+            k.clone(),
+            "not among the fields of the first line (the first object sets the columns)".into(),
+        ));
+    }
+    Ok(obj)
+}
+
+/// One CSV output row: the row number, the input cells as written (a CSV line is copied
+/// whole), the computed columns.
+#[inline(always)]
+fn csv_row(
+    row_text: &mut Counter,
+    ctx: &Ctx<'_>,
+    margins: &[f64],
+    out: &mut TextBuf,
+    row: u64,
+    cells: &Cells<'_>,
+    p: &Point,
+) {
+    let line_len = match cells {
+        Cells::Csv { line, .. } => line.len(),
+        Cells::Json { .. } => 0,
+    };
+    let mut w = out.writer(ctx.row_bound + line_len);
+    w.word(row_text.get(row));
+    w.push(b',');
+    if let Cells::Csv { line, .. } = cells {
+        w.extend(line);
+        computed_csv(ctx, margins, &mut w, p);
+        w.push(b'\n');
+        let n = w.written();
+        out.commit(n);
+    } else {
+        let n = w.written();
+        out.commit(n);
+    }
+    match cells {
+        Cells::Csv { .. } => {}
+        Cells::Json { obj } => {
+            for (i, c) in ctx.header.cells.iter().enumerate() {
+                if i > 0 {
+                    out.push(b',');
+                }
+                match obj.get(c) {
+                    None | Some(Value::Null) => {}
+                    Some(Value::String(s)) => out.csv_field(s.as_bytes()),
+                    Some(other) => out.csv_field(other.to_string().as_bytes()),
+                }
+            }
+            let mut w = out.writer(ctx.row_bound);
+            computed_csv(ctx, margins, &mut w, p);
+            w.push(b'\n');
+            let n = w.written();
+            out.commit(n);
+        }
+    }
+}
+
+/// One JSON-lines output row: the row number, the input cells (numbers of the mapped columns
+/// as numbers, other CSV cells as strings, JSON values as they were), the computed columns.
+#[inline(always)]
+fn json_row(
+    ctx: &Ctx<'_>,
+    margins: &[f64],
+    out: &mut TextBuf,
+    row: u64,
+    cells: &Cells<'_>,
+    p: &Point,
+) {
+    out.extend(b"{\"row\":");
+    out.u64(row);
+    match cells {
+        Cells::Csv { line, fields } => {
+            for i in 0..ctx.header.cells.len() {
+                out.push(b',');
+                out.extend(&ctx.json_cell_keys[i]);
+                let text = fields.get(line, i).unwrap_or(b"");
+                if ctx.cell_role[i].is_some() {
+                    let t = trim_spaces(text);
+                    if is_json_number(t) {
+                        out.extend(t);
+                    } else {
+                        // Parsed before, so it is a finite number.
+                        let x = parse_number(t).unwrap_or(f64::NAN);
+                        out.extend(fmt_g(x).as_bytes());
+                    }
+                } else {
+                    out.json_string(text);
+                }
+            }
+        }
+        Cells::Json { obj } => {
+            for (i, c) in ctx.header.cells.iter().enumerate() {
+                out.push(b',');
+                out.extend(&ctx.json_cell_keys[i]);
+                match obj.get(c) {
+                    Some(v) => out.extend(v.to_string().as_bytes()),
+                    None => out.extend(b"null"),
+                }
+            }
+        }
+    }
+    computed_json(ctx, margins, out, p);
+    out.extend(b"}\n");
+}
+
+/// The per-point record for the summary, and the chunk's counts.
+#[inline(always)]
+fn record(slot: &mut Slot, margins: &[f64], row: u64, position: f64, out_start: usize, p: &Point) {
+    let verdict = match p.verdict {
+        Prediction::Welded => 0u8,
+        Prediction::NotWelded => 1,
+        Prediction::Melted => 2,
+    };
+    if p.outside_trial_data {
+        slot.stats.outside += 1;
+        if verdict == 0 {
+            slot.stats.welded_outside += 1;
+        }
+    }
+    if p.jetting_direct {
+        slot.stats.jetting_direct += 1;
+    }
+    if verdict == 0 {
+        for (k, m) in margins.iter().enumerate() {
+            if m.is_nan() {
+                continue;
+            }
+            let slotm = &mut slot.stats.welded_min[k];
+            if slotm.is_none_or_greater(*m) {
+                *slotm = Some((*m, row));
+            }
+        }
+    } else if let Some(b) = p.binding {
+        slot.stats.unwelded_binding[b][usize::from(verdict == 2)] += 1;
+    }
+    let (margin, binding) = match p.binding {
+        Some(b) => (margins[b], b as u16),
+        None => (f64::NAN, u16::MAX),
+    };
+    slot.lites.push(Lite {
+        row,
+        pos: position,
+        vp: p.vp as f32,
+        beta: p.beta_deg as f32,
+        binding,
+        verdict,
+        out_start: out_start as u32,
+        margin,
+        rel: p.binding_relative,
+    });
+}
+
+trait MinSlot {
+    fn is_none_or_greater(&self, m: f64) -> bool;
+}
+
+impl MinSlot for Option<(f64, u64)> {
+    fn is_none_or_greater(&self, m: f64) -> bool {
+        match self {
+            Some((old, _)) => m < *old,
+            None => true,
+        }
+    }
+}
+
+/// The position of a rejected row, m, when its position cell can still be read (it places
+/// the row along the interface for the summary); `None` otherwise.
+fn rejected_position(ctx: &Ctx<'_>, rec: &[u8], quoted: bool) -> Option<f64> {
+    let col = &ctx.header.position;
+    let x = match ctx.in_format {
+        Format::Csv => {
+            let mut f = Fields::default();
+            split_fields(rec, quoted, &mut f);
+            parse_number(f.get(rec, col.index)?)?
+        }
+        Format::Jsonl => {
+            let obj = serde_json::from_slice::<Map<String, Value>>(rec).ok()?;
+            match obj.get(&col.cell)? {
+                Value::Number(n) => n.as_f64()?,
+                Value::String(t) => parse_number(t.as_bytes())?,
+                _ => return None,
+            }
+        }
+    };
+    Some(x * col.factor).filter(|v| v.is_finite())
+}
+
+fn write_bad(ctx: &Ctx<'_>, out: &mut Vec<u8>, row: u64, field: &str, reason: &str, rec: &[u8]) {
+    match ctx.in_format {
+        Format::Csv => {
+            push_u64(out, row);
+            out.push(b',');
+            push_csv_field(out, field.as_bytes());
+            out.push(b',');
+            push_csv_field(out, reason.as_bytes());
+            out.push(b',');
+            out.extend_from_slice(rec);
+            out.push(b'\n');
+        }
+        Format::Jsonl => {
+            out.extend_from_slice(b"{\"row\":");
+            push_u64(out, row);
+            out.extend_from_slice(b",\"field\":");
+            push_json_string(out, field.as_bytes());
+            out.extend_from_slice(b",\"reason\":");
+            push_json_string(out, reason.as_bytes());
+            out.extend_from_slice(b",\"line\":");
+            push_json_string(out, rec);
+            out.extend_from_slice(b"}\n");
+        }
+    }
+}
