@@ -237,13 +237,20 @@ impl Scanner<'_> {
                 }
             }
             _ => {
+                let start = self.i;
                 while let Some(c) = self.peek() {
                     if matches!(c, b',' | b')' | b']' | b'}') || c.is_ascii_whitespace() {
                         break;
                     }
                     self.i += 1;
                 }
-                Some(())
+                // A closing bracket where a value should be (`(}` or `[)`): stop here, or the
+                // enclosing list would ask for a value at the same place for ever.
+                if self.i == start {
+                    None
+                } else {
+                    Some(())
+                }
             }
         };
         self.depth -= 1;
@@ -430,6 +437,10 @@ mod tests {
             "r#\"x",
             "/* open",
             "(((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((((",
+            "(}",
+            "[)",
+            "(a: [1, }])",
+            "{ a: ] }",
         ] {
             let _ = RonIndex::scan(t);
         }

@@ -284,7 +284,7 @@ impl Summary {
             self.marks.push((p.vp, p.beta, p.verdict));
         }
         if self.stride > 0 {
-            if self.seen % self.stride == 0 {
+            if self.seen.is_multiple_of(self.stride) {
                 self.samples.push(Sample {
                     pos: p.pos,
                     vp: p.vp,
