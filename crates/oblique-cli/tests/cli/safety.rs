@@ -522,3 +522,63 @@ fn a_pair_file_with_a_byte_order_mark_loads_and_keeps_it() {
         "CRLF kept throughout"
     );
 }
+
+#[test]
+fn absurd_map_rows_are_refused_and_plots_finish() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("m.csv");
+    let strip = dir.path().join("s.svg");
+    let plane = dir.path().join("w.svg");
+    for (body, needle) in [
+        (
+            "position[mm],velocity[m/s],angle[deg]\n0,1e39,10\n1,400,10\n",
+            "above 100 km/s",
+        ),
+        (
+            "position[m],velocity[m/s],angle[deg]\n0,400,10\n1e306,400,10\n",
+            "beyond 1 km",
+        ),
+    ] {
+        let input = dir.path().join("in.csv");
+        std::fs::write(&input, body).expect("input");
+        // Before, the strip's axis ticks looped for ever on these rows.
+        let o = run(&[
+            "map",
+            input.to_str().expect("utf-8"),
+            "--pair",
+            "demo-al6061-on-cu",
+            "-o",
+            out.to_str().expect("utf-8"),
+            "--strip-svg",
+            strip.to_str().expect("utf-8"),
+            "--window-svg",
+            plane.to_str().expect("utf-8"),
+        ]);
+        assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+        assert!(stderr(&o).contains(needle), "{}", stderr(&o));
+    }
+    // The widest rows accepted still plot.
+    let input = dir.path().join("wide.csv");
+    std::fs::write(
+        &input,
+        "position[m],velocity[m/s],angle[deg]\n-1000,400,1e-5\n0,400,10\n1e-15,99999,10\n1000,0.001,89.99\n",
+    )
+    .expect("input");
+    let o = run(&[
+        "map",
+        input.to_str().expect("utf-8"),
+        "--pair",
+        "demo-al6061-on-cu",
+        "-o",
+        out.to_str().expect("utf-8"),
+        "--strip-svg",
+        strip.to_str().expect("utf-8"),
+        "--window-svg",
+        plane.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    for f in [&strip, &plane] {
+        let s = std::fs::read_to_string(f).expect("svg");
+        roxmltree::Document::parse(&s).expect("well-formed SVG");
+    }
+}

@@ -2,6 +2,12 @@
 //! plain CSV numbers, a general one that words every fault), classified and written as an
 //! output row, with a compact record of it for the summary.
 
+/// Rows whose position lies further than this from the origin (m) are refused: no interface
+/// is a kilometre long, and plot axes need a sane span (common practice bound).
+const MAX_POSITION_M: f64 = 1e3;
+/// Rows faster than this (m/s) are refused, as on the command line (common practice bound).
+const MAX_VELOCITY_M_S: f64 = 1e5;
+
 use super::columns::{computed_csv, computed_json};
 use super::layout::Ctx;
 use super::slot::Slot;
@@ -74,7 +80,12 @@ impl Worker {
             plain_number(line, ranges, t)?;
         }
         let deg = angle.to_degrees();
-        (position.is_finite() && velocity > 0.0 && velocity.is_finite() && deg > 0.0 && deg < 90.0)
+        // Anything out of bounds takes the general path, which words the fault.
+        (position.abs() <= MAX_POSITION_M
+            && velocity > 0.0
+            && velocity <= MAX_VELOCITY_M_S
+            && deg > 0.0
+            && deg < 90.0)
             .then_some(RowValues {
                 position,
                 velocity,
@@ -115,6 +126,15 @@ impl Worker {
         if !position.is_finite() {
             return Err((h.position.cell.clone(), "not a finite length".into()));
         }
+        if position.abs() > MAX_POSITION_M {
+            return Err((
+                h.position.cell.clone(),
+                format!(
+                    "{} m is beyond 1 km from the origin: no welded interface is that long (common practice bound); check the column's unit",
+                    fmt_short(position)
+                ),
+            ));
+        }
         // The value as written, with its conversion when the header's unit is not the one the
         // message speaks in.
         let as_written = |col: &Column, si_unit: &str, shown: f64| -> String {
@@ -139,6 +159,15 @@ impl Worker {
                 h.velocity.cell.clone(),
                 format!(
                     "{} is not above zero (velocities must be positive)",
+                    as_written(&h.velocity, "m/s", velocity)
+                ),
+            ));
+        }
+        if velocity > MAX_VELOCITY_M_S {
+            return Err((
+                h.velocity.cell.clone(),
+                format!(
+                    "{} is above 100 km/s, beyond any launcher (common practice bound); check the column's unit",
                     as_written(&h.velocity, "m/s", velocity)
                 ),
             ));
