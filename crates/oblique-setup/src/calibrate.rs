@@ -298,17 +298,8 @@ pub struct NewBank {
 /// # Errors
 /// [`SetupError::Invalid`] for an empty name, or one with spaces or slashes.
 pub fn check_bank_name(name: &str) -> SetupResult {
-    if name.is_empty()
-        || name
-            .chars()
-            .any(|c| c.is_whitespace() || c == '/' || c == '\\')
-    {
-        return Err(SetupError::invalid(
-            field::SAVE_AS,
-            format!("name '{name}' must be non-empty, without spaces or slashes"),
-        ));
-    }
-    Ok(())
+    oblique_window::library::check_file_name(name, "name")
+        .map_err(|m| SetupError::invalid(field::SAVE_AS, m))
 }
 
 /// Refuse a name a user file already has; a warning when the new file shadows a built-in one.

@@ -131,12 +131,14 @@ impl SetupError {
     }
 
     /// A charging voltage above the bank's rating, naming the field and the rating's origin.
+    /// The voltage is shown with as many digits as it takes to differ from the rating (never
+    /// "12 kV exceeds 12 kV").
     pub(crate) fn above_rating(field: &'static str, u: f64, rating: f64, from: &str) -> Self {
         SetupError::invalid(
             field,
             format!(
                 "charging voltage {} exceeds the bank's rated voltage {} (from {from})\n  hint: stay at or below the rating; the rating protects people and the bank",
-                human::kv(u),
+                distinct_kv(u, rating),
                 human::kv(rating),
             ),
         )
@@ -205,4 +207,23 @@ mod tests {
         );
         assert_eq!(SetupError::invalid("--coil", "y").field(), Some("--coil"));
     }
+}
+
+/// `u` in kV with enough significant digits to tell it from `rating`.
+fn distinct_kv(u: f64, rating: f64) -> String {
+    let shown = human::kv(u);
+    if shown != human::kv(rating) {
+        return shown;
+    }
+    for digits in 4..=12 {
+        let (a, b) = (
+            format!("{:.*e}", digits, u / 1e3),
+            format!("{:.*e}", digits, rating / 1e3),
+        );
+        if a != b {
+            let s = format!("{:.*}", digits, u / 1e3);
+            return format!("{} kV", s.trim_end_matches('0').trim_end_matches('.'));
+        }
+    }
+    format!("{} kV", u / 1e3)
 }

@@ -12,6 +12,10 @@ pub enum Grid {
     Range(f64, f64),
 }
 
+/// The most values one range may be spread over (a sweep of 10 000 voltages already takes
+/// minutes; the grid of two ranges is limited further by `sweep::MAX_SETTINGS`).
+pub const MAX_STEPS: usize = 10_000;
+
 impl Grid {
     /// The values; a range is spread evenly over `steps` values (at least 2); `steps_field`
     /// names where the steps come from in the message.
@@ -25,6 +29,12 @@ impl Grid {
                 if steps < 2 {
                     return Err(format!(
                         "{steps_field} must be at least 2 for a range, got {steps}"
+                    ));
+                }
+                // Checked before anything is allocated.
+                if steps > MAX_STEPS {
+                    return Err(format!(
+                        "{steps_field} {steps} is more than the limit of {MAX_STEPS} values in one range"
                     ));
                 }
                 let n = steps - 1;
@@ -123,6 +133,8 @@ mod tests {
         assert_eq!(v.len(), 4);
         assert!((v[1] - 8e3).abs() < 1e-9 && (v[3] - 12e3).abs() < 1e-9);
         assert!(r.values(1, "--steps").is_err());
+        let e = r.values(4_294_967_297, "--steps").unwrap_err();
+        assert!(e.contains("more than the limit of 10000"), "{e}");
         assert!(voltage_grid("12kV..6kV").is_err());
         assert!(length_grid("0mm,1mm").is_err());
         assert!(length_grid("1,2").is_err(), "bare numbers need a unit");

@@ -21,6 +21,49 @@ pub const LIBRARY_ENV: &str = "OBLIQUE_LIBRARY";
 /// The file name of a folder's material file.
 pub const MATERIALS_FILE: &str = "materials.ron";
 
+/// The longest name of a library file (a pair or a machine; it is also the file name:
+/// file systems allow 255 bytes, and the temporary name of a safe write adds about 40).
+pub const MAX_FILE_NAME: usize = 100;
+
+/// Names a library file may not take: `materials.ron` is read as the folder's materials file,
+/// `machines/` is the machine folder.
+pub const RESERVED_NAMES: [&str; 2] = ["materials", "machines"];
+
+/// Check a name that becomes a library file `NAME.ron`: not empty, no spaces, slashes or
+/// control characters, not hidden (a name starting with a dot would be skipped by the library),
+/// at most [`MAX_FILE_NAME`] bytes, not reserved.
+///
+/// # Errors
+/// A message saying what is wrong.
+pub fn check_file_name(name: &str, what: &str) -> Result<(), String> {
+    if name.is_empty()
+        || name
+            .chars()
+            .any(|c| c.is_whitespace() || c == '/' || c == '\\' || c.is_control())
+    {
+        return Err(format!(
+            "{what} '{name}' must be non-empty, without spaces or slashes"
+        ));
+    }
+    if name.starts_with('.') {
+        return Err(format!(
+            "{what} '{name}' must not start with a dot: the library skips hidden files"
+        ));
+    }
+    if name.len() > MAX_FILE_NAME {
+        return Err(format!(
+            "{what} of {} bytes is too long (at most {MAX_FILE_NAME}): it is also the file name",
+            name.len()
+        ));
+    }
+    if RESERVED_NAMES.contains(&name.to_ascii_lowercase().as_str()) {
+        return Err(format!(
+            "{what} '{name}' is reserved: the library folder uses {name}.ron (or {name}/) for something else"
+        ));
+    }
+    Ok(())
+}
+
 /// A file the library was loaded from.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct LibraryFile {

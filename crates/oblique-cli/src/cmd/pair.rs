@@ -393,25 +393,13 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                 .map_err(|m| Fail::input(format!("--flyer: {m}")))?;
             lib.material(&parent)
                 .map_err(|m| Fail::input(format!("--parent: {m}")))?;
-            if name.is_empty()
-                || name
-                    .chars()
-                    .any(|c| c.is_whitespace() || c == '/' || c == '\\' || c.is_control())
-                || name.starts_with('.')
-            {
-                return Err(Fail::input(format!("pair name '{name}' must be non-empty, without spaces or slashes, and not start with a dot")));
-            }
-            if name.len() > MAX_PAIR_NAME {
-                return Err(Fail::input(format!(
-                    "pair name of {} bytes is too long (at most {MAX_PAIR_NAME}): it is also the file name",
-                    name.len()
-                )));
-            }
-            if RESERVED_NAMES.contains(&name.to_ascii_lowercase().as_str()) {
-                return Err(Fail::input(format!(
-                    "pair name '{name}' is reserved: the library folder uses {name}.ron (or {name}/) for something else\n  hint: name the pair after its materials, e.g. al6061-on-cu-1mm"
-                )));
-            }
+            oblique_window::library::check_file_name(&name, "pair name").map_err(|m| {
+                Fail::input(if m.contains("reserved") {
+                    format!("{m}\n  hint: name the pair after its materials, e.g. al6061-on-cu-1mm")
+                } else {
+                    m
+                })
+            })?;
             let who = maintainer
                 .or_else(|| std::env::var("USER").ok())
                 .unwrap_or_else(|| "unknown".into());
@@ -526,14 +514,6 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
         }
     }
 }
-
-/// Names a pair file may not take: the library reads `materials.ron` as a materials file and
-/// `machines/` as the machine folder.
-const RESERVED_NAMES: [&str; 2] = ["materials", "machines"];
-
-/// The longest pair name (it is also the file name; file systems allow 255 bytes, and the
-/// temporary name of a safe write adds about 40).
-const MAX_PAIR_NAME: usize = 100;
 
 /// Say so when a library file is written through a symbolic link.
 fn note_target(path: &Path) {

@@ -582,3 +582,86 @@ fn absurd_map_rows_are_refused_and_plots_finish() {
         roxmltree::Document::parse(&s).expect("well-formed SVG");
     }
 }
+
+#[test]
+fn sizes_and_names_are_checked_before_any_work() {
+    let sweep = [
+        "sweep",
+        "mpw-tube",
+        "--machine",
+        "harbourside-bank-300uf",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--tube-outer-radius",
+        "20mm",
+        "--charge-voltage",
+        "6kV..10kV",
+        "--standoff",
+        "1mm,2mm",
+        "--angle",
+        "8deg",
+        "--steps",
+    ];
+    // Before: 34 GB allocated and an abort; 22 s and 7.8 GB before a refusal.
+    for steps in ["4294967297", "1000000000"] {
+        let mut args = sweep.to_vec();
+        args.push(steps);
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+        assert!(
+            stderr(&o).contains("more than the limit of 10000"),
+            "{}",
+            stderr(&o)
+        );
+    }
+    let o = run(&[
+        "estimate",
+        "mpw-tube",
+        "--machine",
+        "harbourside-bank-300uf",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--flyer",
+        "aa6061-t6",
+        "--flyer-thickness",
+        "1mm",
+        "--tube-outer-radius",
+        "20mm",
+        "--standoff",
+        "2mm",
+        "--charge-voltage",
+        "12.0001kV",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("12.0001 kV exceeds"), "{}", stderr(&o));
+    let dir = tempfile::tempdir().expect("temp dir");
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "calibrate",
+            "ring-down",
+            "--capacitance",
+            "300uF",
+            "--ring-frequency",
+            "45kHz",
+            "--peak-ratio",
+            "1.6",
+            "--rated-voltage",
+            "10kV",
+            "--source",
+            "x",
+            "--save-as",
+            ".h",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("must not start with a dot"),
+        "{}",
+        stderr(&o)
+    );
+}
