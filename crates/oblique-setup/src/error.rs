@@ -189,6 +189,25 @@ impl From<Diagnostics> for SetupError {
 /// Result alias of the set-up crate.
 pub type SetupResult<T = ()> = Result<T, SetupError>;
 
+/// `u` in kV with enough significant digits to tell it from `rating`.
+fn distinct_kv(u: f64, rating: f64) -> String {
+    let shown = human::kv(u);
+    if shown != human::kv(rating) {
+        return shown;
+    }
+    for digits in 4..=12 {
+        let (a, b) = (
+            format!("{:.*e}", digits, u / 1e3),
+            format!("{:.*e}", digits, rating / 1e3),
+        );
+        if a != b {
+            let s = format!("{:.*}", digits, u / 1e3);
+            return format!("{} kV", s.trim_end_matches('0').trim_end_matches('.'));
+        }
+    }
+    format!("{} kV", u / 1e3)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -207,23 +226,4 @@ mod tests {
         );
         assert_eq!(SetupError::invalid("--coil", "y").field(), Some("--coil"));
     }
-}
-
-/// `u` in kV with enough significant digits to tell it from `rating`.
-fn distinct_kv(u: f64, rating: f64) -> String {
-    let shown = human::kv(u);
-    if shown != human::kv(rating) {
-        return shown;
-    }
-    for digits in 4..=12 {
-        let (a, b) = (
-            format!("{:.*e}", digits, u / 1e3),
-            format!("{:.*e}", digits, rating / 1e3),
-        );
-        if a != b {
-            let s = format!("{:.*}", digits, u / 1e3);
-            return format!("{} kV", s.trim_end_matches('0').trim_end_matches('.'));
-        }
-    }
-    format!("{} kV", u / 1e3)
 }
