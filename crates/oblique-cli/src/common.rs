@@ -219,3 +219,55 @@ impl From<SetupError> for Fail {
         }
     }
 }
+
+/// Where a path leads: the canonical file when it exists (links followed), else the canonical
+/// folder joined with the name; `None` for standard input/output (`-`).
+fn resolved(p: &Path) -> Option<PathBuf> {
+    if p.as_os_str() == "-" {
+        return None;
+    }
+    if let Ok(c) = p.canonicalize() {
+        return Some(c);
+    }
+    let parent = p
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let name = p.file_name()?;
+    Some(parent.canonicalize().ok()?.join(name))
+}
+
+/// Refuse, before any work, outputs that would land on the same file or on an input: the
+/// later write would silently replace the earlier one (or the input before it is read).
+/// `inputs` are (what it is, e.g. "the input file" or "the input of --curve", path) pairs,
+/// `outputs` (flag, path) pairs.
+///
+/// # Errors
+/// [`Fail::input`] naming both flags.
+pub fn distinct_outputs(inputs: &[(&str, &Path)], outputs: &[(&str, &Path)]) -> CmdResult {
+    let ins: Vec<(&str, PathBuf)> = inputs
+        .iter()
+        .filter_map(|(f, p)| Some((*f, resolved(p)?)))
+        .collect();
+    let mut seen: Vec<(&str, PathBuf)> = Vec::new();
+    for (flag, p) in outputs {
+        let Some(r) = resolved(p) else { continue };
+        if r.as_path() == Path::new("/dev/null") {
+            continue;
+        }
+        if let Some((f, _)) = ins.iter().find(|(_, i)| *i == r) {
+            return Err(Fail::input(format!(
+                "{flag}: {} is {f}; choose another name",
+                p.display()
+            )));
+        }
+        if let Some((f, _)) = seen.iter().find(|(_, s)| *s == r) {
+            return Err(Fail::input(format!(
+                "{flag}: {} is also the output of {f}; one would replace the other: give each its own name",
+                p.display()
+            )));
+        }
+        seen.push((flag, r));
+    }
+    Ok(())
+}

@@ -356,6 +356,7 @@ fn merge_counts(slot: &Slot, summary: &mut Summary) {
     summary.outside_trial_data += st.outside;
     summary.welded_outside_trial_data += st.welded_outside;
     summary.jetting_direct += st.jetting_direct;
+    summary.non_utf8_cells += st.non_utf8_cells;
     for (l, (m, b)) in summary
         .limits
         .iter_mut()

@@ -17,7 +17,7 @@ use oblique_map::{
     VelocityKind, WeldMap,
 };
 use oblique_window::PairWindow;
-use outputs::{same_file, write_file, AtomicFile, Out};
+use outputs::{write_file, AtomicFile, Out};
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
@@ -317,23 +317,22 @@ fn check_args(a: &mut MapArgs) -> CmdResult {
             "--strip-svg draws along the interface and needs sorted positions: it cannot be used with --unsorted",
         ));
     }
-    let stdin = a.input.as_os_str() == "-";
+    let mut outputs: Vec<(&str, &Path)> = Vec::new();
     for (flag, p) in [
-        ("-o", a.output.as_ref()),
-        ("--summary-json", a.summary_json.as_ref()),
-        ("--strip-svg", a.strip_svg.as_ref()),
-        ("--window-svg", a.window_svg.as_ref()),
-        ("--bad-rows save:", a.bad_rows.side_file()),
+        ("-o", a.output.as_deref()),
+        ("--summary-json", a.summary_json.as_deref()),
+        ("--strip-svg", a.strip_svg.as_deref()),
+        ("--window-svg", a.window_svg.as_deref()),
+        (
+            "--bad-rows save:",
+            a.bad_rows.side_file().map(PathBuf::as_path),
+        ),
     ] {
         if let Some(p) = p {
-            if !stdin && same_file(p, &a.input) {
-                return Err(Fail::input(format!(
-                    "{flag}: {} is the input file; choose another name",
-                    p.display()
-                )));
-            }
+            outputs.push((flag, p));
         }
     }
+    crate::common::distinct_outputs(&[("the input file", a.input.as_path())], &outputs)?;
     Ok(())
 }
 

@@ -9,7 +9,7 @@ use clap::{Args, ValueEnum};
 use oblique_render::window_plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
 use oblique_window::boundary::Plane;
 use oblique_window::PairWindow;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub enum PlaneArg {
@@ -113,6 +113,15 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
             a.output.display()
         )));
     }
+    let mut inputs: Vec<(&str, &Path)> = a
+        .curve
+        .iter()
+        .map(|c| ("the input of --curve", c.as_path()))
+        .collect();
+    if let Some(p) = &a.points {
+        inputs.push(("the input of --points", p.as_path()));
+    }
+    crate::common::distinct_outputs(&inputs, &[("-o", a.output.as_path())])?;
     let window = window_from(
         dirs,
         &a.pair,

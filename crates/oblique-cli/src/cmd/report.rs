@@ -45,6 +45,12 @@ pub struct ReportArgs {
 }
 
 pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
+    let inputs: Vec<(&str, &std::path::Path)> = a
+        .curve
+        .iter()
+        .map(|c| ("the input of --curve", c.as_path()))
+        .collect();
+    crate::common::distinct_outputs(&inputs, &[("-o", a.output.as_path())])?;
     let lib = load_library(dirs)?;
     let mut window = lib
         .pair(&a.pair)

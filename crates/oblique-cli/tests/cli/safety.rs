@@ -665,3 +665,109 @@ fn sizes_and_names_are_checked_before_any_work() {
         stderr(&o)
     );
 }
+
+#[test]
+fn outputs_on_the_same_file_or_on_an_input_are_refused_before_any_work() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let input = dir.path().join("in.csv");
+    std::fs::write(&input, "position[mm],velocity[m/s],angle[deg]\n0,400,10\n").expect("input");
+    let i = input.to_str().expect("utf-8");
+    let at = |n: &str| dir.path().join(n).to_str().expect("utf-8").to_string();
+    let (o, x, j) = (at("o.csv"), at("x.svg"), at("o.json"));
+    let save = format!("save:{o}");
+    for (extra, needle) in [
+        (
+            vec!["-o", &o, "--summary-json", &o],
+            "also the output of -o",
+        ),
+        (
+            vec!["-o", &o, "--strip-svg", &x, "--window-svg", &x],
+            "also the output of --strip-svg",
+        ),
+        (vec!["-o", &o, "--bad-rows", &save], "also the output of -o"),
+        (vec!["-o", &j, "--summary-json", i], "is the input file"),
+    ] {
+        let mut args = vec!["map", i, "--pair", "demo-al6061-on-cu"];
+        args.extend(extra.iter().copied());
+        let out = run(&args);
+        assert_eq!(out.status.code(), Some(2), "{args:?}");
+        assert!(stderr(&out).contains(needle), "{}", stderr(&out));
+        assert!(
+            !Path::new(&o).exists() && !Path::new(&j).exists(),
+            "work was done"
+        );
+    }
+    let curve = at("c.csv");
+    std::fs::write(&curve, "velocity[m/s],angle[deg]\n400,10\n").expect("curve");
+    let out = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--curve",
+        &curve,
+        "-o",
+        &curve,
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    let out = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--curve",
+        &curve,
+        "-o",
+        &curve,
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(
+        stderr(&out).contains("the input of --curve"),
+        "{}",
+        stderr(&out)
+    );
+}
+
+#[test]
+fn non_utf8_pass_through_cells_are_kept_in_csv_and_counted_in_json() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let input = dir.path().join("in.csv");
+    std::fs::write(
+        &input,
+        b"position[mm],velocity[m/s],angle[deg],note\n0,400,10,caf\xe9\n1,410,10,\"q\xff\"\n",
+    )
+    .expect("input");
+    let csv = dir.path().join("o.csv");
+    let jl = dir.path().join("o.jsonl");
+    let i = input.to_str().expect("utf-8");
+    let o = run(&[
+        "map",
+        i,
+        "--pair",
+        "demo-al6061-on-cu",
+        "-o",
+        csv.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let bytes = std::fs::read(&csv).expect("map");
+    assert!(
+        bytes.windows(4).any(|w| w == b"caf\xe9"),
+        "CSV keeps the bytes"
+    );
+    let o = run(&[
+        "map",
+        i,
+        "--pair",
+        "demo-al6061-on-cu",
+        "-o",
+        jl.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let all = format!("{}{}", stdout(&o), stderr(&o));
+    assert!(
+        all.contains("2 pass-through cell(s) hold bytes that are not UTF-8"),
+        "{all}"
+    );
+}

@@ -20,6 +20,8 @@ pub struct ChunkStats {
     pub welded_outside: u64,
     /// Rows solved directly for jetting.
     pub jetting_direct: u64,
+    /// Pass-through cells whose bytes are not UTF-8 (JSON output replaces them).
+    pub non_utf8_cells: u64,
     /// Smallest margin per limit among welded rows, with its row.
     pub welded_min: Vec<Option<(f64, u64)>>,
     /// Binding-limit counts of unwelded rows.

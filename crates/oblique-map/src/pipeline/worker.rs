@@ -312,7 +312,9 @@ impl Worker {
         let out_start = out.len();
         match ctx.out_format {
             Format::Csv => csv_row(&mut self.row_text, ctx, &self.margins, out, row, &cells, &p),
-            Format::Jsonl => json_row(ctx, &self.margins, out, row, &cells, &p),
+            Format::Jsonl => {
+                slot.stats.non_utf8_cells += json_row(ctx, &self.margins, out, row, &cells, &p);
+            }
         }
         record(slot, &self.margins, row, v.position, out_start, &p);
         Ok(())
@@ -445,7 +447,9 @@ fn json_row(
     row: u64,
     cells: &Cells<'_>,
     p: &Point,
-) {
+) -> u64 {
+    // Pass-through cells that are not UTF-8: JSON text cannot carry them (replaced, counted).
+    let mut non_utf8 = 0;
     out.extend(b"{\"row\":");
     out.u64(row);
     match cells {
@@ -464,6 +468,7 @@ fn json_row(
                         out.extend(fmt_g(x).as_bytes());
                     }
                 } else {
+                    non_utf8 += u64::from(std::str::from_utf8(text).is_err());
                     out.json_string(text);
                 }
             }
@@ -481,6 +486,7 @@ fn json_row(
     }
     computed_json(ctx, margins, out, p);
     out.extend(b"}\n");
+    non_utf8
 }
 
 /// The per-point record for the summary, and the chunk's counts.

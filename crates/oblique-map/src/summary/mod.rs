@@ -147,6 +147,9 @@ pub struct Summary {
     pub info: RunInfo,
     /// Warnings about the data as a whole (implausible magnitudes: a unit wrong in the header?).
     pub warnings: Vec<String>,
+    /// Pass-through cells whose bytes were not UTF-8 (JSON-lines output replaces such bytes
+    /// with U+FFFD; CSV output keeps them as they are).
+    pub non_utf8_cells: u64,
     /// Largest Vp and angle seen.
     pub max_vp: f64,
     /// See `max_vp`.
@@ -249,6 +252,7 @@ impl Summary {
             constants: Vec::new(),
             info: RunInfo::default(),
             warnings: Vec::new(),
+            non_utf8_cells: 0,
             max_vp: 0.0,
             max_beta: 0.0,
         }
@@ -388,6 +392,12 @@ impl Summary {
                     fmt_g(k)
                 ));
             }
+        }
+        if self.non_utf8_cells > 0 {
+            self.warnings.push(format!(
+                "{} pass-through cell(s) hold bytes that are not UTF-8: JSON text cannot carry them, so the map shows U+FFFD there (write CSV output to keep every byte)",
+                self.non_utf8_cells
+            ));
         }
         if self.max_beta < 1.0 {
             self.warnings.push(format!(

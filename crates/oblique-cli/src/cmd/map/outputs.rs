@@ -169,11 +169,3 @@ pub fn write_file(path: &Path, flag: &str, bytes: &[u8]) -> CmdResult {
     std::fs::write(path, bytes)
         .map_err(|e| Fail::input(format!("{flag}: cannot write {}: {e}", path.display())))
 }
-
-/// Whether two paths name the same existing file.
-pub fn same_file(a: &Path, b: &Path) -> bool {
-    match (a.canonicalize(), b.canonicalize()) {
-        (Ok(x), Ok(y)) => x == y,
-        _ => false,
-    }
-}
