@@ -999,7 +999,7 @@ fn comment_lines_before_the_header_are_skipped_and_counted() {
     let o = run_stdin(&["map", "-", "--pair", PAIR], input);
     assert!(o.status.success(), "{}", text(&o.stderr));
     assert_eq!(column(&text(&o.stdout), "row"), ["4", "5"]);
-    assert!(text(&o.stderr).contains("2 comment line(s) before the header skipped"));
+    assert!(text(&o.stderr).contains("2 comment or blank line(s) before the header skipped"));
     // A header problem is reported at the header's own line.
     let o = run_stdin(
         &["map", "-", "--pair", PAIR],

@@ -162,10 +162,7 @@ impl Target {
                 asked.display(),
                 path.display()
             )),
-            Target::InPlace(_) => Some(format!(
-                "{} is not a regular file (a pipe or a device): written in place, not atomically",
-                asked.display()
-            )),
+            // A pipe or a device (/dev/null, /dev/stdout) is what the user meant: no note.
             _ => None,
         }
     }
@@ -370,6 +367,134 @@ pub fn write_target(
         let _ = std::fs::remove_file(&tmp);
     }
     result
+}
+
+/// A file written as a stream and put in place at the end: for a regular file (or a new name,
+/// or a link to a regular file) the bytes go to a temporary file beside the final one, which
+/// is renamed into place by [`StagedFile::commit`] (with the replaced file's permissions), so
+/// that a failed or killed run leaves no half-written file; a pipe or character device is
+/// written in place. Dropping it uncommitted removes the temporary file.
+#[derive(Debug)]
+pub struct StagedFile {
+    target: Target,
+    tmp: Option<PathBuf>,
+    file: Option<std::fs::File>,
+}
+
+impl StagedFile {
+    /// Start writing `path`.
+    ///
+    /// # Errors
+    /// What [`resolve_target`] refuses, or an IO error creating the temporary file.
+    pub fn create(path: &Path) -> Result<Self, WriteError> {
+        let target = resolve_target(path)?;
+        match &target {
+            Target::InPlace(p) => {
+                let file = std::fs::OpenOptions::new()
+                    .write(true)
+                    .open(p)
+                    .map_err(io(p))?;
+                Ok(Self {
+                    target,
+                    tmp: None,
+                    file: Some(file),
+                })
+            }
+            Target::New(p) | Target::Regular { path: p, .. } => {
+                let dir = p
+                    .parent()
+                    .filter(|d| !d.as_os_str().is_empty())
+                    .unwrap_or(Path::new("."));
+                let name = p.file_name().and_then(|n| n.to_str()).unwrap_or("file");
+                let (tmp, file) = create_temp(dir, name)?;
+                if matches!(target, Target::Regular { .. }) {
+                    copy_attributes(p, &file);
+                }
+                Ok(Self {
+                    target,
+                    tmp: Some(tmp),
+                    file: Some(file),
+                })
+            }
+        }
+    }
+
+    /// What the write goes to (for a note to the user, see [`Target::note`]).
+    #[must_use]
+    pub fn target(&self) -> &Target {
+        &self.target
+    }
+
+    /// Flush and put the file in place (rename of the temporary file).
+    ///
+    /// # Errors
+    /// An IO error; the final file is then as it was.
+    pub fn commit(mut self) -> Result<(), WriteError> {
+        let Some(mut f) = self.file.take() else {
+            return Ok(());
+        };
+        let (path, tmp) = match (&self.target, self.tmp.take()) {
+            (Target::New(p) | Target::Regular { path: p, .. }, Some(t)) => (p.clone(), t),
+            (Target::InPlace(_), _) | (_, None) => {
+                let p = p_of(&self.target);
+                return f.flush().map_err(io(&p));
+            }
+        };
+        let result = (|| {
+            f.flush().map_err(io(&tmp))?;
+            drop(f);
+            if let Some(ms) = std::env::var(FAULT_PAUSE_ENV)
+                .ok()
+                .and_then(|v| v.parse::<u64>().ok())
+            {
+                std::thread::sleep(std::time::Duration::from_millis(ms));
+            }
+            std::fs::rename(&tmp, &path).map_err(io(&path))
+        })();
+        if result.is_err() {
+            let _ = std::fs::remove_file(&tmp);
+        }
+        result
+    }
+}
+
+fn p_of(t: &Target) -> PathBuf {
+    match t {
+        Target::New(p) | Target::Regular { path: p, .. } | Target::InPlace(p) => p.clone(),
+    }
+}
+
+impl Write for StagedFile {
+    fn write(&mut self, b: &[u8]) -> std::io::Result<usize> {
+        match &mut self.file {
+            Some(f) => f.write(b),
+            None => Ok(b.len()),
+        }
+    }
+
+    fn write_all(&mut self, b: &[u8]) -> std::io::Result<()> {
+        match &mut self.file {
+            Some(f) => f.write_all(b),
+            None => Ok(()),
+        }
+    }
+
+    fn flush(&mut self) -> std::io::Result<()> {
+        match &mut self.file {
+            Some(f) => f.flush(),
+            None => Ok(()),
+        }
+    }
+}
+
+impl Drop for StagedFile {
+    fn drop(&mut self) {
+        if self.file.take().is_some() {
+            if let Some(tmp) = &self.tmp {
+                let _ = std::fs::remove_file(tmp);
+            }
+        }
+    }
 }
 
 /// Quote a string for RON.

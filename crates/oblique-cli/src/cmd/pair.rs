@@ -674,6 +674,23 @@ fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEntry)>> {
          -> Option<String> {
             let (_, unit) = cols.get(k)?;
             let raw = get(k)?;
+            let word = raw.trim().to_ascii_lowercase();
+            if [
+                "nan",
+                "inf",
+                "+inf",
+                "-inf",
+                "infinity",
+                "+infinity",
+                "-infinity",
+            ]
+            .contains(&word.as_str())
+            {
+                problems.push(format!(
+                    "{display}:{row}: field '{k}': '{raw}' is not a finite number: write the measured value"
+                ));
+                return None;
+            }
             if raw
                 .trim_end()
                 .ends_with(|c: char| c.is_ascii_alphabetic() || c == '/' || c == '%')

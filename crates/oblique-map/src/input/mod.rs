@@ -76,7 +76,7 @@ fn csv_header_cells(
         else {
             return Err(MapError::Input(if comment_lines > 0 {
                 format!(
-                    "{file_name}: no header row after {comment_lines} comment line(s): expected a header such as position[mm],velocity[m/s],angle[deg]"
+                    "{file_name}: no header row after {comment_lines} comment or blank line(s): expected a header such as position[mm],velocity[m/s],angle[deg]"
                 )
             } else {
                 format!(
@@ -84,7 +84,10 @@ fn csv_header_cells(
                 )
             }));
         };
-        if !line.trim_ascii_start().starts_with(b"#") {
+        // A comment, or a blank line (or a line holding only a byte-order mark), before the
+        // header is skipped and counted.
+        let bare = line.strip_prefix(b"\xef\xbb\xbf").unwrap_or(&line);
+        if !bare.trim_ascii_start().starts_with(b"#") && !bare.trim_ascii().is_empty() {
             break line;
         }
         comment_lines += 1 + line.iter().filter(|&&b| b == b'\n').count() as u64;
@@ -119,7 +122,7 @@ fn json_header_keys(
                 "{file_name}: empty input: expected JSON lines such as {{\"position[mm]\": 0.5, \"velocity[m/s]\": 420, \"angle[deg]\": 8}}"
             )));
         };
-        if !line.trim_ascii_start().starts_with(b"#") {
+        if !line.trim_ascii_start().starts_with(b"#") && !line.trim_ascii().is_empty() {
             break line;
         }
         source

@@ -49,7 +49,7 @@ impl Summary {
             },
             if self.comment_lines > 0 {
                 format!(
-                    "; {} comment line(s) before the header skipped",
+                    "; {} comment or blank line(s) before the header skipped",
                     self.comment_lines
                 )
             } else {

@@ -5,51 +5,26 @@ use crate::fail::{CmdResult, Fail};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-/// An output file. A regular file (or a new name) is written next to its final name and
-/// renamed into place at the end, so that a failed run leaves no half-written map behind;
-/// anything else that exists (a device such as /dev/null, a pipe, a symbolic link) is written
-/// in place, never replaced.
+/// An output file: a regular file (or a new name, or a link to one) is written beside its
+/// final name and renamed into place at the end, so that a failed or killed run leaves no
+/// half-written map behind and the replaced file keeps its permissions; a pipe or device is
+/// written in place, never replaced (`oblique_window::write::StagedFile`).
 pub struct AtomicFile {
-    /// The temporary name, when renaming at the end.
-    tmp: Option<PathBuf>,
     dest: PathBuf,
-    file: Option<std::fs::File>,
+    file: oblique_window::write::StagedFile,
 }
 
 impl AtomicFile {
     /// Create the file for `dest`; `flag` names it in messages.
     pub fn create(dest: &Path, flag: &str) -> CmdResult<Self> {
-        let cannot = |e: std::io::Error| {
-            Fail::input(format!("{flag}: cannot create {}: {e}", dest.display()))
-        };
-        let in_place = match std::fs::symlink_metadata(dest) {
-            Ok(m) => !m.file_type().is_file(),
-            Err(_) => false,
-        };
-        if in_place {
-            let file = std::fs::OpenOptions::new()
-                .write(true)
-                .truncate(true)
-                .open(dest)
-                .map_err(cannot)?;
-            return Ok(Self {
-                tmp: None,
-                dest: dest.to_path_buf(),
-                file: Some(file),
-            });
+        let file = oblique_window::write::StagedFile::create(dest)
+            .map_err(|e| Fail::input(format!("{flag}: cannot create {}: {e}", dest.display())))?;
+        if let Some(n) = file.target().note(dest) {
+            eprintln!("note: {n}");
         }
-        let name = dest
-            .file_name()
-            .map(|n| n.to_string_lossy().into_owned())
-            .ok_or_else(|| {
-                Fail::input(format!("{flag}: '{}' is not a file name", dest.display()))
-            })?;
-        let tmp = dest.with_file_name(format!(".{name}.partial-{}", std::process::id()));
-        let file = std::fs::File::create(&tmp).map_err(cannot)?;
         Ok(Self {
-            tmp: Some(tmp),
             dest: dest.to_path_buf(),
-            file: Some(file),
+            file,
         })
     }
 
@@ -60,61 +35,25 @@ impl AtomicFile {
 
     /// Finish: flush, and rename into place when writing under a temporary name (no fsync: a
     /// map can be made again; the rename only keeps a failed run from leaving half a file).
-    pub fn commit(mut self) -> CmdResult {
-        let Some(mut f) = self.file.take() else {
-            return Ok(());
-        };
-        let tmp = self.tmp.take();
-        let dest = self.dest.clone();
-        let fail =
-            move |e: std::io::Error| Fail::other(format!("cannot write {}: {e}", dest.display()));
-        let flushed = f.flush();
-        drop(f);
-        match (flushed, tmp) {
-            (Ok(()), Some(t)) => std::fs::rename(&t, &self.dest).map_err(|e| {
-                let _ = std::fs::remove_file(&t);
-                fail(e)
-            }),
-            (Ok(()), None) => Ok(()),
-            (Err(e), Some(t)) => {
-                let _ = std::fs::remove_file(&t);
-                Err(fail(e))
-            }
-            (Err(e), None) => Err(fail(e)),
-        }
+    pub fn commit(self) -> CmdResult {
+        let dest = self.dest;
+        self.file
+            .commit()
+            .map_err(|e| Fail::other(format!("cannot write {}: {e}", dest.display())))
     }
 }
 
 impl Write for AtomicFile {
     fn write(&mut self, b: &[u8]) -> std::io::Result<usize> {
-        match &mut self.file {
-            Some(f) => f.write(b),
-            None => Ok(b.len()),
-        }
+        self.file.write(b)
     }
 
     fn write_all(&mut self, b: &[u8]) -> std::io::Result<()> {
-        match &mut self.file {
-            Some(f) => f.write_all(b),
-            None => Ok(()),
-        }
+        self.file.write_all(b)
     }
 
     fn flush(&mut self) -> std::io::Result<()> {
-        match &mut self.file {
-            Some(f) => f.flush(),
-            None => Ok(()),
-        }
-    }
-}
-
-impl Drop for AtomicFile {
-    fn drop(&mut self) {
-        if self.file.take().is_some() {
-            if let Some(tmp) = &self.tmp {
-                let _ = std::fs::remove_file(tmp);
-            }
-        }
+        self.file.flush()
     }
 }
 
