@@ -103,8 +103,10 @@ impl Write for Out {
     }
 }
 
-/// Write a whole file (the summary JSON, the plots); a failure is the user's path (exit 2).
+/// Write a whole file (the summary JSON, the plots) safely (`oblique_window::write::
+/// atomic_write`: atomic for regular files, in place for pipes and devices, links followed);
+/// a failure is the user's path (exit 2).
 pub fn write_file(path: &Path, flag: &str, bytes: &[u8]) -> CmdResult {
-    std::fs::write(path, bytes)
+    oblique_window::write::atomic_write(path, bytes, None)
         .map_err(|e| Fail::input(format!("{flag}: cannot write {}: {e}", path.display())))
 }
