@@ -271,3 +271,82 @@ pub fn distinct_outputs(inputs: &[(&str, &Path)], outputs: &[(&str, &Path)]) -> 
     }
     Ok(())
 }
+
+/// The formats a command can write, picked by the output file's extension.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum FileFormat {
+    /// `.svg`
+    Svg,
+    /// `.png`
+    Png,
+    /// `.html`, `.htm`
+    Html,
+    /// `.json`
+    Json,
+    /// `.csv`
+    Csv,
+    /// `.jsonl`, `.ndjson`
+    JsonLines,
+}
+
+impl FileFormat {
+    /// The extensions of the format, first the usual one.
+    #[must_use]
+    pub fn extensions(self) -> &'static [&'static str] {
+        match self {
+            FileFormat::Svg => &["svg"],
+            FileFormat::Png => &["png"],
+            FileFormat::Html => &["html", "htm"],
+            FileFormat::Json => &["json"],
+            FileFormat::Csv => &["csv"],
+            FileFormat::JsonLines => &["jsonl", "ndjson"],
+        }
+    }
+}
+
+/// One rule for every file a command writes: the extension picks the format among those the
+/// command supports (case does not matter); any other extension, or none, is refused before any
+/// work, naming the flag and the supported list. Standard output (`-`) and an existing
+/// non-regular file (a pipe, a device such as /dev/null) take `default`, when there is one.
+///
+/// # Errors
+/// [`Fail::input`] naming the flag, the extension and the supported extensions.
+pub fn output_format(
+    flag: &str,
+    path: &Path,
+    supported: &[FileFormat],
+    default: Option<FileFormat>,
+) -> CmdResult<FileFormat> {
+    let special = path.as_os_str() == "-"
+        || std::fs::metadata(path).is_ok_and(|m| !m.is_file() && !m.is_dir());
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(str::to_ascii_lowercase);
+    if let Some(ext) = &ext {
+        if let Some(f) = supported
+            .iter()
+            .find(|f| f.extensions().contains(&ext.as_str()))
+        {
+            return Ok(*f);
+        }
+    }
+    if special {
+        if let Some(d) = default {
+            return Ok(d);
+        }
+    }
+    let list: Vec<String> = supported
+        .iter()
+        .flat_map(|f| f.extensions().iter().map(|e| format!(".{e}")))
+        .collect();
+    let what = match &ext {
+        Some(e) => format!("'.{e}' is not a format it writes"),
+        None => "the name has no extension, and the extension picks the format".into(),
+    };
+    Err(Fail::input(format!(
+        "{flag} {}: {what}; supported: {}",
+        path.display(),
+        list.join(", ")
+    )))
+}

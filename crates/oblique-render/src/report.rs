@@ -129,23 +129,25 @@ fn html_page(input: &ReportInput<'_>) -> RenderResult<String> {
     let c = input.classification;
     let e = &c.evaluation;
     let col = &e.collision;
-    let mut points = vec![ProposedPoint {
-        label: "proposed".into(),
-        velocity_m_s: col.impact_velocity.si(),
-        angle_rad: col.angle.radians(),
-    }];
+    let mut points = vec![ProposedPoint::new(
+        "proposed",
+        col.impact_velocity.si(),
+        col.angle.radians(),
+    )];
     points.extend(input.extra_points.iter().cloned());
     let plot_av = render_svg(&PlotRequest {
         window: w,
         plane: Plane::AngleImpactVelocity,
         points: points.clone(),
         curves: input.curves.clone(),
+        shot_numbers: false,
     })?;
     let plot_acv = render_svg(&PlotRequest {
         window: w,
         plane: Plane::AngleCollisionVelocity,
         points,
         curves: input.curves.clone(),
+        shot_numbers: false,
     })?;
 
     let mut h = String::new();

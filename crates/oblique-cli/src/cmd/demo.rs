@@ -148,11 +148,7 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
             format!("OUTSIDE, binding {limit}")
         };
         s.push_str(&format!("  {label}  {kv:.0} kV, standoff {gap:.1} mm, chamfer {deg:.0} deg -> Vp {vp:.0} m/s: {verdict}\n"));
-        points.push(ProposedPoint {
-            label: label.to_string(),
-            velocity_m_s: vp,
-            angle_rad: deg.to_radians(),
-        });
+        points.push(ProposedPoint::new(label, vp, deg.to_radians()));
         if c.inside {
             let room = change.map_or(f64::INFINITY, |x| (x - vp).abs() / vp);
             if best.as_ref().is_none_or(|b| room > b.0) {
@@ -198,6 +194,7 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
             plane,
             points: points.clone(),
             curves: curves.clone(),
+            shot_numbers: false,
         })?;
         write_output(path, svg.as_bytes())?;
     }

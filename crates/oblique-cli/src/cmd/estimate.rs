@@ -381,8 +381,8 @@ pub struct SweepCommon {
     /// How many inside settings to list (all are in --json).
     #[arg(long, value_name = "N", default_value_t = 10)]
     pub top: usize,
-    /// Write the window plot with one process curve per standoff (SVG).
-    #[arg(long, value_name = "OUT.svg", requires = "pair")]
+    /// Write the window plot with one process curve per standoff (.svg or .png: the extension picks the format).
+    #[arg(long, value_name = "OUT.svg|OUT.png", requires = "pair")]
     pub plot: Option<PathBuf>,
     // The help text names the CSV columns with their units in brackets (not doc links).
     #[allow(rustdoc::broken_intra_doc_links)]

@@ -126,10 +126,10 @@ pub struct MapArgs {
     /// Print the summary as JSON on standard output instead of the text (needs -o).
     #[arg(long)]
     pub json: bool,
-    /// Draw the verdict strip along the interface with velocity and angle traces (SVG).
+    /// Draw the verdict strip along the interface with velocity and angle traces (.svg or .png).
     #[arg(long = "strip-svg", value_name = "FILE")]
     pub strip_svg: Option<PathBuf>,
-    /// Draw the points on the window plane, angle against impact velocity (SVG).
+    /// Draw the points on the window plane, angle against impact velocity (.svg or .png).
     #[arg(long = "window-svg", value_name = "FILE")]
     pub window_svg: Option<PathBuf>,
     /// Worker threads (default: the number of cores).
@@ -333,6 +333,58 @@ fn check_args(a: &mut MapArgs) -> CmdResult {
         }
     }
     crate::common::distinct_outputs(&[("the input file", a.input.as_path())], &outputs)?;
+    // One rule for every file written: the extension picks the format, checked before any work.
+    use crate::common::{output_format, FileFormat};
+    if let Some(p) = &a.output {
+        let f = output_format(
+            "-o",
+            p,
+            &[FileFormat::Csv, FileFormat::JsonLines],
+            Some(a.output_format.map_or(FileFormat::Csv, |f| match f {
+                FormatArg::Csv => FileFormat::Csv,
+                FormatArg::Jsonl => FileFormat::JsonLines,
+            })),
+        )?;
+        let named = match f {
+            FileFormat::JsonLines => FormatArg::Jsonl,
+            _ => FormatArg::Csv,
+        };
+        if a.output_format.is_some_and(|g| g != named) {
+            return Err(Fail::input(format!(
+                "-o {} and --output-format disagree: the extension picks the format; drop --output-format or rename the file",
+                p.display()
+            )));
+        }
+    }
+    if let Some(p) = &a.summary_json {
+        output_format(
+            "--summary-json",
+            p,
+            &[FileFormat::Json],
+            Some(FileFormat::Json),
+        )?;
+    }
+    for (flag, p) in [
+        ("--strip-svg", &a.strip_svg),
+        ("--window-svg", &a.window_svg),
+    ] {
+        if let Some(p) = p {
+            output_format(
+                flag,
+                p,
+                &[FileFormat::Svg, FileFormat::Png],
+                Some(FileFormat::Svg),
+            )?;
+        }
+    }
+    if let Some(p) = a.bad_rows.side_file() {
+        output_format(
+            "--bad-rows save:",
+            p,
+            &[FileFormat::Csv, FileFormat::JsonLines],
+            Some(FileFormat::Csv),
+        )?;
+    }
     Ok(())
 }
 
@@ -439,6 +491,19 @@ fn map_fail(e: MapError, out: &Out, side: Option<&AtomicFile>) -> Fail {
     }
 }
 
+/// The bytes of a plot for `path`: PNG for a .png name (checked before any work), else the SVG.
+fn picture(path: &Path, svg: String) -> CmdResult<Vec<u8>> {
+    let png = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .is_some_and(|e| e.eq_ignore_ascii_case("png"));
+    Ok(if png {
+        oblique_render::png::svg_to_png(&svg)?
+    } else {
+        svg.into_bytes()
+    })
+}
+
 /// The summary (text or JSON), the summary file and the plots.
 fn report(a: &MapArgs, window: &PairWindow, map: &WeldMap<'_>, summary: &Summary) -> CmdResult {
     let json = summary.to_json();
@@ -448,11 +513,11 @@ fn report(a: &MapArgs, window: &PairWindow, map: &WeldMap<'_>, summary: &Summary
     }
     if let Some(p) = &a.strip_svg {
         let svg = oblique_render::weld_map::strip_svg(window, summary)?;
-        write_file(p, "--strip-svg", svg.as_bytes())?;
+        write_file(p, "--strip-svg", &picture(p, svg)?)?;
     }
     if let Some(p) = &a.window_svg {
         let svg = oblique_render::weld_map::window_plane_svg(window, map.classifier(), summary)?;
-        write_file(p, "--window-svg", svg.as_bytes())?;
+        write_file(p, "--window-svg", &picture(p, svg)?)?;
     }
     if a.json {
         crate::output::emit_json(&json)?;

@@ -1,7 +1,7 @@
 //! `oblique plot`: the window with trials, proposed points and process curves, as SVG.
 
 use crate::args::ConventionArg;
-use crate::common::{ad_hoc_window, read_point_csv, write_output};
+use crate::common::{ad_hoc_window, output_format, read_point_csv, write_output, FileFormat};
 use crate::common::{load_library, need};
 use crate::fail::{CmdResult, Fail};
 use crate::qarg;
@@ -35,7 +35,8 @@ impl From<PlaneArg> for Plane {
   oblique plot --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --convention normal-to-flyer --plane angle-collision-velocity -o w.svg
 Points and curve files are CSV with units in the header: velocity[m/s],angle[deg],label
 (velocity is the impact velocity in the window's convention; label optional).
--o w.png writes a PNG (1100 x 680, text in the bundled DejaVu Sans font) for slides.")]
+The extension of -o picks the format: .svg, or .png (1100 x 680, the SVG rasterised with the
+bundled DejaVu Sans font) for slides.")]
 pub struct PlotArgs {
     /// Pair window from the library.
     #[arg(long, value_name = "NAME", conflicts_with_all = ["flyer", "parent", "flyer_thickness"])]
@@ -64,8 +65,11 @@ pub struct PlotArgs {
     /// A process curve from a CSV file (repeatable).
     #[arg(long = "curve", value_name = "FILE.csv")]
     pub curve: Vec<PathBuf>,
-    /// Output SVG file.
-    #[arg(short = 'o', long = "output", value_name = "OUT.svg")]
+    /// Write each trial's shot number (its position in the pair file) beside it.
+    #[arg(long = "shot-numbers")]
+    pub shot_numbers: bool,
+    /// Output file: .svg or .png (the extension picks the format).
+    #[arg(short = 'o', long = "output", value_name = "OUT.svg|OUT.png")]
     pub output: PathBuf,
 }
 
@@ -101,18 +105,7 @@ pub fn window_from(
 }
 
 pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
-    let ext = a
-        .output
-        .extension()
-        .and_then(|e| e.to_str())
-        .unwrap_or("")
-        .to_ascii_lowercase();
-    if ext != "svg" && ext != "png" {
-        return Err(Fail::input(format!(
-            "-o {}: the output must end in .svg or .png",
-            a.output.display()
-        )));
-    }
+    let format = output_format("-o", &a.output, &[FileFormat::Svg, FileFormat::Png], None)?;
     let mut inputs: Vec<(&str, &Path)> = a
         .curve
         .iter()
@@ -134,19 +127,15 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         .point
         .iter()
         .enumerate()
-        .map(|(i, (v, ang))| ProposedPoint {
-            label: format!("P{}", i + 1),
-            velocity_m_s: *v,
-            angle_rad: *ang,
-        })
+        .map(|(i, (v, ang))| ProposedPoint::new(format!("P{}", i + 1), *v, *ang))
         .collect();
     if let Some(f) = &a.points {
         for (i, (v, ang, l)) in read_point_csv(f)?.into_iter().enumerate() {
-            points.push(ProposedPoint {
-                label: l.unwrap_or_else(|| format!("F{}", i + 1)),
-                velocity_m_s: v,
-                angle_rad: ang,
-            });
+            points.push(ProposedPoint::new(
+                l.unwrap_or_else(|| format!("F{}", i + 1)),
+                v,
+                ang,
+            ));
         }
     }
     let mut curves = Vec::new();
@@ -172,8 +161,9 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         plane: a.plane.into(),
         points,
         curves,
+        shot_numbers: a.shot_numbers,
     };
-    let bytes = if ext == "png" {
+    let bytes = if format == FileFormat::Png {
         oblique_render::window_plot::render_png(&request)?
     } else {
         render_svg(&request)?.into_bytes()

@@ -51,6 +51,12 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         .map(|c| ("the input of --curve", c.as_path()))
         .collect();
     crate::common::distinct_outputs(&inputs, &[("-o", a.output.as_path())])?;
+    let format = crate::common::output_format(
+        "-o",
+        &a.output,
+        &[crate::common::FileFormat::Html, crate::common::FileFormat::Json],
+        None,
+    )?;
     let lib = load_library(dirs)?;
     let mut window = lib
         .pair(&a.pair)
@@ -79,8 +85,14 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         extra_points: Vec::new(),
         curves,
     };
-    let page = html(&input)?;
-    write_output(&a.output, page.as_bytes())?;
+    let bytes = if format == crate::common::FileFormat::Json {
+        let text =
+            serde_json::to_string_pretty(&json(&input)).map_err(|e| Fail::other(e.to_string()))?;
+        text + "\n"
+    } else {
+        html(&input)?
+    };
+    write_output(&a.output, bytes.as_bytes())?;
     if a.json {
         return emit_json(&json(&input));
     }

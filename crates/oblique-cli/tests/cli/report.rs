@@ -160,7 +160,10 @@ fn plots_are_well_formed_deterministic_and_escaped() {
     );
     fails_with(
         &["plot", "--pair", "demo-al6061-on-cu", "-o", "w.gif"],
-        &["-o", ".svg or .png"],
+        &[
+            "-o w.gif",
+            "'.gif' is not a format it writes; supported: .svg, .png",
+        ],
     );
     fails_with(
         &[

@@ -270,7 +270,7 @@ pub fn sweep_text(
     if let Some(p) = plot {
         out.push_str(&format!("plot written to {}\n", p.display()));
         if grid.one_angle() && grid.standoffs.len() > 1 {
-            out.push_str("note: every standoff has the same angle, so the process curves lie on one line of the plot and only a few points are labelled; --angle-per-standoff (e.g. one rod chamfer per standoff) separates them\n");
+            out.push_str("note: every standoff has the same angle, so the process curves (one colour per standoff) lie on one line of the plot and only the labels that fit are shown; --angle-per-standoff (e.g. one rod chamfer per standoff) separates them\n");
         }
     }
     if let Some(d) = curves_dir {

@@ -35,6 +35,14 @@ fn run_pulse(
     standoff: f64,
     common: &EstimateCommon,
 ) -> CmdResult {
+    if let Some(p) = &common.history {
+        crate::common::output_format(
+            "--history",
+            p,
+            &[crate::common::FileFormat::Csv],
+            Some(crate::common::FileFormat::Csv),
+        )?;
+    }
     let catalog = load_catalog(dirs)?;
     let request = EstimateRequest {
         process,

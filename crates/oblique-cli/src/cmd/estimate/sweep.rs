@@ -3,7 +3,7 @@
 //! written, the result printed as a table or JSON.
 
 use super::{SheetSweepArgs, SweepCommon, TubeSweepArgs};
-use crate::common::{load_catalog, print_notes, write_output};
+use crate::common::{load_catalog, output_format, print_notes, write_output, FileFormat};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json};
 use oblique_render::sweep_plot::render_sweep_svg;
@@ -22,6 +22,15 @@ pub fn run_sheet(dirs: &[PathBuf], a: SheetSweepArgs) -> CmdResult {
 }
 
 fn run(dirs: &[PathBuf], process: MagneticRequest, c: &SweepCommon) -> CmdResult {
+    let plot_format = match &c.plot {
+        Some(p) => Some(output_format(
+            "--plot",
+            p,
+            &[FileFormat::Svg, FileFormat::Png],
+            None,
+        )?),
+        None => None,
+    };
     let catalog = load_catalog(dirs)?;
     let request = SweepRequest {
         process,
@@ -42,9 +51,16 @@ fn run(dirs: &[PathBuf], process: MagneticRequest, c: &SweepCommon) -> CmdResult
     if let Some(dir) = &c.curves_csv {
         write_curves(dir, &ranking)?;
     }
-    if let (Some(path), Some(w)) = (&c.plot, ranking.window) {
-        check_plot_request(path, &ranking)?;
-        write_output(path, render_sweep_svg(w, &ranking)?.as_bytes())?;
+    if let (Some(path), Some(w), Some(format)) = (&c.plot, ranking.window, plot_format) {
+        if ranking.grid.angles.is_none() {
+            return Err(Fail::input("--plot needs --angle or --angle-per-standoff"));
+        }
+        let svg = render_sweep_svg(w, &ranking)?;
+        let bytes = match format {
+            FileFormat::Png => oblique_render::png::svg_to_png(&svg)?,
+            _ => svg.into_bytes(),
+        };
+        write_output(path, &bytes)?;
     }
     if c.json {
         emit_json(&sweep_json(&ranking))
@@ -67,25 +83,6 @@ fn write_curves(dir: &Path, ranking: &SweepRanking<'_>) -> CmdResult {
     })?;
     for (name, text) in curve_csvs(ranking) {
         write_output(&dir.join(name), text.as_bytes())?;
-    }
-    Ok(())
-}
-
-/// The plot is SVG, and needs the angles of the window check.
-fn check_plot_request(path: &Path, ranking: &SweepRanking<'_>) -> CmdResult {
-    let ext = path
-        .extension()
-        .and_then(|e| e.to_str())
-        .unwrap_or("")
-        .to_ascii_lowercase();
-    if ext != "svg" {
-        return Err(Fail::input(format!(
-            "--plot {}: the plot is written as SVG; name it OUT.svg (convert it with e.g. rsvg-convert)",
-            path.display()
-        )));
-    }
-    if ranking.grid.angles.is_none() {
-        return Err(Fail::input("--plot needs --angle or --angle-per-standoff"));
     }
     Ok(())
 }

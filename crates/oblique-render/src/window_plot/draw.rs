@@ -1,0 +1,682 @@
+//! The layers of the window plot, bottom to top: the tinted region, the density of many points,
+//! the limits, the user boundaries, the process curves, the trials, the proposed points; then
+//! every label placed clear of the rest, the legend and the caution line.
+
+use super::field::{Field, P};
+use super::legend::{draw_legend, Entry, Mark, Section};
+use super::place::{Need, Placer, Rect};
+use super::{
+    binding_text, classify_point, criterion_colour, criterion_label, inside_count, plot_err, x_of,
+    PlotRequest, PointRole, ProposedPoint, HEIGHT, LEGEND_W, MAX_LABELLED_POINTS,
+    MAX_MARKED_POINTS, WIDTH,
+};
+use crate::error::RenderResult;
+use oblique_core::CriterionId;
+use oblique_window::boundary::Plane;
+use oblique_window::{Outcome, PairWindow};
+use plotters::coord::types::RangedCoordf64;
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
+
+type Root<'b> = DrawingArea<SVGBackend<'b>, Shift>;
+type Chart<'a, 'b> = ChartContext<'a, SVGBackend<'b>, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
+
+pub(super) const REGION: RGBColor = RGBColor(214, 229, 244);
+/// Predicted welded (model limits and the boundaries that span the point), but where some user
+/// boundary does not span (outside the trial data).
+pub(super) const REGION_UNTRIED: RGBColor = RGBColor(224, 229, 235);
+pub(super) const C_WELDED: RGBColor = RGBColor(27, 79, 138);
+pub(super) const C_NOT: RGBColor = RGBColor(224, 138, 0);
+pub(super) const C_PARTIAL: RGBColor = RGBColor(123, 50, 148);
+pub(super) const C_MELTED: RGBColor = RGBColor(165, 15, 21);
+/// Height of the caution strip under the plot.
+const FOOTER: u32 = 40;
+pub(super) const C_INFO: RGBColor = RGBColor(120, 120, 120);
+const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
+const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
+const C_LABEL: RGBColor = RGBColor(20, 20, 20);
+const C_SHOT: RGBColor = RGBColor(90, 90, 90);
+
+/// Colours and dashes of the process curves: each curve has its own pair.
+const CURVE_COLOURS: [RGBColor; 6] = [
+    RGBColor(20, 20, 20),
+    RGBColor(1, 133, 113),
+    RGBColor(140, 81, 10),
+    RGBColor(197, 27, 125),
+    RGBColor(110, 120, 0),
+    RGBColor(40, 40, 120),
+];
+const CURVE_DASHES: [(u32, u32); 2] = [(8, 4), (3, 3)];
+
+/// The look of process curve `k`: colour and dash.
+pub(super) fn curve_style(k: usize) -> (RGBColor, (u32, u32)) {
+    (
+        CURVE_COLOURS[k % CURVE_COLOURS.len()],
+        CURVE_DASHES[(k / CURVE_COLOURS.len()) % CURVE_DASHES.len()],
+    )
+}
+
+/// A label waiting for its place.
+struct Label {
+    text: String,
+    anchor: (f64, f64),
+    radius: f64,
+    size: u32,
+    colour: RGBColor,
+    need: Need,
+}
+
+/// What the layers leave for the labels and the legend.
+struct Layers<'p> {
+    placer: Placer,
+    labels: Vec<Label>,
+    sections: Vec<Section>,
+    _req: std::marker::PhantomData<&'p ()>,
+}
+
+fn px(chart: &Chart<'_, '_>, p: P) -> (f64, f64) {
+    let (x, y) = chart.backend_coord(&p);
+    (f64::from(x), f64::from(y))
+}
+
+/// Draw the window plot.
+pub(super) fn draw(
+    root: Root<'_>,
+    req: &PlotRequest<'_>,
+    field: &Field<'_>,
+    (x_max, y_max): (f64, f64),
+) -> RenderResult {
+    let w = req.window;
+    root.fill(&WHITE).map_err(plot_err)?;
+    let (main, bottom) = root.split_vertically(HEIGHT - FOOTER);
+    let (chart_area, legend_area) = main.split_horizontally(WIDTH - LEGEND_W);
+    let mut chart = frame(&chart_area, req, x_max, y_max)?;
+    let (a, b) = (px(&chart, (0.0, y_max)), px(&chart, (x_max, 0.0)));
+    let mut layers = Layers {
+        placer: Placer::new(Rect {
+            x0: a.0 + 2.0,
+            y0: a.1 + 2.0,
+            x1: b.0 - 2.0,
+            y1: b.1 - 2.0,
+        }),
+        labels: Vec::new(),
+        sections: vec![Section::new("Legend")],
+        _req: std::marker::PhantomData,
+    };
+    draw_region(&mut chart, field, &mut layers)?;
+    let binned = req.points.len() > MAX_MARKED_POINTS;
+    if binned {
+        draw_density(&mut chart, req, x_max, y_max, &mut layers)?;
+    }
+    draw_limits(&mut chart, w, field, &mut layers)?;
+    draw_boundaries(&mut chart, req, &mut layers)?;
+    draw_curves(&mut chart, req, &mut layers)?;
+    draw_trials(&mut chart, req, &mut layers)?;
+    if !binned {
+        draw_points(&mut chart, req, &mut layers)?;
+    }
+    place_labels(&root, layers.placer, layers.labels)?;
+    draw_legend(&legend_area, &layers.sections)?;
+    bottom
+        .draw(&Text::new(
+            "Screening estimate from published relations and the trials shown, not a guarantee of a weld. Lethal voltages, stored energy, explosives and flying parts: follow local codes and licensed practice.",
+            (12, 6),
+            ("sans-serif", 11).into_font().color(&RGBColor(90, 90, 90)),
+        ))
+        .map_err(plot_err)?;
+    if let Some(inv) = &w.invented {
+        let text = format!("INVENTED DATA: {inv}");
+        bottom
+            .draw(&Text::new(
+                super::wrap_words(&text, 190).remove(0),
+                (12, 22),
+                ("sans-serif", 11).into_font().color(&C_MELTED),
+            ))
+            .map_err(plot_err)?;
+    }
+    root.present().map_err(plot_err)?;
+    Ok(())
+}
+
+/// The title, axes and mesh.
+fn frame<'a, 'b>(
+    area: &'a Root<'b>,
+    req: &PlotRequest<'_>,
+    x_max: f64,
+    y_max: f64,
+) -> RenderResult<Chart<'a, 'b>> {
+    let w = req.window;
+    let title = format!(
+        "{}: {} flyer {:.2} mm on {}, convention {}",
+        w.name,
+        w.flyer.material.id,
+        w.flyer_thickness.mm(),
+        w.parent.material.id,
+        w.convention
+    );
+    let x_label = match req.plane {
+        Plane::AngleImpactVelocity => "impact velocity Vp [m/s]",
+        Plane::AngleCollisionVelocity => "collision-point velocity Vc [m/s]",
+    };
+    let mut chart = ChartBuilder::on(area)
+        .caption(title, ("sans-serif", 20))
+        .margin(12)
+        .x_label_area_size(46)
+        .y_label_area_size(58)
+        .build_cartesian_2d(0f64..x_max, 0f64..y_max)
+        .map_err(plot_err)?;
+    chart
+        .configure_mesh()
+        .x_desc(x_label)
+        .y_desc("collision angle beta [deg]")
+        .axis_desc_style(("sans-serif", 15))
+        .label_style(("sans-serif", 13))
+        .x_label_formatter(&|v| format!("{v:.0}"))
+        .y_label_formatter(&|v| format!("{v:.0}"))
+        .light_line_style(RGBColor(238, 238, 238))
+        .bold_line_style(RGBColor(215, 215, 215))
+        .draw()
+        .map_err(plot_err)?;
+    Ok(chart)
+}
+
+/// The weldable region (and the part of it outside the trial data), as traced polygons.
+fn draw_region(
+    chart: &mut Chart<'_, '_>,
+    field: &Field<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    let untried = field.has_untried();
+    let all = field.region_outlines(false);
+    let (outer, inner) = if untried {
+        (REGION_UNTRIED, Some(field.region_outlines(true)))
+    } else {
+        (REGION, None)
+    };
+    chart
+        .draw_series(all.into_iter().map(|p| Polygon::new(p, outer.filled())))
+        .map_err(plot_err)?;
+    if let Some(inner) = inner {
+        chart
+            .draw_series(inner.into_iter().map(|p| Polygon::new(p, REGION.filled())))
+            .map_err(plot_err)?;
+    }
+    let legend = &mut layers.sections[0];
+    legend.push(Entry::new(
+        "weldable: every active limit holds",
+        Mark::Fill(REGION),
+    ));
+    if untried {
+        legend.push(Entry::new(
+            "predicted welded, but a user boundary does not span here (outside the trial data)",
+            Mark::Fill(REGION_UNTRIED),
+        ));
+    }
+    Ok(())
+}
+
+/// Many proposed points: a density under the limits and trials.
+fn draw_density(
+    chart: &mut Chart<'_, '_>,
+    req: &PlotRequest<'_>,
+    x_max: f64,
+    y_max: f64,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    let (bx, by) = (60usize, 40usize);
+    let mut counts = vec![0usize; bx * by];
+    for p in &req.points {
+        if let Some(x) = x_of(req.window, req.plane, p.velocity_m_s, p.angle_rad) {
+            let i = ((x / x_max) * bx as f64).floor();
+            let j = ((p.angle_rad.to_degrees() / y_max) * by as f64).floor();
+            if i >= 0.0 && j >= 0.0 && (i as usize) < bx && (j as usize) < by {
+                counts[j as usize * bx + i as usize] += 1;
+            }
+        }
+    }
+    let max = counts.iter().copied().max().unwrap_or(1).max(1) as f64;
+    let (dx, dy) = (x_max / bx as f64, y_max / by as f64);
+    let cells = counts
+        .iter()
+        .enumerate()
+        .filter(|(_, n)| **n > 0)
+        .map(|(k, n)| {
+            let (i, j) = ((k % bx) as f64, (k / bx) as f64);
+            let shade = 0.1 + 0.5 * (*n as f64 / max).sqrt();
+            Rectangle::new(
+                [(i * dx, j * dy), ((i + 1.0) * dx, (j + 1.0) * dy)],
+                BLACK.mix(shade).filled(),
+            )
+        });
+    chart.draw_series(cells).map_err(plot_err)?;
+    layers.sections[0].push(Entry::new(
+        format!(
+            "{} proposed points, binned (more than {MAX_MARKED_POINTS}); {} inside the window",
+            req.points.len(),
+            inside_count(req.window, &req.points)
+        ),
+        Mark::Fill(RGBColor(140, 140, 140)),
+    ));
+    Ok(())
+}
+
+/// Every enabled criterion's limit and the two sonic lines.
+fn draw_limits(
+    chart: &mut Chart<'_, '_>,
+    w: &PairWindow,
+    field: &Field<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    for (id, lines) in field.criterion_lines() {
+        let colour = criterion_colour(id);
+        let info = id == CriterionId::WavyTransition;
+        let width = if info { 1 } else { 2 };
+        for line in lines {
+            let pix: Vec<(f64, f64)> = line.iter().map(|p| px(chart, *p)).collect();
+            layers.placer.add_line(&pix);
+            if info {
+                chart
+                    .draw_series(DashedLineSeries::new(
+                        line,
+                        10,
+                        4,
+                        colour.stroke_width(width),
+                    ))
+                    .map_err(plot_err)?;
+            } else {
+                chart
+                    .draw_series(LineSeries::new(line, colour.stroke_width(width)))
+                    .map_err(plot_err)?;
+            }
+        }
+        let dash = info.then_some((10, 4));
+        layers.sections[0].push(Entry::new(
+            criterion_label(w, id),
+            Mark::Line {
+                colour,
+                width,
+                dash,
+            },
+        ));
+    }
+    let [parent, flyer] = field.sonic_lines();
+    for (lines, label, colour, width, dash) in [
+        (
+            parent,
+            format!(
+                "Vc = C0 of parent ({:.0} m/s, info)",
+                w.parent.material.sound_speed().si()
+            ),
+            C_SONIC_PARENT,
+            1,
+            (2, 3),
+        ),
+        (
+            flyer,
+            format!(
+                "Vf = C0 of flyer ({:.0} m/s, info)",
+                w.flyer.material.sound_speed().si()
+            ),
+            C_SONIC_FLYER,
+            2,
+            (5, 5),
+        ),
+    ] {
+        for line in lines {
+            chart
+                .draw_series(DashedLineSeries::new(
+                    line,
+                    dash.0,
+                    dash.1,
+                    colour.stroke_width(width),
+                ))
+                .map_err(plot_err)?;
+        }
+        layers.sections[0].push(Entry::new(
+            label,
+            Mark::Line {
+                colour,
+                width,
+                dash: Some(dash),
+            },
+        ));
+    }
+    Ok(())
+}
+
+/// User boundaries as drawn, converted to this plane point by point, labelled at their end.
+fn draw_boundaries(
+    chart: &mut Chart<'_, '_>,
+    req: &PlotRequest<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    let w = req.window;
+    for b in &w.boundaries {
+        let pts: Vec<P> = b
+            .points
+            .iter()
+            .filter_map(|(v, a)| {
+                let vp = match b.plane {
+                    Plane::AngleImpactVelocity => v.si(),
+                    Plane::AngleCollisionVelocity => {
+                        oblique_core::Collision::from_collision_velocity(w.convention, *v, *a)
+                            .ok()?
+                            .impact_velocity
+                            .si()
+                    }
+                };
+                Some((x_of(w, req.plane, vp, a.radians())?, a.degrees()))
+            })
+            .collect();
+        chart
+            .draw_series(LineSeries::new(pts.clone(), BLACK.stroke_width(3)))
+            .map_err(plot_err)?;
+        chart
+            .draw_series(pts.iter().map(|p| Circle::new(*p, 3, BLACK.filled())))
+            .map_err(plot_err)?;
+        let pix: Vec<(f64, f64)> = pts.iter().map(|p| px(chart, *p)).collect();
+        layers.placer.add_line(&pix);
+        for p in &pix {
+            layers.placer.add_marker(Rect::around(p.0, p.1, 3.0));
+        }
+        if let Some(last) = pix.last() {
+            layers.labels.push(Label {
+                text: b.label.clone(),
+                anchor: *last,
+                radius: 3.0,
+                size: 12,
+                colour: C_LABEL,
+                need: Need::Required,
+            });
+        }
+        layers.sections[0].push(Entry::new(
+            format!(
+                "user boundary: {} (welds {})",
+                b.label,
+                b.weld_side.as_str()
+            ),
+            Mark::Line {
+                colour: BLACK,
+                width: 3,
+                dash: None,
+            },
+        ));
+    }
+    Ok(())
+}
+
+/// Process curves: each its own colour or dash and legend entry; markers filled where the
+/// point is inside the window, open where it is not.
+fn draw_curves(
+    chart: &mut Chart<'_, '_>,
+    req: &PlotRequest<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    if req.curves.is_empty() {
+        return Ok(());
+    }
+    let w = req.window;
+    let mut section = Section::new("Process curves");
+    let mut end_labels = Vec::new();
+    let mut other_labels = Vec::new();
+    for (k, c) in req.curves.iter().enumerate() {
+        let (colour, (dash, gap)) = curve_style(k);
+        let pts: Vec<P> = c
+            .points
+            .iter()
+            .filter_map(|(v, a, _)| Some((x_of(w, req.plane, *v, *a)?, a.to_degrees())))
+            .collect();
+        chart
+            .draw_series(DashedLineSeries::new(
+                pts.clone(),
+                dash,
+                gap,
+                colour.stroke_width(2),
+            ))
+            .map_err(plot_err)?;
+        let pix: Vec<(f64, f64)> = pts.iter().map(|p| px(chart, *p)).collect();
+        layers.placer.add_line(&pix);
+        let n = c.points.len();
+        for (idx, ((v, a, lab), p)) in c.points.iter().zip(&pts).enumerate() {
+            let inside = classify_point(w, *v, *a).is_ok_and(|k| k.inside);
+            let fill = if inside {
+                colour.filled()
+            } else {
+                WHITE.filled()
+            };
+            chart
+                .draw_series([
+                    Circle::new(*p, 4, fill),
+                    Circle::new(*p, 4, colour.stroke_width(1)),
+                ])
+                .map_err(plot_err)?;
+            let q = px(chart, *p);
+            layers.placer.add_marker(Rect::around(q.0, q.1, 4.0));
+            if let Some(l) = lab {
+                let label = Label {
+                    text: l.clone(),
+                    anchor: q,
+                    radius: 4.0,
+                    size: 11,
+                    colour,
+                    need: Need::Optional,
+                };
+                if idx == 0 || idx + 1 == n {
+                    end_labels.push(label);
+                } else {
+                    other_labels.push(label);
+                }
+            }
+        }
+        section.push(Entry::new(
+            c.label.clone(),
+            Mark::Line {
+                colour,
+                width: 2,
+                dash: Some((dash, gap)),
+            },
+        ));
+    }
+    section.push(Entry::new(
+        "filled marker: inside the window; open: outside",
+        Mark::Dot {
+            colour: CURVE_COLOURS[0],
+        },
+    ));
+    layers.sections.push(section);
+    // Curve ends are labelled before the points between them.
+    layers.labels.extend(end_labels);
+    layers.labels.extend(other_labels);
+    Ok(())
+}
+
+/// Trials by outcome, optionally with their shot numbers.
+fn draw_trials(
+    chart: &mut Chart<'_, '_>,
+    req: &PlotRequest<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    let w = req.window;
+    if w.observations.is_empty() {
+        return Ok(());
+    }
+    let mut seen = [false; 4];
+    let mut shots = Vec::new();
+    for o in &w.observations {
+        let Some(x) = x_of(w, req.plane, o.velocity.si(), o.angle.radians()) else {
+            continue;
+        };
+        let p = (x, o.angle.degrees());
+        let kind = trial_kind(o.outcome);
+        seen[kind] = true;
+        match kind {
+            0 => chart.draw_series(std::iter::once(Circle::new(p, 5, C_WELDED.filled()))),
+            1 => chart.draw_series(std::iter::once(
+                EmptyElement::at(p) + Rectangle::new([(-5, -5), (5, 5)], C_NOT.stroke_width(2)),
+            )),
+            2 => chart.draw_series(std::iter::once(TriangleMarker::new(
+                p,
+                7,
+                C_PARTIAL.filled(),
+            ))),
+            _ => chart.draw_series(std::iter::once(Cross::new(p, 5, C_MELTED.stroke_width(3)))),
+        }
+        .map_err(plot_err)?;
+        let q = px(chart, p);
+        layers.placer.add_marker(Rect::around(q.0, q.1, 6.0));
+        if req.shot_numbers {
+            shots.push(Label {
+                text: format!("{}", o.index + 1),
+                anchor: q,
+                radius: 6.0,
+                size: 10,
+                colour: C_SHOT,
+                need: Need::Optional,
+            });
+        }
+    }
+    let mut section = Section::new(if req.shot_numbers {
+        "Trials (numbered as in the pair file)"
+    } else {
+        "Trials"
+    });
+    for (kind, label) in ["welded", "not welded", "partial", "melted"]
+        .iter()
+        .enumerate()
+    {
+        if seen[kind] {
+            section.push(Entry::new(*label, Mark::Trial(kind)));
+        }
+    }
+    layers.sections.push(section);
+    layers.labels.extend(shots);
+    Ok(())
+}
+
+/// 0 welded, 1 not welded, 2 partial, 3 melted.
+pub(super) fn trial_kind(o: Outcome) -> usize {
+    match o {
+        Outcome::Welded => 0,
+        Outcome::NotWelded => 1,
+        Outcome::Partial => 2,
+        Outcome::Melted => 3,
+    }
+}
+
+/// Proposed points (chosen, alternatives) as diamonds, with their verdicts as labels.
+fn draw_points(
+    chart: &mut Chart<'_, '_>,
+    req: &PlotRequest<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    let w = req.window;
+    let mut roles = [false; 3];
+    let mut labels = Vec::new();
+    for (n, p) in req.points.iter().enumerate() {
+        let Some(x) = x_of(w, req.plane, p.velocity_m_s, p.angle_rad) else {
+            continue;
+        };
+        let y = p.angle_rad.to_degrees();
+        let q = px(chart, (x, y));
+        let (r, fill) = match p.role {
+            PointRole::Proposed => (7.0, BLACK),
+            PointRole::Chosen => (9.0, BLACK),
+            PointRole::Alternative => (7.0, WHITE),
+        };
+        roles[role_index(p.role)] = true;
+        let diamond = |s: f64| -> Vec<(i32, i32)> {
+            let s = s.round() as i32;
+            vec![(0, -s), (s, 0), (0, s), (-s, 0)]
+        };
+        let mut shapes = vec![
+            EmptyElement::at((x, y)) + Polygon::new(diamond(r + 2.5), WHITE.filled()),
+            EmptyElement::at((x, y)) + Polygon::new(diamond(r), BLACK.filled()),
+        ];
+        if fill == WHITE {
+            shapes.push(EmptyElement::at((x, y)) + Polygon::new(diamond(r - 2.5), WHITE.filled()));
+        }
+        chart.draw_series(shapes).map_err(plot_err)?;
+        layers.placer.add_marker(Rect::around(q.0, q.1, r + 1.0));
+        if n < MAX_LABELLED_POINTS {
+            labels.push(Label {
+                text: point_text(w, p),
+                anchor: q,
+                radius: r,
+                size: 12,
+                colour: C_LABEL,
+                need: Need::Required,
+            });
+        }
+    }
+    let mut section = Section::new("Points");
+    for (i, text) in [
+        "proposed point (verdict beside it)",
+        "chosen set-up (verdict beside it)",
+        "alternative considered (verdict beside it)",
+    ]
+    .iter()
+    .enumerate()
+    {
+        if roles[i] {
+            section.push(Entry::new(*text, Mark::Diamond { filled: i != 2 }));
+        }
+    }
+    if !section.is_empty() {
+        layers.sections.push(section);
+    }
+    // Proposed points are labelled before anything else.
+    labels.append(&mut layers.labels);
+    layers.labels = labels;
+    Ok(())
+}
+
+fn role_index(r: PointRole) -> usize {
+    match r {
+        PointRole::Proposed => 0,
+        PointRole::Chosen => 1,
+        PointRole::Alternative => 2,
+    }
+}
+
+/// A point's label with its verdict.
+fn point_text(w: &PairWindow, p: &ProposedPoint) -> String {
+    let verdict = classify_point(w, p.velocity_m_s, p.angle_rad)
+        .map(|c| {
+            if c.inside {
+                "inside".to_string()
+            } else {
+                format!("outside: {}", binding_text(w, &c))
+            }
+        })
+        .unwrap_or_else(|e| e.to_string());
+    format!("{} ({verdict})", p.label)
+}
+
+/// Place and draw every label, in order.
+fn place_labels(root: &Root<'_>, mut placer: Placer, labels: Vec<Label>) -> RenderResult {
+    for l in labels {
+        let font = TextStyle::from(("sans-serif", l.size).into_font());
+        let (tw, th) = root.estimate_text_size(&l.text, &font).map_err(plot_err)?;
+        let size = (f64::from(tw) + 2.0, f64::from(th) + 2.0);
+        if let Some(at) = placer.place(l.anchor, l.radius, size, l.need) {
+            let pos = (at.0.round() as i32 + 1, at.1.round() as i32 + 1);
+            // A white halo keeps the text readable over lines and tints.
+            root.draw(&Rectangle::new(
+                [
+                    (pos.0 - 1, pos.1 - 1),
+                    (pos.0 + tw as i32 + 1, pos.1 + th as i32 + 1),
+                ],
+                WHITE.mix(0.8).filled(),
+            ))
+            .map_err(plot_err)?;
+            root.draw(&Text::new(
+                l.text,
+                pos,
+                font.color(&l.colour).pos(Pos::new(HPos::Left, VPos::Top)),
+            ))
+            .map_err(plot_err)?;
+        }
+    }
+    Ok(())
+}

@@ -1,0 +1,328 @@
+//! Window plots: the weldable region tinted, each limit traced (or the user's polyline), trials
+//! by outcome (optionally numbered), proposed points and process curves with their verdicts, and
+//! a legend with one entry per thing drawn. SVG through plotters, rendered into a `String`; PNG
+//! by rasterising that SVG ([`crate::png`]). Deterministic for the same input.
+//!
+//! The module is split by task: [`field`] evaluates the window on a grid and traces the limits at
+//! sub-grid resolution, [`place`] keeps labels clear of markers, lines and each other, `draw`
+//! draws the layers and `legend` the legend panel.
+
+mod draw;
+pub mod field;
+mod legend;
+pub mod place;
+
+use crate::error::{RenderError, RenderResult};
+use oblique_core::units::{Angle, Velocity};
+use oblique_core::{Collision, CriterionId};
+use oblique_window::boundary::Plane;
+use oblique_window::classify::{Classification, LimitRef};
+use oblique_window::PairWindow;
+use plotters::prelude::*;
+
+/// What a marked point stands for in a decision.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum PointRole {
+    /// A proposed point (black diamond).
+    #[default]
+    Proposed,
+    /// The chosen set-up of a decision (large black diamond).
+    Chosen,
+    /// An alternative that was considered and not chosen (open diamond).
+    Alternative,
+}
+
+/// A proposed process point (impact velocity in the window's convention).
+#[derive(Debug, Clone)]
+pub struct ProposedPoint {
+    /// Label shown beside the marker.
+    pub label: String,
+    /// Impact velocity Vp, m/s.
+    pub velocity_m_s: f64,
+    /// Collision angle, rad.
+    pub angle_rad: f64,
+    /// What the point stands for.
+    pub role: PointRole,
+}
+
+impl ProposedPoint {
+    /// A proposed point.
+    #[must_use]
+    pub fn new(label: impl Into<String>, velocity_m_s: f64, angle_rad: f64) -> Self {
+        ProposedPoint {
+            label: label.into(),
+            velocity_m_s,
+            angle_rad,
+            role: PointRole::Proposed,
+        }
+    }
+
+    /// The same point with another role.
+    #[must_use]
+    pub fn with_role(mut self, role: PointRole) -> Self {
+        self.role = role;
+        self
+    }
+}
+
+/// A process curve: a polyline of points (e.g. velocity against charging voltage).
+#[derive(Debug, Clone)]
+pub struct ProcessCurve {
+    /// Its legend entry.
+    pub label: String,
+    /// Points: impact velocity (m/s) and angle (rad), each with an optional label (shown where
+    /// it fits clear of everything else).
+    pub points: Vec<(f64, f64, Option<String>)>,
+}
+
+/// What to plot.
+pub struct PlotRequest<'a> {
+    /// The pair window.
+    pub window: &'a PairWindow,
+    /// The plane.
+    pub plane: Plane,
+    /// Proposed points.
+    pub points: Vec<ProposedPoint>,
+    /// Process curves.
+    pub curves: Vec<ProcessCurve>,
+    /// Write each trial's shot number (its position in the pair file, from 1) beside it.
+    pub shot_numbers: bool,
+}
+
+impl<'a> PlotRequest<'a> {
+    /// A plot of `window` in `plane` with nothing on it but the window and its trials.
+    #[must_use]
+    pub fn new(window: &'a PairWindow, plane: Plane) -> Self {
+        PlotRequest {
+            window,
+            plane,
+            points: Vec::new(),
+            curves: Vec::new(),
+            shot_numbers: false,
+        }
+    }
+}
+
+/// More proposed points than this are drawn as a density (binned), and the plot says so.
+pub const MAX_MARKED_POINTS: usize = 400;
+/// Points up to this count get a text label with their verdict.
+pub const MAX_LABELLED_POINTS: usize = 12;
+
+const WIDTH: u32 = 1100;
+const HEIGHT: u32 = 680;
+const LEGEND_W: u32 = 300;
+
+fn criterion_colour(id: CriterionId) -> RGBColor {
+    match id {
+        CriterionId::DeribasLower => RGBColor(27, 120, 55),
+        CriterionId::StrengthLower => RGBColor(118, 42, 131),
+        CriterionId::PressureLower => RGBColor(179, 88, 6),
+        CriterionId::MeltingUpper => RGBColor(178, 24, 43),
+        CriterionId::Jetting => RGBColor(33, 102, 172),
+        CriterionId::WavyTransition => draw::C_INFO,
+    }
+}
+
+/// The legend label of a criterion, with its constants.
+pub fn criterion_label(window: &PairWindow, id: CriterionId) -> String {
+    let c = &window.criteria;
+    match id {
+        CriterionId::DeribasLower => format!("Deribas lower, k = {}", c.deribas_k),
+        CriterionId::StrengthLower => "strength lower, sqrt(UTS/rho)".into(),
+        CriterionId::PressureLower => format!("pressure lower, {} x HEL", c.hel_multiple),
+        CriterionId::MeltingUpper => format!("Wittman melting upper, N = {}", c.wittman_n),
+        CriterionId::Jetting => "jetting critical angle".into(),
+        CriterionId::WavyTransition => {
+            format!("wavy transition, Re = {} (info)", c.wavy_critical_reynolds)
+        }
+    }
+}
+
+/// The plane's horizontal value of a point given as (Vp, beta).
+fn x_of(window: &PairWindow, plane: Plane, vp: f64, beta: f64) -> Option<f64> {
+    match plane {
+        Plane::AngleImpactVelocity => Some(vp),
+        Plane::AngleCollisionVelocity => Collision::from_impact(
+            window.convention,
+            Velocity::from_m_s(vp),
+            Angle::from_radians(beta),
+        )
+        .ok()
+        .map(|c| c.collision_velocity.si()),
+    }
+}
+
+fn collision_at(window: &PairWindow, plane: Plane, x: f64, beta_deg: f64) -> Option<Collision> {
+    let beta = Angle::from_degrees(beta_deg);
+    match plane {
+        Plane::AngleImpactVelocity => {
+            Collision::from_impact(window.convention, Velocity::from_m_s(x), beta).ok()
+        }
+        Plane::AngleCollisionVelocity => {
+            Collision::from_collision_velocity(window.convention, Velocity::from_m_s(x), beta).ok()
+        }
+    }
+}
+
+fn criterion_enabled(window: &PairWindow, id: CriterionId) -> bool {
+    let c = &window.criteria;
+    match id {
+        CriterionId::DeribasLower => c.deribas_enabled,
+        CriterionId::StrengthLower => c.strength_enabled,
+        CriterionId::PressureLower => c.pressure_enabled,
+        CriterionId::MeltingUpper => c.melting_enabled,
+        CriterionId::Jetting => c.jetting_enabled,
+        CriterionId::WavyTransition => c.wavy_enabled,
+    }
+}
+
+fn nice_ceil(x: f64, step: f64) -> f64 {
+    (x / step).ceil() * step
+}
+
+/// The ranges a window plot of these data uses: (x_max, y_max) in the plane's units (m/s, deg).
+/// Exposed so that callers placing things on the plot use the same scale.
+#[must_use]
+pub fn plot_ranges(req: &PlotRequest<'_>) -> (f64, f64) {
+    let w = req.window;
+    let plane = req.plane;
+    let mut xs_data = Vec::new();
+    let mut ys_data = Vec::new();
+    for o in &w.observations {
+        xs_data.extend(x_of(w, plane, o.velocity.si(), o.angle.radians()));
+        ys_data.push(o.angle.degrees());
+    }
+    for p in &req.points {
+        xs_data.extend(x_of(w, plane, p.velocity_m_s, p.angle_rad));
+        ys_data.push(p.angle_rad.to_degrees());
+    }
+    for c in &req.curves {
+        for (v, a, _) in &c.points {
+            xs_data.extend(x_of(w, plane, *v, *a));
+            ys_data.push(a.to_degrees());
+        }
+    }
+    let max_x = xs_data.iter().copied().fold(0.0f64, f64::max);
+    let max_y = ys_data.iter().copied().fold(0.0f64, f64::max);
+    let x_max = match plane {
+        Plane::AngleImpactVelocity => nice_ceil((max_x * 1.2).max(700.0), 100.0),
+        Plane::AngleCollisionVelocity => {
+            let c0 = w
+                .flyer
+                .material
+                .sound_speed()
+                .si()
+                .max(w.parent.material.sound_speed().si());
+            nice_ceil((max_x * 1.1).clamp(1.4 * c0, 12_000.0), 500.0)
+        }
+    };
+    let y_max = nice_ceil((max_y * 1.15).max(30.0), 5.0).min(85.0);
+    (x_max, y_max)
+}
+
+/// Classify one point (the jetting test solved directly).
+///
+/// # Errors
+/// A physics error in the window or the point.
+pub fn classify_point(window: &PairWindow, vp: f64, beta: f64) -> RenderResult<Classification> {
+    let setup = window.setup()?;
+    let c = Collision::from_impact(
+        window.convention,
+        Velocity::from_m_s(vp),
+        Angle::from_radians(beta),
+    )?;
+    Ok(oblique_window::classify::classify(window, &setup, &c)?)
+}
+
+fn plot_err<E: std::fmt::Display>(e: E) -> RenderError {
+    RenderError::Draw(e.to_string())
+}
+
+/// Render the window plot as an SVG string.
+///
+/// # Errors
+/// A physics error in the window, or a drawing error.
+pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
+    register_fonts();
+    let (x_max, y_max) = plot_ranges(req);
+    let field = field::Field::evaluate(req.window, req.plane, x_max, y_max)?;
+    let mut svg = String::new();
+    draw::draw(
+        SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area(),
+        req,
+        &field,
+        (x_max, y_max),
+    )?;
+    // User text (labels, names) may hold characters XML forbids: keep the SVG well-formed.
+    Ok(oblique_window::present::xml_safe(&svg).into_owned())
+}
+
+/// Render the window plot as PNG bytes (for slides): the SVG rasterised with the bundled font.
+///
+/// # Errors
+/// A physics error in the window, or a drawing or encoding error.
+pub fn render_png(req: &PlotRequest<'_>) -> RenderResult<Vec<u8>> {
+    crate::png::svg_to_png(&render_svg(req)?)
+}
+
+/// The text font, bundled (DejaVu Sans, Bitstream Vera licence in assets/) so that plots do not
+/// depend on the fonts installed on the machine (plotters measures SVG text with it).
+pub fn register_fonts() {
+    static ONCE: std::sync::Once = std::sync::Once::new();
+    ONCE.call_once(|| {
+        let bytes: &'static [u8] = crate::png::FONT;
+        // The bundled file is a valid font; a failure would only leave text unmeasured.
+        let _ = plotters::style::register_font("sans-serif", FontStyle::Normal, bytes);
+    });
+}
+
+/// `text` in lines of at most `max_chars` characters, broken between words (a longer word has a
+/// line of its own).
+pub fn wrap_words(text: &str, max_chars: usize) -> Vec<String> {
+    let mut lines = Vec::new();
+    let mut cur = String::new();
+    for word in text.split_whitespace() {
+        if !cur.is_empty() && cur.chars().count() + 1 + word.chars().count() > max_chars {
+            lines.push(std::mem::take(&mut cur));
+        }
+        if !cur.is_empty() {
+            cur.push(' ');
+        }
+        cur.push_str(word);
+    }
+    if !cur.is_empty() {
+        lines.push(cur);
+    }
+    lines
+}
+
+/// How many of the points lie inside the window.
+fn inside_count(w: &PairWindow, points: &[ProposedPoint]) -> usize {
+    // One set-up for all points (building it clones both materials).
+    let Ok(setup) = w.setup() else { return 0 };
+    points
+        .iter()
+        .filter(|p| {
+            Collision::from_impact(
+                w.convention,
+                Velocity::from_m_s(p.velocity_m_s),
+                Angle::from_radians(p.angle_rad),
+            )
+            .ok()
+            .and_then(|c| oblique_window::classify::classify(w, &setup, &c).ok())
+            .is_some_and(|c| c.inside)
+        })
+        .count()
+}
+
+/// Short text naming the binding limit of a failed point.
+pub fn binding_text(w: &PairWindow, c: &Classification) -> String {
+    match &c.binding {
+        Some(LimitRef::Criterion(id)) => id.as_str().to_string(),
+        Some(LimitRef::Boundary(i)) => w
+            .boundaries
+            .get(*i)
+            .map_or("boundary".into(), |b| b.label.clone()),
+        None => String::new(),
+    }
+}

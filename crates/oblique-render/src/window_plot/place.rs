@@ -1,0 +1,272 @@
+//! Label placement in pixels: each label goes to the first of a ring of positions around its
+//! anchor that keeps clear of every marker, every other label and the plot's edges, preferring
+//! positions that cross no drawn line. Required labels (proposed points, boundaries) are always
+//! placed, at the least crowded position when none is clear; optional ones (process-curve
+//! points, shot numbers) are left out when none is clear.
+
+/// A box in pixels: left, top, right, bottom.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Rect {
+    /// Left.
+    pub x0: f64,
+    /// Top.
+    pub y0: f64,
+    /// Right.
+    pub x1: f64,
+    /// Bottom.
+    pub y1: f64,
+}
+
+impl Rect {
+    /// The box of a marker of radius `r` at `(x, y)`.
+    #[must_use]
+    pub fn around(x: f64, y: f64, r: f64) -> Self {
+        Rect {
+            x0: x - r,
+            y0: y - r,
+            x1: x + r,
+            y1: y + r,
+        }
+    }
+
+    fn overlaps(&self, o: &Rect, gap: f64) -> bool {
+        self.x0 < o.x1 + gap && o.x0 < self.x1 + gap && self.y0 < o.y1 + gap && o.y0 < self.y1 + gap
+    }
+
+    fn contains(&self, p: (f64, f64)) -> bool {
+        p.0 >= self.x0 && p.0 <= self.x1 && p.1 >= self.y0 && p.1 <= self.y1
+    }
+
+    /// True when the segment a-b passes through the box.
+    fn crossed_by(&self, a: (f64, f64), b: (f64, f64)) -> bool {
+        if a.0.max(b.0) < self.x0
+            || a.0.min(b.0) > self.x1
+            || a.1.max(b.1) < self.y0
+            || a.1.min(b.1) > self.y1
+        {
+            return false;
+        }
+        if self.contains(a) || self.contains(b) {
+            return true;
+        }
+        // Liang-Barsky clipping of the segment against the box.
+        let (dx, dy) = (b.0 - a.0, b.1 - a.1);
+        let mut t0 = 0.0f64;
+        let mut t1 = 1.0f64;
+        for (p, q) in [
+            (-dx, a.0 - self.x0),
+            (dx, self.x1 - a.0),
+            (-dy, a.1 - self.y0),
+            (dy, self.y1 - a.1),
+        ] {
+            if p == 0.0 {
+                if q < 0.0 {
+                    return false;
+                }
+            } else {
+                let t = q / p;
+                if p < 0.0 {
+                    t0 = t0.max(t);
+                } else {
+                    t1 = t1.min(t);
+                }
+                if t0 > t1 {
+                    return false;
+                }
+            }
+        }
+        true
+    }
+}
+
+/// Where labels may go and what they must avoid.
+#[derive(Debug, Clone)]
+pub struct Placer {
+    /// The plotting area: labels stay inside it.
+    pub area: Rect,
+    markers: Vec<Rect>,
+    labels: Vec<Rect>,
+    segments: Vec<((f64, f64), (f64, f64))>,
+}
+
+/// How much a label must be placed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Need {
+    /// Always placed (at the least crowded position if no position is clear).
+    Required,
+    /// Left out when no position is clear.
+    Optional,
+}
+
+impl Placer {
+    /// A placer for the plotting area `area`.
+    #[must_use]
+    pub fn new(area: Rect) -> Self {
+        Placer {
+            area,
+            markers: Vec::new(),
+            labels: Vec::new(),
+            segments: Vec::new(),
+        }
+    }
+
+    /// A marker labels must not cover.
+    pub fn add_marker(&mut self, r: Rect) {
+        self.markers.push(r);
+    }
+
+    /// A drawn polyline labels should not cross.
+    pub fn add_line(&mut self, pts: &[(f64, f64)]) {
+        for w in pts.windows(2) {
+            self.segments.push((w[0], w[1]));
+        }
+    }
+
+    /// Place a label of `size` (w, h) beside the marker of radius `r` at `anchor`; returns its
+    /// top-left corner, or `None` for an optional label with no clear position. The placed box
+    /// is remembered.
+    pub fn place(
+        &mut self,
+        anchor: (f64, f64),
+        r: f64,
+        size: (f64, f64),
+        need: Need,
+    ) -> Option<(f64, f64)> {
+        let (w, h) = size;
+        let (x, y) = anchor;
+        let mut candidates = Vec::with_capacity(24);
+        for d in [3.0, 9.0, 18.0] {
+            let g = r + d;
+            candidates.extend([
+                (x + g, y - h / 2.0),
+                (x + g * 0.7, y - g * 0.7 - h),
+                (x + g * 0.7, y + g * 0.7),
+                (x - g - w, y - h / 2.0),
+                (x - g * 0.7 - w, y - g * 0.7 - h),
+                (x - g * 0.7 - w, y + g * 0.7),
+                (x - w / 2.0, y - g - h),
+                (x - w / 2.0, y + g),
+            ]);
+        }
+        let mut best: Option<((usize, usize), (f64, f64))> = None;
+        for (n, (cx, cy)) in candidates.into_iter().enumerate() {
+            let b = Rect {
+                x0: cx,
+                y0: cy,
+                x1: cx + w,
+                y1: cy + h,
+            };
+            let inside = b.x0 >= self.area.x0
+                && b.x1 <= self.area.x1
+                && b.y0 >= self.area.y0
+                && b.y1 <= self.area.y1;
+            let own = Rect::around(x, y, r);
+            let hits = self
+                .markers
+                .iter()
+                .filter(|m| **m != own && m.overlaps(&b, 1.0))
+                .count()
+                + self.labels.iter().filter(|l| l.overlaps(&b, 2.0)).count()
+                + usize::from(!inside) * 100;
+            let crossings = self
+                .segments
+                .iter()
+                .filter(|(p, q)| b.crossed_by(*p, *q))
+                .count();
+            // Clear of markers and labels first, then of lines, then nearest.
+            let score = (hits, crossings);
+            if hits == 0 && crossings == 0 {
+                best = Some((score, (cx, cy)));
+                let _ = n;
+                break;
+            }
+            if best.is_none_or(|(s, _)| score < s) {
+                best = Some((score, (cx, cy)));
+            }
+        }
+        let ((hits, _), at) = best?;
+        if hits > 0 && need == Need::Optional {
+            return None;
+        }
+        self.labels.push(Rect {
+            x0: at.0,
+            y0: at.1,
+            x1: at.0 + w,
+            y1: at.1 + h,
+        });
+        Some(at)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn area() -> Rect {
+        Rect {
+            x0: 0.0,
+            y0: 0.0,
+            x1: 400.0,
+            y1: 300.0,
+        }
+    }
+
+    #[test]
+    fn labels_avoid_markers_lines_and_each_other() {
+        let mut p = Placer::new(area());
+        // A row of markers 12 px apart and a line through the middle of the area.
+        for k in 0..10 {
+            p.add_marker(Rect::around(100.0 + 12.0 * f64::from(k), 150.0, 4.0));
+        }
+        p.add_line(&[(0.0, 120.0), (400.0, 120.0)]);
+        let mut boxes = Vec::new();
+        for k in 0..10 {
+            let a = (100.0 + 12.0 * f64::from(k), 150.0);
+            if let Some(at) = p.place(a, 4.0, (40.0, 12.0), Need::Optional) {
+                boxes.push(Rect {
+                    x0: at.0,
+                    y0: at.1,
+                    x1: at.0 + 40.0,
+                    y1: at.1 + 12.0,
+                });
+            }
+        }
+        assert!(!boxes.is_empty());
+        for (i, a) in boxes.iter().enumerate() {
+            for b in &boxes[i + 1..] {
+                assert!(!a.overlaps(b, 0.0), "{a:?} {b:?}");
+            }
+            for k in 0..10 {
+                let m = Rect::around(100.0 + 12.0 * f64::from(k), 150.0, 4.0);
+                assert!(!a.overlaps(&m, 0.0));
+            }
+            assert!(!a.crossed_by((0.0, 120.0), (400.0, 120.0)));
+        }
+    }
+
+    #[test]
+    fn a_required_label_is_always_placed_inside_the_area() {
+        let mut p = Placer::new(area());
+        for k in 0..40 {
+            p.add_marker(Rect::around(10.0 * f64::from(k), 295.0, 5.0));
+        }
+        let at = p
+            .place((395.0, 295.0), 5.0, (60.0, 12.0), Need::Required)
+            .expect("placed");
+        assert!(at.0 >= 0.0 && at.0 + 60.0 <= 400.0 && at.1 >= 0.0 && at.1 + 12.0 <= 300.0);
+    }
+
+    #[test]
+    fn segment_crossing() {
+        let r = Rect {
+            x0: 0.0,
+            y0: 0.0,
+            x1: 10.0,
+            y1: 10.0,
+        };
+        assert!(r.crossed_by((-5.0, 5.0), (15.0, 5.0)));
+        assert!(!r.crossed_by((-5.0, 15.0), (15.0, 12.0)));
+        assert!(r.crossed_by((-5.0, -5.0), (15.0, 15.0)));
+        assert!(!r.crossed_by((-5.0, 6.0), (4.0, 15.0)) || r.contains((0.5, 10.0)));
+    }
+}
