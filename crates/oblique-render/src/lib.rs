@@ -13,17 +13,9 @@
 //!
 //! let lib = Library::load(&[]).expect("the built-in library loads");
 //! let window = lib.pair("demo-al6061-on-cu").expect("the demo pair");
-//! let svg = render_svg(&PlotRequest {
-//!     window,
-//!     plane: Plane::AngleImpactVelocity,
-//!     points: vec![ProposedPoint {
-//!         label: "proposed".into(),
-//!         velocity_m_s: 450.0,
-//!         angle_rad: 10f64.to_radians(),
-//!     }],
-//!     curves: Vec::new(),
-//! })
-//! .expect("the demo window plots");
+//! let mut request = PlotRequest::new(window, Plane::AngleImpactVelocity);
+//! request.points.push(ProposedPoint::new("proposed", 450.0, 10f64.to_radians()));
+//! let svg = render_svg(&request).expect("the demo window plots");
 //! assert!(svg.starts_with("<svg"));
 //! ```
 // Negated comparisons such as `!(x > 0.0)` are deliberate: they reject NaN together with
