@@ -9,7 +9,7 @@ use crate::resolve::{standoff_input, Catalog, MagneticModel};
 use oblique_core::process::{estimate, IntegrationOptions, PulseEstimate, PulseSetup};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{Collision, Convention, PhysicsError};
-use oblique_window::classify::{classify, explain, Classification};
+use oblique_window::classify::{classify, explain_in, Classification};
 use oblique_window::PairWindow;
 
 /// A magnetic set-up resolved from a request: the model's input and where each value came
@@ -111,7 +111,8 @@ impl<'a> ResolvedSetup<'a> {
         match (self.angle, self.window, est.impact_velocity()) {
             (Some(angle), Some(w), Some(vp)) => {
                 let mut c = classify_impact(w, vp.si(), angle.radians())?;
-                explain(w, &w.setup()?, &mut c);
+                // Headroom in the convention of the model's Vp, as the sweep gives it.
+                explain_in(w, &w.setup()?, &mut c, Convention::NormalToFlyer);
                 Ok(Some(c))
             }
             _ => Ok(None),

@@ -13,7 +13,7 @@ use crate::resolve::{Catalog, MagneticModel, ResolvedBank};
 use oblique_core::process::{sweep, SweepResult};
 use oblique_core::units::{Angle, Length, Voltage};
 use oblique_core::Convention;
-use oblique_window::classify::{velocity_to_verdict_change, Classification, LimitRef};
+use oblique_window::classify::{explain_velocity, Classification, LimitRef};
 use oblique_window::PairWindow;
 use std::num::NonZeroUsize;
 
@@ -97,10 +97,10 @@ pub struct Setting {
     /// The window check at the standoff's angle (with a window, on impact).
     pub check: Option<Classification>,
     /// For settings inside the window: the nearest impact velocity at the same angle where the
-    /// verdict changes (m/s), `None` when it does not change from Vp/20 to 20 Vp.
+    /// verdict changes (m/s, unrounded: where the limit reached first is reached), `None` when it
+    /// does not change from Vp/20 to 20 Vp.
     pub verdict_change_m_s: Option<f64>,
-    /// For settings inside the window: the limit that fails just beyond the verdict change
-    /// (else the closest limit at the setting).
+    /// For settings inside the window: the limit reached first along the impact velocity.
     pub limit_reached: Option<LimitRef>,
 }
 
@@ -313,7 +313,7 @@ pub fn run_sweep<'a>(
         }
     }
     if let Some(w) = window {
-        headroom(w, &result, &grid, &mut settings, req.threads)?;
+        headroom(w, &mut settings, req.threads)?;
     }
     let mut ranked: Vec<usize> = (0..settings.len())
         .filter(|&k| settings[k].inside())
@@ -342,12 +342,12 @@ pub fn run_sweep<'a>(
     })
 }
 
-/// Velocity headroom and the limit reached of the settings inside the window, on every core
-/// (a search along the impact velocity per setting).
+/// Velocity headroom of the settings inside the window, on every core: for each, where every
+/// decisive limit is reached along the impact velocity at its angle
+/// (`oblique_window::classify::explain_velocity`, the search `check` and `estimate` use too), the
+/// nearest of them being where the verdict changes.
 fn headroom(
     w: &PairWindow,
-    result: &SweepResult,
-    grid: &SweepGrid,
     settings: &mut [Setting],
     threads: Option<NonZeroUsize>,
 ) -> SetupResult {
@@ -359,28 +359,13 @@ fn headroom(
             let setup = &setup;
             s.spawn(move || {
                 for r in part.iter_mut() {
-                    let Some(k) = r.check.as_ref().filter(|k| k.inside) else {
+                    let Some(k) = r.check.as_mut().filter(|k| k.inside) else {
                         continue;
                     };
-                    r.verdict_change_m_s =
-                        velocity_to_verdict_change(w, setup, k, Convention::NormalToFlyer);
-                    let v = result
-                        .impact_velocity(r.voltage_index, r.standoff_index)
-                        .map_or(0.0, |v| v.si());
-                    // The limit that fails just beyond the verdict change.
-                    r.limit_reached = r
-                        .verdict_change_m_s
-                        .zip(grid.angles.as_ref())
-                        .and_then(|(x, a)| {
-                            classify_impact(
-                                w,
-                                x + (x - v).signum() * 0.002 * v,
-                                a[r.standoff_index],
-                            )
-                            .ok()
-                        })
-                        .and_then(|kb| kb.binding)
-                        .or_else(|| k.binding.clone());
+                    explain_velocity(w, setup, k, Convention::NormalToFlyer);
+                    let first = oblique_window::margin::verdict_velocity_headroom(w, k);
+                    r.verdict_change_m_s = first.as_ref().map(|a| a.unrounded);
+                    r.limit_reached = first.map(|a| a.limit).or_else(|| k.binding.clone());
                 }
             });
         }

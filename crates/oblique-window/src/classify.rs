@@ -332,18 +332,80 @@ pub fn headroom(
         .impact_velocity
         .si();
     let beta = c.evaluation.collision.angle.radians();
-    let velocity_m_s = nearest_crossing(vp, 0.005 * vp, vp / 20.0, vp * 20.0, 1e-3, |v| {
-        limit_margin(window, setup, limit, convention, v, beta)
-    });
     let half_pi = std::f64::consts::FRAC_PI_2;
     let angle_deg = nearest_crossing(beta, 0.05f64.to_radians(), 0.0, half_pi, 1e-7, |b| {
         limit_margin(window, setup, limit, convention, vp, b)
     })
     .map(f64::to_degrees);
     Headroom {
-        velocity_m_s,
+        velocity_m_s: velocity_crossing(window, setup, c, limit, convention),
         angle_deg,
     }
+}
+
+/// Where `limit` is reached along the impact velocity (in `convention`) at the point's angle,
+/// nearest to the point: the one search every velocity headroom comes from (check, estimate,
+/// sweep, report), so that they agree to the last digit.
+pub fn velocity_crossing(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &Classification,
+    limit: &LimitRef,
+    convention: Convention,
+) -> Option<f64> {
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(convention)
+        .impact_velocity
+        .si();
+    let beta = c.evaluation.collision.angle.radians();
+    nearest_crossing(vp, 0.005 * vp, vp / 20.0, vp * 20.0, 1e-3, |v| {
+        limit_margin(window, setup, limit, convention, v, beta)
+    })
+}
+
+/// The decisive limits of a classification: every enabled, non-informational criterion and
+/// every user boundary that spans the point.
+fn decisive_limits(window: &PairWindow, c: &Classification) -> Vec<LimitRef> {
+    let mut limits: Vec<LimitRef> = c
+        .evaluation
+        .criteria
+        .iter()
+        .filter(|r| !r.informational)
+        .map(|r| LimitRef::Criterion(r.id))
+        .collect();
+    limits.extend(
+        (0..window.boundaries.len())
+            .filter(|i| c.boundaries.get(*i).is_some_and(|b| b.in_range))
+            .map(LimitRef::Boundary),
+    );
+    limits
+}
+
+/// Fill the velocity headroom of every decisive limit (angles left unknown) with velocities in
+/// `convention`: what a sweep needs to rank its settings, without the angle searches and the
+/// words of [`explain`].
+pub fn explain_velocity(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &mut Classification,
+    convention: Convention,
+) {
+    c.headroom_convention = convention;
+    c.headroom = decisive_limits(window, c)
+        .into_iter()
+        .map(|l| {
+            let v = velocity_crossing(window, setup, c, &l, convention);
+            (
+                l,
+                Headroom {
+                    velocity_m_s: v,
+                    angle_deg: None,
+                },
+            )
+        })
+        .collect();
 }
 
 /// The impact velocity at this angle, nearest to the point, where the verdict (inside or not)
@@ -486,19 +548,7 @@ pub fn explain_in(
 ) {
     c.headroom_convention = convention;
     c.inside_stretch = Some(inside_stretch_of(window, setup, c, convention));
-    let mut limits: Vec<LimitRef> = c
-        .evaluation
-        .criteria
-        .iter()
-        .filter(|r| !r.informational)
-        .map(|r| LimitRef::Criterion(r.id))
-        .collect();
-    limits.extend(
-        (0..window.boundaries.len())
-            .filter(|i| c.boundaries.get(*i).is_some_and(|b| b.in_range))
-            .map(LimitRef::Boundary),
-    );
-    c.headroom = limits
+    c.headroom = decisive_limits(window, c)
         .into_iter()
         .map(|l| {
             let h = headroom(window, setup, c, &l, convention);
@@ -533,20 +583,11 @@ pub fn limit_label(window: &PairWindow, limit: &LimitRef) -> String {
     }
 }
 
-/// Plain-words advice for one limit at this point, from its headroom along the two controls
-/// (call [`explain`] first; without it the advice only states the margin).
+/// Plain-words advice for one limit at this point, from its velocity and angle headroom
+/// ([`crate::margin`]; call [`explain`] first; without it the advice only states the margin at
+/// this point). Figures are rounded to the safe side ([`crate::margin::ROUNDING_RULE`]).
 pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -> String {
-    let vp = c.headroom_impact_velocity();
-    let beta = c.evaluation.collision.angle.degrees();
-    let satisfied = match limit {
-        LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),
-        LimitRef::Boundary(i) => c
-            .boundaries
-            .get(*i)
-            .and_then(|b| b.satisfied)
-            .unwrap_or(true),
-    };
-    let Some(h) = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h) else {
+    if !c.headroom.iter().any(|(l, _)| l == limit) {
         return match limit {
             LimitRef::Criterion(id) => c
                 .evaluation
@@ -559,88 +600,44 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
                 .and_then(|r| {
                     r.margin.map(|m| {
                         format!(
-                            "margin {}",
+                            "margin at this point {}",
                             oblique_core::criteria::format_in_unit(m, r.unit)
                         )
                     })
                 })
                 .unwrap_or_default(),
         };
-    };
-    let _ = window;
-    // Values are rounded to the safe side: a target to reach is rounded past the limit, and a
-    // limit still ahead is rounded short of it, so that typing the printed number does what
-    // the words say.
-    let past = |x: f64, from: f64, unit: f64| {
-        if x > from {
-            (x / unit).ceil() * unit
-        } else {
-            (x / unit).floor() * unit
-        }
-    };
-    let short = |x: f64, from: f64, unit: f64| {
-        if x > from {
-            (x / unit).floor() * unit
-        } else {
-            (x / unit).ceil() * unit
-        }
-    };
+    }
+    let v = crate::margin::velocity_headroom(window, c, limit);
+    let a = crate::margin::angle_headroom(window, c, limit);
+    let holds = v.as_ref().or(a.as_ref()).map_or_else(
+        || match limit {
+            LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),
+            LimitRef::Boundary(i) => c
+                .boundaries
+                .get(*i)
+                .and_then(|b| b.satisfied)
+                .unwrap_or(true),
+        },
+        |x| x.holds,
+    );
     let conv = c.headroom_convention;
     let vnote = if conv == c.evaluation.collision.convention {
         String::new()
     } else {
-        format!(" ({conv})")
+        format!(" (Vp in the {conv} convention)")
     };
-    if satisfied {
-        let mut parts = Vec::new();
-        if let Some(v) = h.velocity_m_s {
-            let v = short(v, vp, 1.0);
-            parts.push(format!(
-                "reached if the impact velocity{vnote} {} to {v:.0} m/s at this angle ({:+.0} m/s)",
-                if v > vp { "rises" } else { "falls" },
-                v - vp
-            ));
-        }
-        if let Some(a) = h.angle_deg {
-            let a = short(a, beta, 0.01);
-            parts.push(format!(
-                "or if the angle {} to {a:.2} deg at this velocity ({:+.2} deg)",
-                if a > beta { "rises" } else { "falls" },
-                a - beta
-            ));
-        }
-        if parts.is_empty() {
+    let parts: Vec<String> = [v.map(|x| x.sentence() + &vnote), a.map(|x| x.sentence())]
+        .into_iter()
+        .flatten()
+        .collect();
+    match (parts.is_empty(), holds) {
+        (true, true) => {
             "not reached by changing the impact velocity or the angle alone".to_string()
-        } else {
-            let mut s = parts.join(", ");
-            if h.velocity_m_s.is_none() {
-                s = s.trim_start_matches("or ").to_string();
-            }
-            s
         }
-    } else {
-        let mut parts = Vec::new();
-        if let Some(v) = h.velocity_m_s {
-            let v = past(v, vp, 1.0);
-            parts.push(format!(
-                "{} the impact velocity{vnote} to {v:.0} m/s at this angle ({:+.0} m/s)",
-                if v > vp { "raise" } else { "lower" },
-                v - vp
-            ));
-        }
-        if let Some(a) = h.angle_deg {
-            let a = past(a, beta, 0.01);
-            parts.push(format!(
-                "{} the collision angle to {a:.2} deg at this velocity ({:+.2} deg)",
-                if a > beta { "raise" } else { "lower" },
-                a - beta
-            ));
-        }
-        if parts.is_empty() {
-            "not cured by changing the impact velocity or the angle alone (within Vp/20 to 20 Vp and 0 to 90 deg)".to_string()
-        } else {
-            parts.join(", or ")
-        }
+        (true, false) => "not cured by changing the impact velocity or the angle alone (within Vp/20 to 20 Vp and 0 to 90 deg)".to_string(),
+        (false, true) => parts.join("; "),
+        (false, false) => parts.join("; or "),
     }
 }
 
@@ -673,13 +670,16 @@ pub fn inside_stretch_text(c: &Classification) -> Option<String> {
 
 fn reason(window: &PairWindow, c: &Classification) -> String {
     let mut s = if c.inside {
-        match &c.binding {
-            Some(b) => format!(
-                "inside the window; closest limit (smallest relative margin): {}, {}",
-                limit_label(window, b),
-                limit_advice(window, c, b)
-            ),
-            None => "inside the window (no decisive limit is enabled)".to_string(),
+        match crate::margin::verdict_velocity_headroom(window, c) {
+            Some(v) => format!("inside the window; {}", v.sentence()),
+            None => match &c.binding {
+                Some(b) => format!(
+                    "inside the window; nearest limit {}: {}",
+                    limit_label(window, b),
+                    limit_advice(window, c, b)
+                ),
+                None => "inside the window (no decisive limit is enabled)".to_string(),
+            },
         }
     } else {
         let first = c

@@ -16,6 +16,7 @@ pub mod classify;
 pub mod diag;
 pub mod library;
 pub mod machine;
+pub mod margin;
 pub mod materials;
 pub mod pair;
 pub mod present;

@@ -134,13 +134,25 @@ fn add_headroom(v: &mut Value, window: &PairWindow, c: &Classification, limit: &
             "advice".into(),
             json!(crate::classify::limit_advice(window, c, limit)),
         );
+        // The same rounded figures as the text (crate::margin::ROUNDING_RULE).
+        let v = crate::margin::velocity_headroom(window, c, limit);
+        let a = crate::margin::angle_headroom(window, c, limit);
+        let _ = h;
         o.insert(
             "reached_at_impact_velocity_m_s".into(),
-            h.velocity_m_s.map_or(Value::Null, sig),
+            v.as_ref().map_or(Value::Null, |x| json!(x.reached_at)),
         );
         o.insert(
             "reached_at_angle_deg".into(),
-            h.angle_deg.map_or(Value::Null, sig),
+            a.as_ref().map_or(Value::Null, |x| json!(x.reached_at)),
+        );
+        o.insert(
+            "velocity_headroom".into(),
+            v.as_ref().map_or(Value::Null, crate::margin::Along::json),
+        );
+        o.insert(
+            "angle_headroom".into(),
+            a.as_ref().map_or(Value::Null, crate::margin::Along::json),
         );
     }
 }
@@ -211,6 +223,11 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
     o.insert("outside_trial_data".into(), json!(c.outside_trial_data));
     o.insert("prediction".into(), json!(c.prediction.as_str()));
     o.insert("reason".into(), json!(c.reason));
+    o.insert(
+        "velocity_headroom".into(),
+        crate::margin::verdict_velocity_headroom(window, c).map_or(Value::Null, |x| x.json()),
+    );
+    o.insert("rounding".into(), json!(crate::margin::ROUNDING_RULE));
     o.insert("caution".into(), json!(CAUTION));
     Value::Object(o)
 }

@@ -117,20 +117,13 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
 }
 
 /// The two headroom cells of a limit: the impact velocity at this angle and the angle at this
-/// impact velocity where the limit is reached.
-fn headroom_cells(c: &Classification, limit: &LimitRef) -> (String, String) {
-    let h = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h);
-    let vp = c.headroom_impact_velocity();
-    let beta = c.evaluation.collision.angle.degrees();
-    match h {
-        Some(h) => (
-            h.velocity_m_s
-                .map_or("-".into(), |v| format!("{v:.0} m/s ({:+.0})", v - vp)),
-            h.angle_deg
-                .map_or("-".into(), |a| format!("{a:.2} deg ({:+.2})", a - beta)),
-        ),
-        None => ("-".into(), "-".into()),
-    }
+/// impact velocity where the limit is reached, with the change (rounded to the safe side).
+fn headroom_cells(window: &PairWindow, c: &Classification, limit: &LimitRef) -> (String, String) {
+    (
+        oblique_window::margin::velocity_headroom(window, c, limit)
+            .map_or("-".into(), |x| x.cell()),
+        oblique_window::margin::angle_headroom(window, c, limit).map_or("-".into(), |x| x.cell()),
+    )
 }
 
 /// The human report of a classification.
@@ -234,8 +227,8 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
                 "NO".into()
             },
             r.governing.as_str().into(),
-            headroom_cells(c, &LimitRef::Criterion(r.id)).0,
-            headroom_cells(c, &LimitRef::Criterion(r.id)).1,
+            headroom_cells(window, c, &LimitRef::Criterion(r.id)).0,
+            headroom_cells(window, c, &LimitRef::Criterion(r.id)).1,
             consts.join(" "),
         ]);
     }
@@ -266,8 +259,8 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
                 None => "n/a".into(),
             },
             "user".into(),
-            headroom_cells(c, &LimitRef::Boundary(bi)).0,
-            headroom_cells(c, &LimitRef::Boundary(bi)).1,
+            headroom_cells(window, c, &LimitRef::Boundary(bi)).0,
+            headroom_cells(window, c, &LimitRef::Boundary(bi)).1,
             b.plane.as_str().into(),
         ]);
     }
@@ -276,16 +269,17 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
             "limit",
             "value",
             "limit",
-            "margin",
+            "margin at this point",
             "ok",
             "governs",
-            "reached at Vp",
-            "reached at beta",
+            "velocity headroom",
+            "angle headroom",
             "constants",
         ],
         &crit_rows,
     ));
-    s.push_str("  (reached at Vp: the impact velocity at this angle where the limit is reached; reached at beta: the angle at this velocity)\n");
+    s.push_str("  (velocity headroom: where the limit is reached along the impact velocity at this angle, and the change from the point; angle headroom: the same along the angle at this velocity; margin at this point: value - limit at this Vc)\n");
+    s.push_str(&format!("  ({})\n", oblique_window::margin::ROUNDING_RULE));
     s.push('\n');
     let verdict = match (c.inside, c.outside_trial_data) {
         (true, false) => "INSIDE the window",
@@ -293,10 +287,13 @@ pub fn human(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
         (false, _) => "OUTSIDE the window",
     };
     s.push_str(&format!("verdict: {verdict}\n"));
-    if let Some(b) = &c.binding {
+    if c.inside {
+        if let Some(v) = oblique_window::margin::verdict_velocity_headroom(window, c) {
+            s.push_str(&format!("{}\n", v.sentence()));
+        }
+    } else if let Some(b) = &c.binding {
         s.push_str(&format!(
-            "{}: {}: {}\n",
-            if c.inside { "closest limit" } else { "binding" },
+            "binding: {}: {}\n",
             limit_label(window, b),
             limit_advice(window, c, b)
         ));

@@ -54,7 +54,10 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
     let format = crate::common::output_format(
         "-o",
         &a.output,
-        &[crate::common::FileFormat::Html, crate::common::FileFormat::Json],
+        &[
+            crate::common::FileFormat::Html,
+            crate::common::FileFormat::Json,
+        ],
         None,
     )?;
     let lib = load_library(dirs)?;

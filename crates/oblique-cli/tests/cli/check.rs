@@ -31,9 +31,10 @@ fn human_output_has_table_verdict_and_caution() {
         "deribas-lower",
         "melting-upper",
         "verdict: OUTSIDE",
-        "raise the impact velocity to 372 m/s",
+        "velocity shortfall: the impact velocity must rise by 22 m/s (6.1 %) to 372 m/s at this angle to meet deribas-lower",
         "where the window is: at this angle the window spans Vp",
-        "reached at Vp",
+        "velocity headroom",
+        "rounded to the safe side",
         "caution:",
     ] {
         assert!(s.contains(needle), "missing '{needle}' in\n{s}");

@@ -7,7 +7,7 @@ use crate::explosive::ExplosiveReport;
 use crate::human;
 use crate::inputs::Inputs;
 use oblique_core::process::{ImpactOutcome, PulseEstimate};
-use oblique_window::classify::{inside_stretch_text, limit_label, Classification};
+use oblique_window::classify::{inside_stretch_text, Classification};
 use oblique_window::present::{classification_json, sig, table, CAUTION};
 use oblique_window::PairWindow;
 use serde_json::{json, Map, Value};
@@ -355,22 +355,11 @@ pub fn verdict_lines(w: &PairWindow, angle: f64, whose: &str, c: &Classification
             "OUTSIDE the window"
         }
     );
-    if let Some(b) = &c.binding {
-        s.push_str(&format!(
-            "  {}: {} (relative margin {:+.1} %)\n",
-            if c.inside {
-                "closest limit"
-            } else {
-                "binding limit"
-            },
-            limit_label(w, b),
-            100.0 * c.binding_relative_margin.unwrap_or(0.0)
-        ));
-    }
     s.push_str(&format!("  {}\n", c.reason));
     if let Some(t) = inside_stretch_text(c) {
         s.push_str(&format!("  where the window is: {t}\n"));
     }
+    s.push_str(&format!("  ({})\n", oblique_window::margin::ROUNDING_RULE));
     s
 }
 

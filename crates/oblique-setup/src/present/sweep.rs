@@ -63,9 +63,18 @@ fn point_json(r: &SweepRanking<'_>, s: &Setting) -> Value {
                 "binding_relative_margin".into(),
                 k.binding_relative_margin.map_or(Value::Null, sig),
             );
+            // The same rounded figures as the ranking table (oblique_window::margin).
+            let first =
+                oblique_window::margin::verdict_velocity_headroom(w, k).filter(|_| k.inside);
             p.insert(
                 "verdict_change_impact_velocity_m_s".into(),
-                s.verdict_change_m_s.map_or(Value::Null, sig),
+                first.as_ref().map_or(Value::Null, |a| json!(a.reached_at)),
+            );
+            p.insert(
+                "velocity_headroom".into(),
+                first
+                    .as_ref()
+                    .map_or(Value::Null, oblique_window::margin::Along::json),
             );
         }
         _ => {
@@ -124,7 +133,11 @@ pub fn sweep_json(r: &SweepRanking<'_>) -> Value {
         "inside_ranked".into(),
         Value::Array(r.inside_ranked().map(|s| point_json(r, s)).collect()),
     );
-    o.insert("ranking".into(), json!("settings inside the window, by how far the impact velocity can move at the same angle before the verdict changes (relative to Vp), largest first"));
+    o.insert("ranking".into(), json!("settings inside the window, by velocity headroom (how far the impact velocity can move at the same angle before the limit reached first is reached, in % of Vp), largest first"));
+    o.insert(
+        "rounding".into(),
+        json!(oblique_window::margin::ROUNDING_RULE),
+    );
     o.insert(
         "assumptions".into(),
         assumptions_value(r.model.assumptions()),
@@ -195,7 +208,7 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
         return out;
     }
     out.push_str(&format!(
-        "; ranked by how far the impact velocity can move at the same angle before the verdict changes, largest first (top {}):\n",
+        "; ranked by velocity headroom (how far the impact velocity can move at the same angle before the limit reached first is reached, in % of Vp), largest first (top {}):\n",
         top.min(r.ranked.len())
     ));
     let mut trows = Vec::new();
@@ -213,10 +226,10 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
             s.limit_reached
                 .as_ref()
                 .map_or_else(|| "-".into(), |b| limit_label(w, b)),
-            s.verdict_change_m_s
-                .map_or("not within Vp/20..20 Vp".into(), |x| {
-                    format!("{x:.0} m/s ({:+.1} %)", 100.0 * (x - v) / v)
-                }),
+            s.check
+                .as_ref()
+                .and_then(|k| oblique_window::margin::verdict_velocity_headroom(w, k))
+                .map_or("not within Vp/20..20 Vp".into(), |a| a.cell()),
         ]);
     }
     out.push_str(&table(
@@ -227,11 +240,12 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
             "standoff",
             "angle",
             "Vp",
-            "limit reached",
-            "verdict changes at Vp",
+            "limit reached first",
+            "velocity headroom",
         ],
         &trows,
     ));
+    out.push_str(&format!("  ({})\n", oblique_window::margin::ROUNDING_RULE));
     out
 }
 
