@@ -20,6 +20,7 @@ pub mod margin;
 pub mod materials;
 pub mod pair;
 pub mod present;
+pub mod references;
 pub mod ronpath;
 pub mod write;
 

@@ -21,13 +21,16 @@ pub const LIBRARY_ENV: &str = "OBLIQUE_LIBRARY";
 /// The file name of a folder's material file.
 pub const MATERIALS_FILE: &str = "materials.ron";
 
+/// The file name of the project's reference list (built in; see [`crate::references`]).
+pub const REFERENCES_FILE: &str = "references.ron";
+
 /// The longest name of a library file (a pair or a machine; it is also the file name:
 /// file systems allow 255 bytes, and the temporary name of a safe write adds about 40).
 pub const MAX_FILE_NAME: usize = 100;
 
 /// Names a library file may not take: `materials.ron` is read as the folder's materials file,
-/// `machines/` is the machine folder.
-pub const RESERVED_NAMES: [&str; 2] = ["materials", "machines"];
+/// `machines/` is the machine folder, `references.ron` the reference list.
+pub const RESERVED_NAMES: [&str; 3] = ["materials", "machines", "references"];
 
 /// Check a name that becomes a library file `NAME.ron`: not empty, no spaces, slashes or
 /// control characters, not hidden (a name starting with a dot would be skipped by the library),
@@ -202,7 +205,7 @@ fn user_files(dir: &Path, problems: &mut Vec<Diagnostic>) -> (Option<Source>, Ve
                 };
                 if name == MATERIALS_FILE {
                     materials = Some(s);
-                } else {
+                } else if name != REFERENCES_FILE {
                     pairs.push(s);
                 }
             }
@@ -259,7 +262,7 @@ impl Library {
         let mut material_sources = Vec::new();
         let mut pair_sources = Vec::new();
         for (rel, text) in BUILTIN_FILES {
-            if rel.starts_with("machines/") {
+            if rel.starts_with("machines/") || *rel == REFERENCES_FILE {
                 continue;
             }
             let s = Source {
@@ -493,7 +496,7 @@ mod tests {
         let lib = Library::load(&[]).expect("built-in library loads");
         let mut n = 0;
         for (rel, text) in BUILTIN_FILES {
-            if rel.starts_with("machines/") {
+            if rel.starts_with("machines/") || *rel == REFERENCES_FILE {
                 continue;
             }
             n += 1;

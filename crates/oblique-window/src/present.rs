@@ -62,6 +62,14 @@ pub fn material_json(rec: &MaterialRecord, with_sources: bool) -> Value {
             );
         }
         o.insert("sources".into(), Value::Object(s));
+        // The full references of every key cited (the project's one list).
+        let refs = crate::references::References::builtin().unwrap_or_default();
+        let cited: Map<String, Value> = refs
+            .for_material(rec)
+            .into_iter()
+            .map(|(k, r)| (k, json!(r)))
+            .collect();
+        o.insert("references".into(), Value::Object(cited));
     }
     Value::Object(o)
 }

@@ -81,17 +81,14 @@ pub fn run(dirs: &[PathBuf], c: MaterialCommand) -> CmdResult {
                 })
                 .collect();
             s.push_str(&table(&["property", "value", "source", "note"], &rows));
-            s.push_str("\nsources:\n");
-            let mut keys: Vec<&String> = rec.sources.values().map(|p| &p.key).collect();
-            keys.sort();
-            keys.dedup();
-            for k in keys {
-                if let Some(p) = rec.sources.values().find(|p| &p.key == k) {
-                    s.push_str(&format!("  [{k}] {}\n", p.reference));
-                }
-            }
             if !rec.notes.is_empty() {
                 s.push_str(&format!("\nnotes: {}\n", rec.notes));
+            }
+            // Every key cited above (sources and notes), from the project's one reference list.
+            let refs = oblique_window::references::References::builtin().map_err(Fail::other)?;
+            s.push_str("\nreferences:\n");
+            for (k, r) in refs.for_material(rec) {
+                s.push_str(&format!("  [{k}] {r}\n"));
             }
             emit(&s)
         }
