@@ -13,8 +13,22 @@ use std::path::{Path, PathBuf};
 /// Bracketed words that are not citation keys: units, status labels of docs/physics-notes.md,
 /// placeholders.
 const NOT_KEYS: [&str; 16] = [
-    "deg", "mm", "rad", "us", "unit", "inline", "mph", "kA", "MPa", "GPa", "derived", "memory",
-    "confirmed", "cited", "elementary", "FILES",
+    "deg",
+    "mm",
+    "rad",
+    "us",
+    "unit",
+    "inline",
+    "mph",
+    "kA",
+    "MPa",
+    "GPa",
+    "derived",
+    "memory",
+    "confirmed",
+    "cited",
+    "elementary",
+    "FILES",
 ];
 
 fn root() -> PathBuf {
@@ -38,7 +52,10 @@ fn every_key_used_anywhere_resolves() {
             check(&p.key, &format!("materials.ron {} {prop}", rec.material.id));
             n += 1;
             for k in citation_keys(p.note.as_deref().unwrap_or("")) {
-                check(&k, &format!("materials.ron {} {prop} note", rec.material.id));
+                check(
+                    &k,
+                    &format!("materials.ron {} {prop} note", rec.material.id),
+                );
             }
         }
         for k in citation_keys(&rec.notes) {
@@ -72,10 +89,8 @@ fn every_key_used_anywhere_resolves() {
     for dir in ["docs", "windows", "windows/machines"] {
         for e in std::fs::read_dir(root().join(dir)).expect("folder") {
             let p = e.expect("entry").path();
-            if matches!(
-                p.extension().and_then(|x| x.to_str()),
-                Some("md" | "ron")
-            ) && !p.ends_with("references.ron")
+            if matches!(p.extension().and_then(|x| x.to_str()), Some("md" | "ron"))
+                && !p.ends_with("references.ron")
             {
                 files.push(p);
             }
@@ -88,7 +103,11 @@ fn every_key_used_anywhere_resolves() {
             check(&k, &f.display().to_string());
         }
     }
-    assert!(missing.is_empty(), "keys without a reference:\n{}", missing.join("\n"));
+    assert!(
+        missing.is_empty(),
+        "keys without a reference:\n{}",
+        missing.join("\n")
+    );
 }
 
 #[test]

@@ -1,6 +1,8 @@
 //! Argument groups shared by several subcommands (the velocity convention, the point's
 //! velocity, criterion constant overrides). No subcommand module is imported from here.
 
+pub mod process;
+
 use crate::qarg;
 use clap::{Args, ValueEnum};
 use oblique_core::CriteriaConfig;
