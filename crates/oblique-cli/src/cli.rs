@@ -32,10 +32,10 @@ pub enum Command {
     /// Pair windows: trials, boundaries, agreement.
     #[command(subcommand)]
     Pair(cmd::pair::PairCommand),
-    /// Plot a weldability window with trials, proposed points and process curves (SVG).
+    /// Plot a weldability window with trials, proposed points and process curves (SVG or PNG).
     Plot(cmd::plot::PlotArgs),
-    /// Write a self-contained HTML decision report for a proposed set-up.
-    Report(cmd::report::ReportArgs),
+    /// Write the decision record (HTML or JSON) of a point or a process set-up, with the alternatives considered.
+    Report(Box<cmd::report::ReportArgs>),
     /// Run the invented demo scenario end to end and write its plots and report.
     Demo(cmd::demo::DemoArgs),
     /// Estimate impact velocity from a capacitor bank and coil (or an explosive charge).
@@ -58,7 +58,7 @@ impl Cli {
             Command::Pair(c) => cmd::pair::run(dirs, c),
             Command::Map(a) => cmd::map::run(dirs, a),
             Command::Plot(a) => cmd::plot::run(dirs, a),
-            Command::Report(a) => cmd::report::run(dirs, a),
+            Command::Report(a) => cmd::report::run(dirs, *a),
             Command::Demo(a) => cmd::demo::run(dirs, a),
             Command::Estimate(a) => cmd::estimate::run_estimate(dirs, a),
             Command::Sweep(a) => cmd::estimate::run_sweep(dirs, a),

@@ -350,3 +350,30 @@ pub fn output_format(
         list.join(", ")
     )))
 }
+
+/// The provenance of a record: this tool's version, the time (`SOURCE_DATE_EPOCH` when set, for
+/// reproducible records; else now), the people, the command line and the files.
+///
+/// # Errors
+/// [`Fail::input`] when `SOURCE_DATE_EPOCH` is set but not a whole number of seconds.
+pub fn record_provenance(
+    files: Vec<oblique_setup::FileUse>,
+    prepared_by: Option<String>,
+    checked_by: Option<String>,
+) -> CmdResult<oblique_render::report::Provenance> {
+    let now = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map_or(0, |d| d.as_secs() as i64);
+    let sde = std::env::var("SOURCE_DATE_EPOCH").ok();
+    let (generated, fixed) =
+        oblique_render::report::record_time(sde.as_deref(), now).map_err(Fail::input)?;
+    Ok(oblique_render::report::Provenance {
+        version: env!("CARGO_PKG_VERSION").to_string(),
+        generated,
+        from_source_date_epoch: fixed,
+        prepared_by,
+        checked_by,
+        command: oblique_render::report::command_line(),
+        files,
+    })
+}

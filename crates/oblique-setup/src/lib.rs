@@ -54,6 +54,7 @@
 #![deny(missing_docs)]
 
 pub mod calibrate;
+pub mod decision;
 pub mod error;
 pub mod estimate;
 pub mod explosive;
@@ -67,6 +68,10 @@ pub mod resolve;
 pub mod sweep;
 
 pub use calibrate::{calibrate, CalibrationFit, CalibrationRequest, RingDown, RingDownRequest};
+pub use decision::{
+    decide, magnetic_candidate, point_candidate, Alternative, Candidate, ChoiceRule, Decision,
+    FileUse, Produced, SweepFile, SweepSetting,
+};
 pub use error::{SetupError, SetupResult};
 pub use estimate::{classify_impact, resolve_estimate, PulseReport, ResolvedSetup};
 pub use explosive::{estimate_explosive, ExplosiveReport};

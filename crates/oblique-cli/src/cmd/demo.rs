@@ -1,22 +1,22 @@
 //! `oblique demo`: an invented scenario run end to end on the built-in library: a capacitor
-//! bank and coil (machine files) give impact velocities for three candidate set-ups, each is
-//! checked against the pair window, and the best one is documented in a report with the plots.
+//! bank and coil (machine files) give impact velocities for three candidate set-ups through
+//! `oblique_setup`, each is checked against the pair window, the one with the most velocity
+//! headroom is chosen, and the choice is documented in a decision record that lists the other
+//! two with the reasons they were not chosen, with the plots.
 
-use crate::common::load_library;
-use crate::common::write_output;
+use crate::common::{load_catalog, print_notes, record_provenance, write_output};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, CAUTION};
 use clap::Args;
-use oblique_core::process::{estimate, IntegrationOptions, PulseSetup, Tube, TubeSetup, Workpiece};
-use oblique_core::units::{Angle, Length, Velocity, Voltage};
-use oblique_core::Collision;
-use oblique_render::report::{command_line, html, json, ReportInput};
-use oblique_render::window_plot::{render_svg, PlotRequest, ProcessCurve, ProposedPoint};
-use oblique_window::agreement;
+use oblique_core::units::{Angle, Length, Voltage};
+use oblique_render::report::{html, json, ReportInput};
+use oblique_render::window_plot::{
+    render_svg, PlotRequest, PointRole, ProcessCurve, ProposedPoint,
+};
+use oblique_setup::{
+    decide, magnetic_candidate, BankRequest, Charge, EstimateRequest, MagneticRequest, TubeRequest,
+};
 use oblique_window::boundary::Plane;
-use oblique_window::classify::{classify_explained, limit_label, velocity_to_verdict_change};
-use oblique_window::machine::Machines;
-use oblique_window::PairWindow;
 use std::path::PathBuf;
 
 /// The demo's pair window (built in, invented data).
@@ -47,58 +47,36 @@ pub const CANDIDATES: [(&str, f64, f64, f64); 3] = [
     ("C", 9.0, 2.0, 10.0),
 ];
 
-fn tube_setup(dirs: &[PathBuf], window: &PairWindow) -> CmdResult<TubeSetup> {
-    let machines = Machines::load(&crate::common::user_dirs(dirs))?;
-    let (_, bank) = machines
-        .bank(DEMO_BANK)
-        .map_err(|m| Fail::other(format!("the built-in demo bank is missing: {m}")))?;
-    let (_, coil) = machines
-        .compression_coil(DEMO_COIL)
-        .map_err(|m| Fail::other(format!("the built-in demo coil is missing: {m}")))?;
-    let fail = |e: oblique_core::process::ProcessError| Fail::other(format!("demo set-up: {e}"));
-    let tube = Tube {
-        outer_radius: Length::from_m(TUBE_OUTER_RADIUS_M),
-        wall_thickness: window.flyer_thickness,
-        material: Workpiece::from_material(&window.flyer.material).map_err(fail)?,
+/// The estimate request of the demo tube at a voltage, standoff and chamfer.
+fn request(kv: f64, standoff_mm: f64, deg: f64) -> EstimateRequest {
+    let tube = TubeRequest {
+        bank: BankRequest::machine(DEMO_BANK),
+        coil: Some(DEMO_COIL.into()),
+        tube_outer_radius: Some(Length::from_m(TUBE_OUTER_RADIUS_M)),
+        ..TubeRequest::default()
     };
-    TubeSetup::new(
-        bank.bank(),
-        coil.coil(),
-        tube,
-        Length::from_m(0.002),
-        Voltage::from_v(7000.0),
-    )
-    .map_err(fail)
-}
-
-/// The impact velocity (m/s) of the tube set-up at a voltage and standoff.
-fn velocity(base: &TubeSetup, kv: f64, standoff_mm: f64) -> CmdResult<f64> {
-    let mut s = *base;
-    s.charging_voltage = Voltage::from_v(kv * 1000.0);
-    s.standoff = Length::from_m(standoff_mm * 1e-3);
-    let e = estimate(&PulseSetup::Tube(s), &IntegrationOptions::default())
-        .map_err(|e| Fail::other(format!("demo estimate: {e}")))?;
-    e.impact_velocity().map(Velocity::si).ok_or_else(|| {
-        Fail::other(format!(
-            "demo estimate: no impact at {kv} kV, {standoff_mm} mm"
-        ))
-    })
+    let mut r = EstimateRequest::new(
+        MagneticRequest::Tube(tube),
+        Charge::Voltage(Voltage::from_v(kv * 1e3)),
+        Length::from_m(standoff_mm * 1e-3),
+    );
+    r.pair = Some(DEMO_PAIR.into());
+    r.angle = Some(Angle::from_degrees(deg));
+    r
 }
 
 pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
-    let lib = load_library(dirs)?;
-    let window = lib
+    let catalog = load_catalog(dirs)?;
+    let window = catalog
+        .library
         .pair(DEMO_PAIR)
-        .map_err(|m| Fail::other(format!("the built-in demo pair is missing: {m}")))?
-        .clone();
+        .map_err(|m| Fail::other(format!("the built-in demo pair is missing: {m}")))?;
     std::fs::create_dir_all(&a.out).map_err(|e| {
         Fail::input(format!(
             "--out {}: cannot create the folder: {e}",
             a.out.display()
         ))
     })?;
-    let setup = window.setup()?;
-    let base = tube_setup(dirs, &window)?;
     let mut s = String::new();
     s.push_str("oblique demo: an INVENTED scenario. The Harbourside Busbar Works (fictional) must choose a magnetic\n");
     s.push_str("pulse set-up to weld a 1.0 mm Al 6061-T6 tube (20 mm outer radius) onto a Cu C11000 rod with its\n");
@@ -106,111 +84,97 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
     s.push_str(&format!("are in the built-in pair window '{DEMO_PAIR}'. Three candidate set-ups, impact velocity estimated\n"));
     s.push_str("by the coupled tube-compression model (efficiency not calibrated: an upper estimate), collision\n");
     s.push_str("angle from the rod chamfer:\n\n");
-    let mut points = Vec::new();
-    let mut best: Option<(f64, &str, oblique_window::Classification)> = None;
+    let mut notes = Vec::new();
+    let mut candidates = Vec::new();
     for (label, kv, gap, deg) in CANDIDATES {
-        let vp = velocity(&base, kv, gap)?;
-        let col = Collision::from_impact(
-            window.convention,
-            Velocity::from_m_s(vp),
-            Angle::from_degrees(deg),
-        )?;
-        let c = classify_explained(&window, &setup, &col)?;
-        let change = velocity_to_verdict_change(&window, &setup, &c, window.convention);
-        // The limit that fails just beyond the verdict change (or the binding one outside).
-        let beyond = change.and_then(|x| {
-            let v = x + (x - vp).signum() * 0.002 * vp;
-            let col = Collision::from_impact(
-                window.convention,
-                Velocity::from_m_s(v),
-                Angle::from_degrees(deg),
-            )
-            .ok()?;
-            oblique_window::classify::classify(&window, &setup, &col).ok()
-        });
-        let limit = if c.inside {
-            beyond.as_ref().and_then(|k| k.binding.as_ref())
-        } else {
-            c.binding.as_ref()
-        }
-        .map(|b| limit_label(&window, b))
-        .unwrap_or_default();
-        let verdict = if c.inside {
-            format!(
-                "INSIDE; leaves the window at {} ({})",
-                change.map_or("-".into(), |x| format!(
-                    "{x:.0} m/s, {:+.0} %",
-                    100.0 * (x - vp) / vp
-                )),
-                limit
-            )
-        } else {
-            format!("OUTSIDE, binding {limit}")
-        };
-        s.push_str(&format!("  {label}  {kv:.0} kV, standoff {gap:.1} mm, chamfer {deg:.0} deg -> Vp {vp:.0} m/s: {verdict}\n"));
-        points.push(ProposedPoint::new(label, vp, deg.to_radians()));
-        if c.inside {
-            let room = change.map_or(f64::INFINITY, |x| (x - vp).abs() / vp);
-            if best.as_ref().is_none_or(|b| room > b.0) {
-                best = Some((room, label, c));
-            }
-        }
+        let c = magnetic_candidate(&catalog, label, &request(kv, gap, deg), &mut notes)?;
+        let vp = c
+            .point()
+            .map_or("no impact".into(), |(v, _)| format!("{v:.0} m/s"));
+        let head = c
+            .headroom(window)
+            .map_or_else(String::new, |h| format!("; {}", h.sentence()));
+        s.push_str(&format!(
+            "  {label}  {kv:.0} kV, standoff {gap:.1} mm, chamfer {deg:.0} deg -> Vp {vp}: {}{head}\n",
+            c.verdict(window)
+        ));
+        candidates.push(c);
     }
-    let Some((_, label, c)) = best else {
-        return Err(Fail::other("no demo candidate lies inside the demo window"));
-    };
+    notes.sort();
+    notes.dedup();
+    print_notes(&notes);
+    let decision = decide(window, candidates, None)?;
+    let chosen = &decision.chosen;
     // The process curve of the chosen standoff and chamfer: velocity against charging voltage.
     let (_, _, gap, deg) = CANDIDATES
         .iter()
         .copied()
-        .find(|cand| cand.0 == label)
+        .find(|c| c.0 == chosen.label)
         .unwrap_or(CANDIDATES[0]);
     let mut curve = Vec::new();
     for kv in [6.0, 6.5, 7.0, 7.5, 8.0, 8.5, 9.0, 9.5, 10.0] {
-        let vp = velocity(&base, kv, gap)?;
-        // Label only the ends: the candidates sit on this line with labels of their own.
-        let tag = (kv == 6.0 || kv == 10.0).then(|| format!("{kv:.0} kV"));
-        curve.push((vp, deg.to_radians(), tag));
+        let mut n = Vec::new();
+        let c = magnetic_candidate(&catalog, "curve", &request(kv, gap, deg), &mut n)?;
+        if let Some((v, a)) = c.point() {
+            let tag = (kv == 6.0 || kv == 10.0).then(|| format!("{kv:.0} kV"));
+            curve.push((v, a, tag));
+        }
     }
     let curves = vec![ProcessCurve {
-        label: format!("standoff {gap:.0} mm, chamfer {deg:.0} deg, 6-10 kV"),
+        label: format!("standoff {gap:.0} mm, chamfer {deg:.0} deg, 6 to 10 kV"),
         points: curve,
     }];
-    let agr = agreement(&window)?;
+    let agreement = oblique_window::agreement(window)?;
     s.push_str(&format!(
-        "\ncandidate {label} tolerates the most velocity scatter and is documented in the report, with the\nprocess curve 6-10 kV at its standoff. The window agrees with {} of its {} trials.\n\n",
-        agr.agreeing, agr.observations
+        "\ncandidate {} is chosen: {}.\n",
+        chosen.label,
+        decision.rule.text()
+    ));
+    for alt in &decision.alternatives {
+        s.push_str(&format!(
+            "  {} not chosen: {}\n",
+            alt.candidate.label, alt.reason
+        ));
+    }
+    s.push_str(&format!(
+        "The window agrees with {} of its {} trials.\n\n",
+        agreement.agreeing, agreement.observations
     ));
     let p1 = a.out.join("window-angle-velocity.svg");
     let p2 = a.out.join("window-angle-collision-velocity.svg");
     let p3 = a.out.join("report.html");
     let p4 = a.out.join("report.json");
+    let mut points = Vec::new();
+    for (c, role) in std::iter::once((chosen, PointRole::Chosen)).chain(
+        decision
+            .alternatives
+            .iter()
+            .map(|x| (&x.candidate, PointRole::Alternative)),
+    ) {
+        if let Some((v, ang)) = c.point() {
+            points.push(ProposedPoint::new(c.label.clone(), v, ang).with_role(role));
+        }
+    }
     for (plane, path) in [
         (Plane::AngleImpactVelocity, &p1),
         (Plane::AngleCollisionVelocity, &p2),
     ] {
-        let svg = render_svg(&PlotRequest {
-            window: &window,
-            plane,
-            points: points.clone(),
-            curves: curves.clone(),
-            shot_numbers: false,
-        })?;
-        write_output(path, svg.as_bytes())?;
+        let mut req = PlotRequest::new(window, plane);
+        req.points = points.clone();
+        req.curves = curves.clone();
+        write_output(path, render_svg(&req)?.as_bytes())?;
     }
-    let others: Vec<ProposedPoint> = points
-        .iter()
-        .filter(|p| p.label != label)
-        .cloned()
-        .collect();
+    let files = oblique_setup::decision::files_used(&catalog, window, &decision);
+    let references = oblique_window::references::References::builtin().map_err(Fail::other)?;
     let input = ReportInput {
-        window: &window,
-        classification: &c,
-        agreement: &agr,
-        library: &lib,
-        command: command_line(),
-        extra_points: others,
+        window,
+        decision: &decision,
+        agreement: &agreement,
+        question: Some("Which of the candidate set-ups A, B and C (invented) should the Harbourside Busbar Works (fictional) use to weld its 1.0 mm Al 6061-T6 tube onto the Cu C11000 rod, and why not the others?".into()),
         curves,
+        provenance: record_provenance(files, Some("oblique demo (invented scenario)".into()), None)?,
+        probability: None,
+        references: &references,
     };
     write_output(&p3, html(&input)?.as_bytes())?;
     let j = serde_json::to_string_pretty(&json(&input)).map_err(|e| Fail::other(e.to_string()))?;

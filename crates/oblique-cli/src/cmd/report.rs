@@ -1,75 +1,441 @@
-//! `oblique report`: the decision report for one proposed point.
+//! `oblique report`: the decision record of a point, or of a process set-up (as `estimate`
+//! takes it), with the alternatives considered (`--alternative`, `--from-sweep`), who prepared
+//! and checked it, and the SHA-256 of every file that entered the computation.
 
+mod spec;
+
+use crate::args::process::{parse, BankFlags, IntegrationFlags, SheetFlags, TubeFlags};
 use crate::args::{ConstantArgs, ConventionArg, VelocityInput};
-use crate::common::classify_given;
-use crate::common::load_library;
-use crate::common::{read_point_csv, write_output};
+use crate::common::{
+    collision, load_catalog, output_format, print_notes, read_point_csv, write_output, FileFormat,
+};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json};
 use crate::qarg;
-use clap::Args;
-use oblique_render::report::{command_line, html, json, ReportInput};
+use clap::{Args, Subcommand};
+use oblique_core::units::{Angle, Energy, Length, Voltage};
+use oblique_core::Convention;
+use oblique_render::report::{html, json, ReportInput};
 use oblique_render::window_plot::ProcessCurve;
-use oblique_window::agreement;
-use std::path::PathBuf;
+use oblique_setup::{
+    decide, magnetic_candidate, point_candidate, Candidate, Catalog, Charge, Decision,
+    EstimateRequest, FileUse, MagneticRequest, SweepFile,
+};
+use oblique_window::library::sha256_hex;
+use oblique_window::references::References;
+use spec::{parse_alternative, AltSpec};
+use std::path::{Path, PathBuf};
 
-/// Flags of `oblique report`.
-#[derive(Debug, Args)]
-#[command(after_help = "Example:
+const AFTER_HELP: &str = "Examples (the built-in pair, bank and coil are INVENTED demo data):
   oblique report --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg -o report.html
-The HTML file is self-contained (inline SVG and CSS, no script, no external resource).
-The report documents a screening estimate, not a guarantee; it carries the cautions in full.")]
+  oblique report mpw-tube --machine harbourside-bank-300uf --coil harbourside-coil-42mm \\
+      --pair demo-al6061-on-cu --tube-outer-radius 20mm --charge-voltage 7kV --standoff 2mm --angle 10deg \\
+      --alternative 'B: charge-voltage=8kV, standoff=1mm, angle=6deg' --prepared-by 'A. Person' -o report.html
+  oblique report mpw-tube ... --from-sweep sweep.json -o report.html   (the sweep's best setting chosen)
+The extension of -o picks the format: .html (self-contained: inline SVG and CSS, no script, no
+external resource) or .json. SOURCE_DATE_EPOCH fixes the record's date and time (reproducible
+output). The report documents a screening estimate, not a guarantee; it carries the cautions in full.";
+
+/// Flags of `oblique report`: a point (these flags) or a process (a subcommand).
+#[derive(Debug, Args)]
+#[command(
+    after_help = AFTER_HELP,
+    args_conflicts_with_subcommands = true,
+    subcommand_negates_reqs = true
+)]
 pub struct ReportArgs {
+    /// A process set-up instead of a point.
+    #[command(subcommand)]
+    pub process: Option<ReportProcess>,
     /// Pair window from the library.
-    #[arg(long, value_name = "NAME")]
-    pub pair: String,
+    #[arg(long, value_name = "NAME", required = true)]
+    pub pair: Option<String>,
     #[command(flatten)]
     pub velocity: VelocityInput,
     /// Collision angle, strictly between 0 and 90 deg, e.g. 10deg.
-    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
-    pub angle: f64,
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle, required = true)]
+    pub angle: Option<f64>,
     /// Convention of --velocity (default: the pair's).
     #[arg(long, value_enum)]
     pub convention: Option<ConventionArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,
+    #[command(flatten)]
+    pub record: RecordArgs,
+}
+
+/// The processes a report can take.
+#[derive(Debug, Subcommand)]
+pub enum ReportProcess {
+    /// Magnetic pulse: a tube compressed onto a rod (flags as `estimate mpw-tube`).
+    MpwTube(TubeReportArgs),
+    /// Magnetic pulse: a sheet driven off a bar coil (flags as `estimate mpw-sheet`).
+    MpwSheet(SheetReportArgs),
+}
+
+/// `oblique report mpw-tube`.
+#[derive(Debug, Args)]
+#[command(after_help = AFTER_HELP)]
+pub struct TubeReportArgs {
+    #[command(flatten)]
+    pub bank: BankFlags,
+    #[command(flatten)]
+    pub tube: TubeFlags,
+    #[command(flatten)]
+    pub setting: SettingArgs,
+    #[command(flatten)]
+    pub record: RecordArgs,
+}
+
+/// `oblique report mpw-sheet`.
+#[derive(Debug, Args)]
+#[command(after_help = AFTER_HELP)]
+pub struct SheetReportArgs {
+    #[command(flatten)]
+    pub bank: BankFlags,
+    #[command(flatten)]
+    pub sheet: SheetFlags,
+    #[command(flatten)]
+    pub setting: SettingArgs,
+    #[command(flatten)]
+    pub record: RecordArgs,
+}
+
+/// The chosen setting of a process (all of it may come from --from-sweep instead).
+#[derive(Debug, Args)]
+pub struct SettingArgs {
+    /// Charging voltage of the chosen set-up, e.g. 8kV.
+    #[arg(long = "charge-voltage", value_name = "VOLTAGE", value_parser = parse::voltage, allow_hyphen_values = true, conflicts_with = "energy")]
+    pub charge_voltage: Option<f64>,
+    /// Stored energy of the chosen set-up instead of the voltage, e.g. 10kJ.
+    #[arg(long, value_name = "ENERGY", value_parser = parse::energy, allow_hyphen_values = true)]
+    pub energy: Option<f64>,
+    /// Standoff of the chosen set-up, e.g. 2mm.
+    #[arg(long, value_name = "LENGTH", value_parser = parse::length, allow_hyphen_values = true)]
+    pub standoff: Option<f64>,
+    /// Collision angle of the chosen set-up from its geometry (taper, chamfer), e.g. 10deg.
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+    pub angle: Option<f64>,
+    /// Pair window to check every set-up against (also the default flyer).
+    #[arg(long, value_name = "NAME")]
+    pub pair: String,
+    /// Efficiency factor eta in (0, 1] (default: the machine's stored calibration, else 1).
+    #[arg(long, value_name = "ETA", value_parser = parse::efficiency)]
+    pub efficiency: Option<f64>,
+    #[command(flatten)]
+    pub integration: IntegrationFlags,
+}
+
+/// What the record holds besides the set-up: alternatives, people, output.
+#[derive(Debug, Args)]
+pub struct RecordArgs {
+    /// Another set-up considered: '[LABEL:] key=value, ...[, because=TEXT]' with the keys
+    /// charge-voltage, energy, standoff, angle, efficiency (a process) or velocity,
+    /// collision-velocity, angle (a point); unset keys keep the chosen set-up's values
+    /// (repeatable).
+    #[arg(long = "alternative", value_name = "SPEC", value_parser = parse_alternative)]
+    pub alternative: Vec<AltSpec>,
+    /// The settings of a `sweep --json` file as alternatives, in its ranking order (recomputed
+    /// here); without a chosen setting, the sweep's best one is chosen.
+    #[arg(long = "from-sweep", value_name = "SWEEP.json")]
+    pub from_sweep: Option<PathBuf>,
+    /// The label of the chosen set-up.
+    #[arg(long, value_name = "TEXT", default_value = "chosen")]
+    pub label: String,
+    /// The question the record answers, in your words (default: built from the set-up).
+    #[arg(long, value_name = "TEXT")]
+    pub question: Option<String>,
+    /// Who prepared the record.
+    #[arg(long = "prepared-by", value_name = "NAME")]
+    pub prepared_by: Option<String>,
+    /// Who checked the record.
+    #[arg(long = "checked-by", value_name = "NAME")]
+    pub checked_by: Option<String>,
     /// A process curve to overlay (CSV velocity[m/s],angle[deg],label; repeatable).
     #[arg(long = "curve", value_name = "FILE.csv")]
     pub curve: Vec<PathBuf>,
-    /// Output HTML file.
-    #[arg(short = 'o', long = "output", value_name = "report.html")]
+    /// Output file: .html or .json (the extension picks the format).
+    #[arg(short = 'o', long = "output", value_name = "report.html|report.json")]
     pub output: PathBuf,
-    /// Also print the same content as JSON on standard output (for archiving).
+    /// Also print the record as JSON on standard output (for archiving).
     #[arg(long)]
     pub json: bool,
 }
 
+/// `oblique report`.
 pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
-    let inputs: Vec<(&str, &std::path::Path)> = a
+    match a.process {
+        Some(ReportProcess::MpwTube(t)) => {
+            let process = t.tube.request(&t.bank);
+            run_process(dirs, process, "mpw-tube", &t.setting, &t.record)
+        }
+        Some(ReportProcess::MpwSheet(s)) => {
+            let process = s.sheet.request(&s.bank);
+            run_process(dirs, process, "mpw-sheet", &s.setting, &s.record)
+        }
+        None => run_point(dirs, &a),
+    }
+}
+
+/// Checks before any work: the output's format and that no output lands on an input.
+fn preflight(r: &RecordArgs) -> CmdResult<FileFormat> {
+    let mut inputs: Vec<(&str, &Path)> = r
         .curve
         .iter()
         .map(|c| ("the input of --curve", c.as_path()))
         .collect();
-    crate::common::distinct_outputs(&inputs, &[("-o", a.output.as_path())])?;
-    let format = crate::common::output_format(
-        "-o",
-        &a.output,
-        &[
-            crate::common::FileFormat::Html,
-            crate::common::FileFormat::Json,
-        ],
-        None,
-    )?;
-    let lib = load_library(dirs)?;
-    let mut window = lib
-        .pair(&a.pair)
+    if let Some(f) = &r.from_sweep {
+        inputs.push(("the input of --from-sweep", f.as_path()));
+    }
+    crate::common::distinct_outputs(&inputs, &[("-o", r.output.as_path())])?;
+    output_format("-o", &r.output, &[FileFormat::Html, FileFormat::Json], None)
+}
+
+fn run_point(dirs: &[PathBuf], a: &ReportArgs) -> CmdResult {
+    let format = preflight(&a.record)?;
+    let pair = crate::common::need(a.pair.clone(), "--pair", "a pair window name")?;
+    let angle = crate::common::need(a.angle, "--angle", "an angle such as 10deg")?;
+    let catalog = load_catalog(dirs)?;
+    let mut window = catalog
+        .library
+        .pair(&pair)
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
     window.criteria = a.constants.apply(window.criteria.clone());
-    let (_, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
-    let agr = agreement(&window)?;
+    let conv: Convention = a.convention.map_or(window.convention, Into::into);
+    let given = collision(
+        conv,
+        a.velocity.velocity,
+        a.velocity.collision_velocity,
+        angle,
+    )?;
+    let mut candidates = vec![point_candidate(&window, &a.record.label, &given)?];
+    for (n, s) in a.record.alternative.iter().enumerate() {
+        s.check_kind(false)
+            .map_err(|m| Fail::input(format!("--alternative: {m}")))?;
+        let v = s.velocity.or(if s.collision_velocity.is_some() {
+            None
+        } else {
+            a.velocity.velocity
+        });
+        let vc = s.collision_velocity.or(a.velocity.collision_velocity);
+        let col = collision(conv, v, vc, s.angle.unwrap_or(angle))?;
+        let mut c = point_candidate(&window, &alt_label(s, n), &col)?;
+        c.given_reason.clone_from(&s.because);
+        candidates.push(c);
+    }
+    if a.record.from_sweep.is_some() {
+        return Err(Fail::input(
+            "--from-sweep takes the settings of a process sweep: use `oblique report mpw-tube` (or mpw-sheet) with the sweep's bank, coil and workpiece",
+        ));
+    }
+    let decision = decide(&window, candidates, Some(0))?;
+    let files = oblique_setup::decision::files_used(&catalog, &window, &decision);
+    write_record(&window, &decision, files, &a.record, format)
+}
+
+fn alt_label(s: &AltSpec, n: usize) -> String {
+    s.label.clone().unwrap_or_else(|| format!("alt-{}", n + 1))
+}
+
+#[allow(clippy::too_many_lines)]
+fn run_process(
+    dirs: &[PathBuf],
+    process: MagneticRequest,
+    model: &str,
+    s: &SettingArgs,
+    r: &RecordArgs,
+) -> CmdResult {
+    let format = preflight(r)?;
+    let charge = match (s.charge_voltage, s.energy) {
+        (Some(u), _) => Some(Charge::Voltage(Voltage::from_v(u))),
+        (None, Some(e)) => Some(Charge::Energy(Energy::from_j(e))),
+        (None, None) => None,
+    };
+    let chosen_given = charge.is_some() || s.standoff.is_some();
+    if !chosen_given && r.from_sweep.is_none() {
+        return Err(Fail::input(
+            "give the chosen set-up (--charge-voltage or --energy, --standoff, --angle) or --from-sweep SWEEP.json to choose the sweep's best setting",
+        ));
+    }
+    if chosen_given && (charge.is_none() || s.standoff.is_none() || s.angle.is_none()) {
+        return Err(Fail::input(
+            "the chosen set-up needs --charge-voltage (or --energy), --standoff and --angle",
+        ));
+    }
+    let sweep = match &r.from_sweep {
+        Some(p) => Some(read_sweep(p, model, &s.pair)?),
+        None => None,
+    };
+    let catalog = load_catalog(dirs)?;
+    let base = EstimateRequest {
+        process,
+        charge: charge.unwrap_or(Charge::Voltage(Voltage::from_v(1.0))),
+        standoff: Length::from_m(s.standoff.unwrap_or(1e-3)),
+        efficiency: s.efficiency,
+        pair: Some(s.pair.clone()),
+        angle: s.angle.map(Angle::from_radians),
+        integration: s.integration.integration(),
+        history: false,
+    };
+    let mut notes = Vec::new();
+    let mut candidates: Vec<Candidate<'_>> = Vec::new();
+    if chosen_given {
+        let c = magnetic_candidate(&catalog, &r.label, &base, &mut notes);
+        print_notes(&notes);
+        candidates.push(c?);
+    }
+    for (n, spec) in r.alternative.iter().enumerate() {
+        spec.check_kind(true)
+            .map_err(|m| Fail::input(format!("--alternative: {m}")))?;
+        let mut req = base.clone();
+        match (spec.charge_voltage, spec.energy) {
+            (Some(u), _) => req.charge = Charge::Voltage(Voltage::from_v(u)),
+            (None, Some(e)) => req.charge = Charge::Energy(Energy::from_j(e)),
+            (None, None) if !chosen_given => {
+                return Err(Fail::input(
+                    "--alternative: without a chosen set-up, each alternative needs charge-voltage (or energy), standoff and angle",
+                ))
+            }
+            (None, None) => {}
+        }
+        if let Some(g) = spec.standoff {
+            req.standoff = Length::from_m(g);
+        }
+        if let Some(x) = spec.angle {
+            req.angle = Some(Angle::from_radians(x));
+        }
+        if spec.efficiency.is_some() {
+            req.efficiency = spec.efficiency;
+        }
+        let mut notes = Vec::new();
+        let mut c = magnetic_candidate(&catalog, &alt_label(spec, n), &req, &mut notes)
+            .map_err(|e| Fail::input(format!("--alternative {}: {e}", alt_label(spec, n))))?;
+        c.given_reason.clone_from(&spec.because);
+        candidates.push(c);
+    }
+    let mut sweep_file = None;
+    if let Some((path, bytes, sf)) = &sweep {
+        sweep_candidates(&catalog, &base, sf, chosen_given, &mut candidates)?;
+        sweep_file = Some(FileUse {
+            role: "sweep (--from-sweep)".into(),
+            file: path.display().to_string(),
+            sha256: sha256_hex(bytes),
+        });
+    }
+    let window = catalog
+        .pair(Some(&s.pair))?
+        .ok_or_else(|| Fail::input("--pair: no pair window"))?;
+    let decision = decide(window, candidates, chosen_given.then_some(0))?;
+    if decision.chosen.check.is_none() {
+        return Err(Fail::input(format!(
+            "the chosen set-up gives no window check: {}",
+            decision.chosen.no_check.clone().unwrap_or_default()
+        )));
+    }
+    let mut files = oblique_setup::decision::files_used(&catalog, window, &decision);
+    files.extend(sweep_file);
+    write_record(window, &decision, files, r, format)
+}
+
+/// The sweep file's bytes and settings, checked against the report's model and pair.
+fn read_sweep(path: &Path, model: &str, pair: &str) -> CmdResult<(PathBuf, Vec<u8>, SweepFile)> {
+    let shown = path.display();
+    let bytes = std::fs::read(path)
+        .map_err(|e| Fail::input(format!("--from-sweep {shown}: cannot read: {e}")))?;
+    let v: serde_json::Value = serde_json::from_slice(&bytes)
+        .map_err(|e| Fail::input(format!("--from-sweep {shown}: not JSON: {e}")))?;
+    let sf =
+        SweepFile::from_json(&v).map_err(|m| Fail::input(format!("--from-sweep {shown}: {m}")))?;
+    if sf.model != model {
+        return Err(Fail::input(format!(
+            "--from-sweep {shown}: the sweep is of {}, this report of {model}",
+            sf.model
+        )));
+    }
+    if sf.pair.as_deref() != Some(pair) {
+        return Err(Fail::input(format!(
+            "--from-sweep {shown}: the sweep was checked against pair {}, this report against {pair}",
+            sf.pair.as_deref().unwrap_or("(none)")
+        )));
+    }
+    if sf.settings.is_empty() {
+        return Err(Fail::input(format!(
+            "--from-sweep {shown}: the sweep has no settings"
+        )));
+    }
+    Ok((path.to_path_buf(), bytes, sf))
+}
+
+/// The settings of a sweep file as candidates (the chosen one left out when it is among them),
+/// each recomputed; a velocity that differs from the file's is a warning.
+fn sweep_candidates<'a>(
+    catalog: &'a Catalog,
+    base: &EstimateRequest,
+    sf: &SweepFile,
+    chosen_given: bool,
+    candidates: &mut Vec<Candidate<'a>>,
+) -> CmdResult {
+    let chosen_key = chosen_given.then(|| {
+        let u = match base.charge {
+            Charge::Voltage(u) => u.si(),
+            Charge::Energy(_) => f64::NAN,
+        };
+        (u, base.standoff.si(), base.angle.map(|a| a.radians()))
+    });
+    for (n, st) in sf.settings.iter().enumerate() {
+        if let Some((u, g, a)) = chosen_key {
+            let same = (st.voltage - u).abs() <= 1e-6 * u
+                && (st.standoff - g).abs() <= 1e-9
+                && match (st.angle, a) {
+                    (Some(x), Some(y)) => (x - y).abs() <= 1e-9,
+                    _ => true,
+                };
+            if same {
+                continue;
+            }
+        }
+        let req = sf.request(base, st);
+        let mut notes = Vec::new();
+        let label = format!("S{}", n + 1);
+        let c = magnetic_candidate(catalog, &label, &req, &mut notes)
+            .map_err(|e| Fail::input(format!("--from-sweep setting {label}: {e}")))?;
+        let now = c.check.as_ref().map(|k| {
+            k.evaluation
+                .collision
+                .with_convention(Convention::NormalToFlyer)
+                .impact_velocity
+                .si()
+        });
+        if let (Some(a), Some(b)) = (st.velocity, now) {
+            if (a - b).abs() > 0.5 + 1e-3 * a {
+                eprintln!(
+                    "warning: --from-sweep setting {label}: the file says Vp {a:.0} m/s, recomputed here {b:.0} m/s: was the sweep made with other machine files or another efficiency?"
+                );
+            }
+        }
+        candidates.push(c);
+    }
+    Ok(())
+}
+
+/// Build the provenance, render and write the record, print where it went.
+fn write_record(
+    window: &oblique_window::PairWindow,
+    decision: &Decision<'_>,
+    mut files: Vec<FileUse>,
+    r: &RecordArgs,
+    format: FileFormat,
+) -> CmdResult {
     let mut curves = Vec::new();
-    for f in &a.curve {
+    for f in &r.curve {
+        let bytes = std::fs::read(f)
+            .map_err(|e| Fail::input(format!("--curve {}: cannot read: {e}", f.display())))?;
+        files.push(FileUse {
+            role: "process curve (--curve)".into(),
+            file: f.display().to_string(),
+            sha256: sha256_hex(&bytes),
+        });
         curves.push(ProcessCurve {
             label: f
                 .file_stem()
@@ -79,34 +445,37 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
             points: read_point_csv(f)?,
         });
     }
+    let provenance =
+        crate::common::record_provenance(files, r.prepared_by.clone(), r.checked_by.clone())?;
+    let agreement = oblique_window::agreement(window)?;
+    let references = References::builtin().map_err(Fail::other)?;
     let input = ReportInput {
-        window: &window,
-        classification: &c,
-        agreement: &agr,
-        library: &lib,
-        command: command_line(),
-        extra_points: Vec::new(),
+        window,
+        decision,
+        agreement: &agreement,
+        question: r.question.clone(),
         curves,
+        provenance,
+        probability: None,
+        references: &references,
     };
-    let bytes = if format == crate::common::FileFormat::Json {
+    let bytes = if format == FileFormat::Json {
         let text =
             serde_json::to_string_pretty(&json(&input)).map_err(|e| Fail::other(e.to_string()))?;
         text + "\n"
     } else {
         html(&input)?
     };
-    write_output(&a.output, bytes.as_bytes())?;
-    if a.json {
+    write_output(&r.output, bytes.as_bytes())?;
+    if r.json {
         return emit_json(&json(&input));
     }
     emit(&format!(
-        "wrote {} ({})\n{}\n",
-        a.output.display(),
-        if c.inside {
-            "inside the window"
-        } else {
-            "outside the window"
-        },
+        "wrote {} ({}: {}; {} alternative(s))\n{}\n",
+        r.output.display(),
+        decision.chosen.label,
+        decision.chosen.verdict(window),
+        decision.alternatives.len(),
         crate::output::CAUTION
     ))
 }

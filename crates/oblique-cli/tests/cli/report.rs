@@ -62,15 +62,20 @@ fn report_is_well_formed_self_contained_and_escapes_user_text() {
     assert!(html.contains("&lt;b onmouseover=x&gt;shot&lt;/b&gt;"));
     for section in [
         "The question",
-        "Verdict:",
-        "Criteria and margins",
+        "Verdict",
+        "The chosen set-up",
+        "Alternatives considered",
+        "Limits at the chosen point",
+        "Headroom along the two controls",
         "Material properties and sources",
         "Trials and agreement",
         "Window plots",
         "Assumptions and what is unconfirmed",
+        "What this result does not cover",
         "Cautions",
-        "Reproduce with",
-        "sha256",
+        "References",
+        "Provenance",
+        "SHA-256",
     ] {
         assert!(html.contains(section), "missing section {section}");
     }
@@ -101,11 +106,21 @@ fn report_json_twin() {
         "materials",
         "assumptions",
         "cautions",
-        "library_files",
-        "command",
+        "provenance",
+        "chosen",
+        "alternatives",
+        "references",
+        "margin_definitions",
+        "rounding",
+        "does_not_cover",
     ] {
         assert!(v.get(k).is_some(), "missing {k}");
     }
+    assert!(v["provenance"]["command"]
+        .as_str()
+        .unwrap()
+        .starts_with("oblique report"));
+    assert!(!v["provenance"]["files"].as_array().unwrap().is_empty());
     assert_eq!(v["check"]["inside"], true);
 }
 
