@@ -357,7 +357,8 @@ fn sweep_ranks_the_settings_inside_by_their_velocity_headroom() {
         "{out}"
     );
     assert!(
-        out.contains("verdict changes at Vp")
+        out.contains("velocity headroom")
+            && out.contains("limit reached first")
             && out.contains("capacitor banks store lethal energy")
     );
 }

@@ -154,9 +154,9 @@ pub struct RecordArgs {
     /// A process curve to overlay (CSV velocity[m/s],angle[deg],label; repeatable).
     #[arg(long = "curve", value_name = "FILE.csv")]
     pub curve: Vec<PathBuf>,
-    /// Output file: .html or .json (the extension picks the format).
+    /// Output file: .html or .json (the extension picks the format); required.
     #[arg(short = 'o', long = "output", value_name = "report.html|report.json")]
-    pub output: PathBuf,
+    pub output: Option<PathBuf>,
     /// Also print the record as JSON on standard output (for archiving).
     #[arg(long)]
     pub json: bool,
@@ -177,8 +177,14 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
     }
 }
 
-/// Checks before any work: the output's format and that no output lands on an input.
-fn preflight(r: &RecordArgs) -> CmdResult<FileFormat> {
+/// Checks before any work: the output is given, its format, and that it does not land on an
+/// input. Returns the output file and its format.
+fn preflight(r: &RecordArgs) -> CmdResult<(PathBuf, FileFormat)> {
+    let out = crate::common::need(
+        r.output.clone(),
+        "-o",
+        "the record's file, report.html or report.json",
+    )?;
     let mut inputs: Vec<(&str, &Path)> = r
         .curve
         .iter()
@@ -187,12 +193,13 @@ fn preflight(r: &RecordArgs) -> CmdResult<FileFormat> {
     if let Some(f) = &r.from_sweep {
         inputs.push(("the input of --from-sweep", f.as_path()));
     }
-    crate::common::distinct_outputs(&inputs, &[("-o", r.output.as_path())])?;
-    output_format("-o", &r.output, &[FileFormat::Html, FileFormat::Json], None)
+    crate::common::distinct_outputs(&inputs, &[("-o", out.as_path())])?;
+    let format = output_format("-o", &out, &[FileFormat::Html, FileFormat::Json], None)?;
+    Ok((out, format))
 }
 
 fn run_point(dirs: &[PathBuf], a: &ReportArgs) -> CmdResult {
-    let format = preflight(&a.record)?;
+    let output = preflight(&a.record)?;
     let pair = crate::common::need(a.pair.clone(), "--pair", "a pair window name")?;
     let angle = crate::common::need(a.angle, "--angle", "an angle such as 10deg")?;
     let catalog = load_catalog(dirs)?;
@@ -231,7 +238,7 @@ fn run_point(dirs: &[PathBuf], a: &ReportArgs) -> CmdResult {
     }
     let decision = decide(&window, candidates, Some(0))?;
     let files = oblique_setup::decision::files_used(&catalog, &window, &decision);
-    write_record(&window, &decision, files, &a.record, format)
+    write_record(&window, &decision, files, &a.record, output)
 }
 
 fn alt_label(s: &AltSpec, n: usize) -> String {
@@ -246,7 +253,7 @@ fn run_process(
     s: &SettingArgs,
     r: &RecordArgs,
 ) -> CmdResult {
-    let format = preflight(r)?;
+    let output = preflight(r)?;
     let charge = match (s.charge_voltage, s.energy) {
         (Some(u), _) => Some(Charge::Voltage(Voltage::from_v(u))),
         (None, Some(e)) => Some(Charge::Energy(Energy::from_j(e))),
@@ -335,7 +342,7 @@ fn run_process(
     }
     let mut files = oblique_setup::decision::files_used(&catalog, window, &decision);
     files.extend(sweep_file);
-    write_record(window, &decision, files, r, format)
+    write_record(window, &decision, files, r, output)
 }
 
 /// The sweep file's bytes and settings, checked against the report's model and pair.
@@ -425,7 +432,7 @@ fn write_record(
     decision: &Decision<'_>,
     mut files: Vec<FileUse>,
     r: &RecordArgs,
-    format: FileFormat,
+    (out, format): (PathBuf, FileFormat),
 ) -> CmdResult {
     let mut curves = Vec::new();
     for f in &r.curve {
@@ -466,13 +473,13 @@ fn write_record(
     } else {
         html(&input)?
     };
-    write_output(&r.output, bytes.as_bytes())?;
+    write_output(&out, bytes.as_bytes())?;
     if r.json {
         return emit_json(&json(&input));
     }
     emit(&format!(
         "wrote {} ({}: {}; {} alternative(s))\n{}\n",
-        r.output.display(),
+        out.display(),
         decision.chosen.label,
         decision.chosen.verdict(window),
         decision.alternatives.len(),

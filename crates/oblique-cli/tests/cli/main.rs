@@ -3,6 +3,7 @@
 mod check;
 mod kill;
 mod pair;
+mod record;
 mod report;
 mod safety;
 
