@@ -296,3 +296,150 @@ fn report_renders_in_headless_chromium() {
         assert!(!log.contains(bad), "browser reported '{bad}':\n{log}");
     }
 }
+
+fn chromium() -> Option<&'static str> {
+    ["/usr/bin/chromium", "/usr/bin/chromium-browser"]
+        .into_iter()
+        .find(|p| std::path::Path::new(p).exists())
+}
+
+/// Headless Chromium with a fresh profile; returns its standard output.
+fn run_chromium(browser: &str, profile: &std::path::Path, args: &[&str]) -> String {
+    let o = std::process::Command::new(browser)
+        .args([
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            "--no-first-run",
+            "--disable-background-networking",
+            "--disable-component-update",
+            "--disable-sync",
+            &format!("--user-data-dir={}", profile.display()),
+        ])
+        .args(args)
+        .output()
+        .expect("chromium runs");
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+/// The demo's decision record laid out by headless Chromium at 1000 px (and 1300 px, and 700 px,
+/// narrower than the printable width of A4 and Letter): no table overflows its container or the
+/// window, and no word is broken across lines except after a hyphen or a slash (checked on every
+/// text node by tests/data/layout-check.js, injected into a copy of the page; the result is read
+/// from the DOM --dump-dom prints). Then printed to PDF on Letter and A4: every section is in the
+/// PDF's text (pdftotext, poppler-utils, where installed).
+#[test]
+fn record_layout_on_screen_and_on_paper() {
+    let Some(browser) = chromium() else {
+        eprintln!("chromium is not installed: the record's layout was not checked (install Debian's chromium)");
+        return;
+    };
+    let d = tempfile::tempdir().unwrap();
+    let o = run_in(d.path(), &["demo", "--out", "out"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let page = d.path().join("out/report.html");
+    let html = std::fs::read_to_string(&page).unwrap();
+    let script =
+        std::fs::read_to_string(repo().join("crates/oblique-cli/tests/data/layout-check.js"))
+            .unwrap();
+    let check = d.path().join("check.html");
+    std::fs::write(
+        &check,
+        html.replace("</body>", &format!("<script>{script}</script></body>")),
+    )
+    .unwrap();
+    for width in [1000, 1300, 700] {
+        let profile = d.path().join(format!("profile-{width}"));
+        let dom = run_chromium(
+            browser,
+            &profile,
+            &[
+                &format!("--window-size={width},900"),
+                "--dump-dom",
+                &format!("file://{}", check.display()),
+            ],
+        );
+        // The last one: the script's own comment names the element too.
+        let start = dom
+            .rfind("<pre id=\"layout-check\">")
+            .expect("the check ran")
+            + 23;
+        let end = start + dom[start..].find("</pre>").expect("end");
+        let json = dom[start..end]
+            .replace("&quot;", "\"")
+            .replace("&lt;", "<")
+            .replace("&gt;", ">")
+            .replace("&amp;", "&");
+        let v: serde_json::Value = serde_json::from_str(&json).expect("the check's JSON");
+        assert!(v["tables"].as_u64().unwrap() >= 10, "{v}");
+        assert!(v["words"].as_u64().unwrap() >= 1000, "{v}");
+        assert_eq!(
+            v["overflow"].as_array().unwrap().len(),
+            0,
+            "at {width} px: {v}"
+        );
+        assert_eq!(
+            v["broken"].as_array().unwrap().len(),
+            0,
+            "at {width} px: {v}"
+        );
+    }
+    let a4 = d.path().join("a4.html");
+    std::fs::write(
+        &a4,
+        html.replacen("<style>", "<style>@page { size: A4; }", 1),
+    )
+    .unwrap();
+    for (name, src) in [("letter", &page), ("a4", &a4)] {
+        let pdf = d.path().join(format!("{name}.pdf"));
+        let profile = d.path().join(format!("profile-{name}"));
+        run_chromium(
+            browser,
+            &profile,
+            &[
+                "--no-pdf-header-footer",
+                &format!("--print-to-pdf={}", pdf.display()),
+                &format!("file://{}", src.display()),
+            ],
+        );
+        let bytes = std::fs::read(&pdf).unwrap_or_else(|e| panic!("no {name} PDF: {e}"));
+        assert!(
+            bytes.starts_with(b"%PDF") && bytes.len() > 100_000,
+            "{name}: {} bytes",
+            bytes.len()
+        );
+        let Ok(t) = std::process::Command::new("pdftotext")
+            .args(["-layout"])
+            .arg(&pdf)
+            .arg("-")
+            .output()
+        else {
+            eprintln!("pdftotext is not installed: the PDF's sections were not checked (install poppler-utils)");
+            continue;
+        };
+        let text = String::from_utf8_lossy(&t.stdout);
+        for section in [
+            "Decision record: demo-al6061-on-cu",
+            "The question",
+            "Verdict",
+            "The chosen set-up: A",
+            "Alternatives considered",
+            "The window at the chosen point",
+            "Headroom along the two controls",
+            "Criteria: relations and sources",
+            "User boundaries",
+            "Window plots",
+            "Trials and agreement",
+            "Material properties and sources",
+            "Assumptions and what is unconfirmed",
+            "What this result does not cover",
+            "Cautions",
+            "References",
+            "Provenance",
+            "Files that entered the computation",
+        ] {
+            assert!(text.contains(section), "{name} PDF: missing '{section}'");
+        }
+        assert!(text.matches('\u{c}').count() >= 8, "{name}: too few pages");
+    }
+}

@@ -450,7 +450,7 @@ fn limits(w: &PairWindow, c: &Classification) -> String {
         };
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{} {}</td><td class=\"num\">{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td></tr>",
+            "<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{} {}</td><td class=\"fig\">{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td></tr>",
             esc(&crate::window_plot::criterion_label(w, r.id)),
             esc(&fmt_value(r.value, r.unit)),
             if r.kind == oblique_core::LimitKind::Lower { "&gt;=" } else { "&lt;=" },
@@ -493,7 +493,7 @@ fn headroom_table(w: &PairWindow, c: &Classification) -> String {
         let a = angle_headroom(w, c, l).map_or("not reached (0 to 90 deg)".into(), |a| a.cell());
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>",
+            "<tr><td>{}</td><td class=\"fig\">{}</td><td class=\"fig\">{}</td></tr>",
             esc(&limit_label(w, l)),
             esc(&v),
             esc(&a)
@@ -520,7 +520,7 @@ fn formulas(w: &PairWindow, c: &Classification) -> String {
             .collect();
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td><code>{}</code></td><td>{}</td><td>{} {}</td></tr>",
+            "<tr><td class=\"nw\">{}</td><td><code>{}</code></td><td>{}</td><td>{} {}</td></tr>",
             esc(r.id.as_str()),
             esc(r.id.formula()),
             esc(&r.constants_text(" = ").join(", ")),

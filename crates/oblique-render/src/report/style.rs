@@ -14,6 +14,7 @@ table { border-collapse: collapse; margin: 0.5em 0 0.9em 0; font-size: 0.86em; w
 th, td { border: 1px solid #c8ccd0; padding: 0.28em 0.5em; text-align: left; vertical-align: top; overflow-wrap: normal; word-break: normal; hyphens: manual; }
 th { background: #eef2f6; font-weight: bold; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
+td.fig { text-align: right; font-variant-numeric: tabular-nums; }
 thead { display: table-header-group; }
 tr { break-inside: avoid; page-break-inside: avoid; }
 .nw { white-space: nowrap; }
@@ -25,7 +26,8 @@ code.hash { font-size: 0.74em; background: none; white-space: nowrap; }
 .verdict.outside { border-color: #a50f15; background: #fcf2f2; }
 .verdict .big { font-size: 1.35em; font-weight: bold; }
 .probability { border-top: 1px solid #b8c4d0; margin-top: 0.6em; padding-top: 0.4em; }
-.caution { border-left: 6px solid #b35806; background: #fff6ec; padding: 0.5em 1em; }
+.caution { border-left: 6px solid #b35806; background: #fff6ec; padding: 0.5em 1em; break-inside: avoid; page-break-inside: avoid; }
+.keep { break-inside: avoid; page-break-inside: avoid; }
 .invented { border-left: 6px solid #a50f15; background: #fdf0f0; padding: 0.5em 1em; font-weight: bold; }
 .fail { color: #a50f15; font-weight: bold; }
 .ok { color: #1b5e20; }
