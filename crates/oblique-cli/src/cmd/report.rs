@@ -323,7 +323,11 @@ fn run_process(
     }
     let mut sweep_file = None;
     if let Some((path, bytes, sf)) = &sweep {
-        sweep_candidates(&catalog, &base, sf, chosen_given, &mut candidates)?;
+        let name = path.file_name().map_or_else(
+            || path.display().to_string(),
+            |n| n.to_string_lossy().into_owned(),
+        );
+        sweep_candidates(&catalog, &base, (sf, &name), chosen_given, &mut candidates)?;
         sweep_file = Some(FileUse {
             role: "sweep (--from-sweep)".into(),
             file: path.display().to_string(),
@@ -379,7 +383,7 @@ fn read_sweep(path: &Path, model: &str, pair: &str) -> CmdResult<(PathBuf, Vec<u
 fn sweep_candidates<'a>(
     catalog: &'a Catalog,
     base: &EstimateRequest,
-    sf: &SweepFile,
+    (sf, sf_name): (&SweepFile, &str),
     chosen_given: bool,
     candidates: &mut Vec<Candidate<'a>>,
 ) -> CmdResult {
@@ -405,8 +409,16 @@ fn sweep_candidates<'a>(
         let req = sf.request(base, st);
         let mut notes = Vec::new();
         let label = format!("S{}", n + 1);
-        let c = magnetic_candidate(catalog, &label, &req, &mut notes)
+        let mut c = magnetic_candidate(catalog, &label, &req, &mut notes)
             .map_err(|e| Fail::input(format!("--from-sweep setting {label}: {e}")))?;
+        // Where the setting came from (the inputs table says "flag", as for any given value).
+        c.settings.push((
+            "--from-sweep".into(),
+            match st.rank {
+                Some(k) => format!("{} (setting ranked {k})", sf_name),
+                None => format!("{sf_name} (setting outside the window)"),
+            },
+        ));
         let now = c.check.as_ref().map(|k| {
             k.evaluation
                 .collision

@@ -30,6 +30,8 @@ pub(super) const C_WELDED: RGBColor = RGBColor(27, 79, 138);
 pub(super) const C_NOT: RGBColor = RGBColor(224, 138, 0);
 pub(super) const C_PARTIAL: RGBColor = RGBColor(123, 50, 148);
 pub(super) const C_MELTED: RGBColor = RGBColor(165, 15, 21);
+/// More points than this are labelled by name only, without their verdicts.
+const SHORT_LABELS_ABOVE: usize = 4;
 /// Height of the caution strip under the plot.
 const FOOTER: u32 = 40;
 pub(super) const C_INFO: RGBColor = RGBColor(120, 120, 120);
@@ -598,9 +600,16 @@ fn draw_points(
         }
         chart.draw_series(shapes).map_err(plot_err)?;
         layers.placer.add_marker(Rect::around(q.0, q.1, r + 1.0));
-        if n < MAX_LABELLED_POINTS {
+        // Name-only labels are small: up to 40 of them.
+        let short = req.points.len() > SHORT_LABELS_ABOVE;
+        if n < MAX_LABELLED_POINTS || (short && n < 40) {
             labels.push(Label {
-                text: point_text(w, p),
+                // Many points: their labels only (the verdicts go in a table of the caller's).
+                text: if short {
+                    p.label.clone()
+                } else {
+                    point_text(w, p)
+                },
                 anchor: q,
                 radius: r,
                 size: 12,
@@ -610,16 +619,21 @@ fn draw_points(
         }
     }
     let mut section = Section::new("Points");
+    let beside = if req.points.len() > SHORT_LABELS_ABOVE {
+        "(labelled by name)"
+    } else {
+        "(verdict beside it)"
+    };
     for (i, text) in [
-        "proposed point (verdict beside it)",
-        "chosen set-up (verdict beside it)",
-        "alternative considered (verdict beside it)",
+        format!("proposed point {beside}"),
+        format!("chosen set-up {beside}"),
+        format!("alternative considered {beside}"),
     ]
     .iter()
     .enumerate()
     {
         if roles[i] {
-            section.push(Entry::new(*text, Mark::Diamond { filled: i != 2 }));
+            section.push(Entry::new(text.clone(), Mark::Diamond { filled: i != 2 }));
         }
     }
     if !section.is_empty() {

@@ -134,8 +134,8 @@ impl Placer {
     ) -> Option<(f64, f64)> {
         let (w, h) = size;
         let (x, y) = anchor;
-        let mut candidates = Vec::with_capacity(24);
-        for d in [3.0, 9.0, 18.0] {
+        let mut candidates = Vec::with_capacity(40);
+        for d in [3.0, 9.0, 18.0, 30.0, 45.0] {
             let g = r + d;
             candidates.extend([
                 (x + g, y - h / 2.0),
@@ -148,44 +148,45 @@ impl Placer {
                 (x - w / 2.0, y + g),
             ]);
         }
-        let mut best: Option<((usize, usize), (f64, f64))> = None;
-        for (n, (cx, cy)) in candidates.into_iter().enumerate() {
+        let own = Rect::around(x, y, r);
+        // Score: outside the area, then over another label, then over a marker, then across
+        // lines; the first clear position (nearest first) wins.
+        let mut best: Option<((usize, usize, usize, usize), (f64, f64))> = None;
+        for (cx, cy) in candidates {
             let b = Rect {
                 x0: cx,
                 y0: cy,
                 x1: cx + w,
                 y1: cy + h,
             };
-            let inside = b.x0 >= self.area.x0
-                && b.x1 <= self.area.x1
-                && b.y0 >= self.area.y0
-                && b.y1 <= self.area.y1;
-            let own = Rect::around(x, y, r);
-            let hits = self
+            let outside = usize::from(
+                b.x0 < self.area.x0
+                    || b.x1 > self.area.x1
+                    || b.y0 < self.area.y0
+                    || b.y1 > self.area.y1,
+            );
+            let labels = self.labels.iter().filter(|l| l.overlaps(&b, 2.0)).count();
+            let markers = self
                 .markers
                 .iter()
                 .filter(|m| **m != own && m.overlaps(&b, 1.0))
-                .count()
-                + self.labels.iter().filter(|l| l.overlaps(&b, 2.0)).count()
-                + usize::from(!inside) * 100;
+                .count();
             let crossings = self
                 .segments
                 .iter()
                 .filter(|(p, q)| b.crossed_by(*p, *q))
                 .count();
-            // Clear of markers and labels first, then of lines, then nearest.
-            let score = (hits, crossings);
-            if hits == 0 && crossings == 0 {
+            let score = (outside, labels, markers, crossings);
+            if score == (0, 0, 0, 0) {
                 best = Some((score, (cx, cy)));
-                let _ = n;
                 break;
             }
             if best.is_none_or(|(s, _)| score < s) {
                 best = Some((score, (cx, cy)));
             }
         }
-        let ((hits, _), at) = best?;
-        if hits > 0 && need == Need::Optional {
+        let ((outside, labels, markers, _), at) = best?;
+        if (outside + labels + markers) > 0 && need == Need::Optional {
             return None;
         }
         self.labels.push(Rect {
