@@ -79,6 +79,9 @@ impl Rect {
     }
 }
 
+/// How crowded a label position is: (outside the area, labels hit, markers hit, lines crossed).
+type Score = (usize, usize, usize, usize);
+
 /// Where labels may go and what they must avoid.
 #[derive(Debug, Clone)]
 pub struct Placer {
@@ -151,7 +154,7 @@ impl Placer {
         let own = Rect::around(x, y, r);
         // Score: outside the area, then over another label, then over a marker, then across
         // lines; the first clear position (nearest first) wins.
-        let mut best: Option<((usize, usize, usize, usize), (f64, f64))> = None;
+        let mut best: Option<(Score, (f64, f64))> = None;
         for (cx, cy) in candidates {
             let b = Rect {
                 x0: cx,
