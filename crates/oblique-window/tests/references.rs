@@ -12,7 +12,8 @@ use std::path::{Path, PathBuf};
 
 /// Bracketed words that are not citation keys: units, status labels of docs/physics-notes.md,
 /// placeholders.
-const NOT_KEYS: [&str; 17] = [
+const NOT_KEYS: &[&str] = &[
+    "KEY",
     "deg",
     "mm",
     "rad",
