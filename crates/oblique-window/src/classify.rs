@@ -408,31 +408,6 @@ pub fn explain_velocity(
         .collect();
 }
 
-/// The impact velocity at this angle, nearest to the point, where the verdict (inside or not)
-/// changes, whatever limit causes it; `None` when it does not change from Vp/20 to 20 Vp. Used to
-/// rank process settings by how much velocity scatter they tolerate.
-/// The velocity is in `convention` (for an estimate, the convention of the model's Vp).
-pub fn velocity_to_verdict_change(
-    window: &PairWindow,
-    setup: &PairSetup,
-    c: &Classification,
-    convention: Convention,
-) -> Option<f64> {
-    let vp = c
-        .evaluation
-        .collision
-        .with_convention(convention)
-        .impact_velocity
-        .si();
-    let beta = c.evaluation.collision.angle;
-    let inside_at = |v: f64| -> Option<f64> {
-        let col = Collision::from_impact(convention, Velocity::from_m_s(v), beta).ok()?;
-        let k = classify(window, setup, &col).ok()?;
-        Some(if k.inside { 1.0 } else { -1.0 })
-    };
-    nearest_crossing(vp, 0.01 * vp, vp / 20.0, vp * 20.0, 0.05, inside_at)
-}
-
 /// The stretches of impact velocity (at the point's angle) and of angle (at the point's impact
 /// velocity) that lie inside the window, nearest to the point: found by scanning 240 velocities
 /// from Vp/20 to 20 Vp (geometric) and 180 angles from 0.25 to 89.75 deg, then bisecting the ends.

@@ -235,6 +235,36 @@ fn demo_writes_plots_and_report_and_names_the_paths() {
         assert!(d.path().join("out").join(f).is_file(), "missing {f}");
         assert!(s.contains(f));
     }
+    // The record holds the choice: A chosen, B and C with the reasons they were not.
+    let v: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(d.path().join("out/report.json")).unwrap()).unwrap();
+    assert_eq!(v["chosen"]["label"], "A");
+    let alts = v["alternatives"].as_array().unwrap();
+    let labels: Vec<&str> = alts.iter().map(|a| a["label"].as_str().unwrap()).collect();
+    assert_eq!(labels, ["B", "C"]);
+    assert!(alts[0]["not_chosen_because"]
+        .as_str()
+        .unwrap()
+        .contains("less velocity headroom"));
+    assert!(alts[1]["not_chosen_because"]
+        .as_str()
+        .unwrap()
+        .starts_with("outside the window"));
+    let html = std::fs::read_to_string(d.path().join("out/report.html")).unwrap();
+    for needle in [
+        "The chosen set-up: A",
+        "Alternatives considered",
+        "less velocity headroom",
+        "outside the window: melting-upper fails",
+    ] {
+        assert!(html.contains(needle), "missing {needle}");
+    }
+    assert!(
+        s.contains("candidate A is chosen")
+            && s.contains("B not chosen")
+            && s.contains("C not chosen"),
+        "{s}"
+    );
 }
 
 /// Renders the demo report in headless Chromium (Debian's `chromium`, installed by .ci/run):
