@@ -82,7 +82,7 @@ pub fn window_plane_svg(w: &PairWindow, c: &Classifier, s: &Summary) -> RenderRe
             .bold_line_style(RGBColor(220, 220, 220))
             .draw()
             .map_err(perr)?;
-        draw_regions(&mut chart, &region, x_max, y_max)?;
+        draw_regions(&mut chart, &region, c)?;
         let density_max = draw_points(&mut chart, s, many, x_max, y_max)?;
         plane_legend(&legend, w, s, many, density_max)?;
         foot.draw(&Text::new(
@@ -96,63 +96,76 @@ pub fn window_plane_svg(w: &PairWindow, c: &Classifier, s: &Summary) -> RenderRe
     Ok(svg)
 }
 
-/// The verdict of the window at the centre of each grid cell: 0 welded, 1 not welded, 2
-/// melted, 3 welded but outside a boundary's span, 255 not classified.
-fn region_grid(c: &Classifier, x_max: f64, y_max: f64) -> Vec<u8> {
-    // Verdict regions of the window on a grid (the same classifier as the rows).
-    let mut region = vec![255u8; NX * NY];
-    let mut margins = Vec::new();
-    for j in 0..NY {
-        let beta = y_max * (j as f64 + 0.5) / NY as f64;
-        if beta >= 90.0 {
-            continue;
-        }
-        for i in 0..NX {
-            let vp = x_max * (i as f64 + 0.5) / NX as f64;
-            let v = match c.classify_impact(vp, beta.to_radians(), &mut margins) {
-                Ok(p) => match p.verdict {
-                    // Welded, but some user boundary does not span the cell.
-                    Prediction::Welded if p.outside_trial_data => 3,
-                    Prediction::Welded => 0,
-                    Prediction::NotWelded => 1,
-                    Prediction::Melted => 2,
-                },
-                Err(_) => 255,
-            };
-            region[j * NX + i] = v;
-        }
+/// The verdict code of the window at a point: 0 welded, 1 not welded, 2 melted, 3 welded but
+/// outside a boundary's span; `None` where the point cannot be classified.
+fn verdict_at(c: &Classifier, vp: f64, beta_deg: f64, margins: &mut Vec<f64>) -> Option<u8> {
+    if !(beta_deg < 90.0) {
+        return None;
     }
-    region
+    c.classify_impact(vp, beta_deg.to_radians(), margins)
+        .ok()
+        .map(|p| match p.verdict {
+            // Welded, but some user boundary does not span the point.
+            Prediction::Welded if p.outside_trial_data => 3,
+            Prediction::Welded => 0,
+            Prediction::NotWelded => 1,
+            Prediction::Melted => 2,
+        })
 }
 
-/// The tinted verdict regions, row by row, equal neighbours merged.
-fn draw_regions(chart: &mut Chart<'_, '_>, region: &[u8], x_max: f64, y_max: f64) -> RenderResult {
-    let (dx, dy) = (x_max / NX as f64, y_max / NY as f64);
-    let mut rects = Vec::new();
-    for j in 0..NY {
-        let mut i = 0;
-        while i < NX {
-            let v = region[j * NX + i];
-            let start = i;
-            while i < NX && region[j * NX + i] == v {
-                i += 1;
-            }
-            let colour = match v {
-                0 => T_WELDED,
-                2 => T_MELTED,
-                3 => T_UNTRIED,
-                _ => continue,
-            };
-            rects.push(Rectangle::new(
-                [
-                    (start as f64 * dx, j as f64 * dy),
-                    (i as f64 * dx, (j + 1) as f64 * dy),
-                ],
-                colour.filled(),
-            ));
+/// The grid of the verdict regions: node positions (the lower and left edges just inside the
+/// plane) and the verdict code at each node (255: not classified).
+struct Regions {
+    xs: Vec<f64>,
+    ys: Vec<f64>,
+    codes: Vec<u8>,
+}
+
+/// The window's verdict at every node of the grid (the same classifier as the rows).
+fn region_grid(c: &Classifier, x_max: f64, y_max: f64) -> Regions {
+    let node = |k: usize, n: usize, max: f64| max * (k as f64).max(0.002) / n as f64;
+    let xs: Vec<f64> = (0..=NX).map(|i| node(i, NX, x_max)).collect();
+    let ys: Vec<f64> = (0..=NY).map(|j| node(j, NY, y_max)).collect();
+    let mut margins = Vec::new();
+    let mut codes = Vec::with_capacity(xs.len() * ys.len());
+    for &beta in &ys {
+        for &vp in &xs {
+            codes.push(verdict_at(c, vp, beta, &mut margins).unwrap_or(255));
         }
     }
-    chart.draw_series(rects).map_err(perr)?;
+    Regions { xs, ys, codes }
+}
+
+/// The tinted verdict regions, each traced as closed polygons whose edges are bisected on the
+/// classifier (no stair steps).
+fn draw_regions(chart: &mut Chart<'_, '_>, r: &Regions, c: &Classifier) -> RenderResult {
+    let margins = std::cell::RefCell::new(Vec::new());
+    for (code, colour) in [(0u8, T_WELDED), (3, T_UNTRIED), (2, T_MELTED)] {
+        if !r.codes.contains(&code) {
+            continue;
+        }
+        let values: Vec<f64> = r
+            .codes
+            .iter()
+            .map(|&v| match v {
+                255 => f64::NAN,
+                v if v == code => 1.0,
+                _ => -1.0,
+            })
+            .collect();
+        let probe = |x: f64, y: f64| {
+            verdict_at(c, x, y, &mut margins.borrow_mut())
+                .map(|v| if v == code { 1.0 } else { -1.0 })
+        };
+        let outlines = crate::window_plot::field::trace_field(&r.xs, &r.ys, &values, &probe, true);
+        chart
+            .draw_series(
+                outlines
+                    .into_iter()
+                    .map(|p| Polygon::new(p, colour.filled())),
+            )
+            .map_err(perr)?;
+    }
     Ok(())
 }
 

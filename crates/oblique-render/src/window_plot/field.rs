@@ -206,100 +206,120 @@ impl<'a> Field<'a> {
         self.trace(&values, probe, true)
     }
 
-    /// Zero lines of a node field by marching squares, each crossing refined by bisection of
-    /// `probe` along its edge. With `closed`, the grid is surrounded by a ring of "outside"
-    /// nodes on the plot's edges, so that every line closes into a polygon.
+    /// Zero lines of a node field, each crossing bisected on `probe` (see [`trace_field`]).
     fn trace(&self, values: &[f64], probe: Probe, closed: bool) -> Vec<Vec<P>> {
-        let (nx, ny) = (self.xs.len(), self.ys.len());
-        // The (optionally padded) grid: pad nodes sit on the plot's edges.
-        let pad = usize::from(closed);
-        let (gx, gy) = (nx + 2 * pad, ny + 2 * pad);
-        let x_max = self.xs[nx - 1];
-        let y_max = self.ys[ny - 1];
-        let pos = |i: usize, j: usize| -> (P, bool) {
-            let real = i >= pad && i < nx + pad && j >= pad && j < ny + pad;
-            let x = if i < pad {
-                0.0
-            } else if i >= nx + pad {
-                x_max
-            } else {
-                self.xs[i - pad]
-            };
-            let y = if j < pad {
-                0.0
-            } else if j >= ny + pad {
-                y_max
-            } else {
-                self.ys[j - pad]
-            };
-            ((x, y), real)
+        trace_field(
+            &self.xs,
+            &self.ys,
+            values,
+            &|x, y| self.probe(probe, x, y),
+            closed,
+        )
+    }
+}
+
+/// Zero lines of a node field (`values[j * xs.len() + i]` at `(xs[i], ys[j])`, NaN where not
+/// defined) by marching squares, each crossing located on its grid edge by bisection of
+/// `probe` (the sign of the real function there, `None` where it is not defined) rather than
+/// by interpolating the grid values. With `closed`, the grid is surrounded by a ring of
+/// negative nodes on its own edges, so that every line of the region `values >= 0` closes into
+/// a polygon.
+pub(crate) fn trace_field(
+    xs: &[f64],
+    ys: &[f64],
+    values: &[f64],
+    probe: &dyn Fn(f64, f64) -> Option<f64>,
+    closed: bool,
+) -> Vec<Vec<P>> {
+    let (nx, ny) = (xs.len(), ys.len());
+    // The (optionally padded) grid: pad nodes sit on the grid's edges.
+    let pad = usize::from(closed);
+    let (gx, gy) = (nx + 2 * pad, ny + 2 * pad);
+    let (x_lo, x_hi) = (xs[0].min(0.0), xs[nx - 1]);
+    let (y_lo, y_hi) = (ys[0].min(0.0), ys[ny - 1]);
+    let pos = |i: usize, j: usize| -> (P, bool) {
+        let real = i >= pad && i < nx + pad && j >= pad && j < ny + pad;
+        let x = if i < pad {
+            x_lo
+        } else if i >= nx + pad {
+            x_hi
+        } else {
+            xs[i - pad]
         };
-        let val = |i: usize, j: usize| -> f64 {
-            match pos(i, j) {
-                (_, true) => values[(j - pad) * nx + (i - pad)],
-                _ => -1.0,
+        let y = if j < pad {
+            y_lo
+        } else if j >= ny + pad {
+            y_hi
+        } else {
+            ys[j - pad]
+        };
+        ((x, y), real)
+    };
+    let val = |i: usize, j: usize| -> f64 {
+        match pos(i, j) {
+            (_, true) => values[(j - pad) * nx + (i - pad)],
+            _ => -1.0,
+        }
+    };
+    let mut crossings: HashMap<(usize, usize), P> = HashMap::new();
+    let mut segs: Vec<(P, P)> = Vec::new();
+    for j in 0..gy.saturating_sub(1) {
+        for i in 0..gx.saturating_sub(1) {
+            let corners = [(i, j), (i + 1, j), (i + 1, j + 1), (i, j + 1)];
+            let vals = corners.map(|(a, b)| val(a, b));
+            if vals.iter().any(|v| !v.is_finite()) {
+                continue;
             }
-        };
-        let mut crossings: HashMap<(usize, usize), P> = HashMap::new();
-        let mut segs: Vec<(P, P)> = Vec::new();
-        for j in 0..gy.saturating_sub(1) {
-            for i in 0..gx.saturating_sub(1) {
-                let corners = [(i, j), (i + 1, j), (i + 1, j + 1), (i, j + 1)];
-                let vals = corners.map(|(a, b)| val(a, b));
-                if vals.iter().any(|v| !v.is_finite()) {
+            let mut pts = Vec::with_capacity(4);
+            for e in 0..4 {
+                let (a, b) = (corners[e], corners[(e + 1) % 4]);
+                let (va, vb) = (vals[e], vals[(e + 1) % 4]);
+                if (va < 0.0) == (vb < 0.0) {
                     continue;
                 }
-                let mut pts = Vec::with_capacity(4);
-                for e in 0..4 {
-                    let (a, b) = (corners[e], corners[(e + 1) % 4]);
-                    let (va, vb) = (vals[e], vals[(e + 1) % 4]);
-                    if (va < 0.0) == (vb < 0.0) {
-                        continue;
+                // One crossing per edge, whichever cell asks first (so both cells of an
+                // edge share the exact point and the lines chain).
+                let (lo, hi) = if (a.1, a.0) < (b.1, b.0) {
+                    (a, b)
+                } else {
+                    (b, a)
+                };
+                let key = (lo.1 * gx + lo.0, hi.1 * gx + hi.0);
+                let p = *crossings.entry(key).or_insert_with(|| {
+                    let ((pa, ra), (pb, rb)) = (pos(lo.0, lo.1), pos(hi.0, hi.1));
+                    match (ra, rb) {
+                        (true, true) => refine(probe, pa, pb, val(lo.0, lo.1) >= 0.0),
+                        (false, _) => pa,
+                        (_, false) => pb,
                     }
-                    // One crossing per edge, whichever cell asks first (so both cells of an
-                    // edge share the exact point and the lines chain).
-                    let (lo, hi) = if (a.1, a.0) < (b.1, b.0) {
-                        (a, b)
-                    } else {
-                        (b, a)
-                    };
-                    let key = (lo.1 * gx + lo.0, hi.1 * gx + hi.0);
-                    let p = *crossings.entry(key).or_insert_with(|| {
-                        let ((pa, ra), (pb, rb)) = (pos(lo.0, lo.1), pos(hi.0, hi.1));
-                        match (ra, rb) {
-                            (true, true) => self.refine(probe, pa, pb, val(lo.0, lo.1) >= 0.0),
-                            (false, _) => pa,
-                            (_, false) => pb,
-                        }
-                    });
-                    pts.push(p);
+                });
+                pts.push(p);
+            }
+            match pts.len() {
+                2 => segs.push((pts[0], pts[1])),
+                4 => {
+                    segs.push((pts[0], pts[1]));
+                    segs.push((pts[2], pts[3]));
                 }
-                match pts.len() {
-                    2 => segs.push((pts[0], pts[1])),
-                    4 => {
-                        segs.push((pts[0], pts[1]));
-                        segs.push((pts[2], pts[3]));
-                    }
-                    _ => {}
-                }
+                _ => {}
             }
         }
-        chain(segs)
     }
+    chain(segs)
+}
 
-    /// The sign change of `probe` between `a` (sign `a_pos`) and `b`, by bisection.
-    fn refine(&self, probe: Probe, a: P, b: P, a_pos: bool) -> P {
-        let (mut a, mut b) = (a, b);
-        for _ in 0..REFINE_STEPS {
-            let m = (0.5 * (a.0 + b.0), 0.5 * (a.1 + b.1));
-            match self.probe(probe, m.0, m.1) {
-                Some(v) if (v >= 0.0) == a_pos => a = m,
-                Some(_) => b = m,
-                None => break,
-            }
+/// The sign change of `probe` between `a` (sign `a_pos`) and `b`, by bisection.
+fn refine(probe: &dyn Fn(f64, f64) -> Option<f64>, a: P, b: P, a_pos: bool) -> P {
+    let (mut a, mut b) = (a, b);
+    for _ in 0..REFINE_STEPS {
+        let m = (0.5 * (a.0 + b.0), 0.5 * (a.1 + b.1));
+        match probe(m.0, m.1) {
+            Some(v) if (v >= 0.0) == a_pos => a = m,
+            Some(_) => b = m,
+            None => break,
         }
-        (0.5 * (a.0 + b.0), 0.5 * (a.1 + b.1))
     }
+    (0.5 * (a.0 + b.0), 0.5 * (a.1 + b.1))
 }
 
 fn inside_value(code: u8) -> f64 {
