@@ -9,8 +9,10 @@
 
 use crate::error::{SetupError, SetupResult};
 use crate::estimate::{resolve_estimate, PulseReport};
+use crate::explosive::{estimate_explosive, ExplosiveReport};
 use crate::human;
 use crate::inputs::Provenance;
+use crate::request::ExplosiveRequest;
 use crate::request::{Charge, EstimateRequest};
 use crate::resolve::Catalog;
 use oblique_core::process::ImpactOutcome;
@@ -28,6 +30,8 @@ pub enum Produced<'a> {
     Point,
     /// A magnetic pulse estimate.
     Magnetic(Box<PulseReport<'a>>),
+    /// An explosive (Gurney) estimate.
+    Explosive(Box<ExplosiveReport<'a>>),
 }
 
 /// One set-up considered.
@@ -354,6 +358,54 @@ pub fn magnetic_candidate<'a>(
     })
 }
 
+/// An explosive set-up: the request estimated (Gurney, then the collision kinematics), its
+/// collision checked against the pair window (explained).
+///
+/// # Errors
+/// As [`estimate_explosive`].
+pub fn explosive_candidate<'a>(
+    catalog: &'a Catalog,
+    label: &str,
+    request: &ExplosiveRequest,
+) -> SetupResult<Candidate<'a>> {
+    let report = estimate_explosive(catalog, request)?;
+    let mut settings = Vec::new();
+    if let Some(n) = &request.setup {
+        settings.push(("--setup".to_string(), n.clone()));
+    }
+    let v = |x: &oblique_core::units::Velocity| format!("{} m/s", human::g(x.si()));
+    if let Some(g) = &request.gurney_velocity {
+        settings.push(("--gurney-velocity".into(), v(g)));
+    }
+    if let Some(d) = &request.detonation_velocity {
+        settings.push(("--detonation-velocity".into(), v(d)));
+    }
+    if let Some(m) = request.mass_ratio {
+        settings.push(("--mass-ratio".into(), human::g(m)));
+    }
+    if let Some(c) = request.charge_ratio {
+        settings.push(("--charge-ratio".into(), human::g(c)));
+    }
+    if let Some(a) = request.preset_angle {
+        settings.push((
+            "--preset-angle".into(),
+            format!("{} deg", human::g(a.degrees())),
+        ));
+    }
+    let no_check = report
+        .check
+        .is_none()
+        .then(|| "no window check (no pair window)".to_string());
+    Ok(Candidate {
+        label: label.to_string(),
+        settings,
+        check: report.check.clone(),
+        no_check,
+        produced: Produced::Explosive(Box::new(report)),
+        given_reason: None,
+    })
+}
+
 /// One setting of a `sweep --json` file.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SweepSetting {
@@ -480,8 +532,13 @@ pub fn files_used(catalog: &Catalog, w: &PairWindow, d: &Decision<'_>) -> Vec<Fi
     };
     let mut ids = vec![w.flyer.material.id.clone(), w.parent.material.id.clone()];
     for c in std::iter::once(&d.chosen).chain(d.alternatives.iter().map(|a| &a.candidate)) {
-        if let Produced::Magnetic(r) = &c.produced {
-            for i in &r.setup.inputs.entries {
+        let inputs = match &c.produced {
+            Produced::Magnetic(r) => Some(&r.setup.inputs),
+            Produced::Explosive(r) => Some(&r.inputs),
+            Produced::Point => None,
+        };
+        if let Some(inputs) = inputs {
+            for i in &inputs.entries {
                 let machine = match &i.from {
                     Provenance::File { name, .. } => Some(name.as_str()),
                     Provenance::Calibration(c) => Some(c.bank.as_str()),

@@ -69,8 +69,8 @@ pub mod sweep;
 
 pub use calibrate::{calibrate, CalibrationFit, CalibrationRequest, RingDown, RingDownRequest};
 pub use decision::{
-    decide, magnetic_candidate, point_candidate, Alternative, Candidate, ChoiceRule, Decision,
-    FileUse, Produced, SweepFile, SweepSetting,
+    decide, explosive_candidate, magnetic_candidate, point_candidate, Alternative, Candidate,
+    ChoiceRule, Decision, FileUse, Produced, SweepFile, SweepSetting,
 };
 pub use error::{SetupError, SetupResult};
 pub use estimate::{classify_impact, resolve_estimate, PulseReport, ResolvedSetup};

@@ -5,8 +5,12 @@
 use crate::fail::{CmdResult, Fail};
 use crate::qarg;
 use clap::Args;
-use oblique_core::units::{Capacitance, Energy, Inductance, Length, Resistance, Voltage};
-use oblique_setup::{BankRequest, Charge, Integration, MagneticRequest, SheetRequest, TubeRequest};
+use oblique_core::units::{
+    Angle, Capacitance, Energy, Inductance, Length, Resistance, Velocity, Voltage,
+};
+use oblique_setup::{
+    BankRequest, Charge, ExplosiveRequest, Integration, MagneticRequest, SheetRequest, TubeRequest,
+};
 
 /// A strictly positive quantity, with the flag's quantity name in the message.
 fn positive(v: f64, what: &str, unit: &str) -> Result<f64, String> {
@@ -261,6 +265,44 @@ impl IntegrationFlags {
         Integration {
             steps_per_period: self.steps_per_period,
             max_periods: self.max_periods,
+        }
+    }
+}
+
+/// An explosive set-up: a set-up file and/or values (values win).
+#[derive(Debug, Clone, Args)]
+pub struct ExplosiveFlags {
+    /// Explosive set-up file from the library.
+    #[arg(long, value_name = "NAME")]
+    pub setup: Option<String>,
+    /// Gurney velocity sqrt(2E) of the explosive as laid, e.g. 1500m/s (no default is shipped).
+    #[arg(long = "gurney-velocity", value_name = "SPEED", value_parser = parse::velocity, allow_hyphen_values = true)]
+    pub gurney_velocity: Option<f64>,
+    /// Detonation velocity, e.g. 2500m/s.
+    #[arg(long = "detonation-velocity", value_name = "SPEED", value_parser = parse::velocity, allow_hyphen_values = true)]
+    pub detonation_velocity: Option<f64>,
+    /// Flyer-to-charge mass ratio M/C (per unit area), e.g. 2.
+    #[arg(long = "mass-ratio", value_name = "M/C", value_parser = parse::number, conflicts_with = "charge_ratio", allow_hyphen_values = true)]
+    pub mass_ratio: Option<f64>,
+    /// Charge-to-flyer mass ratio C/M (the loading ratio), e.g. 0.5.
+    #[arg(long = "charge-ratio", value_name = "C/M", value_parser = parse::number, allow_hyphen_values = true)]
+    pub charge_ratio: Option<f64>,
+    /// Preset angle between flyer and parent, e.g. 0deg for the parallel set-up.
+    #[arg(long = "preset-angle", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_or_zero)]
+    pub preset_angle: Option<f64>,
+}
+
+impl ExplosiveFlags {
+    /// The explosive request, checked against `pair`.
+    pub fn request(&self, pair: Option<String>) -> ExplosiveRequest {
+        ExplosiveRequest {
+            setup: self.setup.clone(),
+            gurney_velocity: self.gurney_velocity.map(Velocity::from_m_s),
+            detonation_velocity: self.detonation_velocity.map(Velocity::from_m_s),
+            mass_ratio: self.mass_ratio,
+            charge_ratio: self.charge_ratio,
+            preset_angle: self.preset_angle.map(Angle::from_radians),
+            pair,
         }
     }
 }

@@ -12,7 +12,7 @@ mod show;
 mod sweep;
 
 pub use crate::args::process::{
-    parse, BankFlags, ChargeFlags, IntegrationFlags, SheetFlags, TubeFlags,
+    parse, BankFlags, ChargeFlags, ExplosiveFlags, IntegrationFlags, SheetFlags, TubeFlags,
 };
 use crate::fail::CmdResult;
 use crate::qarg;
@@ -113,24 +113,8 @@ pub struct EstimateCommon {
 /// `oblique estimate explosive`.
 #[derive(Debug, Args)]
 pub struct ExplosiveArgs {
-    /// Explosive set-up file from the library.
-    #[arg(long, value_name = "NAME")]
-    pub setup: Option<String>,
-    /// Gurney velocity sqrt(2E) of the explosive as laid, e.g. 1500m/s (no default is shipped).
-    #[arg(long = "gurney-velocity", value_name = "SPEED", value_parser = parse::velocity, allow_hyphen_values = true)]
-    pub gurney_velocity: Option<f64>,
-    /// Detonation velocity, e.g. 2500m/s.
-    #[arg(long = "detonation-velocity", value_name = "SPEED", value_parser = parse::velocity, allow_hyphen_values = true)]
-    pub detonation_velocity: Option<f64>,
-    /// Flyer-to-charge mass ratio M/C (per unit area), e.g. 2.
-    #[arg(long = "mass-ratio", value_name = "M/C", value_parser = parse::number, conflicts_with = "charge_ratio", allow_hyphen_values = true)]
-    pub mass_ratio: Option<f64>,
-    /// Charge-to-flyer mass ratio C/M (the loading ratio), e.g. 0.5.
-    #[arg(long = "charge-ratio", value_name = "C/M", value_parser = parse::number, allow_hyphen_values = true)]
-    pub charge_ratio: Option<f64>,
-    /// Preset angle between flyer and parent, e.g. 0deg for the parallel set-up.
-    #[arg(long = "preset-angle", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_or_zero, allow_hyphen_values = true)]
-    pub preset_angle: Option<f64>,
+    #[command(flatten)]
+    pub explosive: ExplosiveFlags,
     /// Pair window to check the resulting point against.
     #[arg(long, value_name = "NAME")]
     pub pair: Option<String>,

@@ -4,7 +4,9 @@
 
 mod spec;
 
-use crate::args::process::{parse, BankFlags, IntegrationFlags, SheetFlags, TubeFlags};
+use crate::args::process::{
+    parse, BankFlags, ExplosiveFlags, IntegrationFlags, SheetFlags, TubeFlags,
+};
 use crate::args::{ConstantArgs, ConventionArg, VelocityInput};
 use crate::common::{
     collision, load_catalog, output_format, print_notes, read_point_csv, write_output, FileFormat,
@@ -13,17 +15,17 @@ use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json};
 use crate::qarg;
 use clap::{Args, Subcommand};
-use oblique_core::units::{Angle, Energy, Length, Voltage};
+use oblique_core::units::{Angle, Energy, Length, Velocity, Voltage};
 use oblique_core::Convention;
 use oblique_render::report::{html, json, ReportInput};
 use oblique_render::window_plot::ProcessCurve;
 use oblique_setup::{
-    decide, magnetic_candidate, point_candidate, Candidate, Catalog, Charge, Decision,
-    EstimateRequest, FileUse, MagneticRequest, SweepFile,
+    decide, explosive_candidate, magnetic_candidate, point_candidate, Candidate, Catalog, Charge,
+    Decision, EstimateRequest, FileUse, MagneticRequest, SweepFile,
 };
 use oblique_window::library::sha256_hex;
 use oblique_window::references::References;
-use spec::{parse_alternative, AltSpec};
+use spec::{parse_alternative, AltSpec, Kind};
 use std::path::{Path, PathBuf};
 
 const AFTER_HELP: &str = "Examples (the built-in pair, bank and coil are INVENTED demo data):
@@ -71,6 +73,21 @@ pub enum ReportProcess {
     MpwTube(TubeReportArgs),
     /// Magnetic pulse: a sheet driven off a bar coil (flags as `estimate mpw-sheet`).
     MpwSheet(SheetReportArgs),
+    /// Explosive welding: Gurney open-faced sandwich (flags as `estimate explosive`).
+    Explosive(ExplosiveReportArgs),
+}
+
+/// `oblique report explosive`.
+#[derive(Debug, Args)]
+#[command(after_help = AFTER_HELP)]
+pub struct ExplosiveReportArgs {
+    #[command(flatten)]
+    pub explosive: ExplosiveFlags,
+    /// Pair window to check every set-up against.
+    #[arg(long, value_name = "NAME")]
+    pub pair: String,
+    #[command(flatten)]
+    pub record: RecordArgs,
 }
 
 /// `oblique report mpw-tube`.
@@ -130,7 +147,8 @@ pub struct SettingArgs {
 #[derive(Debug, Args)]
 pub struct RecordArgs {
     /// Another set-up considered: '[LABEL:] key=value, ...[, because=TEXT]' with the keys
-    /// charge-voltage, energy, standoff, angle, efficiency (a process) or velocity,
+    /// charge-voltage, energy, standoff, angle, efficiency (magnetic pulse); gurney-velocity,
+    /// detonation-velocity, mass-ratio, charge-ratio, preset-angle (explosive); velocity,
     /// collision-velocity, angle (a point); unset keys keep the chosen set-up's values
     /// (repeatable).
     #[arg(long = "alternative", value_name = "SPEC", value_parser = parse_alternative)]
@@ -173,8 +191,53 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
             let process = s.sheet.request(&s.bank);
             run_process(dirs, process, "mpw-sheet", &s.setting, &s.record)
         }
+        Some(ReportProcess::Explosive(x)) => run_explosive(dirs, &x),
         None => run_point(dirs, &a),
     }
+}
+
+fn run_explosive(dirs: &[PathBuf], a: &ExplosiveReportArgs) -> CmdResult {
+    let output = preflight(&a.record)?;
+    if a.record.from_sweep.is_some() {
+        return Err(Fail::input(
+            "--from-sweep takes the settings of a magnetic pulse sweep; an explosive record takes --alternative",
+        ));
+    }
+    let catalog = load_catalog(dirs)?;
+    let base = a.explosive.request(Some(a.pair.clone()));
+    let mut candidates = vec![explosive_candidate(&catalog, &a.record.label, &base)?];
+    for (n, s) in a.record.alternative.iter().enumerate() {
+        s.check_kind(Kind::Explosive)
+            .map_err(|m| Fail::input(format!("--alternative: {m}")))?;
+        let mut req = base.clone();
+        if let Some(v) = s.gurney_velocity {
+            req.gurney_velocity = Some(Velocity::from_m_s(v));
+        }
+        if let Some(v) = s.detonation_velocity {
+            req.detonation_velocity = Some(Velocity::from_m_s(v));
+        }
+        if s.mass_ratio.is_some() {
+            req.mass_ratio = s.mass_ratio;
+            req.charge_ratio = None;
+        }
+        if s.charge_ratio.is_some() {
+            req.charge_ratio = s.charge_ratio;
+            req.mass_ratio = None;
+        }
+        if let Some(x) = s.preset_angle {
+            req.preset_angle = Some(Angle::from_radians(x));
+        }
+        let mut c = explosive_candidate(&catalog, &alt_label(s, n), &req)
+            .map_err(|e| Fail::input(format!("--alternative {}: {e}", alt_label(s, n))))?;
+        c.given_reason.clone_from(&s.because);
+        candidates.push(c);
+    }
+    let window = catalog
+        .pair(Some(&a.pair))?
+        .ok_or_else(|| Fail::input("--pair: no pair window"))?;
+    let decision = decide(window, candidates, Some(0))?;
+    let files = oblique_setup::decision::files_used(&catalog, window, &decision);
+    write_record(window, &decision, files, &a.record, output)
 }
 
 /// Checks before any work: the output is given, its format, and that it does not land on an
@@ -218,7 +281,7 @@ fn run_point(dirs: &[PathBuf], a: &ReportArgs) -> CmdResult {
     )?;
     let mut candidates = vec![point_candidate(&window, &a.record.label, &given)?];
     for (n, s) in a.record.alternative.iter().enumerate() {
-        s.check_kind(false)
+        s.check_kind(Kind::Point)
             .map_err(|m| Fail::input(format!("--alternative: {m}")))?;
         let v = s.velocity.or(if s.collision_velocity.is_some() {
             None
@@ -293,7 +356,7 @@ fn run_process(
         candidates.push(c?);
     }
     for (n, spec) in r.alternative.iter().enumerate() {
-        spec.check_kind(true)
+        spec.check_kind(Kind::Magnetic)
             .map_err(|m| Fail::input(format!("--alternative: {m}")))?;
         let mut req = base.clone();
         match (spec.charge_voltage, spec.energy) {

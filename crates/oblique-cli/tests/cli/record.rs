@@ -466,3 +466,50 @@ fn unsupported_output_extensions_are_refused_by_every_command() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert_eq!(&std::fs::read(&png).unwrap()[..4], b"\x89PNG");
 }
+
+/// An explosive set-up as the chosen one, alternatives with explosive keys; keys of another
+/// kind are refused, naming them.
+#[test]
+fn an_explosive_record_with_alternatives() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("x.json");
+    let base = [
+        "report",
+        "explosive",
+        "--gurney-velocity",
+        "1500m/s",
+        "--detonation-velocity",
+        "2500m/s",
+        "--mass-ratio",
+        "2",
+        "--preset-angle",
+        "0deg",
+        "--pair",
+        PAIR,
+    ];
+    let mut args = base.to_vec();
+    args.extend_from_slice(&[
+        "--alternative",
+        "thin: mass-ratio=3",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    let o = run(&args);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: Value = serde_json::from_slice(&std::fs::read(&out).unwrap()).unwrap();
+    assert_eq!(v["setup"]["model"], "explosive");
+    assert_eq!(v["alternatives"][0]["label"], "thin");
+    assert!(v["alternatives"][0]["not_chosen_because"]
+        .as_str()
+        .unwrap()
+        .starts_with("outside the window"));
+    let mut args = base.to_vec();
+    args.extend_from_slice(&["--alternative", "standoff=2mm", "-o", out.to_str().unwrap()]);
+    fails_with(
+        &args,
+        &[
+            "--alternative: standoff do(es) not apply here",
+            "mass-ratio",
+        ],
+    );
+}

@@ -149,6 +149,10 @@ fn question(input: &ReportInput<'_>, c: &Classification) -> String {
             input.decision.chosen.settings_text(),
             r.setup.model.title()
         ),
+        Produced::Explosive(_) => format!(
+            "with the explosive set-up {} (Gurney open-faced sandwich)",
+            input.decision.chosen.settings_text()
+        ),
     };
     let others = input.decision.alternatives.len();
     format!(
@@ -223,26 +227,22 @@ fn chosen_setup(input: &ReportInput<'_>) -> String {
         settings_html(ch),
         esc(&capitalise(input.decision.rule.text()))
     );
-    let Produced::Magnetic(r) = &ch.produced else {
-        return h;
+    let r = match &ch.produced {
+        Produced::Magnetic(r) => r,
+        Produced::Explosive(x) => {
+            h.push_str(&explosive_setup(x));
+            return h;
+        }
+        Produced::Point => return h,
     };
     let s = &r.setup;
     let _ = writeln!(
         h,
-        "<p>Model: <b>{}</b>, {}.</p>\n<h3>Inputs and where each came from</h3>\n<table><thead><tr><th>quantity</th><th>value</th><th>from</th></tr></thead><tbody>",
+        "<p>Model: <b>{}</b>, {}.</p>",
         esc(s.model.id()),
         esc(s.model.title())
     );
-    for i in &s.inputs.entries {
-        let _ = writeln!(
-            h,
-            "<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>",
-            esc(i.label),
-            esc(&i.value.shown()),
-            long(&i.from.to_string())
-        );
-    }
-    h.push_str("</tbody></table>\n");
+    h.push_str(&inputs_table(&s.inputs));
     let e = &r.estimate;
     let mut rows = vec![
         (
@@ -295,6 +295,50 @@ fn chosen_setup(input: &ReportInput<'_>) -> String {
     {
         let _ = writeln!(h, "<p class=\"fail\">Warning: {}</p>", esc(&wng));
     }
+    h
+}
+
+/// An explosive set-up: its inputs with their provenance and the Gurney estimate.
+fn explosive_setup(x: &oblique_setup::ExplosiveReport<'_>) -> String {
+    let mut h = String::from("<p>Model: <b>explosive</b>, Gurney open-faced sandwich and the collision kinematics of the parallel or inclined set-up.</p>\n");
+    h.push_str(&inputs_table(&x.inputs));
+    let e = &x.estimate;
+    let col = &e.collision;
+    h.push_str("<h3>Estimate</h3>\n<table class=\"meta\"><tbody>");
+    for (k, v) in [
+        ("Gurney factor V / sqrt(2E)", fmt(e.gurney_factor, 4)),
+        (
+            "flyer (impact) velocity Vp",
+            format!("{} m/s", fmt(e.impact_velocity.si(), 0)),
+        ),
+        (
+            "collision angle beta",
+            format!("{} deg", fmt(col.angle.degrees(), 2)),
+        ),
+        (
+            "collision-point velocity Vc",
+            format!("{} m/s", fmt(col.collision_velocity.si(), 0)),
+        ),
+    ] {
+        let _ = writeln!(h, "<tr><th>{}</th><td>{}</td></tr>", esc(k), esc(&v));
+    }
+    h.push_str("</tbody></table>\n<p class=\"fail\">Explosives kill: their handling, storage and use are for licensed people under local law.</p>\n");
+    h
+}
+
+/// Every input of a set-up with its value and where it came from.
+fn inputs_table(inputs: &oblique_setup::Inputs) -> String {
+    let mut h = String::from("<h3>Inputs and where each came from</h3>\n<table><thead><tr><th>quantity</th><th>value</th><th>from</th></tr></thead><tbody>\n");
+    for i in &inputs.entries {
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td class=\"num\">{}</td><td>{}</td></tr>",
+            esc(i.label),
+            esc(&i.value.shown()),
+            long(&i.from.to_string())
+        );
+    }
+    h.push_str("</tbody></table>\n");
     h
 }
 

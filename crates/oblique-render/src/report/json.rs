@@ -48,6 +48,7 @@ pub fn json(input: &ReportInput<'_>) -> Value {
     let setup = match &d.chosen.produced {
         Produced::Point => Value::Null,
         Produced::Magnetic(r) => oblique_setup::present::estimate_json(r, None),
+        Produced::Explosive(x) => oblique_setup::present::explosive_json(x),
     };
     let p = &input.provenance;
     // The keys the HTML cites too: materials, criteria, assumptions.

@@ -5,14 +5,13 @@ use super::{EstimateCommon, ExplosiveArgs, SheetEstimateArgs, TubeEstimateArgs};
 use crate::common::{load_catalog, print_notes};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json};
+use oblique_core::units::Angle;
 use oblique_core::units::Length;
-use oblique_core::units::{Angle, Velocity};
 use oblique_setup::present::{
     estimate_json, estimate_text, explosive_json, explosive_text, history_csv,
 };
 use oblique_setup::{
-    estimate_explosive, resolve_estimate, Charge, EstimateRequest, ExplosiveRequest,
-    MagneticRequest, PulseReport,
+    estimate_explosive, resolve_estimate, Charge, EstimateRequest, MagneticRequest, PulseReport,
 };
 use std::path::PathBuf;
 
@@ -80,15 +79,7 @@ fn run_pulse(
 /// `oblique estimate explosive`.
 pub fn run_explosive(dirs: &[PathBuf], a: ExplosiveArgs) -> CmdResult {
     let catalog = load_catalog(dirs)?;
-    let request = ExplosiveRequest {
-        setup: a.setup,
-        gurney_velocity: a.gurney_velocity.map(Velocity::from_m_s),
-        detonation_velocity: a.detonation_velocity.map(Velocity::from_m_s),
-        mass_ratio: a.mass_ratio,
-        charge_ratio: a.charge_ratio,
-        preset_angle: a.preset_angle.map(Angle::from_radians),
-        pair: a.pair,
-    };
+    let request = a.explosive.request(a.pair);
     let report = estimate_explosive(&catalog, &request)?;
     if a.json {
         emit_json(&explosive_json(&report))

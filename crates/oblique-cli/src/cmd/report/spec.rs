@@ -24,6 +24,16 @@ pub struct AltSpec {
     pub velocity: Option<f64>,
     /// Collision-point velocity (m/s), for a point.
     pub collision_velocity: Option<f64>,
+    /// Gurney velocity (m/s), explosive.
+    pub gurney_velocity: Option<f64>,
+    /// Detonation velocity (m/s), explosive.
+    pub detonation_velocity: Option<f64>,
+    /// Flyer-to-charge mass ratio, explosive.
+    pub mass_ratio: Option<f64>,
+    /// Charge-to-flyer mass ratio, explosive.
+    pub charge_ratio: Option<f64>,
+    /// Preset angle (rad), explosive.
+    pub preset_angle: Option<f64>,
     /// The person's reason for not choosing it.
     pub because: Option<String>,
 }
@@ -32,6 +42,20 @@ pub struct AltSpec {
 pub const PROCESS_KEYS: &str = "charge-voltage, energy, standoff, angle, efficiency, because";
 /// The keys of a point alternative.
 pub const POINT_KEYS: &str = "velocity, collision-velocity, angle, because";
+/// The keys of an explosive alternative.
+pub const EXPLOSIVE_KEYS: &str =
+    "gurney-velocity, detonation-velocity, mass-ratio, charge-ratio, preset-angle, because";
+
+/// What a record is of, for the keys its alternatives may use.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Kind {
+    /// A point.
+    Point,
+    /// A magnetic pulse set-up.
+    Magnetic,
+    /// An explosive set-up.
+    Explosive,
+}
 
 /// Parse one `--alternative` value (the keys are checked against the report's kind later).
 pub fn parse_alternative(s: &str) -> Result<AltSpec, String> {
@@ -73,9 +97,14 @@ pub fn parse_alternative(s: &str) -> Result<AltSpec, String> {
             "efficiency" => &mut spec.efficiency,
             "velocity" => &mut spec.velocity,
             "collision-velocity" => &mut spec.collision_velocity,
+            "gurney-velocity" => &mut spec.gurney_velocity,
+            "detonation-velocity" => &mut spec.detonation_velocity,
+            "mass-ratio" => &mut spec.mass_ratio,
+            "charge-ratio" => &mut spec.charge_ratio,
+            "preset-angle" => &mut spec.preset_angle,
             other => {
                 return Err(format!(
-                    "unknown key '{other}': expected {PROCESS_KEYS} (a process) or {POINT_KEYS} (a point)"
+                    "unknown key '{other}': expected {PROCESS_KEYS} (a magnetic pulse set-up), {EXPLOSIVE_KEYS} (an explosive set-up) or {POINT_KEYS} (a point)"
                 ))
             }
         };
@@ -88,6 +117,8 @@ pub fn parse_alternative(s: &str) -> Result<AltSpec, String> {
             "standoff" => parse::length(value),
             "angle" => qarg::angle(value),
             "efficiency" => parse::efficiency(value),
+            "mass-ratio" | "charge-ratio" => parse::number(value),
+            "preset-angle" => qarg::angle_or_zero(value),
             _ => qarg::positive_velocity(value),
         })?);
         rest = next;
@@ -96,36 +127,63 @@ pub fn parse_alternative(s: &str) -> Result<AltSpec, String> {
 }
 
 impl AltSpec {
-    /// Refuse keys of the other kind, naming them.
-    pub fn check_kind(&self, process: bool) -> Result<(), String> {
-        let wrong: Vec<&str> = if process {
-            [
-                ("velocity", self.velocity.is_some()),
-                ("collision-velocity", self.collision_velocity.is_some()),
-            ]
+    /// Refuse keys of another kind, naming them.
+    pub fn check_kind(&self, kind: Kind) -> Result<(), String> {
+        let given = [
+            (
+                "charge-voltage",
+                self.charge_voltage.is_some(),
+                Kind::Magnetic,
+            ),
+            ("energy", self.energy.is_some(), Kind::Magnetic),
+            ("standoff", self.standoff.is_some(), Kind::Magnetic),
+            ("efficiency", self.efficiency.is_some(), Kind::Magnetic),
+            ("velocity", self.velocity.is_some(), Kind::Point),
+            (
+                "collision-velocity",
+                self.collision_velocity.is_some(),
+                Kind::Point,
+            ),
+            (
+                "gurney-velocity",
+                self.gurney_velocity.is_some(),
+                Kind::Explosive,
+            ),
+            (
+                "detonation-velocity",
+                self.detonation_velocity.is_some(),
+                Kind::Explosive,
+            ),
+            ("mass-ratio", self.mass_ratio.is_some(), Kind::Explosive),
+            ("charge-ratio", self.charge_ratio.is_some(), Kind::Explosive),
+            ("preset-angle", self.preset_angle.is_some(), Kind::Explosive),
+            // The angle is the point's or the geometry's; an explosive set-up computes it.
+            (
+                "angle",
+                self.angle.is_some(),
+                if kind == Kind::Explosive {
+                    Kind::Point
+                } else {
+                    kind
+                },
+            ),
+        ];
+        let wrong: Vec<&str> = given
             .iter()
-            .filter(|(_, on)| *on)
-            .map(|(k, _)| *k)
-            .collect()
-        } else {
-            [
-                ("charge-voltage", self.charge_voltage.is_some()),
-                ("energy", self.energy.is_some()),
-                ("standoff", self.standoff.is_some()),
-                ("efficiency", self.efficiency.is_some()),
-            ]
-            .iter()
-            .filter(|(_, on)| *on)
-            .map(|(k, _)| *k)
-            .collect()
-        };
+            .filter(|(_, on, k)| *on && *k != kind)
+            .map(|(name, _, _)| *name)
+            .collect();
         if wrong.is_empty() {
             Ok(())
         } else {
             Err(format!(
                 "{} do(es) not apply here: expected {}",
                 wrong.join(", "),
-                if process { PROCESS_KEYS } else { POINT_KEYS }
+                match kind {
+                    Kind::Point => POINT_KEYS,
+                    Kind::Magnetic => PROCESS_KEYS,
+                    Kind::Explosive => EXPLOSIVE_KEYS,
+                }
             ))
         }
     }
@@ -157,6 +215,8 @@ mod tests {
         assert!(parse_alternative("angle=5deg, angle=6deg")
             .expect_err("twice")
             .contains("twice"));
-        assert!(p.check_kind(true).is_err() && p.check_kind(false).is_ok());
+        assert!(p.check_kind(Kind::Magnetic).is_err() && p.check_kind(Kind::Point).is_ok());
+        let x = parse_alternative("mass-ratio=1.5, preset-angle=0deg").expect("parses");
+        assert!(x.check_kind(Kind::Explosive).is_ok() && x.check_kind(Kind::Magnetic).is_err());
     }
 }
