@@ -326,3 +326,61 @@ pub fn binding_text(w: &PairWindow, c: &Classification) -> String {
         None => String::new(),
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use oblique_core::units::Length;
+    use oblique_core::Convention;
+
+    fn lib() -> oblique_window::Library {
+        oblique_window::Library::load(&[]).expect("library")
+    }
+
+    /// A window without trials has no Trials section; each process curve has its own legend
+    /// entry and its own colour; point labels carry their verdicts.
+    #[test]
+    fn legend_sections_only_with_entries_and_one_entry_per_curve() {
+        let l = lib();
+        let w = l
+            .ad_hoc_window(
+                "aa6061-t6",
+                "cu-c11000",
+                Length::from_m(1e-3),
+                None,
+                Convention::NormalToFlyer,
+            )
+            .expect("window");
+        let mut req = PlotRequest::new(&w, Plane::AngleImpactVelocity);
+        let svg = render_svg(&req).expect("plot");
+        // plotters writes each text on a line of its own.
+        assert!(!svg.contains("\nTrials"), "an empty Trials section");
+        assert!(!svg.contains("\nPoints\n") && !svg.contains("\nProcess curves\n"));
+        for (k, v0) in [300.0, 350.0, 400.0].iter().enumerate() {
+            req.curves.push(ProcessCurve {
+                label: format!("curve number {k}"),
+                points: (0..4)
+                    .map(|i| (v0 + 40.0 * f64::from(i), 10f64.to_radians(), None))
+                    .collect(),
+            });
+        }
+        req.points
+            .push(ProposedPoint::new("P1", 450.0, 10f64.to_radians()));
+        let svg = render_svg(&req).expect("plot");
+        for k in 0..3 {
+            assert_eq!(svg.matches(&format!("curve number {k}")).count(), 1, "{k}");
+        }
+        assert!(svg.contains("\nProcess curves\n") && svg.contains("\nPoints\n"));
+        assert!(svg.contains("P1 (inside)"));
+        let colours: std::collections::BTreeSet<String> = (0..3)
+            .map(|k| {
+                let (c, _) = draw::curve_style(k);
+                format!("#{:02X}{:02X}{:02X}", c.0, c.1, c.2)
+            })
+            .collect();
+        assert_eq!(colours.len(), 3);
+        for c in &colours {
+            assert!(svg.contains(c.as_str()), "{c}");
+        }
+    }
+}
