@@ -2,7 +2,7 @@
 //! materials, criteria and classifications (SI values, keys with unit suffixes), plain text
 //! tables and numbers in their criterion's unit. Pure functions: nothing here writes anywhere.
 
-use crate::classify::{limit_label, Classification};
+use crate::classify::{limit_advice, limit_label, Classification, LimitRef};
 use crate::{MaterialRecord, PairWindow};
 use oblique_core::{CriterionResult, PointEvaluation};
 use serde_json::{json, Map, Value};
@@ -309,4 +309,229 @@ pub fn xml_safe(s: &str) -> std::borrow::Cow<'_, str> {
             })
             .collect(),
     )
+}
+
+/// The two headroom cells of a limit: the impact velocity at this angle and the angle at this
+/// impact velocity where the limit is reached.
+fn headroom_cells(c: &Classification, limit: &LimitRef) -> (String, String) {
+    let h = c.headroom.iter().find(|(l, _)| l == limit).map(|(_, h)| *h);
+    let vp = c.headroom_impact_velocity();
+    let beta = c.evaluation.collision.angle.degrees();
+    match h {
+        Some(h) => (
+            h.velocity_m_s
+                .map_or("-".into(), |v| format!("{v:.0} m/s ({:+.0})", v - vp)),
+            h.angle_deg
+                .map_or("-".into(), |a| format!("{a:.2} deg ({:+.2})", a - beta)),
+        ),
+        None => ("-".into(), "-".into()),
+    }
+}
+
+/// The text report of a classification, as `oblique check` prints it: the kinematics, every
+/// limit with its margin and where it is reached, the verdict, the advice and the caution.
+#[must_use]
+pub fn classification_text(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
+    let mut s = quantities_text(window, c, is_pair);
+    s.push_str(&limits_text(window, c));
+    s.push_str(&verdict_text(window, c));
+    s
+}
+
+/// The heading and the table of derived quantities.
+fn quantities_text(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
+    let e = &c.evaluation;
+    let col = &e.collision;
+    let mut s = String::new();
+    let pair_note = if is_pair {
+        format!(" (pair window '{}')", window.name)
+    } else {
+        String::new()
+    };
+    s.push_str(&format!(
+        "{} flyer, {:.2} mm, on {} parent{}; convention {}\n\n",
+        window.flyer.material.id,
+        window.flyer_thickness.mm(),
+        window.parent.material.id,
+        pair_note,
+        col.convention
+    ));
+    let jet_note = match e.jetting.regime {
+        oblique_core::jetting::JettingRegime::SubsonicParent => {
+            "subsonic: Vc below C0 of the parent, jet at any angle"
+        }
+        oblique_core::jetting::JettingRegime::SubsonicFlyer => {
+            "subsonic: Vf below C0 of the flyer, jet at any angle"
+        }
+        oblique_core::jetting::JettingRegime::Supersonic => {
+            "supersonic inflow: shock-polar construction"
+        }
+    };
+    let rows = vec![
+        vec![
+            "impact velocity Vp".into(),
+            format!("{:.1} m/s", col.impact_velocity.si()),
+            String::new(),
+        ],
+        vec![
+            "collision angle beta".into(),
+            format!("{:.2} deg", col.angle.degrees()),
+            String::new(),
+        ],
+        vec![
+            "collision-point velocity Vc".into(),
+            format!("{:.1} m/s", col.collision_velocity.si()),
+            String::new(),
+        ],
+        vec![
+            "flow velocity Vf".into(),
+            format!("{:.1} m/s", col.flow_velocity.si()),
+            "flyer inflow, collision-point frame".into(),
+        ],
+        vec![
+            "impact pressure".into(),
+            format!("{:.2} GPa", e.impact.pressure.gpa()),
+            "1-D impedance matching at Vp".into(),
+        ],
+        vec![
+            "jetting critical angle".into(),
+            format!("{:.2} deg", e.jetting.critical_angle.degrees()),
+            jet_note.into(),
+        ],
+        vec![
+            "interface wavelength".into(),
+            format!("{:.3} mm", e.wavelength.mm()),
+            "26 h sin^2(beta/2)".into(),
+        ],
+        vec![
+            "dissipated energy".into(),
+            format!("{:.3e} J/m^2", e.dissipated_energy.si()),
+            if window.parent_thickness.is_some() {
+                "inelastic normal collision".into()
+            } else {
+                "massive parent assumed".into()
+            },
+        ],
+    ];
+    s.push_str(&table(&["quantity", "value", "note"], &rows));
+    s.push('\n');
+    s
+}
+
+/// The table of every criterion and boundary with its margin and where it is reached.
+fn limits_text(window: &PairWindow, c: &Classification) -> String {
+    let e = &c.evaluation;
+    let mut s = String::new();
+    let mut crit_rows = Vec::new();
+    for r in &e.criteria {
+        let consts = r.constants_text("=");
+        crit_rows.push(vec![
+            r.id.as_str().to_string(),
+            fmt_value(r.value, r.unit),
+            format!(
+                "{} {}",
+                if r.kind == oblique_core::LimitKind::Lower {
+                    ">="
+                } else {
+                    "<="
+                },
+                fmt_value(r.limit, r.unit)
+            ),
+            fmt_margin(r.margin, r.unit),
+            if r.informational {
+                "info".into()
+            } else if r.satisfied {
+                "yes".into()
+            } else {
+                "NO".into()
+            },
+            r.governing.as_str().into(),
+            headroom_cells(c, &LimitRef::Criterion(r.id)).0,
+            headroom_cells(c, &LimitRef::Criterion(r.id)).1,
+            consts.join(" "),
+        ]);
+    }
+    for (bi, (r, b)) in c.boundaries.iter().zip(&window.boundaries).enumerate() {
+        crit_rows.push(vec![
+            format!("boundary \"{}\"", r.label),
+            String::new(),
+            r.limit.map_or("-".into(), |l| {
+                format!(
+                    "{} {}",
+                    if matches!(
+                        b.weld_side,
+                        crate::boundary::WeldSide::Above | crate::boundary::WeldSide::Right
+                    ) {
+                        ">="
+                    } else {
+                        "<="
+                    },
+                    fmt_value(l, r.unit)
+                )
+            }),
+            r.margin
+                .map_or("outside trial data".into(), |m| fmt_margin(m, r.unit)),
+            match r.satisfied {
+                Some(true) => "yes".into(),
+                Some(false) => "NO".into(),
+                None => "n/a".into(),
+            },
+            "user".into(),
+            headroom_cells(c, &LimitRef::Boundary(bi)).0,
+            headroom_cells(c, &LimitRef::Boundary(bi)).1,
+            b.plane.as_str().into(),
+        ]);
+    }
+    s.push_str(&table(
+        &[
+            "limit",
+            "value",
+            "limit",
+            "margin",
+            "ok",
+            "governs",
+            "reached at Vp",
+            "reached at beta",
+            "constants",
+        ],
+        &crit_rows,
+    ));
+    s.push_str("  (reached at Vp: the impact velocity at this angle where the limit is reached; reached at beta: the angle at this velocity)\n");
+    s.push('\n');
+    s
+}
+
+/// The verdict, the binding and failing limits with their advice, and the caution.
+fn verdict_text(window: &PairWindow, c: &Classification) -> String {
+    let mut s = String::new();
+    let verdict = match (c.inside, c.outside_trial_data) {
+        (true, false) => "INSIDE the window",
+        (true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
+        (false, _) => "OUTSIDE the window",
+    };
+    s.push_str(&format!("verdict: {verdict}\n"));
+    if let Some(b) = &c.binding {
+        s.push_str(&format!(
+            "{}: {}: {}\n",
+            if c.inside { "closest limit" } else { "binding" },
+            limit_label(window, b),
+            limit_advice(window, c, b)
+        ));
+    }
+    for f in c.failing.iter().filter(|f| Some(*f) != c.binding.as_ref()) {
+        s.push_str(&format!(
+            "also failing: {}: {}\n",
+            limit_label(window, f),
+            limit_advice(window, c, f)
+        ));
+    }
+    if let Some(t) = crate::classify::inside_stretch_text(c) {
+        s.push_str(&format!("where the window is: {t}\n"));
+    }
+    if c.outside_trial_data {
+        s.push_str("note: the point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated\n");
+    }
+    s.push_str(CAUTION);
+    s.push('\n');
+    s
 }
