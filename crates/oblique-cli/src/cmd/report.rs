@@ -33,6 +33,8 @@ pub struct ReportArgs {
     pub convention: Option<ConventionArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,
+    // The help text names the CSV columns with their units in brackets (not doc links).
+    #[allow(rustdoc::broken_intra_doc_links)]
     /// A process curve to overlay (CSV velocity[m/s],angle[deg],label; repeatable).
     #[arg(long = "curve", value_name = "FILE.csv")]
     pub curve: Vec<PathBuf>,
