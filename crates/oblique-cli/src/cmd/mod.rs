@@ -8,3 +8,4 @@ pub mod material;
 pub mod pair;
 pub mod plot;
 pub mod report;
+pub mod shell;

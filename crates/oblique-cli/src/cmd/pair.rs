@@ -201,6 +201,9 @@ pub enum PairCommand {
         /// Print JSON.
         #[arg(long)]
         json: bool,
+        /// Print the pair names only, one per line (for scripts and shell completion).
+        #[arg(long, conflicts_with = "json")]
+        names: bool,
     },
     /// Show one pair window: materials, criteria, boundaries, observations, provenance.
     Show {
@@ -247,8 +250,16 @@ The first four columns are required; the others are optional."
 
 pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
     match c {
-        PairCommand::List { json } => {
+        PairCommand::List { json, names } => {
             let lib = load_library(dirs)?;
+            if names {
+                return emit(
+                    &lib.pairs
+                        .keys()
+                        .map(|k| format!("{k}\n"))
+                        .collect::<String>(),
+                );
+            }
             if json {
                 return emit_json(&Value::Array(
                     lib.pairs.values().map(pair_summary_json).collect(),

@@ -5,6 +5,7 @@ mod kill;
 mod pair;
 mod report;
 mod safety;
+mod shell;
 
 use std::path::Path;
 use std::process::{Command, Output};
