@@ -306,6 +306,24 @@ impl Outcome {
     pub fn parse(s: &str) -> Option<Self> {
         Self::ALL.into_iter().find(|o| o.as_str() == s)
     }
+
+    /// As [`Outcome::parse`], in any letter case and with `_` or a space for `-`
+    /// (`Welded`, `NOT_WELDED`, `not welded`), for text typed by people.
+    #[must_use]
+    pub fn parse_loose(s: &str) -> Option<Self> {
+        Self::parse(&canonical_word(s))
+    }
+}
+
+/// A word as the files store it: trimmed, lower case, `-` for `_` and spaces.
+#[must_use]
+pub fn canonical_word(s: &str) -> String {
+    s.trim()
+        .to_lowercase()
+        .split(|c: char| c == '_' || c.is_whitespace() || c == '-')
+        .filter(|p| !p.is_empty())
+        .collect::<Vec<_>>()
+        .join("-")
 }
 
 /// The process of a trial.

@@ -148,7 +148,7 @@ pub struct ObserveArgs {
     #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
     pub angle: f64,
     /// What the section or peel test showed.
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     pub outcome: OutcomeArg,
     /// Report, shot log or paper the shot comes from.
     #[arg(long, value_name = "TEXT")]
@@ -157,10 +157,10 @@ pub struct ObserveArgs {
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
     /// Process that drove the flyer.
-    #[arg(long, value_enum, default_value = "magnetic-pulse")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "magnetic-pulse")]
     pub process: ProcessArg,
     /// How velocity and angle were obtained.
-    #[arg(long, value_enum, default_value = "measured")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "measured")]
     pub method: MethodArg,
     /// Standard uncertainty of the velocity, e.g. 15m/s.
     #[arg(long = "velocity-uncertainty", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]

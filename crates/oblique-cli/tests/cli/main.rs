@@ -1,6 +1,7 @@
 //! Integration tests that run the real `oblique` binary.
 
 mod check;
+mod comfort;
 mod kill;
 mod pair;
 mod report;

@@ -190,9 +190,18 @@ pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEnt
         let entry = ObservationEntry {
             velocity: v.unwrap_or_default(),
             angle: a.unwrap_or_default(),
-            outcome: get("outcome").unwrap_or_default(),
-            process: get("process").unwrap_or_else(|| "magnetic-pulse".into()),
-            method: get("method").unwrap_or_else(|| "measured".into()),
+            // Words match in any case (`Welded`, `not_welded`) and are stored canonically.
+            outcome: get("outcome")
+                .map(|w| oblique_window::pair::canonical_word(&w))
+                .unwrap_or_default(),
+            process: get("process").map_or_else(
+                || "magnetic-pulse".into(),
+                |w| oblique_window::pair::canonical_word(&w),
+            ),
+            method: get("method").map_or_else(
+                || "measured".into(),
+                |w| oblique_window::pair::canonical_word(&w),
+            ),
             velocity_uncertainty: with_unit(
                 "velocity_uncertainty",
                 QuantityKind::Velocity,

@@ -1,0 +1,191 @@
+//! Everyday command-line comfort (issue 17): quantities typed as on paper get exact hints,
+//! words match in any case, range errors name their end, RON syntax errors point at the cause.
+
+use super::*;
+
+const TUBE: &[&str] = &[
+    "estimate",
+    "mpw-tube",
+    "--machine",
+    "harbourside-bank-300uf",
+    "--coil",
+    "harbourside-coil-42mm",
+    "--flyer",
+    "aa6061-t6",
+    "--flyer-thickness",
+    "1mm",
+    "--tube-outer-radius",
+    "20mm",
+    "--standoff",
+    "2mm",
+];
+
+fn with<'a>(base: &[&'a str], extra: &[&'a str]) -> Vec<&'a str> {
+    base.iter().chain(extra).copied().collect()
+}
+
+#[test]
+fn a_value_split_by_the_shell_gets_the_exact_hint() {
+    fails_with(
+        &with(TUBE, &["--charge-voltage", "12", "kV"]),
+        &["--charge-voltage: write 12kV without a space"],
+    );
+    // Quoted, the space is fine.
+    let o = run(&with(TUBE, &["--charge-voltage", "8 kV"]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+}
+
+#[test]
+fn a_unit_in_the_wrong_case_gets_did_you_mean() {
+    fails_with(
+        &with(TUBE, &["--charge-voltage", "8kv"]),
+        &["did you mean 8kV?"],
+    );
+    fails_with(
+        &[
+            "check",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity",
+            "400M/S",
+            "--angle",
+            "10deg",
+        ],
+        &["--velocity", "did you mean 400m/s?"],
+    );
+}
+
+#[test]
+fn range_errors_name_the_end_that_is_wrong() {
+    let sweep = [
+        "sweep",
+        "mpw-tube",
+        "--machine",
+        "harbourside-bank-300uf",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--tube-outer-radius",
+        "20mm",
+        "--steps",
+        "4",
+        "--standoff",
+        "1mm,2mm",
+        "--angle",
+        "8deg",
+        "--charge-voltage",
+    ];
+    fails_with(
+        &with(&sweep, &["6kV..18kV"]),
+        &["the range's upper end: charging voltage 18 kV exceeds"],
+    );
+    fails_with(
+        &with(&sweep, &["6kV..12"]),
+        &["the range's upper end: '12' has no unit"],
+    );
+}
+
+#[test]
+fn outcome_process_and_method_words_match_in_any_case_and_are_stored_canonically() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "w",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "w",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "Welded",
+        "--process",
+        "MAGNETIC-PULSE",
+        "--source",
+        "s",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let csv = dir.path().join("s.csv");
+    std::fs::write(
+        &csv,
+        "velocity[m/s],angle[deg],outcome,source,process\n410,11,NOT WELDED,b,Explosive\n",
+    )
+    .expect("csv");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "import",
+        "w",
+        csv.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(dir.path().join("w.ron")).expect("pair");
+    assert!(text.contains("outcome: \"welded\""), "{text}");
+    assert!(text.contains("outcome: \"not-welded\""), "{text}");
+    assert!(text.contains("process: \"explosive\""), "{text}");
+    assert!(!text.contains("Welded") && !text.contains("NOT"), "{text}");
+}
+
+#[test]
+fn a_missing_bracket_is_reported_at_its_line() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "b",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let path = dir.path().join("b.ron");
+    let text = std::fs::read_to_string(&path).expect("pair");
+    let line = text
+        .lines()
+        .position(|l| l.contains("deribas_lower: (enabled: true, k: 0.6),"))
+        .expect("the criteria line")
+        + 1;
+    std::fs::write(
+        &path,
+        text.replace(
+            "deribas_lower: (enabled: true, k: 0.6),",
+            "deribas_lower: (enabled: true, k: 0.6,",
+        ),
+    )
+    .expect("write");
+    let o = run(&["--library", lib, "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = format!("{}{}", stdout(&o), stderr(&o));
+    assert!(err.contains(&format!("b.ron:{line}:")), "{err}");
+    assert!(err.contains("never closed"), "{err}");
+    assert!(
+        err.contains(&format!(
+            "add the missing `)` before the end of line {line}"
+        )),
+        "{err}"
+    );
+}
