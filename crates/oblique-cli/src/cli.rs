@@ -50,6 +50,8 @@ pub enum Command {
     Calibrate(cmd::estimate::CalibrateArgs),
     /// Classify every point of an interface export (CSV or JSON lines): the weld map.
     Map(cmd::map::MapArgs),
+    /// Write a commented template of a machine file (bank, coil, bar coil, explosive set-up).
+    New(cmd::new::NewArgs),
     /// Print a shell completion script (bash, zsh, fish, PowerShell).
     Completions(cmd::shell::CompletionsArgs),
     /// Write the man pages (one per command and subcommand), made from the same definitions as --help.
@@ -71,6 +73,7 @@ impl Cli {
             Command::Estimate(a) => cmd::estimate::run_estimate(dirs, a),
             Command::Sweep(a) => cmd::estimate::run_sweep(dirs, a),
             Command::Calibrate(a) => cmd::estimate::run_calibrate(dirs, a),
+            Command::New(a) => cmd::new::run(dirs, a),
             Command::Completions(a) => cmd::shell::run_completions(a),
             Command::Manpage(a) => cmd::shell::run_manpage(a),
         }

@@ -440,6 +440,7 @@ enum Domain {
 }
 mod load;
 mod parse;
+pub mod template;
 
 pub use load::{
     append_calibration, append_calibration_text, builtin_text, render_calibration, Machines,

@@ -189,3 +189,51 @@ fn a_missing_bracket_is_reported_at_its_line() {
         "{err}"
     );
 }
+
+#[test]
+fn new_writes_templates_the_library_refuses_until_filled() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    for (kind, name) in [
+        ("bank", "b1"),
+        ("coil", "c1"),
+        ("bar-coil", "bc1"),
+        ("explosive", "e1"),
+    ] {
+        let o = run(&["--library", lib, "new", kind, name]);
+        assert_eq!(o.status.code(), Some(0), "{kind}: {}", stderr(&o));
+        let text = std::fs::read_to_string(dir.path().join(format!("machines/{name}.ron")))
+            .expect("template");
+        assert!(text.contains("FILL IN"), "{text}");
+    }
+    // A second time: refused, the first kept.
+    let o = run(&["--library", lib, "new", "bank", "b1"]);
+    assert_eq!(o.status.code(), Some(2));
+    // An unfilled template does not break other work, and asking for it shows its problems.
+    let tube = [
+        "--library",
+        lib,
+        "estimate",
+        "mpw-tube",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--flyer",
+        "aa6061-t6",
+        "--flyer-thickness",
+        "1mm",
+        "--tube-outer-radius",
+        "20mm",
+        "--standoff",
+        "2mm",
+        "--charge-voltage",
+        "8kV",
+        "--machine",
+    ];
+    let o = run(&with(&tube, &["harbourside-bank-300uf"]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).contains("warning: skipped"), "{}", stderr(&o));
+    fails_with(&with(&tube, &["b1"]), &["could not be loaded", "FILL IN"]);
+    let o = run(&["--library", lib, "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(format!("{}{}", stdout(&o), stderr(&o)).contains("b1.ron"));
+}

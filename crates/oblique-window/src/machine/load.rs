@@ -10,6 +10,24 @@ pub struct Machines {
     pub items: BTreeMap<String, MachineRecord>,
     /// Shadowing notes for the user.
     pub warnings: Vec<String>,
+    /// Files that could not be loaded (left out; the name they would define, from the file
+    /// name, gives their diagnostics when asked for).
+    pub problems: Vec<crate::library::FileProblem>,
+}
+
+/// Record one problem of a machine file.
+fn push_problem(
+    problems: &mut Vec<crate::library::FileProblem>,
+    display: &str,
+    stem: Option<String>,
+    d: Diagnostic,
+) {
+    problems.push(crate::library::FileProblem {
+        display: display.to_string(),
+        pair_name: stem,
+        materials: false,
+        diagnostics: Diagnostics(vec![d]),
+    });
 }
 
 fn user_machine_files(
@@ -69,6 +87,11 @@ impl Machines {
             }
         }
         for (k, (display, path, text)) in sources.into_iter().enumerate() {
+            let stem = path
+                .as_ref()
+                .and_then(|p| p.file_stem())
+                .and_then(|n| n.to_str())
+                .map(str::to_string);
             let origin = Origin {
                 display: display.clone(),
                 path: path.clone(),
@@ -114,17 +137,22 @@ impl Machines {
                                 _ => false,
                             };
                         if same_folder {
-                            problems.push(Diagnostic {
-                                file: display,
-                                line: 1,
-                                col: 1,
-                                field: "name".into(),
-                                message: format!(
-                                    "duplicate machine name '{}' (also in {})",
-                                    rec.name, old.origin.display
-                                ),
-                                hint: Some("give each machine file its own name".into()),
-                            });
+                            push_problem(
+                                &mut m.problems,
+                                &display,
+                                stem,
+                                Diagnostic {
+                                    file: display.clone(),
+                                    line: 1,
+                                    col: 1,
+                                    field: "name".into(),
+                                    message: format!(
+                                        "duplicate machine name '{}' (also in {})",
+                                        rec.name, old.origin.display
+                                    ),
+                                    hint: Some("give each machine file its own name".into()),
+                                },
+                            );
                             continue;
                         }
                         m.warnings.push(format!(
@@ -134,14 +162,19 @@ impl Machines {
                     }
                     m.items.insert(rec.name.clone(), rec);
                 }
-                Err(d) => problems.extend(d.0),
+                Err(d) => m.problems.push(crate::library::FileProblem {
+                    display: display.clone(),
+                    pair_name: stem,
+                    materials: false,
+                    diagnostics: d,
+                }),
             }
         }
-        if problems.is_empty() {
-            Ok(m)
-        } else {
-            Err(Diagnostics(problems))
+        for d in problems {
+            let display = d.file.clone();
+            push_problem(&mut m.problems, &display, None, d);
         }
+        Ok(m)
     }
 
     /// A record by name, or a message with close names.
@@ -149,6 +182,20 @@ impl Machines {
     /// # Errors
     /// A message naming close names.
     pub fn get(&self, name: &str) -> Result<&MachineRecord, String> {
+        if !self.items.contains_key(name) {
+            if let Some(p) = self
+                .problems
+                .iter()
+                .find(|p| p.pair_name.as_deref() == Some(name))
+            {
+                return Err(format!(
+                    "machine file '{name}' could not be loaded:\n{}\n{} problem(s) in {}",
+                    p.diagnostics,
+                    p.diagnostics.0.len(),
+                    p.display
+                ));
+            }
+        }
         self.items.get(name).ok_or_else(|| {
             let near = close_matches(name, self.items.keys().map(String::as_str));
             let known: Vec<&str> = self.items.keys().map(String::as_str).collect();

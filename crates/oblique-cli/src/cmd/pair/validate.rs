@@ -9,6 +9,13 @@ pub(super) fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdRe
         let lib = Library::load(&user_dirs(dirs))?;
         checked.extend(lib.files.iter().map(|f| f.display.clone()));
         problems.extend(lib.all_problems());
+        // The machine files (banks, coils, explosive set-ups) too.
+        let machines = oblique_window::machine::Machines::load(&user_dirs(dirs))?;
+        checked.extend(machines.items.values().map(|r| r.origin.display.clone()));
+        for p in &machines.problems {
+            checked.push(p.display.clone());
+            problems.extend(p.diagnostics.0.iter().cloned());
+        }
     } else {
         // Materials come from the library (which must itself load).
         let lib = Library::load(&user_dirs(dirs))?;
