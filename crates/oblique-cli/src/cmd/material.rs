@@ -61,12 +61,20 @@ pub fn run(dirs: &[PathBuf], c: MaterialCommand) -> CmdResult {
                         format!("{:.0}", m.sound_speed().si()),
                         format!("{:.0}", m.vickers_hardness.vickers()),
                         format!("{:.0}", m.tensile_strength.mpa()),
-                        format!("{:.0}", m.melting_temperature.si()),
+                        format!("{:.0}", m.melting_temperature.si() - 273.15),
                     ]
                 })
                 .collect();
             emit(&table(
-                &["id", "name", "rho kg/m3", "C0 m/s", "HV", "UTS MPa", "Tm K"],
+                &[
+                    "id",
+                    "name",
+                    "rho kg/m3",
+                    "C0 m/s",
+                    "HV",
+                    "UTS MPa",
+                    "Tm degC",
+                ],
                 &rows,
             ))
         }

@@ -237,3 +237,61 @@ fn new_writes_templates_the_library_refuses_until_filled() {
     assert_eq!(o.status.code(), Some(2));
     assert!(format!("{}{}", stdout(&o), stderr(&o)).contains("b1.ron"));
 }
+
+#[test]
+fn one_unit_and_one_word_per_thing_across_views() {
+    // The melting point in degrees Celsius in the list, as in `material show` (the files').
+    let o = run(&["material", "list"]);
+    let out = stdout(&o);
+    assert!(out.contains("Tm degC"), "{out}");
+    let cu = out
+        .lines()
+        .find(|l| l.contains("cu-c11000"))
+        .expect("copper");
+    assert!(cu.trim_end().ends_with("1065"), "{cu}");
+    // The Wittman form is the file's word in JSON, not a number.
+    let o = run(&[
+        "check",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "--json",
+    ]);
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).expect("JSON");
+    let melt = v["criteria"]
+        .as_array()
+        .expect("criteria")
+        .iter()
+        .find(|c| c["id"] == "melting-upper")
+        .expect("the melting limit");
+    assert_eq!(melt["constants"]["form"], "a");
+}
+
+#[test]
+fn json_lines_input_keeps_its_column_order_in_a_csv_map() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let input = dir.path().join("in.jsonl");
+    std::fs::write(
+        &input,
+        "{\"velocity[m/s]\":400,\"angle[deg]\":10,\"position[mm]\":0,\"zeta\":\"z\",\"alpha\":\"a\"}\n",
+    )
+    .expect("input");
+    let out = dir.path().join("m.csv");
+    let o = run(&[
+        "map",
+        input.to_str().expect("utf-8"),
+        "--pair",
+        "demo-al6061-on-cu",
+        "-o",
+        out.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let header = std::fs::read_to_string(&out).expect("map");
+    assert!(
+        header.starts_with("row,velocity[m/s],angle[deg],position[mm],zeta,alpha,"),
+        "{header}"
+    );
+}
