@@ -2,7 +2,7 @@
 
 use crate::cmd;
 use crate::fail::CmdResult;
-use clap::{Parser, Subcommand};
+use clap::{CommandFactory, Parser, Subcommand};
 use std::path::PathBuf;
 
 const AFTER_HELP: &str = "Units are required on every quantity: 350m/s, 0.35km/s, 12deg, 12°, 0.21rad, 1.5mm, 200uF, 8kV.
@@ -74,8 +74,8 @@ impl Cli {
             Command::Sweep(a) => cmd::estimate::run_sweep(dirs, a),
             Command::Calibrate(a) => cmd::estimate::run_calibrate(dirs, a),
             Command::New(a) => cmd::new::run(dirs, a),
-            Command::Completions(a) => cmd::shell::run_completions(a),
-            Command::Manpage(a) => cmd::shell::run_manpage(a),
+            Command::Completions(a) => cmd::shell::run_completions(Cli::command(), a),
+            Command::Manpage(a) => cmd::shell::run_manpage(Cli::command(), a),
         }
     }
 }

@@ -385,7 +385,7 @@ pub fn is_iso_date(s: &str) -> bool {
 /// What is wrong with a date that should be `YYYY-MM-DD` between 1900 and 2999, if anything.
 #[must_use]
 pub fn date_problem(s: &str) -> Option<String> {
-    let shown = crate::present::short(s, 40);
+    let shown = crate::text::short(s, 40);
     let b = s.as_bytes();
     if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
         return Some(format!("date '{shown}' is not written YYYY-MM-DD"));

@@ -41,6 +41,7 @@ pub mod materials;
 pub mod pair;
 pub mod present;
 pub mod ronpath;
+pub mod text;
 pub mod write;
 
 pub use agreement::{agreement, Agreement};

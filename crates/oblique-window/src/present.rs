@@ -7,6 +7,8 @@ use crate::{MaterialRecord, PairWindow};
 use oblique_core::{CriterionResult, PointEvaluation};
 use serde_json::{json, Map, Value};
 
+pub use crate::text::{short, terminal_safe, xml_safe};
+
 /// The one-line caution printed with every verdict and estimate.
 pub const CAUTION: &str = "caution: screening estimate from published relations, not a guarantee of a weld; capacitor banks store lethal energy, explosives and flying parts kill: follow local codes and licensed practice before any shot";
 
@@ -264,59 +266,6 @@ pub fn fmt_margin(v: f64, unit: &str) -> String {
     } else {
         s
     }
-}
-
-/// `s` cut to at most `max` characters for an error message, with the number left out said.
-#[must_use]
-pub fn short(s: &str, max: usize) -> String {
-    let n = s.chars().count();
-    if n <= max {
-        return s.to_string();
-    }
-    let head: String = s.chars().take(max).collect();
-    format!("{head}... ({} more characters)", n - max)
-}
-
-/// `s` made safe for a terminal: control characters other than newline and tab (escape
-/// sequences, carriage returns, form feeds, bells) are shown as `\u{..}` escapes instead of
-/// acting on the terminal.
-#[must_use]
-pub fn terminal_safe(s: &str) -> std::borrow::Cow<'_, str> {
-    if !s.chars().any(|c| c.is_control() && c != '\n' && c != '\t') {
-        return std::borrow::Cow::Borrowed(s);
-    }
-    let mut out = String::with_capacity(s.len() + 16);
-    for c in s.chars() {
-        if c.is_control() && c != '\n' && c != '\t' {
-            out.push_str(&format!("\\u{{{:x}}}", c as u32));
-        } else {
-            out.push(c);
-        }
-    }
-    std::borrow::Cow::Owned(out)
-}
-
-/// `s` made safe for XML and HTML text: characters XML 1.0 forbids (controls other than tab,
-/// newline and carriage return) become the visible Unicode control pictures (U+2400 block) or
-/// U+FFFD, so that the document stays well-formed and the reader still sees something was there.
-#[must_use]
-pub fn xml_safe(s: &str) -> std::borrow::Cow<'_, str> {
-    let bad = |c: char| c.is_control() && !matches!(c, '\n' | '\t' | '\r');
-    if !s.chars().any(bad) {
-        return std::borrow::Cow::Borrowed(s);
-    }
-    std::borrow::Cow::Owned(
-        s.chars()
-            .map(|c| match c {
-                c if (c as u32) < 0x20 && bad(c) => {
-                    char::from_u32(0x2400 + c as u32).unwrap_or('\u{fffd}')
-                }
-                '\u{7f}' => '\u{2421}',
-                c if bad(c) => '\u{fffd}',
-                c => c,
-            })
-            .collect(),
-    )
 }
 
 /// The two headroom cells of a limit: the impact velocity at this angle and the angle at this

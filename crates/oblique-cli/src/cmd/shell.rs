@@ -4,7 +4,7 @@
 use crate::common::write_output;
 use crate::fail::{CmdResult, Fail};
 use crate::output::emit;
-use clap::{Args, CommandFactory, ValueEnum};
+use clap::{Args, ValueEnum};
 use std::path::PathBuf;
 
 /// A shell to complete in.
@@ -87,9 +87,8 @@ complete -c oblique -l pair -f -a '(oblique pair list --names 2>/dev/null)'
 complete -c oblique -n '__fish_seen_subcommand_from material; and __fish_seen_subcommand_from show' -f -a '(oblique material list --ids 2>/dev/null)'
 "#;
 
-/// The completion script for `shell`.
-pub fn completion_script(shell: ShellArg) -> String {
-    let mut cmd = crate::cli::Cli::command();
+/// The completion script for `shell`, from the top-level command `cmd`.
+pub fn completion_script(mut cmd: clap::Command, shell: ShellArg) -> String {
     let mut buf = Vec::new();
     let gen = |g, buf: &mut Vec<u8>, cmd: &mut clap::Command| {
         clap_complete::generate(g, cmd, "oblique", buf);
@@ -113,9 +112,9 @@ pub fn completion_script(shell: ShellArg) -> String {
     s
 }
 
-/// Run `oblique completions`.
-pub fn run_completions(a: CompletionsArgs) -> CmdResult {
-    emit(&completion_script(a.shell))
+/// Run `oblique completions` for the top-level command `cmd`.
+pub fn run_completions(cmd: clap::Command, a: CompletionsArgs) -> CmdResult {
+    emit(&completion_script(cmd, a.shell))
 }
 
 /// Every command and subcommand with its page name (`oblique`, `oblique-check`, ...).
@@ -170,9 +169,8 @@ fn render(cmd: clap::Command) -> CmdResult<Vec<u8>> {
     Ok(buf)
 }
 
-/// Run `oblique manpage`.
-pub fn run_manpage(a: ManpageArgs) -> CmdResult {
-    let mut cmd = crate::cli::Cli::command();
+/// Run `oblique manpage` for the top-level command `cmd`.
+pub fn run_manpage(mut cmd: clap::Command, a: ManpageArgs) -> CmdResult {
     cmd.build();
     let Some(dir) = a.out else {
         let top = render(cmd)?;

@@ -257,7 +257,7 @@ pub(super) fn observations(c: &mut Collector, parsed: &PairFile) -> Vec<Observat
                     &format!("{base}.velocity"),
                     format!(
                         "velocity '{}' is above {} km/s, beyond any impact-welding process",
-                        crate::present::short(&o.velocity, 40),
+                        crate::text::short(&o.velocity, 40),
                         MAX_OBSERVED_VELOCITY_M_S / 1000.0
                     ),
                     Some("check the unit (m/s, km/s); the bound is common practice: two-stage light-gas guns reach about 8 km/s".into()),
