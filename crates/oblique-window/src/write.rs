@@ -700,6 +700,42 @@ pub fn append_observations(
     )
 }
 
+/// Render a boundary as RON text, indented for a list inside the top-level struct.
+pub fn render_boundary(b: &crate::pair::BoundaryEntry) -> String {
+    let points: Vec<String> = b
+        .points
+        .iter()
+        .map(|(v, a)| format!("({}, {})", ron_string(v), ron_string(a)))
+        .collect();
+    format!(
+        "        (\n            label: {},\n            plane: {},\n            weld_side: {},\n            points: [{}],\n            provenance: {},\n        ),\n",
+        ron_string(&b.label),
+        ron_string(&b.plane),
+        ron_string(&b.weld_side),
+        points.join(", "),
+        ron_string(&b.provenance)
+    )
+}
+
+/// Append a user boundary to the pair file at `path`, as [`append_observations`] does for
+/// shots: validated with the whole file, under the folder's lock, every other byte kept.
+///
+/// # Errors
+/// [`WriteError`]; the file is untouched on every error.
+pub fn append_boundary(
+    path: &Path,
+    entry: &crate::pair::BoundaryEntry,
+    materials: &BTreeMap<String, MaterialRecord>,
+    expected_sha256: Option<&str>,
+) -> Result<PairWindow, WriteError> {
+    update_file(
+        path,
+        expected_sha256,
+        |text| append_to_top_list(path, text, "boundaries", &render_boundary(entry)),
+        |origin, text| parse_pair_file(origin, text, materials).map(|(_, w)| w),
+    )
+}
+
 /// What a new pair window file starts with.
 #[derive(Debug, Clone)]
 pub struct NewPair<'a> {

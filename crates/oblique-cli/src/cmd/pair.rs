@@ -14,9 +14,13 @@ use oblique_window::{agreement, Library, ObservationEntry, PairWindow};
 use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 
+mod boundary;
 mod import;
 mod validate;
 mod view;
+
+use boundary::run_boundary;
+pub use boundary::BoundaryCommand;
 
 use import::import;
 use validate::validate;
@@ -238,6 +242,9 @@ The first four columns are required; the others are optional."
         #[arg(long)]
         json: bool,
     },
+    /// User boundaries: lines drawn through trials.
+    #[command(subcommand)]
+    Boundary(BoundaryCommand),
     /// Compare the window's predictions with its trial observations.
     Agreement {
         /// Pair name.
@@ -309,6 +316,7 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
         PairCommand::Observe(a) => observe(dirs, a),
         PairCommand::Import(a) => import(dirs, a),
         PairCommand::Validate { files, json } => validate(dirs, &files, json),
+        PairCommand::Boundary(c) => run_boundary(dirs, c),
         PairCommand::Agreement { name, json } => {
             let lib = load_library(dirs)?;
             let w = lib.pair(&name).map_err(Fail::input)?;
@@ -340,17 +348,101 @@ fn round_deg(d: f64) -> f64 {
 }
 
 fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdResult {
+    let verdicts = new_shot_verdicts(w, added);
     if json {
-        return emit_json(
-            &json!({"name": w.name, "file": path.display().to_string(), "added": added, "observations": w.observations.len(), "sha256": w.origin.sha256}),
-        );
+        return emit_json(&json!({
+            "name": w.name,
+            "file": path.display().to_string(),
+            "added": added,
+            "observations": w.observations.len(),
+            "sha256": w.origin.sha256,
+            "new_shots": verdicts.iter().map(|v| json!({
+                "index": v.index,
+                "observed": v.observed,
+                "predicted": v.predicted,
+                "agrees": v.agrees,
+                "misjudged_by": v.misjudged_by,
+            })).collect::<Vec<_>>(),
+        }));
     }
-    emit(&format!(
+    let mut text = format!(
         "added {added} observation(s) to '{}' ({}); it now holds {}\n",
         w.name,
         path.display(),
         w.observations.len()
-    ))
+    );
+    for v in &verdicts {
+        text.push_str(&v.line());
+    }
+    if verdicts.iter().any(|v| !v.agrees) {
+        text.push_str("  (a disagreement is evidence against the window's constants or boundaries where the shot lies; `oblique pair agreement` shows every trial)\n");
+    }
+    emit(&text)
+}
+
+/// What the window says of one newly recorded shot.
+struct ShotVerdict {
+    index: usize,
+    velocity: f64,
+    angle_deg: f64,
+    observed: &'static str,
+    predicted: &'static str,
+    agrees: bool,
+    misjudged_by: Vec<String>,
+}
+
+impl ShotVerdict {
+    fn line(&self) -> String {
+        if self.agrees {
+            format!(
+                "  shot #{} ({:.0} m/s, {:.2} deg, {}): the window agrees (predicted {})\n",
+                self.index + 1,
+                self.velocity,
+                self.angle_deg,
+                self.observed,
+                self.predicted
+            )
+        } else {
+            format!(
+                "  shot #{} ({:.0} m/s, {:.2} deg, {}): the window DISAGREES: it predicts {}, misjudged by {}\n",
+                self.index + 1,
+                self.velocity,
+                self.angle_deg,
+                self.observed,
+                self.predicted,
+                self.misjudged_by.join(", ")
+            )
+        }
+    }
+}
+
+/// The window's verdict on the last `added` observations (those just recorded).
+fn new_shot_verdicts(w: &PairWindow, added: usize) -> Vec<ShotVerdict> {
+    let Ok(agr) = agreement(w) else {
+        return Vec::new();
+    };
+    let Ok(setup) = w.setup() else {
+        return Vec::new();
+    };
+    let first = w.observations.len().saturating_sub(added);
+    w.observations[first..]
+        .iter()
+        .filter_map(|o| {
+            let col =
+                oblique_core::Collision::from_impact(w.convention, o.velocity, o.angle).ok()?;
+            let c = oblique_window::classify::classify(w, &setup, &col).ok()?;
+            let dis = agr.disagreements.iter().find(|d| d.index == o.index);
+            Some(ShotVerdict {
+                index: o.index,
+                velocity: o.velocity.si(),
+                angle_deg: o.angle.degrees(),
+                observed: o.outcome.as_str(),
+                predicted: c.prediction.as_str(),
+                agrees: dis.is_none(),
+                misjudged_by: dis.map(|d| d.misjudged_by.clone()).unwrap_or_default(),
+            })
+        })
+        .collect()
 }
 
 fn new_pair(dirs: &[PathBuf], a: NewArgs) -> CmdResult {

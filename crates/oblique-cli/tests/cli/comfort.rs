@@ -295,3 +295,109 @@ fn json_lines_input_keeps_its_column_order_in_a_csv_map() {
         "{header}"
     );
 }
+
+#[test]
+fn a_boundary_is_added_from_the_command_line_and_every_new_shot_says_if_the_window_agrees() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "bd",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let before = std::fs::read_to_string(dir.path().join("bd.ron")).expect("pair");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "boundary",
+        "add",
+        "bd",
+        "--label",
+        "lowest welding velocity",
+        "--plane",
+        "angle-impact-velocity",
+        "--point",
+        "330m/s,5deg",
+        "--point",
+        "310m/s,15deg",
+        "--weld-side",
+        "right",
+        "--provenance",
+        "drawn by hand (test)",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let after = std::fs::read_to_string(dir.path().join("bd.ron")).expect("pair");
+    assert!(
+        after.contains("label: \"lowest welding velocity\""),
+        "{after}"
+    );
+    let head = &before[..before.find("boundaries: [").expect("list")];
+    assert!(after.starts_with(head), "bytes before the list changed");
+    // Shots: one the window agrees with, one it does not.
+    let observe = |v: &str, outcome: &str| {
+        run(&[
+            "--library",
+            lib,
+            "pair",
+            "observe",
+            "bd",
+            "--velocity",
+            v,
+            "--angle",
+            "10deg",
+            "--outcome",
+            outcome,
+            "--source",
+            "s",
+        ])
+    };
+    let o = observe("400m/s", "welded");
+    assert!(
+        stdout(&o).contains("the window agrees (predicted welded)"),
+        "{}",
+        stdout(&o)
+    );
+    let o = observe("300m/s", "welded");
+    assert!(
+        stdout(&o).contains("DISAGREES: it predicts not-welded"),
+        "{}",
+        stdout(&o)
+    );
+    assert!(
+        stdout(&o).contains("lowest welding velocity"),
+        "{}",
+        stdout(&o)
+    );
+    // Fewer than two points is refused.
+    fails_with(
+        &[
+            "--library",
+            lib,
+            "pair",
+            "boundary",
+            "add",
+            "bd",
+            "--label",
+            "x",
+            "--plane",
+            "angle-impact-velocity",
+            "--point",
+            "330m/s,5deg",
+            "--weld-side",
+            "right",
+            "--provenance",
+            "p",
+        ],
+        &["at least two points"],
+    );
+}
