@@ -2,10 +2,14 @@
 
 use crate::cmd;
 use crate::fail::CmdResult;
-use clap::{Parser, Subcommand};
+use clap::{CommandFactory, Parser, Subcommand};
 use std::path::PathBuf;
 
 const AFTER_HELP: &str = "Units are required on every quantity: 350m/s, 0.35km/s, 12deg, 12°, 0.21rad, 1.5mm, 200uF, 8kV.
+Exit status: 0 the command ran (a verdict of OUTSIDE is still 0); 2 bad input (a flag, a file
+line, a CSV row: the message names it); 1 anything else (a file that cannot be written, ...).
+A closed output pipe (| head) is a normal end. '-' means standard input or output where a file
+is read or written.
 Results are screening estimates, not guarantees. Pulsed-power banks store lethal energy and
 explosives kill: follow local codes and licensed practice before any shot.";
 
@@ -46,6 +50,12 @@ pub enum Command {
     Calibrate(cmd::estimate::CalibrateArgs),
     /// Classify every point of an interface export (CSV or JSON lines): the weld map.
     Map(cmd::map::MapArgs),
+    /// Write a commented template of a machine file (bank, coil, bar coil, explosive set-up).
+    New(cmd::new::NewArgs),
+    /// Print a shell completion script (bash, zsh, fish, PowerShell).
+    Completions(cmd::shell::CompletionsArgs),
+    /// Write the man pages (one per command and subcommand), made from the same definitions as --help.
+    Manpage(cmd::shell::ManpageArgs),
 }
 
 impl Cli {
@@ -63,6 +73,9 @@ impl Cli {
             Command::Estimate(a) => cmd::estimate::run_estimate(dirs, a),
             Command::Sweep(a) => cmd::estimate::run_sweep(dirs, a),
             Command::Calibrate(a) => cmd::estimate::run_calibrate(dirs, a),
+            Command::New(a) => cmd::new::run(dirs, a),
+            Command::Completions(a) => cmd::shell::run_completions(Cli::command(), a),
+            Command::Manpage(a) => cmd::shell::run_manpage(Cli::command(), a),
         }
     }
 }

@@ -33,7 +33,10 @@ pub fn load_library(cli_dirs: &[PathBuf]) -> CmdResult<Library> {
 pub fn load_machines(cli_dirs: &[PathBuf]) -> CmdResult<Machines> {
     let machines = Machines::load(&user_dirs(cli_dirs))?;
     for w in &machines.warnings {
-        eprintln!("warning: {w}");
+        eprintln!("warning: {}", crate::fail::for_terminal(w));
+    }
+    for p in &machines.problems {
+        eprintln!("warning: {}", crate::fail::for_terminal(&p.summary()));
     }
     Ok(machines)
 }

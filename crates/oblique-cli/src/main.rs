@@ -18,9 +18,32 @@ use clap::Parser;
 use std::process::ExitCode;
 
 fn main() -> ExitCode {
-    let args = cli::Cli::parse();
+    let argv: Vec<std::ffi::OsString> = std::env::args_os().collect();
+    if let Some(hint) = split_quantity(&argv) {
+        return fail::Fail::input(hint).report();
+    }
+    let args = cli::Cli::parse_from(argv);
     match args.run() {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) => e.report(),
     }
+}
+
+/// A value the shell split at its space (`--charge-voltage 12 kV` arrives as `12` and `kV`):
+/// the message that says how to write it, naming the flag.
+fn split_quantity(argv: &[std::ffi::OsString]) -> Option<String> {
+    let words: Vec<&str> = argv.iter().map(|a| a.to_str().unwrap_or("")).collect();
+    for i in 2..words.len() {
+        let (flag, number, unit) = (words[i - 2], words[i - 1], words[i]);
+        let numeric = number
+            .rsplit("..")
+            .next()
+            .is_some_and(|n| n.parse::<f64>().is_ok());
+        if flag.starts_with("--") && numeric && oblique_core::units::is_unit_token(unit) {
+            return Some(format!(
+                "{flag}: write {number}{unit} without a space (the shell passed '{number}' and '{unit}' as two arguments), or quote it: {flag} '{number} {unit}'"
+            ));
+        }
+    }
+    None
 }

@@ -748,6 +748,22 @@ fn a_broken_machine_file_is_reported_with_its_place() {
     let mut args = vec!["--library", &lib];
     args.extend(TUBE);
     args.extend(["--standoff", "2mm", "--charge-voltage", "8kV"]);
+    // A command that does not need the broken file warns once (with its first problem and
+    // place) and carries on.
+    let o = run(&args);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).contains("broken-bank.ron:15:"), "{}", stderr(&o));
+    // The command that needs it fails with every problem.
+    let args: Vec<&str> = args
+        .iter()
+        .map(|a| {
+            if *a == "harbourside-bank-300uf" {
+                "broken-bank"
+            } else {
+                *a
+            }
+        })
+        .collect();
     let o = run(&args);
     let err = stderr(&o);
     assert_eq!(o.status.code(), Some(2), "{err}");

@@ -3,6 +3,10 @@
 
 #[path = "../../../examples/check_point.rs"]
 mod check_point;
+#[path = "../../../examples/classify_interface.rs"]
+mod classify_interface;
+#[path = "../../../examples/estimate_setup.rs"]
+mod estimate_setup;
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
@@ -33,6 +37,16 @@ fn p(path: &Path) -> &str {
 #[test]
 fn example_check_point_runs() {
     check_point::main();
+}
+
+#[test]
+fn example_classify_interface_runs() {
+    classify_interface::main();
+}
+
+#[test]
+fn example_estimate_setup_runs() {
+    estimate_setup::main();
 }
 
 #[test]

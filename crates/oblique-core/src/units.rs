@@ -482,7 +482,7 @@ pub enum UnitError {
     },
     /// A unit that does not belong to the expected kind.
     #[error(
-        "unknown unit '{unit}' in '{input}': expected {kind} with one of the units {accepted}"
+        "unknown unit '{unit}' in '{input}': expected {kind} with one of the units {accepted}{hint}"
     )]
     UnknownUnit {
         /// The offending text.
@@ -493,6 +493,9 @@ pub enum UnitError {
         kind: &'static str,
         /// The accepted units.
         accepted: String,
+        /// "; did you mean 12kV?" when the unit differs from an accepted one only in case or
+        /// by a common spelling, else empty.
+        hint: String,
     },
     /// NaN, infinity, or a number too large to represent.
     #[error("'{input}' is not a finite number")]
@@ -501,6 +504,70 @@ pub enum UnitError {
         input: String,
     },
 }
+
+/// An accepted unit of `kind` that `unit` was probably meant to be: the same letters in another
+/// case (`kv` -> `kV`, `MM` -> `mm`) when exactly one unit matches, or a common spelling
+/// (`m/sec`, `degrees`, `microfarad`, `kilovolt`, ...).
+#[must_use]
+pub fn suggest_unit(kind: QuantityKind, unit: &str) -> Option<&'static str> {
+    let units = kind.units();
+    let lower = unit.to_lowercase();
+    let same_case: Vec<&'static str> = units
+        .iter()
+        .map(|d| d.symbol)
+        .filter(|s| !s.is_empty() && s.to_lowercase() == lower)
+        .collect();
+    if same_case.len() == 1 {
+        return Some(same_case[0]);
+    }
+    let alias = match lower.as_str() {
+        "m/sec" | "mps" | "m s-1" | "m.s-1" => "m/s",
+        "km/sec" => "km/s",
+        "degree" | "degrees" | "deg." | "grad" => "deg",
+        "radian" | "radians" => "rad",
+        "millimetre" | "millimeter" | "millimetres" | "millimeters" => "mm",
+        "microfarad" | "microfarads" | "µf" => "uF",
+        "kilovolt" | "kilovolts" => "kV",
+        "volt" | "volts" => "V",
+        "kilojoule" | "kilojoules" => "kJ",
+        "nanohenry" | "nanohenries" => "nH",
+        _ => return None,
+    };
+    units.iter().map(|d| d.symbol).find(|s| *s == alias)
+}
+
+/// Whether `token` is, alone, a unit of some quantity kind (`kV`, `m/s`, `deg`): the second
+/// half of a value the shell split at a space (`12 kV`).
+#[must_use]
+pub fn is_unit_token(token: &str) -> bool {
+    !token.is_empty()
+        && ALL_KINDS
+            .iter()
+            .any(|k| k.units().iter().any(|d| d.symbol == token))
+}
+
+/// Every kind, for lookups over all units.
+const ALL_KINDS: [QuantityKind; 19] = [
+    QuantityKind::Velocity,
+    QuantityKind::Angle,
+    QuantityKind::Length,
+    QuantityKind::Pressure,
+    QuantityKind::Hardness,
+    QuantityKind::Density,
+    QuantityKind::Temperature,
+    QuantityKind::ThermalConductivity,
+    QuantityKind::SpecificHeat,
+    QuantityKind::ElectricalConductivity,
+    QuantityKind::Capacitance,
+    QuantityKind::Voltage,
+    QuantityKind::Inductance,
+    QuantityKind::Resistance,
+    QuantityKind::Energy,
+    QuantityKind::Time,
+    QuantityKind::Frequency,
+    QuantityKind::Current,
+    QuantityKind::Dimensionless,
+];
 
 /// Parse user text such as `350m/s`, `0.35 km/s`, `12°` or `2.7 g/cm3` into the SI value of
 /// the given kind. A bare number is an error unless the kind is [`QuantityKind::Dimensionless`].
@@ -561,11 +628,15 @@ pub fn parse_quantity(input: &str, kind: QuantityKind) -> Result<f64, UnitError>
         });
     }
     let Some(def) = kind.units().iter().find(|d| d.symbol == unit) else {
+        let hint = suggest_unit(kind, unit)
+            .map(|u| format!("; did you mean {number}{u}?"))
+            .unwrap_or_default();
         return Err(UnitError::UnknownUnit {
             input: text.to_string(),
             unit: unit.to_string(),
             kind: kind.describe(),
             accepted: kind.accepted_units(),
+            hint,
         });
     };
     let si = value * def.scale + def.offset;

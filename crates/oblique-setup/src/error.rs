@@ -130,6 +130,24 @@ impl SetupError {
         }
     }
 
+    /// The same error with `prefix` put before its message (after the field name).
+    #[must_use]
+    pub(crate) fn with_prefix(self, prefix: &str) -> Self {
+        match self {
+            SetupError::Invalid { field, message } => {
+                let rest = message
+                    .strip_prefix(&format!("{field}: "))
+                    .unwrap_or(&message)
+                    .to_string();
+                SetupError::Invalid {
+                    field,
+                    message: format!("{field}: {prefix}{rest}"),
+                }
+            }
+            other => other,
+        }
+    }
+
     /// A charging voltage above the bank's rating, naming the field and the rating's origin.
     /// The voltage is shown with as many digits as it takes to differ from the rating (never
     /// "12 kV exceeds 12 kV").

@@ -59,7 +59,8 @@ fn grid(s: &str, kind: QuantityKind, allow_zero: bool) -> Result<Grid, String> {
         }
     };
     if let Some((a, b)) = s.split_once("..") {
-        let (a, b) = (one(a)?, one(b)?);
+        let a = one(a).map_err(|m| format!("the range's lower end: {m}"))?;
+        let b = one(b).map_err(|m| format!("the range's upper end: {m}"))?;
         if !(b > a) {
             return Err(format!(
                 "range '{s}' must go from the smaller to the larger value"

@@ -199,8 +199,20 @@ fn grid_values(
     } else {
         field::CHARGE_VOLTAGE
     };
-    for u in &voltages {
-        bank.check_rating(*u, charge_field)?;
+    // A range is checked at its ends first, so a message names the end that is wrong (the
+    // upper end of 6kV..18kV), not the first grid value above the rating.
+    let highest = voltages.iter().copied().fold(f64::NAN, f64::max);
+    if let Err(e) = bank.check_rating(highest, charge_field) {
+        let is_range = matches!(
+            &c.charge,
+            ChargeGrid::Voltages(crate::grid::Grid::Range(..))
+                | ChargeGrid::Energies(crate::grid::Grid::Range(..))
+        );
+        return Err(if is_range {
+            e.with_prefix("the range's upper end: ")
+        } else {
+            e
+        });
     }
     let standoffs = c
         .standoffs

@@ -214,6 +214,27 @@ pub(crate) fn from_ron(file: &str, text: &str, err: &ron::error::SpannedError) -
             search = &text[..pos];
         }
     }
+    // The usual cause of a confusing message (a field "unknown" in the struct before it, an
+    // unexpected character) is a bracket left open on an earlier line: point there.
+    let here = offset_of(text, line, col).min(text.len());
+    if let Some((ch, l, c)) = unclosed_before(text, here) {
+        if l < line {
+            return Diagnostic {
+                file: file.to_string(),
+                line: l,
+                col: c,
+                field: String::new(),
+                message: format!(
+                    "this `{ch}` is never closed: the reader went on past the end of its line and then failed at line {line}, column {col} ({})",
+                    lowercase_first(&message)
+                ),
+                hint: Some(format!(
+                    "add the missing `{}` before the end of line {l}",
+                    closer(ch)
+                )),
+            };
+        }
+    }
     Diagnostic {
         file: file.to_string(),
         line,
@@ -222,6 +243,85 @@ pub(crate) fn from_ron(file: &str, text: &str, err: &ron::error::SpannedError) -
         message: lowercase_first(&message),
         hint,
     }
+}
+
+fn closer(open: char) -> char {
+    match open {
+        '(' => ')',
+        '[' => ']',
+        _ => '}',
+    }
+}
+
+/// The innermost bracket still open at byte `upto` whose own line ends as a complete item
+/// would (with `,` or its last value), while the brackets opened on later lines all closed: the
+/// likely place of a missing closing bracket. Strings, raw strings and comments are skipped.
+fn unclosed_before(text: &str, upto: usize) -> Option<(char, usize, usize)> {
+    let b = text.as_bytes();
+    let mut stack: Vec<(char, usize, usize)> = Vec::new(); // (bracket, byte, line)
+    let (mut i, mut line) = (0usize, 1usize);
+    while i < upto.min(b.len()) {
+        match b[i] {
+            b'\n' => line += 1,
+            b'"' => {
+                i += 1;
+                while i < b.len() && b[i] != b'"' {
+                    if b[i] == b'\\' {
+                        i += 1;
+                    } else if b[i] == b'\n' {
+                        line += 1;
+                    }
+                    i += 1;
+                }
+            }
+            b'/' if b.get(i + 1) == Some(&b'/') => {
+                while i < b.len() && b[i] != b'\n' {
+                    i += 1;
+                }
+                continue;
+            }
+            b'/' if b.get(i + 1) == Some(&b'*') => {
+                let mut depth = 0;
+                while i < b.len() {
+                    if b[i] == b'/' && b.get(i + 1) == Some(&b'*') {
+                        depth += 1;
+                        i += 2;
+                        continue;
+                    }
+                    if b[i] == b'*' && b.get(i + 1) == Some(&b'/') {
+                        depth -= 1;
+                        i += 2;
+                        if depth == 0 {
+                            break;
+                        }
+                        continue;
+                    }
+                    if b[i] == b'\n' {
+                        line += 1;
+                    }
+                    i += 1;
+                }
+                continue;
+            }
+            c @ (b'(' | b'[' | b'{') => stack.push((c as char, i, line)),
+            b')' | b']' | b'}' => {
+                stack.pop();
+            }
+            _ => {}
+        }
+        i += 1;
+    }
+    let &(ch, at, l) = stack.last()?;
+    // Only a bracket whose line holds more after it and ends like a finished item.
+    let line_end = text[at..].find('\n').map_or(text.len(), |e| at + e);
+    let rest = text[at + 1..line_end].trim_end();
+    let rest = rest.split("//").next().unwrap_or(rest).trim_end();
+    if rest.is_empty() || !(rest.ends_with(',') || rest.ends_with('"')) {
+        return None;
+    }
+    let line_start = text[..at].rfind('\n').map_or(0, |p| p + 1);
+    let col = text[line_start..at].chars().count() + 1;
+    Some((ch, l, col))
 }
 
 fn lowercase_first(s: &str) -> String {
@@ -285,7 +385,7 @@ pub fn is_iso_date(s: &str) -> bool {
 /// What is wrong with a date that should be `YYYY-MM-DD` between 1900 and 2999, if anything.
 #[must_use]
 pub fn date_problem(s: &str) -> Option<String> {
-    let shown = crate::present::short(s, 40);
+    let shown = crate::text::short(s, 40);
     let b = s.as_bytes();
     if b.len() != 10 || b[4] != b'-' || b[7] != b'-' {
         return Some(format!("date '{shown}' is not written YYYY-MM-DD"));

@@ -25,6 +25,11 @@ pub struct SourcedValue {
     /// Free note: conversion, stand-in, formula.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub note: Option<String>,
+    /// The value's standard uncertainty (one standard deviation), relative (`"5 %"`) or with
+    /// the property's unit (`"0.1 km/s"`): for example the spread between published tables.
+    /// Absent: the documented default of the property is used where uncertainty is sampled.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub spread: Option<String>,
 }
 
 /// A revision note.
@@ -104,6 +109,9 @@ pub struct Provenance {
     pub note: Option<String>,
     /// The value as written in the file.
     pub as_written: String,
+    /// The relative standard uncertainty (a fraction, 0.05 for 5 %) from the file's `spread`,
+    /// if given.
+    pub relative_spread: Option<f64>,
 }
 
 /// A loaded material: the core's physics view plus where each number came from.
@@ -218,7 +226,12 @@ pub(crate) fn validate_entries(
         let mut provenance = BTreeMap::new();
         for (k, ((name, kind), sv)) in PROPERTIES.iter().zip(e.values()).enumerate() {
             let field = format!("{base}.{name}.value");
-            match c.quantity(&field, &sv.value, *kind) {
+            let value = c.quantity(&field, &sv.value, *kind);
+            let relative_spread = sv
+                .spread
+                .as_deref()
+                .and_then(|sp| parse_spread(c, &format!("{base}.{name}.spread"), sp, *kind, value));
+            match value {
                 Some(v) => {
                     let (lo, hi, words) = plausible(name);
                     if !(v >= lo && v <= hi) {
@@ -245,6 +258,7 @@ pub(crate) fn validate_entries(
                             reference: reference.clone(),
                             note: sv.note.clone(),
                             as_written: sv.value.clone(),
+                            relative_spread,
                         },
                     );
                 }
@@ -345,6 +359,44 @@ pub fn parse_material_file(
     Ok((parsed, records))
 }
 
+/// A property's `spread`: `"5 %"` (relative) or a value with the property's unit, as a
+/// relative standard uncertainty between 0 and 1 (a problem is recorded otherwise).
+fn parse_spread(
+    c: &mut Collector,
+    field: &str,
+    text: &str,
+    kind: QuantityKind,
+    value: Option<f64>,
+) -> Option<f64> {
+    let t = text.trim();
+    let rel = if let Some(p) = t.strip_suffix('%') {
+        match p.trim().parse::<f64>() {
+            Ok(v) if v.is_finite() => v / 100.0,
+            _ => {
+                c.push(
+                    field,
+                    format!("spread '{text}' is not a percentage"),
+                    Some("write it like \"5 %\" or with the property's unit".into()),
+                );
+                return None;
+            }
+        }
+    } else {
+        let abs = c.quantity(field, text, kind)?;
+        let v = value?;
+        abs / v
+    };
+    if !(0.0..=1.0).contains(&rel) {
+        c.push(
+            field,
+            format!("spread '{text}' must lie between 0 and 100 % of the value"),
+            None,
+        );
+        return None;
+    }
+    Some(rel)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -408,5 +460,25 @@ mod tests {
             Some("did you mean `condition`?"),
             "{err}"
         );
+    }
+
+    #[test]
+    fn spreads_parse_relative_and_absolute_and_refuse_nonsense() {
+        let text = |spread: &str| {
+            GOOD.replace(
+                "density: (value: \"2700 kg/m3\", source: \"T\")",
+                &format!("density: (value: \"2700 kg/m3\", source: \"T\", spread: {spread})"),
+            )
+        };
+        let (_, recs) = parse_material_file("m.ron", &text("\"5 %\"")).expect("5 %");
+        let p = &recs[0].sources["density"];
+        assert!((p.relative_spread.expect("spread") - 0.05).abs() < 1e-12);
+        let (_, recs) = parse_material_file("m.ron", &text("\"27 kg/m3\"")).expect("absolute");
+        let rel = recs[0].sources["density"].relative_spread.expect("spread");
+        assert!((rel - 0.01).abs() < 1e-9, "{rel}");
+        assert!(recs[0].sources["hugoniot_c0"].relative_spread.is_none());
+        for bad in ["\"150 %\"", "\"-1 %\"", "\"x %\"", "\"5 m/s\""] {
+            assert!(parse_material_file("m.ron", &text(bad)).is_err(), "{bad}");
+        }
     }
 }

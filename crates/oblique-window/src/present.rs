@@ -2,10 +2,12 @@
 //! materials, criteria and classifications (SI values, keys with unit suffixes), plain text
 //! tables and numbers in their criterion's unit. Pure functions: nothing here writes anywhere.
 
-use crate::classify::{limit_label, Classification};
+use crate::classify::{limit_advice, limit_label, Classification, LimitRef};
 use crate::{MaterialRecord, PairWindow};
 use oblique_core::{CriterionResult, PointEvaluation};
 use serde_json::{json, Map, Value};
+
+pub use crate::text::{short, terminal_safe, xml_safe};
 
 /// The one-line caution printed with every verdict and estimate.
 pub const CAUTION: &str = "caution: screening estimate from published relations, not a guarantee of a weld; capacitor banks store lethal energy, explosives and flying parts kill: follow local codes and licensed practice before any shot";
@@ -79,7 +81,15 @@ pub fn criterion_json(c: &CriterionResult, binding: bool) -> Value {
     let constants: Map<String, Value> = c
         .constants
         .iter()
-        .map(|(k, v)| ((*k).to_string(), sig(*v)))
+        .map(|(k, v)| {
+            // The Wittman form is a word in the pair file ("a"/"b"), and a word here too.
+            let value = if *k == "form" {
+                json!(if *v < 1.5 { "a" } else { "b" })
+            } else {
+                sig(*v)
+            };
+            ((*k).to_string(), value)
+        })
         .collect();
     json!({
         "id": c.id.as_str(),
@@ -283,55 +293,224 @@ pub fn fmt_margin(v: f64, unit: &str) -> String {
     }
 }
 
-/// `s` cut to at most `max` characters for an error message, with the number left out said.
-#[must_use]
-pub fn short(s: &str, max: usize) -> String {
-    let n = s.chars().count();
-    if n <= max {
-        return s.to_string();
-    }
-    let head: String = s.chars().take(max).collect();
-    format!("{head}... ({} more characters)", n - max)
-}
-
-/// `s` made safe for a terminal: control characters other than newline and tab (escape
-/// sequences, carriage returns, form feeds, bells) are shown as `\u{..}` escapes instead of
-/// acting on the terminal.
-#[must_use]
-pub fn terminal_safe(s: &str) -> std::borrow::Cow<'_, str> {
-    if !s.chars().any(|c| c.is_control() && c != '\n' && c != '\t') {
-        return std::borrow::Cow::Borrowed(s);
-    }
-    let mut out = String::with_capacity(s.len() + 16);
-    for c in s.chars() {
-        if c.is_control() && c != '\n' && c != '\t' {
-            out.push_str(&format!("\\u{{{:x}}}", c as u32));
-        } else {
-            out.push(c);
-        }
-    }
-    std::borrow::Cow::Owned(out)
-}
-
-/// `s` made safe for XML and HTML text: characters XML 1.0 forbids (controls other than tab,
-/// newline and carriage return) become the visible Unicode control pictures (U+2400 block) or
-/// U+FFFD, so that the document stays well-formed and the reader still sees something was there.
-#[must_use]
-pub fn xml_safe(s: &str) -> std::borrow::Cow<'_, str> {
-    let bad = |c: char| c.is_control() && !matches!(c, '\n' | '\t' | '\r');
-    if !s.chars().any(bad) {
-        return std::borrow::Cow::Borrowed(s);
-    }
-    std::borrow::Cow::Owned(
-        s.chars()
-            .map(|c| match c {
-                c if (c as u32) < 0x20 && bad(c) => {
-                    char::from_u32(0x2400 + c as u32).unwrap_or('\u{fffd}')
-                }
-                '\u{7f}' => '\u{2421}',
-                c if bad(c) => '\u{fffd}',
-                c => c,
-            })
-            .collect(),
+/// The two headroom cells of a limit: where it is reached along the impact velocity at this
+/// angle and along the angle at this impact velocity, with the change (rounded to the safe side,
+/// `crate::margin`).
+fn headroom_cells(window: &PairWindow, c: &Classification, limit: &LimitRef) -> (String, String) {
+    (
+        crate::margin::velocity_headroom(window, c, limit).map_or("-".into(), |x| x.cell()),
+        crate::margin::angle_headroom(window, c, limit).map_or("-".into(), |x| x.cell()),
     )
+}
+
+/// The text report of a classification, as `oblique check` prints it: the kinematics, every
+/// limit with its margin and where it is reached, the verdict, the advice and the caution.
+#[must_use]
+pub fn classification_text(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
+    let mut s = quantities_text(window, c, is_pair);
+    s.push_str(&limits_text(window, c));
+    s.push_str(&verdict_text(window, c));
+    s
+}
+
+/// The heading and the table of derived quantities.
+fn quantities_text(window: &PairWindow, c: &Classification, is_pair: bool) -> String {
+    let e = &c.evaluation;
+    let col = &e.collision;
+    let mut s = String::new();
+    let pair_note = if is_pair {
+        format!(" (pair window '{}')", window.name)
+    } else {
+        String::new()
+    };
+    s.push_str(&format!(
+        "{} flyer, {:.2} mm, on {} parent{}; convention {}\n\n",
+        window.flyer.material.id,
+        window.flyer_thickness.mm(),
+        window.parent.material.id,
+        pair_note,
+        col.convention
+    ));
+    let jet_note = match e.jetting.regime {
+        oblique_core::jetting::JettingRegime::SubsonicParent => {
+            "subsonic: Vc below C0 of the parent, jet at any angle"
+        }
+        oblique_core::jetting::JettingRegime::SubsonicFlyer => {
+            "subsonic: Vf below C0 of the flyer, jet at any angle"
+        }
+        oblique_core::jetting::JettingRegime::Supersonic => {
+            "supersonic inflow: shock-polar construction"
+        }
+    };
+    let rows = vec![
+        vec![
+            "impact velocity Vp".into(),
+            format!("{:.1} m/s", col.impact_velocity.si()),
+            String::new(),
+        ],
+        vec![
+            "collision angle beta".into(),
+            format!("{:.2} deg", col.angle.degrees()),
+            String::new(),
+        ],
+        vec![
+            "collision-point velocity Vc".into(),
+            format!("{:.1} m/s", col.collision_velocity.si()),
+            String::new(),
+        ],
+        vec![
+            "flow velocity Vf".into(),
+            format!("{:.1} m/s", col.flow_velocity.si()),
+            "flyer inflow, collision-point frame".into(),
+        ],
+        vec![
+            "impact pressure".into(),
+            format!("{:.2} GPa", e.impact.pressure.gpa()),
+            "1-D impedance matching at Vp".into(),
+        ],
+        vec![
+            "jetting critical angle".into(),
+            format!("{:.2} deg", e.jetting.critical_angle.degrees()),
+            jet_note.into(),
+        ],
+        vec![
+            "interface wavelength".into(),
+            format!("{:.3} mm", e.wavelength.mm()),
+            "26 h sin^2(beta/2)".into(),
+        ],
+        vec![
+            "dissipated energy".into(),
+            format!("{:.3e} J/m^2", e.dissipated_energy.si()),
+            if window.parent_thickness.is_some() {
+                "inelastic normal collision".into()
+            } else {
+                "massive parent assumed".into()
+            },
+        ],
+    ];
+    s.push_str(&table(&["quantity", "value", "note"], &rows));
+    s.push('\n');
+    s
+}
+
+/// The table of every criterion and boundary with its margin and where it is reached.
+fn limits_text(window: &PairWindow, c: &Classification) -> String {
+    let e = &c.evaluation;
+    let mut s = String::new();
+    let mut crit_rows = Vec::new();
+    for r in &e.criteria {
+        let consts = r.constants_text("=");
+        crit_rows.push(vec![
+            r.id.as_str().to_string(),
+            fmt_value(r.value, r.unit),
+            format!(
+                "{} {}",
+                if r.kind == oblique_core::LimitKind::Lower {
+                    ">="
+                } else {
+                    "<="
+                },
+                fmt_value(r.limit, r.unit)
+            ),
+            fmt_margin(r.margin, r.unit),
+            if r.informational {
+                "info".into()
+            } else if r.satisfied {
+                "yes".into()
+            } else {
+                "NO".into()
+            },
+            r.governing.as_str().into(),
+            headroom_cells(window, c, &LimitRef::Criterion(r.id)).0,
+            headroom_cells(window, c, &LimitRef::Criterion(r.id)).1,
+            consts.join(" "),
+        ]);
+    }
+    for (bi, (r, b)) in c.boundaries.iter().zip(&window.boundaries).enumerate() {
+        crit_rows.push(vec![
+            format!("boundary \"{}\"", r.label),
+            String::new(),
+            r.limit.map_or("-".into(), |l| {
+                format!(
+                    "{} {}",
+                    if matches!(
+                        b.weld_side,
+                        crate::boundary::WeldSide::Above | crate::boundary::WeldSide::Right
+                    ) {
+                        ">="
+                    } else {
+                        "<="
+                    },
+                    fmt_value(l, r.unit)
+                )
+            }),
+            r.margin
+                .map_or("outside trial data".into(), |m| fmt_margin(m, r.unit)),
+            match r.satisfied {
+                Some(true) => "yes".into(),
+                Some(false) => "NO".into(),
+                None => "n/a".into(),
+            },
+            "user".into(),
+            headroom_cells(window, c, &LimitRef::Boundary(bi)).0,
+            headroom_cells(window, c, &LimitRef::Boundary(bi)).1,
+            b.plane.as_str().into(),
+        ]);
+    }
+    s.push_str(&table(
+        &[
+            "limit",
+            "value",
+            "limit",
+            "margin at this point",
+            "ok",
+            "governs",
+            "velocity headroom",
+            "angle headroom",
+            "constants",
+        ],
+        &crit_rows,
+    ));
+    s.push_str("  (velocity headroom: where the limit is reached along the impact velocity at this angle, and the change from the point; angle headroom: the same along the angle at this velocity; margin at this point: value - limit at this Vc)\n");
+    s.push_str(&format!("  ({})\n", crate::margin::ROUNDING_RULE));
+    s.push('\n');
+    s
+}
+
+/// The verdict, the binding and failing limits with their advice, and the caution.
+fn verdict_text(window: &PairWindow, c: &Classification) -> String {
+    let mut s = String::new();
+    let verdict = match (c.inside, c.outside_trial_data) {
+        (true, false) => "INSIDE the window",
+        (true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
+        (false, _) => "OUTSIDE the window",
+    };
+    s.push_str(&format!("verdict: {verdict}\n"));
+    if c.inside {
+        if let Some(v) = crate::margin::verdict_velocity_headroom(window, c) {
+            s.push_str(&format!("{}\n", v.sentence()));
+        }
+    } else if let Some(b) = &c.binding {
+        s.push_str(&format!(
+            "binding: {}: {}\n",
+            limit_label(window, b),
+            limit_advice(window, c, b)
+        ));
+    }
+    for f in c.failing.iter().filter(|f| Some(*f) != c.binding.as_ref()) {
+        s.push_str(&format!(
+            "also failing: {}: {}\n",
+            limit_label(window, f),
+            limit_advice(window, c, f)
+        ));
+    }
+    if let Some(t) = crate::classify::inside_stretch_text(c) {
+        s.push_str(&format!("where the window is: {t}\n"));
+    }
+    if c.outside_trial_data {
+        s.push_str("note: the point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated\n");
+    }
+    s.push_str(CAUTION);
+    s.push('\n');
+    s
 }

@@ -15,6 +15,9 @@ pub enum MaterialCommand {
         /// Print JSON.
         #[arg(long)]
         json: bool,
+        /// Print the ids only, one per line (for scripts and shell completion).
+        #[arg(long, conflicts_with = "json")]
+        ids: bool,
     },
     /// Show one material with every property and its source.
     Show {
@@ -29,7 +32,15 @@ pub enum MaterialCommand {
 pub fn run(dirs: &[PathBuf], c: MaterialCommand) -> CmdResult {
     let lib = load_library(dirs)?;
     match c {
-        MaterialCommand::List { json } => {
+        MaterialCommand::List { json, ids } => {
+            if ids {
+                return emit(
+                    &lib.materials
+                        .keys()
+                        .map(|k| format!("{k}\n"))
+                        .collect::<String>(),
+                );
+            }
             if json {
                 let v: Vec<serde_json::Value> = lib
                     .materials
@@ -50,12 +61,20 @@ pub fn run(dirs: &[PathBuf], c: MaterialCommand) -> CmdResult {
                         format!("{:.0}", m.sound_speed().si()),
                         format!("{:.0}", m.vickers_hardness.vickers()),
                         format!("{:.0}", m.tensile_strength.mpa()),
-                        format!("{:.0}", m.melting_temperature.si()),
+                        format!("{:.0}", m.melting_temperature.si() - 273.15),
                     ]
                 })
                 .collect();
             emit(&table(
-                &["id", "name", "rho kg/m3", "C0 m/s", "HV", "UTS MPa", "Tm K"],
+                &[
+                    "id",
+                    "name",
+                    "rho kg/m3",
+                    "C0 m/s",
+                    "HV",
+                    "UTS MPa",
+                    "Tm degC",
+                ],
                 &rows,
             ))
         }

@@ -5,6 +5,8 @@ pub mod demo;
 pub mod estimate;
 pub mod map;
 pub mod material;
+pub mod new;
 pub mod pair;
 pub mod plot;
 pub mod report;
+pub mod shell;

@@ -169,6 +169,8 @@ pub struct RecordArgs {
     /// Who checked the record.
     #[arg(long = "checked-by", value_name = "NAME")]
     pub checked_by: Option<String>,
+    // The help text names the CSV columns with their units in brackets (not doc links).
+    #[allow(rustdoc::broken_intra_doc_links)]
     /// A process curve to overlay (CSV velocity[m/s],angle[deg],label; repeatable).
     #[arg(long = "curve", value_name = "FILE.csv")]
     pub curve: Vec<PathBuf>,

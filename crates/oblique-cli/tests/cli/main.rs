@@ -1,11 +1,13 @@
 //! Integration tests that run the real `oblique` binary.
 
 mod check;
+mod comfort;
 mod kill;
 mod pair;
 mod record;
 mod report;
 mod safety;
+mod shell;
 
 use std::path::Path;
 use std::process::{Command, Output};

@@ -771,3 +771,142 @@ fn non_utf8_pass_through_cells_are_kept_in_csv_and_counted_in_json() {
         "{all}"
     );
 }
+
+#[cfg(unix)]
+#[test]
+fn every_output_writer_writes_through_a_link_and_keeps_it() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let real = tempfile::tempdir().expect("target dir");
+    let link = |name: &str| {
+        let target = real.path().join(name);
+        std::fs::write(&target, "old").expect("target");
+        let l = dir.path().join(name);
+        std::os::unix::fs::symlink(&target, &l).expect("symlink");
+        (l, target)
+    };
+    let (plot, plot_t) = link("w.svg");
+    let (report, report_t) = link("r.html");
+    let (sweep, sweep_t) = link("s.svg");
+    let (history, history_t) = link("h.csv");
+    let p = |x: &Path| x.to_str().expect("utf-8").to_string();
+    let commands: Vec<Vec<String>> = vec![
+        [
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--point",
+            "450m/s,10deg",
+            "-o",
+            &p(&plot),
+        ]
+        .map(String::from)
+        .to_vec(),
+        [
+            "report",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity",
+            "450m/s",
+            "--angle",
+            "10deg",
+            "-o",
+            &p(&report),
+        ]
+        .map(String::from)
+        .to_vec(),
+        [
+            "sweep",
+            "mpw-tube",
+            "--machine",
+            "harbourside-bank-300uf",
+            "--coil",
+            "harbourside-coil-42mm",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--tube-outer-radius",
+            "20mm",
+            "--charge-voltage",
+            "6kV..10kV",
+            "--steps",
+            "3",
+            "--standoff",
+            "1mm,2mm",
+            "--angle",
+            "8deg",
+            "--plot",
+            &p(&sweep),
+        ]
+        .map(String::from)
+        .to_vec(),
+        [
+            "estimate",
+            "mpw-tube",
+            "--machine",
+            "harbourside-bank-300uf",
+            "--coil",
+            "harbourside-coil-42mm",
+            "--flyer",
+            "aa6061-t6",
+            "--flyer-thickness",
+            "1mm",
+            "--tube-outer-radius",
+            "20mm",
+            "--standoff",
+            "2mm",
+            "--charge-voltage",
+            "8kV",
+            "--history",
+            &p(&history),
+        ]
+        .map(String::from)
+        .to_vec(),
+    ];
+    for args in &commands {
+        let a: Vec<&str> = args.iter().map(String::as_str).collect();
+        let o = run(&a);
+        assert_eq!(o.status.code(), Some(0), "{a:?}: {}", stderr(&o));
+    }
+    for (l, t) in [
+        (plot, plot_t),
+        (report, report_t),
+        (sweep, sweep_t),
+        (history, history_t),
+    ] {
+        assert!(
+            std::fs::symlink_metadata(&l)
+                .expect("meta")
+                .file_type()
+                .is_symlink(),
+            "{} is no longer a link",
+            l.display()
+        );
+        assert_ne!(
+            std::fs::read(&t).expect("target"),
+            b"old",
+            "{} not written",
+            t.display()
+        );
+    }
+}
+
+#[test]
+fn a_huge_cell_is_not_echoed_whole() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let input = dir.path().join("big.csv");
+    let cell = "x".repeat(10_000_000);
+    std::fs::write(
+        &input,
+        format!("position[mm],velocity[m/s],angle[deg]\n0,{cell},10\n"),
+    )
+    .expect("input");
+    let o = run(&[
+        "map",
+        input.to_str().expect("utf-8"),
+        "--pair",
+        "demo-al6061-on-cu",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(err.len() < 5_000, "{} bytes of message", err.len());
+    assert!(err.contains("velocity"), "{}", &err[..err.len().min(500)]);
+}

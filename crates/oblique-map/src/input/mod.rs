@@ -138,8 +138,31 @@ fn json_header_keys(
         ))
     })?;
     Ok((
-        obj.keys().cloned().collect(),
+        keys_in_order(&first).unwrap_or_else(|| obj.keys().cloned().collect()),
         1 + comment_lines,
         comment_lines,
     ))
+}
+
+/// The keys of a JSON object line in the order they are written (the parsed map sorts them),
+/// so that a CSV map made from JSON lines keeps the input's column order.
+fn keys_in_order(line: &[u8]) -> Option<Vec<String>> {
+    use serde::de::{Deserializer, IgnoredAny, MapAccess, Visitor};
+    struct Keys;
+    impl<'de> Visitor<'de> for Keys {
+        type Value = Vec<String>;
+        fn expecting(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+            f.write_str("a JSON object")
+        }
+        fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Vec<String>, A::Error> {
+            let mut keys = Vec::new();
+            while let Some(k) = map.next_key::<String>()? {
+                map.next_value::<IgnoredAny>()?;
+                keys.push(k);
+            }
+            Ok(keys)
+        }
+    }
+    let mut de = serde_json::Deserializer::from_slice(line);
+    de.deserialize_map(Keys).ok()
 }

@@ -12,7 +12,7 @@ use oblique_setup::calibrate::{
 };
 use oblique_setup::present::{calibration_json, calibration_text, ring_down_json, ring_down_text};
 use oblique_setup::{calibrate, CalibrationRequest, Charge, MagneticRequest, RingDownRequest};
-use oblique_window::machine::{builtin_text, Machines};
+use oblique_window::machine::builtin_text;
 use std::path::PathBuf;
 
 /// `oblique calibrate mpw-tube`.
@@ -90,7 +90,7 @@ fn save_bank(
             "--save-as needs a library folder: give --library DIR (or set OBLIQUE_LIBRARY)",
         ));
     };
-    let machines = Machines::load(&folders)?;
+    let machines = crate::common::load_machines(dirs)?;
     if let Some(w) = new_bank_conflict(&machines, name)? {
         eprintln!("warning: {w}");
     }
@@ -115,7 +115,7 @@ fn save_bank(
 
 /// `oblique calibrate export NAME`.
 pub fn run_export(dirs: &[PathBuf], name: &str) -> CmdResult {
-    let machines = Machines::load(&user_dirs(dirs))?;
+    let machines = crate::common::load_machines(dirs)?;
     let rec = machines.get(name).map_err(Fail::input)?;
     match &rec.origin.path {
         Some(p) => {
