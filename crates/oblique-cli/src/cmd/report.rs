@@ -146,6 +146,8 @@ pub struct SettingArgs {
 /// What the record holds besides the set-up: alternatives, people, output.
 #[derive(Debug, Args)]
 pub struct RecordArgs {
+    // The help text shows the syntax with its optional parts in brackets (not doc links).
+    #[allow(rustdoc::broken_intra_doc_links)]
     /// Another set-up considered: '[LABEL:] key=value, ...[, because=TEXT]' with the keys
     /// charge-voltage, energy, standoff, angle, efficiency (magnetic pulse); gurney-velocity,
     /// detonation-velocity, mass-ratio, charge-ratio, preset-angle (explosive); velocity,
