@@ -265,6 +265,27 @@ fn demo_writes_plots_and_report_and_names_the_paths() {
             && s.contains("C not chosen"),
         "{s}"
     );
+    // Every citation key the record uses is in its reference list (the JSON twin's references).
+    let refs = v["references"].as_object().unwrap();
+    let mut rest = html.as_str();
+    let mut n = 0;
+    while let Some(i) = rest.find('[') {
+        rest = &rest[i + 1..];
+        let Some(j) = rest.find(']') else { break };
+        let key = &rest[..j];
+        let shaped = !key.is_empty()
+            && key.len() <= 16
+            && key.chars().all(|c| c.is_ascii_alphanumeric() || c == '-')
+            && !key.chars().all(|c| c.is_ascii_digit());
+        if shaped && key != "deg" {
+            assert!(
+                refs.contains_key(key),
+                "[{key}] is cited but not in the references"
+            );
+            n += 1;
+        }
+    }
+    assert!(n > 20, "only {n} citations");
 }
 
 /// Renders the demo report in headless Chromium (Debian's `chromium`, installed by .ci/run):
