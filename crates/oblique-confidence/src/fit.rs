@@ -1,0 +1,1 @@
+//! Fitting (to come).

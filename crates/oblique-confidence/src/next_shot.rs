@@ -1,0 +1,1 @@
+//! Next shots (to come).
