@@ -24,8 +24,8 @@ use oblique_core::units::{
 use oblique_core::{Collision, CriterionId, Material, WittmanForm};
 use oblique_window::boundary::{interpolate, Plane, WeldSide};
 use oblique_window::PairWindow;
-use rand::{RngExt, SeedableRng};
-use rand_chacha::ChaCha8Rng;
+use rand::RngExt;
+use rand_pcg::Pcg64;
 use rand_distr::StandardNormal;
 use std::sync::atomic::{AtomicUsize, Ordering};
 
@@ -35,6 +35,10 @@ pub const BLOCK: usize = 1024;
 /// Bins per input for the sensitivity estimate (equal probability under the input's standard
 /// normal variate).
 pub const BINS: usize = 16;
+/// The sensitivity shares use the samples of the first this many blocks (32 768 samples: the
+/// shares' sampling noise is then below 0.01, and binning every sample would cost a third of
+/// the run).
+pub const SENSITIVITY_BLOCKS: usize = 32;
 
 /// A decisive limit of the window: a criterion or a user boundary.
 #[derive(Debug, Clone, PartialEq)]
@@ -138,14 +142,14 @@ pub struct Engine<'w> {
     pub limits: Vec<Limit>,
     velocity_input: Option<usize>,
     angle_input: Option<usize>,
+    #[cfg_attr(not(test), allow(dead_code))]
     constant_inputs: [Option<usize>; 4],
-    property_inputs: [[Option<usize>; 11]; 2],
     nominal_properties: [[f64; 11]; 2],
     nominal_constants: [f64; 4],
     flyer_thickness: oblique_core::units::Length,
     form: WittmanForm,
     criterion_on: [bool; 5],
-    jet: Option<JettingModel>,
+    jet: Option<std::sync::Arc<JettingModel>>,
     boundaries: Vec<LeanBoundary>,
     thresholds: [f64; BINS],
     scratch: Scratch,
@@ -173,7 +177,6 @@ impl<'w> Engine<'w> {
         let mut velocity_input = None;
         let mut angle_input = None;
         let mut constant_inputs = [None; 4];
-        let mut property_inputs = [[None; 11]; 2];
         for (i, input) in inputs.iter().enumerate() {
             match input.kind {
                 InputKind::Velocity => velocity_input = Some(i),
@@ -184,14 +187,7 @@ impl<'w> Engine<'w> {
                         .position(|c| *c == constant)
                         .unwrap_or(0)] = Some(i);
                 }
-                InputKind::Property { plate, index } => match plate {
-                    Plate::Flyer => property_inputs[0][index] = Some(i),
-                    Plate::Parent => property_inputs[1][index] = Some(i),
-                    Plate::Both => {
-                        property_inputs[0][index] = Some(i);
-                        property_inputs[1][index] = Some(i);
-                    }
-                },
+                InputKind::Property { .. } => {}
             }
         }
         let criterion_on = DECISIVE.map(|id| inputs::enabled(window, id));
@@ -216,7 +212,7 @@ impl<'w> Engine<'w> {
             })
             .collect();
         let jet = if window.criteria.jetting_enabled {
-            Some(JettingModel::new(
+            Some(JettingModel::shared(
                 window.flyer.material.hugoniot,
                 window.parent.material.hugoniot,
                 scatter.model,
@@ -235,7 +231,6 @@ impl<'w> Engine<'w> {
             velocity_input,
             angle_input,
             constant_inputs,
-            property_inputs,
             nominal_properties: [
                 inputs::property_values(&window.flyer.material),
                 inputs::property_values(&window.parent.material),
@@ -267,7 +262,7 @@ impl<'w> Engine<'w> {
         }
     }
 
-    #[inline]
+    #[cfg(test)]
     fn value(&self, input: Option<usize>, z: &[f64], nominal: f64) -> f64 {
         match input {
             Some(i) => self.inputs[i].distribution.value(z[i]),
@@ -278,17 +273,28 @@ impl<'w> Engine<'w> {
     /// The model draw for the standard normal variates `z` (one per input), written through
     /// `scratch` (whose materials then hold the sampled values).
     pub(crate) fn draw(&self, z: &[f64], scratch: &mut Scratch) -> ModelDraw {
-        for (plate, m) in [&mut scratch.flyer, &mut scratch.parent]
-            .into_iter()
-            .enumerate()
-        {
-            let v: [f64; 11] = std::array::from_fn(|k| {
-                self.value(
-                    self.property_inputs[plate][k],
-                    z,
-                    self.nominal_properties[plate][k],
-                )
-            });
+        let mut props = self.nominal_properties;
+        let mut c = self.nominal_constants;
+        for (input, zi) in self.inputs.iter().zip(z) {
+            match input.kind {
+                InputKind::Property { plate, index } => {
+                    let v = input.distribution.value(*zi);
+                    match plate {
+                        Plate::Flyer => props[0][index] = v,
+                        Plate::Parent => props[1][index] = v,
+                        Plate::Both => {
+                            props[0][index] = v;
+                            props[1][index] = v;
+                        }
+                    }
+                }
+                InputKind::Constant { constant } => {
+                    c[constant as usize] = input.distribution.value(*zi);
+                }
+                InputKind::Velocity | InputKind::Angle => {}
+            }
+        }
+        for (m, v) in [&mut scratch.flyer, &mut scratch.parent].into_iter().zip(&props) {
             m.hugoniot = Hugoniot {
                 density: Density::from_kg_m3(v[0]),
                 c0: Velocity::from_m_s(v[1]),
@@ -303,9 +309,6 @@ impl<'w> Engine<'w> {
             m.thermal_conductivity = ThermalConductivity::from_w_m_k(v[9]);
             m.specific_heat = SpecificHeat::from_j_kg_k(v[10]);
         }
-        let c: [f64; 4] = std::array::from_fn(|i| {
-            self.value(self.constant_inputs[i], z, self.nominal_constants[i])
-        });
         let (f, p) = (&scratch.flyer, &scratch.parent);
         // The same functions and the same products as evaluate_with_jetting; the max and min
         // over the plates commute with the later division by the same positive Vc.
@@ -410,24 +413,26 @@ impl<'w> Engine<'w> {
         })
     }
 
+    /// The bin of a standard normal variate: the number of thresholds below it, counted
+    /// without branches (random variates defeat branch prediction).
     #[inline]
     fn bin(&self, z: f64) -> usize {
-        let t = &self.thresholds;
-        let mut b = 0;
-        for step in [8, 4, 2, 1] {
-            if z > t[b + step] {
-                b += step;
-            }
-        }
-        b
+        self.thresholds[1..]
+            .iter()
+            .map(|t| usize::from(z > *t))
+            .sum()
     }
 
-    /// The standard normal variates of one block's samples, in order (each sample draws one
-    /// per input).
-    fn block_rng(seed: u64, block: usize) -> ChaCha8Rng {
-        let mut rng = ChaCha8Rng::seed_from_u64(seed);
-        rng.set_stream(block as u64);
-        rng
+    /// The random stream of one block: PCG-64 (O'Neill 2014, as implemented by `rand_pcg`)
+    /// with the seed as its state and the block index as its stream, so every block has its
+    /// own sequence and the result does not depend on which thread runs it.
+    fn block_rng(seed: u64, block: usize) -> Pcg64 {
+        // Spread the seed over the 128-bit state (SplitMix64 finaliser, Steele et al. 2014).
+        let mut x = seed.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        x = (x ^ (x >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        x = (x ^ (x >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        x ^= x >> 31;
+        Pcg64::new((u128::from(x) << 64) | u128::from(seed), block as u128)
     }
 
     /// The velocity (as given) and angle (rad) of a sample around `point`.
@@ -487,10 +492,19 @@ impl<'w> Engine<'w> {
                         }
                     };
                     tally.inside += u64::from(inside);
-                    for (i, zi) in z.iter().enumerate() {
-                        let k = i * BINS + self.bin(*zi);
-                        tally.bin_n[k] += 1;
-                        tally.bin_inside[k] += u64::from(inside);
+                    if b >= SENSITIVITY_BLOCKS {
+                        continue;
+                    }
+                    let y = u64::from(inside);
+                    for ((n, yin), zi) in tally
+                        .bin_n
+                        .chunks_exact_mut(BINS)
+                        .zip(tally.bin_inside.chunks_exact_mut(BINS))
+                        .zip(&z)
+                    {
+                        let b = self.bin(*zi);
+                        n[b] += 1;
+                        yin[b] += y;
                     }
                 }
             }

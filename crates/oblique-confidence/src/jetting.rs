@@ -89,7 +89,46 @@ pub struct JettingModel {
     cross: Option<[JettingTable; 3]>,
 }
 
+/// Models already built in this process, by the bits of the two Hugoniots and whether the
+/// correction tables exist: the lazy tables keep the nodes they solved, so a second evaluation
+/// of the same pair (a sweep, a plot after a check, a benchmark) does not solve them again.
+static MODELS: std::sync::Mutex<Vec<([u64; 7], std::sync::Arc<JettingModel>)>> =
+    std::sync::Mutex::new(Vec::new());
+/// The most models kept.
+const MAX_CACHED: usize = 8;
+
 impl JettingModel {
+    /// The model for `flyer` on `parent`, from this process's cache when it was built before
+    /// (see [`JettingModel::new`]).
+    ///
+    /// # Errors
+    /// As [`JettingModel::new`].
+    pub fn shared(
+        flyer: Hugoniot,
+        parent: Hugoniot,
+        perturbed: bool,
+    ) -> Result<std::sync::Arc<Self>, PhysicsError> {
+        let key = [
+            flyer.density.si().to_bits(),
+            flyer.c0.si().to_bits(),
+            flyer.s.to_bits(),
+            parent.density.si().to_bits(),
+            parent.c0.si().to_bits(),
+            parent.s.to_bits(),
+            u64::from(perturbed),
+        ];
+        let mut cache = MODELS.lock().unwrap_or_else(std::sync::PoisonError::into_inner);
+        if let Some((_, m)) = cache.iter().find(|(k, _)| *k == key) {
+            return Ok(m.clone());
+        }
+        let m = std::sync::Arc::new(Self::new(flyer, parent, perturbed)?);
+        if cache.len() >= MAX_CACHED {
+            cache.remove(0);
+        }
+        cache.push((key, m.clone()));
+        Ok(m)
+    }
+
     /// The model for `flyer` on `parent`; `perturbed` builds the correction tables too (lazy:
     /// each node is solved when a lookup first needs it).
     ///
