@@ -236,27 +236,32 @@ fn doubt_sentence(
         InputKind::Property { .. } => format!("a measured value for the actual stock (the batch certificate, a hardness or tensile test) would narrow it ({})", input.label),
         InputKind::Constant { constant } => {
             let h = reached(constant.criterion());
-            match constant {
-                Constant::WittmanN | Constant::HelMultiple => match h.and_then(|h| h.velocity_m_s) {
-                    Some(v) => format!(
-                        "a {} shot near {} m/s at {} deg (where the {} limit lies) would narrow it",
-                        if constant == Constant::WittmanN { "melted or welded" } else { "welded or not-welded" },
-                        num(v),
-                        num(beta),
-                        if constant == Constant::WittmanN { "melting" } else { "pressure" },
-                    ),
-                    None => "trials at the edge of its limit would narrow it".into(),
-                },
-                Constant::DeribasK | Constant::JettingFactor => match h.and_then(|h| h.angle_deg) {
-                    Some(a) => format!(
-                        "a shot near {} deg at {} m/s (where the {} limit lies) would narrow it",
-                        num(a),
-                        num(point.velocity_m_s()),
-                        if constant == Constant::DeribasK { "Deribas" } else { "jetting" },
-                    ),
-                    None => "trials at the edge of its limit would narrow it".into(),
-                },
-            }
+            let limit = match constant {
+                Constant::DeribasK => "Deribas",
+                Constant::WittmanN => "melting",
+                Constant::HelMultiple => "pressure",
+                Constant::JettingFactor => "jetting",
+            };
+            let outcome = if constant == Constant::WittmanN {
+                "melted-or-welded"
+            } else {
+                "welded-or-not"
+            };
+            let by_velocity = h.and_then(|h| h.velocity_m_s).map(|v| {
+                format!("a {outcome} shot near {v:.0} m/s at {beta:.1} deg (where the {limit} limit lies at this angle) would narrow it")
+            });
+            let by_angle = h.and_then(|h| h.angle_deg).map(|a| {
+                format!("a {outcome} shot near {a:.1} deg at {:.0} m/s (where the {limit} limit lies at this velocity) would narrow it", point.velocity_m_s())
+            });
+            let prefer_velocity = matches!(constant, Constant::WittmanN | Constant::HelMultiple);
+            let (first, second) = if prefer_velocity {
+                (by_velocity, by_angle)
+            } else {
+                (by_angle, by_velocity)
+            };
+            first
+                .or(second)
+                .unwrap_or_else(|| format!("trials at the edge of the {limit} limit would narrow it"))
         }
     };
     let who = match input.kind {
@@ -349,9 +354,10 @@ impl WeldProbability {
             }
         }
         s.push_str(&format!("  {}\n", self.doubt));
-        s.push_str("  not covered: ");
-        s.push_str(&self.not_covered.join("; "));
-        s.push('\n');
+        s.push_str("  not covered by this probability:\n");
+        for n in &self.not_covered {
+            s.push_str(&format!("    - {n}\n"));
+        }
         s.push_str(&format!("  {}\n", self.caution));
         s
     }
