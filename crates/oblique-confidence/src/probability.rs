@@ -4,7 +4,7 @@
 use crate::engine::{Engine, Limit, Tally, BINS};
 use crate::error::ConfidenceResult;
 use crate::inputs::{Input, InputKind};
-use crate::present::{num, percent, CAUTION};
+use crate::present::{percent, CAUTION};
 use crate::priors::Constant;
 use crate::scatter::{Point, Sampling, Scatter};
 use oblique_core::CriterionId;
