@@ -134,7 +134,7 @@ pub struct FitResult {
 /// What a limit's margin is at an observation, and its slopes along velocity (per m/s) and
 /// angle (per deg).
 #[derive(Debug, Clone, Copy, Default)]
-struct Slope {
+pub(crate) struct Slope {
     value: f64,
     dv: f64,
     db: f64,
@@ -142,22 +142,22 @@ struct Slope {
 
 /// The terms of one observation that do not depend on the constants.
 #[derive(Debug, Clone)]
-struct Terms {
-    outcome: Outcome,
-    v: f64,
-    beta_deg: f64,
-    sd_v: f64,
-    sd_b: f64,
+pub(crate) struct Terms {
+    pub(crate) outcome: Outcome,
+    pub(crate) v: f64,
+    pub(crate) beta_deg: f64,
+    pub(crate) sd_v: f64,
+    pub(crate) sd_b: f64,
     /// Deribas angle per unit k (deg).
-    deribas: Option<Slope>,
+    pub(crate) deribas: Option<Slope>,
     /// Strength floor (m/s).
-    strength: Option<f64>,
+    pub(crate) strength: Option<f64>,
     /// Impact pressure over the larger HEL.
-    pressure: Option<Slope>,
+    pub(crate) pressure: Option<Slope>,
     /// Melting velocity for N = 1 (m/s).
-    melting: Option<Slope>,
+    pub(crate) melting: Option<Slope>,
     /// Jetting critical angle (deg).
-    jetting: Option<Slope>,
+    pub(crate) jetting: Option<Slope>,
 }
 
 /// The log-likelihood model of a window's trials.
@@ -208,6 +208,168 @@ fn phi_pair(z: f64) -> (f64, f64) {
     }
 }
 
+/// What the terms of a point need from the window: the plates' coefficients with the
+/// constants set to 1.
+#[derive(Debug, Clone)]
+pub(crate) struct TermBuilder<'w> {
+    window: &'w PairWindow,
+    setup: oblique_core::PairSetup,
+    d_coef: f64,
+    s_floor: f64,
+    hel: f64,
+    m_coef: f64,
+}
+
+impl<'w> TermBuilder<'w> {
+    pub(crate) fn new(window: &'w PairWindow) -> ConfidenceResult<Self> {
+        let setup = window.setup()?;
+        let (f, p) = (&setup.flyer, &setup.parent);
+        let h = window.flyer_thickness;
+        let form = window.criteria.wittman_form;
+        Ok(Self {
+            d_coef: deribas_coefficient(f, 1.0).max(deribas_coefficient(p, 1.0)),
+            s_floor: strength_velocity(f).max(strength_velocity(p)),
+            hel: f
+                .hugoniot_elastic_limit()
+                .si()
+                .max(p.hugoniot_elastic_limit().si()),
+            m_coef: melting_coefficient(f, h, 1.0, form).min(melting_coefficient(p, h, 1.0, form)),
+            window,
+            setup,
+        })
+    }
+
+    /// The terms of a shot at `v` (m/s, the window's convention) and `b` (deg) with standard
+    /// uncertainties `sd_v` (m/s) and `sd_b` (deg), floored.
+    pub(crate) fn terms(
+        &self,
+        outcome: Outcome,
+        v: f64,
+        b: f64,
+        sd_v: f64,
+        sd_b: f64,
+    ) -> ConfidenceResult<Terms> {
+        let window = self.window;
+        let (f, p) = (&self.setup.flyer, &self.setup.parent);
+        let form = window.criteria.wittman_form;
+        let on = |id| enabled(window, id);
+        let at = |v: f64, b_deg: f64| {
+            Collision::from_impact(
+                window.convention,
+                Velocity::from_m_s(v),
+                Angle::from_degrees(b_deg),
+            )
+        };
+        let sd_v = sd_v.max(priors::FLOOR_VELOCITY_RELATIVE * v);
+        let sd_b = sd_b.max(priors::FLOOR_ANGLE_DEG);
+        // Central differences, kept inside (0, 90) deg.
+        let dv = 1e-3 * v;
+        let db = 1e-3f64.min(0.5 * b).min(0.5 * (90.0 - b));
+        let slope = |q: &dyn Fn(f64, f64) -> ConfidenceResult<f64>| -> ConfidenceResult<Slope> {
+            Ok(Slope {
+                value: q(v, b)?,
+                dv: (q(v + dv, b)? - q(v - dv, b)?) / (2.0 * dv),
+                db: (q(v, b + db)? - q(v, b - db)?) / (2.0 * db),
+            })
+        };
+        let (d_coef, hel, m_coef) = (self.d_coef, self.hel, self.m_coef);
+        let deribas = if on(CriterionId::DeribasLower) {
+            Some(slope(&|v, b| {
+                Ok((d_coef / at(v, b)?.collision_velocity.si()).to_degrees())
+            })?)
+        } else {
+            None
+        };
+        let pressure = if on(CriterionId::PressureLower) {
+            Some(slope(&|v, _| {
+                Ok(impedance_match(&f.hugoniot, &p.hugoniot, Velocity::from_m_s(v))?
+                    .pressure
+                    .si()
+                    / hel)
+            })?)
+        } else {
+            None
+        };
+        let melting = if on(CriterionId::MeltingUpper) {
+            Some(slope(&|v, b| {
+                Ok(m_coef / melting_divisor(at(v, b)?.collision_velocity.si(), form))
+            })?)
+        } else {
+            None
+        };
+        let jetting = if on(CriterionId::Jetting) {
+            Some(slope(&|v, b| {
+                let c = at(v, b)?;
+                Ok(critical_angle(
+                    &f.hugoniot,
+                    &p.hugoniot,
+                    c.flow_velocity,
+                    c.collision_velocity,
+                )?
+                .critical_angle
+                .degrees())
+            })?)
+        } else {
+            None
+        };
+        Ok(Terms {
+            outcome,
+            v,
+            beta_deg: b,
+            sd_v,
+            sd_b,
+            deribas,
+            strength: on(CriterionId::StrengthLower).then_some(self.s_floor),
+            pressure,
+            melting,
+            jetting,
+        })
+    }
+}
+
+/// The probabilities of a shot's outcomes under constants c = [k, N, m]: P_L (every lower
+/// limit holds), 1 - P_L, P_M (the ceiling holds), 1 - P_M, each without cancellation.
+#[inline]
+pub(crate) fn outcome_terms(t: &Terms, c: &[f64; 3]) -> (f64, f64, f64, f64) {
+    let [k, n, m] = *c;
+    let z = |margin: f64, dv: f64, db: f64| {
+        let sd = ((dv * t.sd_v).powi(2) + (db * t.sd_b).powi(2)).sqrt();
+        if sd > 0.0 {
+            margin / sd
+        } else if margin >= 0.0 {
+            f64::INFINITY
+        } else {
+            f64::NEG_INFINITY
+        }
+    };
+    // P_L = prod (1 - q_j), and 1 - P_L = sum_j q_j prod_{i<j} (1 - q_i), which has no
+    // cancellation when every q_j is small.
+    let mut p_lower = 1.0;
+    let mut q_lower = 0.0;
+    let mut add = |zz: f64| {
+        let (p, q) = phi_pair(zz);
+        q_lower += q * p_lower;
+        p_lower *= p;
+    };
+    if let Some(d) = t.deribas {
+        add(z(t.beta_deg - k * d.value, -k * d.dv, 1.0 - k * d.db));
+    }
+    if let Some(s) = t.strength {
+        add(z(t.v - s, 1.0, 0.0));
+    }
+    if let Some(pr) = t.pressure {
+        add(z(pr.value - m, pr.dv, pr.db));
+    }
+    if let Some(j) = t.jetting {
+        add(z(t.beta_deg - j.value, -j.dv, 1.0 - j.db));
+    }
+    let (p_melt, q_melt) = match t.melting {
+        Some(me) => phi_pair(z(me.value / n - t.v, me.dv / n - 1.0, me.db / n)),
+        None => (1.0, 0.0),
+    };
+    (p_lower, q_lower, p_melt, q_melt)
+}
+
 impl Likelihood {
     /// The model for `window`'s observations.
     ///
@@ -234,100 +396,19 @@ impl Likelihood {
                 ),
             });
         }
-        let setup = window.setup()?;
-        let (f, p) = (&setup.flyer, &setup.parent);
-        let h = window.flyer_thickness;
-        let form = window.criteria.wittman_form;
-        let d_coef = deribas_coefficient(f, 1.0).max(deribas_coefficient(p, 1.0));
-        let s_floor = strength_velocity(f).max(strength_velocity(p));
-        let hel = f
-            .hugoniot_elastic_limit()
-            .si()
-            .max(p.hugoniot_elastic_limit().si());
-        let m_coef = melting_coefficient(f, h, 1.0, form).min(melting_coefficient(p, h, 1.0, form));
-        let on = |id| enabled(window, id);
-        let at = |v: f64, b_deg: f64| {
-            Collision::from_impact(
-                window.convention,
-                Velocity::from_m_s(v),
-                Angle::from_degrees(b_deg),
-            )
-        };
+        let builder = TermBuilder::new(window)?;
         let mut terms = Vec::with_capacity(window.observations.len());
         for o in &window.observations {
             let v = o.velocity.si();
-            let b = o.angle.degrees();
             let sd_v = o
                 .velocity_uncertainty
-                .map_or(priors::default_velocity_uncertainty(&o.method) * v, |u| u.si())
-                .max(priors::FLOOR_VELOCITY_RELATIVE * v);
+                .map_or(priors::default_velocity_uncertainty(&o.method) * v, |u| u.si());
             let sd_b = o
                 .angle_uncertainty
                 .map_or(priors::default_angle_uncertainty_deg(&o.method), |u| {
                     u.degrees()
-                })
-                .max(priors::FLOOR_ANGLE_DEG);
-            // Central differences, kept inside (0, 90) deg.
-            let dv = 1e-3 * v;
-            let db = 1e-3f64.min(0.5 * b).min(0.5 * (90.0 - b));
-            let slope = |q: &dyn Fn(f64, f64) -> ConfidenceResult<f64>| -> ConfidenceResult<Slope> {
-                Ok(Slope {
-                    value: q(v, b)?,
-                    dv: (q(v + dv, b)? - q(v - dv, b)?) / (2.0 * dv),
-                    db: (q(v, b + db)? - q(v, b - db)?) / (2.0 * db),
-                })
-            };
-            let deribas = if on(CriterionId::DeribasLower) {
-                Some(slope(&|v, b| {
-                    Ok((d_coef / at(v, b)?.collision_velocity.si()).to_degrees())
-                })?)
-            } else {
-                None
-            };
-            let pressure = if on(CriterionId::PressureLower) {
-                Some(slope(&|v, _| {
-                    Ok(impedance_match(&f.hugoniot, &p.hugoniot, Velocity::from_m_s(v))?
-                        .pressure
-                        .si()
-                        / hel)
-                })?)
-            } else {
-                None
-            };
-            let melting = if on(CriterionId::MeltingUpper) {
-                Some(slope(&|v, b| {
-                    Ok(m_coef / melting_divisor(at(v, b)?.collision_velocity.si(), form))
-                })?)
-            } else {
-                None
-            };
-            let jetting = if on(CriterionId::Jetting) {
-                Some(slope(&|v, b| {
-                    let c = at(v, b)?;
-                    Ok(critical_angle(
-                        &f.hugoniot,
-                        &p.hugoniot,
-                        c.flow_velocity,
-                        c.collision_velocity,
-                    )?
-                    .critical_angle
-                    .degrees())
-                })?)
-            } else {
-                None
-            };
-            terms.push(Terms {
-                outcome: o.outcome,
-                v,
-                beta_deg: b,
-                sd_v,
-                sd_b,
-                deribas,
-                strength: on(CriterionId::StrengthLower).then_some(s_floor),
-                pressure,
-                melting,
-                jetting,
-            });
+                });
+            terms.push(builder.terms(o.outcome, v, o.angle.degrees(), sd_v, sd_b)?);
         }
         Ok(Self {
             terms,
@@ -342,58 +423,23 @@ impl Likelihood {
 
     /// The log-likelihood at constants `c` = [k, N, m].
     pub fn log_likelihood(&self, c: &[f64; 3]) -> f64 {
-        let [k, n, m] = *c;
-        let mut total = 0.0;
-        for t in &self.terms {
-            let z = |margin: f64, dv: f64, db: f64| {
-                let sd = ((dv * t.sd_v).powi(2) + (db * t.sd_b).powi(2)).sqrt();
-                if sd > 0.0 {
-                    margin / sd
-                } else if margin >= 0.0 {
-                    f64::INFINITY
-                } else {
-                    f64::NEG_INFINITY
-                }
-            };
-            // P_L = prod (1 - q_j), and 1 - P_L = sum_j q_j prod_{i<j} (1 - q_i), which has no
-            // cancellation when every q_j is small.
-            let mut p_lower = 1.0;
-            let mut q_lower = 0.0;
-            let mut add = |zz: f64| {
-                let (p, q) = phi_pair(zz);
-                q_lower += q * p_lower;
-                p_lower *= p;
-            };
-            if let Some(d) = t.deribas {
-                add(z(t.beta_deg - k * d.value, -k * d.dv, 1.0 - k * d.db));
-            }
-            if let Some(s) = t.strength {
-                add(z(t.v - s, 1.0, 0.0));
-            }
-            if let Some(pr) = t.pressure {
-                add(z(pr.value - m, pr.dv, pr.db));
-            }
-            if let Some(j) = t.jetting {
-                add(z(t.beta_deg - j.value, -j.dv, 1.0 - j.db));
-            }
-            let (p_melt, q_melt) = match t.melting {
-                Some(me) => phi_pair(z(me.value / n - t.v, me.dv / n - 1.0, me.db / n)),
-                None => (1.0, 0.0),
-            };
-            let tiny = 1e-300f64;
-            let ln = |x: f64| x.max(tiny).ln();
-            total += match t.outcome {
-                Outcome::Welded => ln(p_lower * p_melt),
-                Outcome::NotWelded => ln(q_lower),
-                Outcome::Melted => ln(p_lower * q_melt),
-                Outcome::Partial => {
-                    let w = p_lower * p_melt;
+        let tiny = 1e-300f64;
+        let ln = |x: f64| x.max(tiny).ln();
+        self.terms
+            .iter()
+            .map(|t| {
+                let (p_lower, q_lower, p_melt, q_melt) = outcome_terms(t, c);
+                match t.outcome {
+                    Outcome::Welded => ln(p_lower * p_melt),
+                    Outcome::NotWelded => ln(q_lower),
+                    Outcome::Melted => ln(p_lower * q_melt),
                     // 1 - P_L P_M = (1 - P_L) + P_L (1 - P_M), again without cancellation.
-                    0.5 * ln(w) + 0.5 * ln(q_lower + p_lower * q_melt)
+                    Outcome::Partial => {
+                        0.5 * ln(p_lower * p_melt) + 0.5 * ln(q_lower + p_lower * q_melt)
+                    }
                 }
-            };
-        }
-        total
+            })
+            .sum()
     }
 
     fn with(&self, x: &[f64; 3]) -> [f64; 3] {
