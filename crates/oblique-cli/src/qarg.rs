@@ -218,3 +218,40 @@ pub fn samples(s: &str) -> Result<usize, String> {
     }
     Ok(n)
 }
+
+/// A confidence level as a percentage, strictly between 0 and 100 % (e.g. 95%).
+pub fn level(s: &str) -> Result<f64, String> {
+    let p = s
+        .trim()
+        .strip_suffix('%')
+        .ok_or_else(|| format!("'{s}' needs a percent sign, e.g. 95%"))?;
+    let v: f64 = p
+        .trim()
+        .parse()
+        .map_err(|_| format!("'{s}' is not a percentage, e.g. 95%"))?;
+    if !(v > 0.0 && v < 100.0) {
+        return Err(format!("{v} % is outside (0, 100) %"));
+    }
+    Ok(v / 100.0)
+}
+
+fn range(s: &str, one: fn(&str) -> Result<f64, String>) -> Result<(f64, f64), String> {
+    let (a, b) = s
+        .split_once("..")
+        .ok_or_else(|| format!("'{s}' is not LOW..HIGH (for example 300m/s..700m/s)"))?;
+    let (a, b) = (one(a)?, one(b)?);
+    if !(a < b) {
+        return Err(format!("'{s}': the low end must be below the high end"));
+    }
+    Ok((a, b))
+}
+
+/// A velocity range LOW..HIGH, both ends with units.
+pub fn velocity_range(s: &str) -> Result<(f64, f64), String> {
+    range(s, positive_velocity)
+}
+
+/// An angle range LOW..HIGH inside (0, 90) deg, both ends with units (radians inside).
+pub fn angle_range(s: &str) -> Result<(f64, f64), String> {
+    range(s, angle)
+}

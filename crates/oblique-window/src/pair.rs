@@ -311,10 +311,7 @@ impl Fitted {
 
     /// "fitted to N trials on DATE", for outputs.
     pub fn summary(&self) -> String {
-        format!(
-            "fitted to {} trials on {} ({})",
-            self.observations, self.date, self.method
-        )
+        format!("fitted to {} trials on {}", self.observations, self.date)
     }
 }
 

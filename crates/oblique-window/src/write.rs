@@ -744,23 +744,12 @@ pub fn set_top_field(
     };
     let mut out = String::with_capacity(text.len() + value.len() + 64);
     out.push_str(bom);
-    if let Some(start) = index.start(field) {
-        // The value's end: after its closing parenthesis (and that of a `Some(..)` around it),
-        // or after a bare identifier such as `None`.
-        let end = match index.tail(field) {
-            Some(t) => {
-                let mut e = t.close + 1;
-                if body[start..].starts_with("Some") {
-                    let rest = &body[e..];
-                    let skip = rest.len() - rest.trim_start().len();
-                    if rest.trim_start().starts_with(')') {
-                        e += skip + 1;
-                    } else {
-                        return Err(structure("cannot find the end of the `fitted` value"));
-                    }
-                }
-                e
-            }
+    if let Some(mut start) = index.start(field) {
+        // The value's end: after its closing parenthesis, or after a bare identifier such as
+        // `None`. The scanner starts a `Some(..)` value at its inner parenthesis: take the
+        // wrapper too.
+        let mut end = match index.tail(field) {
+            Some(t) => t.close + 1,
             None => {
                 let rest = &body[start..];
                 start
@@ -769,6 +758,18 @@ pub fn set_top_field(
                         .unwrap_or(rest.len())
             }
         };
+        let before = body[..start].trim_end();
+        if let Some(wrapper) = before.strip_suffix('(').map(str::trim_end) {
+            if wrapper.ends_with("Some") {
+                start = wrapper.len() - "Some".len();
+                let rest = &body[end..];
+                let skip = rest.len() - rest.trim_start().len();
+                if !rest.trim_start().starts_with(')') {
+                    return Err(structure("cannot find the end of the `fitted` value"));
+                }
+                end += skip + 1;
+            }
+        }
         out.push_str(&body[..start]);
         out.push_str(&value);
         out.push_str(&body[end..]);
@@ -963,6 +964,31 @@ pub fn create_new(path: &Path, text: &str) -> Result<(), WriteError> {
 
 #[cfg(test)]
 mod tests {
+
+    /// Setting the `fitted` field inserts it, replaces an earlier value (also one written as
+    /// `Some(..)` or `None`), and keeps every other byte, a byte-order mark and CRLF line ends.
+    #[test]
+    fn set_top_field_inserts_and_replaces_keeping_the_rest() {
+        let p = Path::new("p.ron");
+        let base = "(\n    name: \"x\",\n    observations: [\n        (velocity: \"1 m/s\"), // keep\n    ],\n)\n";
+        let one = set_top_field(p, base, "fitted", "(a: 1)").expect("insert");
+        assert_eq!(
+            one,
+            "(\n    name: \"x\",\n    observations: [\n        (velocity: \"1 m/s\"), // keep\n    ],\n    fitted: (a: 1),\n)\n"
+        );
+        let two = set_top_field(p, &one, "fitted", "(b: 2)").expect("replace");
+        assert_eq!(two, one.replace("(a: 1)", "(b: 2)"));
+        let some = one.replace("fitted: (a: 1)", "fitted: Some((a: 1))");
+        assert_eq!(set_top_field(p, &some, "fitted", "(b: 2)").expect("some"), two);
+        let none = one.replace("fitted: (a: 1)", "fitted: None");
+        assert_eq!(set_top_field(p, &none, "fitted", "(b: 2)").expect("none"), two);
+        let crlf = format!("\u{feff}{}", base.replace('\n', "\r\n"));
+        let out = set_top_field(p, &crlf, "fitted", "(\n        a: 1,\n    )").expect("crlf");
+        assert!(out.starts_with('\u{feff}'));
+        assert!(!out.replace("\r\n", "").contains('\n'), "{out:?}");
+        assert!(out.contains("observations: [\r\n        (velocity: \"1 m/s\"), // keep\r\n    ],"));
+    }
+
     use super::*;
 
     fn obs(v: &str) -> ObservationEntry {

@@ -1,6 +1,7 @@
 //! Integration tests that run the real `oblique` binary.
 
 mod check;
+mod fit;
 mod kill;
 mod pair;
 mod report;
