@@ -32,6 +32,7 @@
 #![deny(missing_docs)]
 
 pub mod error;
+pub mod probability;
 pub mod report;
 pub mod sweep_plot;
 pub mod weld_map;

@@ -49,8 +49,8 @@ pub const MAX_MARKED_POINTS: usize = 400;
 /// Points up to this count get a text label with their verdict.
 pub const MAX_LABELLED_POINTS: usize = 12;
 
-const WIDTH: u32 = 1100;
-const HEIGHT: u32 = 680;
+pub(crate) const WIDTH: u32 = 1100;
+pub(crate) const HEIGHT: u32 = 680;
 const LEGEND_W: u32 = 300;
 const NX: usize = 150;
 const NY: usize = 110;
@@ -223,7 +223,7 @@ fn criterion_enabled(window: &PairWindow, id: CriterionId) -> bool {
 }
 
 /// Zero contour of a node field by marching squares: polylines (chained segments).
-fn contour(xs: &[f64], ys: &[f64], f: &[f64]) -> Vec<Vec<(f64, f64)>> {
+pub(crate) fn contour(xs: &[f64], ys: &[f64], f: &[f64]) -> Vec<Vec<(f64, f64)>> {
     let nx = xs.len();
     let mut segs: Vec<((f64, f64), (f64, f64))> = Vec::new();
     let v = |i: usize, j: usize| f[j * nx + i];
@@ -301,12 +301,12 @@ fn chain(segs: Vec<((f64, f64), (f64, f64))>) -> Vec<Vec<(f64, f64)>> {
     out
 }
 
-fn plot_err<E: std::fmt::Display>(e: E) -> RenderError {
+pub(crate) fn plot_err<E: std::fmt::Display>(e: E) -> RenderError {
     RenderError::Draw(e.to_string())
 }
 
 /// Ranges from the data and the region evaluated on the grid.
-fn prepare<'a>(req: &'a PlotRequest<'a>) -> RenderResult<Prepared<'a>> {
+pub(crate) fn prepare<'a>(req: &'a PlotRequest<'a>) -> RenderResult<Prepared<'a>> {
     let w = req.window;
     let plane = req.plane;
     // Ranges from the data: trials, proposed points, curves.
@@ -358,11 +358,11 @@ fn prepare<'a>(req: &'a PlotRequest<'a>) -> RenderResult<Prepared<'a>> {
 }
 
 /// Ranges and the evaluated region, ready to draw on any backend.
-struct Prepared<'a> {
+pub(crate) struct Prepared<'a> {
     req: &'a PlotRequest<'a>,
     field: Field,
-    x_max: f64,
-    y_max: f64,
+    pub(crate) x_max: f64,
+    pub(crate) y_max: f64,
     x_label: &'static str,
 }
 
@@ -377,6 +377,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
     draw(
         SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area(),
         &p,
+        None,
     )?;
     // User text (labels, names) may hold characters XML forbids: keep the SVG well-formed.
     Ok(oblique_window::present::xml_safe(&svg).into_owned())
@@ -393,12 +394,13 @@ pub fn render_png(req: &PlotRequest<'_>) -> RenderResult<Vec<u8>> {
     draw(
         BitMapBackend::with_buffer(&mut rgb, (WIDTH, HEIGHT)).into_drawing_area(),
         &p,
+        None,
     )?;
     encode_png(&rgb, WIDTH, HEIGHT)
 }
 
 /// Encode an RGB buffer as PNG.
-fn encode_png(rgb: &[u8], width: u32, height: u32) -> RenderResult<Vec<u8>> {
+pub(crate) fn encode_png(rgb: &[u8], width: u32, height: u32) -> RenderResult<Vec<u8>> {
     use image::ImageEncoder;
     let mut out = Vec::new();
     image::codecs::png::PngEncoder::new(&mut out)
@@ -418,10 +420,11 @@ pub fn register_fonts() {
     });
 }
 
-/// Draw the window plot on any plotters backend.
-fn draw<DB: DrawingBackend>(
+/// Draw the window plot on any plotters backend (with probability contours over it when given).
+pub(crate) fn draw<DB: DrawingBackend>(
     root: DrawingArea<DB, plotters::coord::Shift>,
     p: &Prepared<'_>,
+    overlay: Option<&crate::probability::Contours>,
 ) -> RenderResult {
     let (req, field, x_max, y_max, x_label) = (p.req, &p.field, p.x_max, p.y_max, p.x_label);
     let w = req.window;
@@ -590,6 +593,10 @@ fn draw<DB: DrawingBackend>(
                 .map_err(plot_err)?;
         }
         legend.push((label, sonic_style, mark));
+    }
+
+    if let Some(o) = overlay {
+        legend.extend(crate::probability::draw_contours(&mut chart, o)?);
     }
 
     // User boundaries as drawn, converted to this plane point by point.

@@ -471,3 +471,23 @@ fn bad_scatter_input_exits_2_naming_the_flag() {
         fails_with(&args, &[flag]);
     }
 }
+
+#[test]
+fn plot_probability_draws_contours_and_states_the_scatter() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let out = dir.path().join("p.svg");
+    let o = run(&[
+        "plot", "--pair", "demo-al6061-on-cu", "--probability", "--velocity-sd", "5%", "--angle-sd", "1deg",
+        "--samples", "32", "-o", out.to_str().expect("path"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).expect("svg");
+    roxmltree::Document::parse(&svg).expect("well-formed");
+    for needle in ["weld probability 10 %", "weld probability 50 %", "weld probability 90 %", "velocity sd 5 %"] {
+        assert!(svg.contains(needle), "{needle}");
+    }
+    fails_with(
+        &["plot", "--pair", "demo-al6061-on-cu", "--velocity-sd", "5%", "-o", out.to_str().expect("path")],
+        &["need --probability"],
+    );
+}
