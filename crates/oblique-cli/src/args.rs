@@ -115,9 +115,7 @@ impl ScatterArgs {
     pub fn scatter(&self) -> oblique_confidence::Scatter {
         oblique_confidence::Scatter {
             velocity: self.velocity_sd,
-            angle: self
-                .angle_sd
-                .map(oblique_core::units::Angle::from_radians),
+            angle: self.angle_sd.map(oblique_core::units::Angle::from_radians),
             model: self.model_uncertainty != Some(OnOff::Off),
         }
     }
@@ -126,8 +124,23 @@ impl ScatterArgs {
     pub fn sampling(&self, default_samples: usize) -> oblique_confidence::Sampling {
         oblique_confidence::Sampling {
             samples: self.samples.unwrap_or(default_samples),
-            seed: self.seed.unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
+            seed: self
+                .seed
+                .unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
             threads: None,
+        }
+    }
+}
+
+impl ScatterArgs {
+    /// The stated scatter of a process estimate (defaults left to `oblique_setup`).
+    pub fn process(&self) -> oblique_setup::uncertainty::ProcessScatter {
+        oblique_setup::uncertainty::ProcessScatter {
+            velocity: self.velocity_sd,
+            angle: self.angle_sd.map(oblique_core::units::Angle::from_radians),
+            model: self.model_uncertainty.map(|m| m == OnOff::On),
+            samples: self.samples,
+            seed: self.seed,
         }
     }
 }

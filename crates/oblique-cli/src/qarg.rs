@@ -157,10 +157,9 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
     use oblique_confidence::scatter::{MAX_ABSOLUTE_VELOCITY_SD_M_S, MAX_RELATIVE_VELOCITY_SD};
     let t = s.trim();
     if let Some(p) = t.strip_suffix('%') {
-        let v: f64 = p
-            .trim()
-            .parse()
-            .map_err(|_| format!("'{s}' is not a percentage (write it like 5%) or a velocity (20m/s)"))?;
+        let v: f64 = p.trim().parse().map_err(|_| {
+            format!("'{s}' is not a percentage (write it like 5%) or a velocity (20m/s)")
+        })?;
         if !(v.is_finite() && v >= 0.0) {
             return Err(format!("{v} % must be zero or above"));
         }
@@ -174,10 +173,14 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
     }
     let v = velocity(t).map_err(|e| format!("{e} (or a percentage such as 5%)"))?;
     if !(v >= 0.0) {
-        return Err(format!("a standard deviation must be zero or above, got {v} m/s"));
+        return Err(format!(
+            "a standard deviation must be zero or above, got {v} m/s"
+        ));
     }
     if v > MAX_ABSOLUTE_VELOCITY_SD_M_S {
-        return Err(format!("{v} m/s is above {MAX_ABSOLUTE_VELOCITY_SD_M_S} m/s"));
+        return Err(format!(
+            "{v} m/s is above {MAX_ABSOLUTE_VELOCITY_SD_M_S} m/s"
+        ));
     }
     Ok(oblique_confidence::VelocitySpread::Absolute(v))
 }
@@ -192,7 +195,9 @@ pub fn angle_sd(s: &str) -> Result<f64, String> {
     let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;
     let deg = rad.to_degrees();
     if !(deg >= 0.0) {
-        return Err(format!("a standard deviation must be zero or above, got {deg} deg"));
+        return Err(format!(
+            "a standard deviation must be zero or above, got {deg} deg"
+        ));
     }
     if deg > oblique_confidence::scatter::MAX_ANGLE_SD_DEG {
         return Err(format!(

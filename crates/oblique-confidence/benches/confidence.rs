@@ -3,7 +3,9 @@
 //! Figures go to docs/performance.md.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use oblique_confidence::{probability_grid, weld_probability, Point, Sampling, Scatter, VelocitySpread};
+use oblique_confidence::{
+    probability_grid, weld_probability, Point, Sampling, Scatter, VelocitySpread,
+};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::Convention;
 use oblique_window::boundary::Plane;
@@ -26,9 +28,19 @@ fn point(c: &mut Criterion) {
     let w = demo();
     let mut g = c.benchmark_group("weld_probability");
     g.sample_size(30);
-    for (name, v, a) in [("subsonic 450 m/s 10 deg", 450.0, 10.0), ("supersonic 450 m/s 5 deg", 450.0, 5.0)] {
-        let p = Point::impact(Convention::NormalToFlyer, Velocity::from_m_s(v), Angle::from_degrees(a));
-        let sampling = Sampling { samples: 100_000, ..Sampling::default() };
+    for (name, v, a) in [
+        ("subsonic 450 m/s 10 deg", 450.0, 10.0),
+        ("supersonic 450 m/s 5 deg", 450.0, 5.0),
+    ] {
+        let p = Point::impact(
+            Convention::NormalToFlyer,
+            Velocity::from_m_s(v),
+            Angle::from_degrees(a),
+        );
+        let sampling = Sampling {
+            samples: 100_000,
+            ..Sampling::default()
+        };
         // The lazy jetting tables fill on first use: warm them outside the timing.
         let _ = weld_probability(&w, &p, &scatter(), &sampling);
         g.bench_function(format!("1e5 samples, {name}"), |b| {
@@ -44,15 +56,28 @@ fn grid(c: &mut Criterion) {
     g.sample_size(10);
     let xs: Vec<f64> = (0..200).map(|i| 800.0 * (i as f64 + 0.5) / 200.0).collect();
     let ys: Vec<f64> = (0..200).map(|j| 35.0 * (j as f64 + 0.5) / 200.0).collect();
-    let sampling = Sampling { samples: oblique_confidence::grid::DEFAULT_GRID_SAMPLES, ..Sampling::default() };
-    g.bench_function("200 x 200 nodes, 256 draws each, angle-impact-velocity", |b| {
-        b.iter(|| {
-            black_box(
-                probability_grid(&w, Plane::AngleImpactVelocity, xs.clone(), ys.clone(), &scatter(), &sampling)
+    let sampling = Sampling {
+        samples: oblique_confidence::grid::DEFAULT_GRID_SAMPLES,
+        ..Sampling::default()
+    };
+    g.bench_function(
+        "200 x 200 nodes, 256 draws each, angle-impact-velocity",
+        |b| {
+            b.iter(|| {
+                black_box(
+                    probability_grid(
+                        &w,
+                        Plane::AngleImpactVelocity,
+                        xs.clone(),
+                        ys.clone(),
+                        &scatter(),
+                        &sampling,
+                    )
                     .expect("grid"),
-            )
-        })
-    });
+                )
+            })
+        },
+    );
     g.finish();
 }
 

@@ -25,8 +25,8 @@ use oblique_core::{Collision, CriterionId, Material, WittmanForm};
 use oblique_window::boundary::{interpolate, Plane, WeldSide};
 use oblique_window::PairWindow;
 use rand::RngExt;
-use rand_pcg::Pcg64;
 use rand_distr::StandardNormal;
+use rand_pcg::Pcg64;
 use std::sync::atomic::{AtomicUsize, Ordering};
 
 /// Samples per block: each block has its own random stream, seeded from (seed, block index),
@@ -205,9 +205,15 @@ impl<'w> Engine<'w> {
                 plane: b.plane,
                 side: b.weld_side,
                 points: if b.weld_side.along_velocity() {
-                    b.points.iter().map(|(x, a)| (x.si(), a.degrees())).collect()
+                    b.points
+                        .iter()
+                        .map(|(x, a)| (x.si(), a.degrees()))
+                        .collect()
                 } else {
-                    b.points.iter().map(|(x, a)| (a.degrees(), x.si())).collect()
+                    b.points
+                        .iter()
+                        .map(|(x, a)| (a.degrees(), x.si()))
+                        .collect()
                 },
             })
             .collect();
@@ -294,7 +300,10 @@ impl<'w> Engine<'w> {
                 InputKind::Velocity | InputKind::Angle => {}
             }
         }
-        for (m, v) in [&mut scratch.flyer, &mut scratch.parent].into_iter().zip(&props) {
+        for (m, v) in [&mut scratch.flyer, &mut scratch.parent]
+            .into_iter()
+            .zip(&props)
+        {
             m.hugoniot = Hugoniot {
                 density: Density::from_kg_m3(v[0]),
                 c0: Velocity::from_m_s(v[1]),
@@ -314,11 +323,11 @@ impl<'w> Engine<'w> {
         // over the plates commute with the later division by the same positive Vc.
         let deribas = deribas_coefficient(f, c[0]).max(deribas_coefficient(p, c[0]));
         let strength = strength_velocity(f).max(strength_velocity(p));
-        let pressure_limit = (c[2] * f.hugoniot_elastic_limit().si())
-            .max(c[2] * p.hugoniot_elastic_limit().si());
+        let pressure_limit =
+            (c[2] * f.hugoniot_elastic_limit().si()).max(c[2] * p.hugoniot_elastic_limit().si());
         let h = self.flyer_thickness;
-        let melting =
-            melting_coefficient(f, h, c[1], self.form).min(melting_coefficient(p, h, c[1], self.form));
+        let melting = melting_coefficient(f, h, c[1], self.form)
+            .min(melting_coefficient(p, h, c[1], self.form));
         ModelDraw {
             deribas,
             strength,
@@ -514,7 +523,7 @@ impl<'w> Engine<'w> {
             vec![work()]
         } else {
             std::thread::scope(|s| {
-                let handles: Vec<_> = (0..threads).map(|_| s.spawn(&work)).collect();
+                let handles: Vec<_> = (0..threads).map(|_| s.spawn(work)).collect();
                 handles
                     .into_iter()
                     .map(|h| {
@@ -626,11 +635,14 @@ mod tests {
                 let lean = e.verdict(&d, &col).expect("lean");
                 // The reference: the window with the sampled constants and materials.
                 let mut rw = w.clone();
-                let c = |k: Constant| e.value(
-                    e.constant_inputs[Constant::ALL.iter().position(|x| *x == k).unwrap_or(0)],
-                    &z,
-                    e.nominal_constants[Constant::ALL.iter().position(|x| *x == k).unwrap_or(0)],
-                );
+                let c = |k: Constant| {
+                    e.value(
+                        e.constant_inputs[Constant::ALL.iter().position(|x| *x == k).unwrap_or(0)],
+                        &z,
+                        e.nominal_constants
+                            [Constant::ALL.iter().position(|x| *x == k).unwrap_or(0)],
+                    )
+                };
                 rw.criteria.deribas_k = c(Constant::DeribasK);
                 rw.criteria.wittman_n = c(Constant::WittmanN);
                 rw.criteria.hel_multiple = c(Constant::HelMultiple);
@@ -645,7 +657,11 @@ mod tests {
                     .jet
                     .as_ref()
                     .expect("jetting on")
-                    .critical_angle(col.flow_velocity.si(), col.collision_velocity.si(), &d.scale)
+                    .critical_angle(
+                        col.flow_velocity.si(),
+                        col.collision_velocity.si(),
+                        &d.scale,
+                    )
                     .expect("jet")
                     * d.jet_factor;
                 let jet = JettingAssessment {
@@ -659,7 +675,10 @@ mod tests {
                         Limit::Criterion(id) => r.failing.contains(&LimitRef::Criterion(*id)),
                         Limit::Boundary(i) => r.failing.contains(&LimitRef::Boundary(*i)),
                     };
-                    assert_eq!(fails_lean, fails_ref, "{limit:?} at {v} m/s {a} deg, sample {z:?}");
+                    assert_eq!(
+                        fails_lean, fails_ref,
+                        "{limit:?} at {v} m/s {a} deg, sample {z:?}"
+                    );
                 }
                 assert_eq!(lean.inside, r.inside);
                 assert_eq!(lean.outside_trial_data, r.outside_trial_data);

@@ -35,7 +35,10 @@ pub enum ConfidenceError {
 impl ConfidenceError {
     /// True for errors caused by the user's input (exit status 2).
     pub fn is_input(&self) -> bool {
-        !matches!(self, ConfidenceError::Physics(PhysicsError::NoConvergence { .. }))
+        !matches!(
+            self,
+            ConfidenceError::Physics(PhysicsError::NoConvergence { .. })
+        )
     }
 
     pub(crate) fn invalid(field: &'static str, message: impl Into<String>) -> Self {

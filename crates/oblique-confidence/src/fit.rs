@@ -282,10 +282,12 @@ impl<'w> TermBuilder<'w> {
         };
         let pressure = if on(CriterionId::PressureLower) {
             Some(slope(&|v, _| {
-                Ok(impedance_match(&f.hugoniot, &p.hugoniot, Velocity::from_m_s(v))?
-                    .pressure
-                    .si()
-                    / hel)
+                Ok(
+                    impedance_match(&f.hugoniot, &p.hugoniot, Velocity::from_m_s(v))?
+                        .pressure
+                        .si()
+                        / hel,
+                )
             })?)
         } else {
             None
@@ -402,7 +404,9 @@ impl Likelihood {
             let v = o.velocity.si();
             let sd_v = o
                 .velocity_uncertainty
-                .map_or(priors::default_velocity_uncertainty(&o.method) * v, |u| u.si());
+                .map_or(priors::default_velocity_uncertainty(&o.method) * v, |u| {
+                    u.si()
+                });
             let sd_b = o
                 .angle_uncertainty
                 .map_or(priors::default_angle_uncertainty_deg(&o.method), |u| {
@@ -596,7 +600,11 @@ pub fn fit(window: &PairWindow, settings: &FitSettings) -> ConfidenceResult<FitR
                     break;
                 }
                 let c = (a * fb - b * fa) / (fb - fa);
-                let c = if c.is_finite() && (c - a) * (c - b) < 0.0 { c } else { 0.5 * (a + b) };
+                let c = if c.is_finite() && (c - a) * (c - b) < 0.0 {
+                    c
+                } else {
+                    0.5 * (a + b)
+                };
                 let fc = g(c, &mut warm);
                 if fc < 0.0 {
                     a = c;
@@ -703,7 +711,13 @@ pub fn fit(window: &PairWindow, settings: &FitSettings) -> ConfidenceResult<FitR
 
 /// Why a constant is bounded on one side only, in words.
 fn one_sided_reason(window: &PairWindow, c: Constant, has_low: bool) -> String {
-    let count = |o: Outcome| window.observations.iter().filter(|x| x.outcome == o).count();
+    let count = |o: Outcome| {
+        window
+            .observations
+            .iter()
+            .filter(|x| x.outcome == o)
+            .count()
+    };
     match (c, has_low) {
         (Constant::WittmanN, false) if count(Outcome::Melted) == 0 => {
             "no melted shot, so nothing shows where the melting limit stops welds: any smaller N (a higher melting limit) fits as well".into()
@@ -862,28 +876,40 @@ impl FitResult {
     }
 }
 
-/// An invented trial series for tests and benchmarks (never a measurement): `n` shots at true
-/// points spread uniformly over `velocity_m_s` x `angle_deg`, each outcome decided by the
-/// window's criteria (boundaries left out) with the constants `truth` = [k, N, m], and each
-/// recorded velocity and angle off the true one by normal noise of `sd_velocity_relative` and
-/// `sd_angle_deg`, which the observations carry as their uncertainties. Every observation says
-/// it is invented.
+/// How an invented trial series is made (see [`synthetic_trials`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SyntheticDesign {
+    /// The true constants [k, N, m].
+    pub truth: [f64; 3],
+    /// Number of shots.
+    pub shots: usize,
+    /// Range of the true impact velocities (m/s).
+    pub velocity_m_s: (f64, f64),
+    /// Range of the true angles (deg).
+    pub angle_deg: (f64, f64),
+    /// Relative standard deviation of the recorded velocity.
+    pub sd_velocity_relative: f64,
+    /// Standard deviation of the recorded angle (deg).
+    pub sd_angle_deg: f64,
+    /// Seed.
+    pub seed: u64,
+}
+
+/// An invented trial series for tests and benchmarks (never a measurement): shots at true
+/// points spread uniformly over the design's ranges, each outcome decided by the window's
+/// criteria (boundaries left out) with the true constants, and each recorded velocity and
+/// angle off the true one by normal noise of the design's spreads, which the observations
+/// carry as their uncertainties. Every observation says it is invented.
 ///
 /// # Errors
 /// A point the physics cannot evaluate.
-pub fn synthetic_trials(
-    window: &PairWindow,
-    truth: [f64; 3],
-    n: usize,
-    velocity_m_s: (f64, f64),
-    angle_deg: (f64, f64),
-    sd_velocity_relative: f64,
-    sd_angle_deg: f64,
-    seed: u64,
-) -> ConfidenceResult<PairWindow> {
+pub fn synthetic_trials(window: &PairWindow, d: &SyntheticDesign) -> ConfidenceResult<PairWindow> {
     use oblique_window::classify::{classify, Prediction};
     use oblique_window::Observation;
     use rand::{RngExt, SeedableRng};
+    let (truth, n, velocity_m_s, angle_deg) = (d.truth, d.shots, d.velocity_m_s, d.angle_deg);
+    let (sd_velocity_relative, sd_angle_deg, seed) =
+        (d.sd_velocity_relative, d.sd_angle_deg, d.seed);
     let mut rng = rand_pcg::Pcg64::seed_from_u64(seed);
     let mut truth_window = window.clone();
     truth_window.boundaries.clear();

@@ -54,7 +54,11 @@ pub fn probability_grid(
     if xs.len() * ys_deg.len() > MAX_GRID_POINTS {
         return Err(ConfidenceError::invalid(
             "grid",
-            format!("{} x {} nodes is more than {MAX_GRID_POINTS}", xs.len(), ys_deg.len()),
+            format!(
+                "{} x {} nodes is more than {MAX_GRID_POINTS}",
+                xs.len(),
+                ys_deg.len()
+            ),
         ));
     }
     let probe = Point {
@@ -84,15 +88,19 @@ pub fn probability_grid(
                         for (i, slot) in row.iter_mut().enumerate() {
                             let vp = match plane {
                                 Plane::AngleImpactVelocity => Some(xs[i]),
-                                Plane::AngleCollisionVelocity => Collision::from_collision_velocity(
-                                    window.convention,
-                                    Velocity::from_m_s(xs[i]),
-                                    beta,
-                                )
-                                .ok()
-                                .map(|c| c.impact_velocity.si()),
+                                Plane::AngleCollisionVelocity => {
+                                    Collision::from_collision_velocity(
+                                        window.convention,
+                                        Velocity::from_m_s(xs[i]),
+                                        beta,
+                                    )
+                                    .ok()
+                                    .map(|c| c.impact_velocity.si())
+                                }
                             };
-                            let Some(vp) = vp.filter(|v| *v > 0.0) else { continue };
+                            let Some(vp) = vp.filter(|v| *v > 0.0) else {
+                                continue;
+                            };
                             let point = Point {
                                 convention: window.convention,
                                 velocity: PointVelocity::Impact(vp),
@@ -132,6 +140,60 @@ pub fn probability_grid(
     })
 }
 
+/// The weld probability at each of `points` (each point's velocity and angle scattered as
+/// stated), all with the same draws of the model, so that differences between points are not
+/// sampling noise (common random numbers). Used to rank the settings of a sweep.
+///
+/// # Errors
+/// A setting out of range, or a point the physics refuses.
+pub fn probabilities(
+    window: &PairWindow,
+    points: &[Point],
+    scatter: &Scatter,
+    sampling: &Sampling,
+) -> ConfidenceResult<Vec<f64>> {
+    sampling.validate()?;
+    let Some(first) = points.first() else {
+        return Ok(Vec::new());
+    };
+    let engine = Engine::new(window, first, scatter)?;
+    let draws = engine.draws(sampling);
+    let mut out = vec![0.0; points.len()];
+    let threads = sampling.thread_count().clamp(1, points.len());
+    let per = points.len().div_ceil(threads);
+    let results: Vec<ConfidenceResult<()>> = std::thread::scope(|s| {
+        let handles: Vec<_> = out
+            .chunks_mut(per)
+            .zip(points.chunks(per))
+            .map(|(slots, pts)| {
+                let (engine, draws) = (&engine, &draws);
+                s.spawn(move || -> ConfidenceResult<()> {
+                    for (slot, p) in slots.iter_mut().zip(pts) {
+                        *slot = engine.fraction_inside(p, draws)?;
+                    }
+                    Ok(())
+                })
+            })
+            .collect();
+        handles
+            .into_iter()
+            .map(|h| {
+                h.join().unwrap_or_else(|_| {
+                    Err(oblique_core::PhysicsError::NoConvergence {
+                        what: "weld probabilities (a worker thread stopped)",
+                        iterations: 0,
+                    }
+                    .into())
+                })
+            })
+            .collect()
+    });
+    for r in results {
+        r?;
+    }
+    Ok(out)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -146,14 +208,29 @@ mod tests {
             angle: Some(Angle::from_degrees(1.0)),
             model: true,
         };
-        let sampling = Sampling { samples: 300, seed: 9, threads: None };
-        let g = probability_grid(w, Plane::AngleImpactVelocity, vec![300.0, 450.0, 700.0], vec![3.0, 12.0], &s, &sampling)
-            .expect("grid");
+        let sampling = Sampling {
+            samples: 300,
+            seed: 9,
+            threads: None,
+        };
+        let g = probability_grid(
+            w,
+            Plane::AngleImpactVelocity,
+            vec![300.0, 450.0, 700.0],
+            vec![3.0, 12.0],
+            &s,
+            &sampling,
+        )
+        .expect("grid");
         // The middle of the window is likely, the low-velocity corner is not.
-        assert!(g.values[1 * 3 + 1] > 0.8, "{:?}", g.values);
+        assert!(g.values[3 + 1] > 0.8, "{:?}", g.values);
         assert!(g.values[0] < 0.2, "{:?}", g.values);
         // The same draws give the same value one point at a time.
-        let probe = Point::impact(w.convention, Velocity::from_m_s(450.0), Angle::from_degrees(12.0));
+        let probe = Point::impact(
+            w.convention,
+            Velocity::from_m_s(450.0),
+            Angle::from_degrees(12.0),
+        );
         let e = Engine::new(w, &probe, &s).expect("engine");
         let d = e.draws(&sampling);
         assert_eq!(e.fraction_inside(&probe, &d).expect("p"), g.values[4]);

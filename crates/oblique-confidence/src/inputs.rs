@@ -102,7 +102,11 @@ impl Distribution {
         let sep = if unit.is_empty() { "" } else { " " };
         match *self {
             Distribution::Normal { mean, sd } => {
-                format!("normal, mean {}{sep}{unit}, sd {}{sep}{unit}", n(mean), n(sd))
+                format!(
+                    "normal, mean {}{sep}{unit}, sd {}{sep}{unit}",
+                    n(mean),
+                    n(sd)
+                )
             }
             Distribution::LogNormal { median, sigma } => format!(
                 "log-normal, median {}{sep}{unit}, sd {} %",
@@ -157,14 +161,8 @@ pub(crate) fn constant_distribution(
         #[allow(clippy::float_cmp)]
         if f.value == value_in_use {
             let z = crate::quantile::normal(0.5 + fit.level / 2.0);
-            let below = f
-                .low
-                .map_or(prior, |lo| (f.value / lo).ln() / z)
-                .max(1e-6);
-            let above = f
-                .high
-                .map_or(prior, |hi| (hi / f.value).ln() / z)
-                .max(1e-6);
+            let below = f.low.map_or(prior, |lo| (f.value / lo).ln() / z).max(1e-6);
+            let above = f.high.map_or(prior, |hi| (hi / f.value).ln() / z).max(1e-6);
             return (
                 Distribution::SplitLogNormal {
                     median: f.value,
@@ -294,7 +292,10 @@ pub fn inputs(window: &PairWindow, point: &Point, scatter: &Scatter) -> Vec<Inpu
     let plates: &[(Plate, &oblique_window::MaterialRecord)] = if same {
         &[(Plate::Both, &window.flyer)]
     } else {
-        &[(Plate::Flyer, &window.flyer), (Plate::Parent, &window.parent)]
+        &[
+            (Plate::Flyer, &window.flyer),
+            (Plate::Parent, &window.parent),
+        ]
     };
     for (plate, record) in plates {
         let values = property_values(&record.material);
@@ -312,7 +313,10 @@ pub fn inputs(window: &PairWindow, point: &Point, scatter: &Scatter) -> Vec<Inpu
             let (sigma, basis) = match from_file {
                 Some((s, key)) => (
                     s,
-                    format!("material file: spread {} % (source {key})", crate::present::num(100.0 * s)),
+                    format!(
+                        "material file: spread {} % (source {key})",
+                        crate::present::num(100.0 * s)
+                    ),
                 ),
                 None => (*default, format!("default: {default_basis}")),
             };
@@ -320,7 +324,10 @@ pub fn inputs(window: &PairWindow, point: &Point, scatter: &Scatter) -> Vec<Inpu
                 continue;
             }
             out.push(Input {
-                kind: InputKind::Property { plate: *plate, index: k },
+                kind: InputKind::Property {
+                    plate: *plate,
+                    index: k,
+                },
                 id: format!("{}.{field}", plate.key()),
                 label: format!(
                     "{} of {} ({})",

@@ -117,7 +117,9 @@ impl JettingModel {
             parent.s.to_bits(),
             u64::from(perturbed),
         ];
-        let mut cache = MODELS.lock().unwrap_or_else(std::sync::PoisonError::into_inner);
+        let mut cache = MODELS
+            .lock()
+            .unwrap_or_else(std::sync::PoisonError::into_inner);
         if let Some((_, m)) = cache.iter().find(|(k, _)| *k == key) {
             return Ok(m.clone());
         }
@@ -216,13 +218,15 @@ impl JettingModel {
             if x[k] == 0.0 {
                 continue;
             }
-            let (Lookup::Table(m), Lookup::Table(p)) = (minus_t.lookup(xf, xc), plus_t.lookup(xf, xc))
+            let (Lookup::Table(m), Lookup::Table(p)) =
+                (minus_t.lookup(xf, xc), plus_t.lookup(xf, xc))
             else {
                 return self.direct(vf, vc, scale);
             };
             plus[k] = p;
             let h = STEPS[k];
-            angle += x[k] * (p - m) / (2.0 * h) + x[k] * x[k] * (p - 2.0 * base + m) / (2.0 * h * h);
+            angle +=
+                x[k] * (p - m) / (2.0 * h) + x[k] * x[k] * (p - 2.0 * base + m) / (2.0 * h * h);
         }
         // Mixed terms from the tables with both parameters of a pair at plus.
         for (t, (a, b)) in cross.iter().zip([(0, 1), (0, 2), (1, 2)]) {
@@ -353,7 +357,10 @@ mod tests {
             ..JetScale::NOMINAL
         };
         // Vc 4200 m/s is above the nominal C0 of Cu (3940) but below 1.1 x 3940 = 4334.
-        assert_eq!(model.critical_angle(9000.0, 4200.0, &scale).expect("ok"), 0.0);
+        assert_eq!(
+            model.critical_angle(9000.0, 4200.0, &scale).expect("ok"),
+            0.0
+        );
         assert!(
             model
                 .critical_angle(9000.0, 4200.0, &JetScale::NOMINAL)

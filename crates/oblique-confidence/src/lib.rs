@@ -34,6 +34,6 @@ pub mod quantile;
 pub mod scatter;
 
 pub use error::{ConfidenceError, ConfidenceResult};
-pub use grid::{probability_grid, ProbabilityGrid};
+pub use grid::{probabilities, probability_grid, ProbabilityGrid};
 pub use probability::{weld_probability, WeldProbability};
 pub use scatter::{Point, PointVelocity, Sampling, Scatter, VelocitySpread};

@@ -90,10 +90,7 @@ pub struct NextShots {
 }
 
 fn entropy(p: &[f64; 3]) -> f64 {
-    p.iter()
-        .filter(|x| **x > 0.0)
-        .map(|x| -x * x.log2())
-        .sum()
+    p.iter().filter(|x| **x > 0.0).map(|x| -x * x.log2()).sum()
 }
 
 /// Propose the next `settings.count` shots for `window`.
@@ -238,7 +235,11 @@ pub fn next_shots(window: &PairWindow, settings: &NextShotSettings) -> Confidenc
                 if py * pi < 1e-4 {
                     continue;
                 }
-                let nw: Vec<f64> = probs[x].iter().zip(w).map(|(p, ws)| ws * p[k] / py).collect();
+                let nw: Vec<f64> = probs[x]
+                    .iter()
+                    .zip(w)
+                    .map(|(p, ws)| ws * p[k] / py)
+                    .collect();
                 next.push((pi * py, nw));
             }
         }

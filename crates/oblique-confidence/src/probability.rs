@@ -212,7 +212,10 @@ fn doubt_sentence(
     let amount = if top.share >= 0.5 {
         "most of the doubt".to_string()
     } else {
-        format!("the largest share of the doubt ({:.0} %)", 100.0 * top.share)
+        format!(
+            "the largest share of the doubt ({:.0} %)",
+            100.0 * top.share
+        )
     };
     let Some(input) = engine.inputs.iter().find(|i| i.id == top.input) else {
         return String::new();
@@ -220,15 +223,10 @@ fn doubt_sentence(
     let beta = point.angle_rad.to_degrees();
     let setup = window.setup();
     let reached = |id: CriterionId| {
-        setup.as_ref().ok().map(|s| {
-            headroom(
-                window,
-                s,
-                c,
-                &LimitRef::Criterion(id),
-                point.convention,
-            )
-        })
+        setup
+            .as_ref()
+            .ok()
+            .map(|s| headroom(window, s, c, &LimitRef::Criterion(id), point.convention))
     };
     let action = match input.kind {
         InputKind::Velocity => "measuring the set-up's impact velocity (for example by photon Doppler velocimetry on a trial shot) or a steadier set-up would narrow it".to_string(),
@@ -424,8 +422,18 @@ mod tests {
         let p = weld_probability(&w, &at(500.0, 14.0), &s, &sampling(20_000, 2)).expect("p");
         assert!(p.nominal_inside);
         assert!(p.inside > 0.99, "{}", p.inside);
-        let with_model = weld_probability(&w, &at(500.0, 14.0), &Scatter { model: true, ..s }, &sampling(20_000, 2)).expect("p");
-        assert!(with_model.inside > 0.8 && with_model.inside <= p.inside, "{}", with_model.inside);
+        let with_model = weld_probability(
+            &w,
+            &at(500.0, 14.0),
+            &Scatter { model: true, ..s },
+            &sampling(20_000, 2),
+        )
+        .expect("p");
+        assert!(
+            with_model.inside > 0.8 && with_model.inside <= p.inside,
+            "{}",
+            with_model.inside
+        );
     }
 
     /// On the Deribas lower limit (at 14 deg the impact velocity where it is reached, from the
@@ -439,9 +447,15 @@ mod tests {
         let setup = w.setup().expect("setup");
         let nominal = at(450.0, 14.0).collision(w.convention).expect("collision");
         let c = classify(&w, &setup, &nominal).expect("classify");
-        let v = headroom(&w, &setup, &c, &LimitRef::Criterion(CriterionId::DeribasLower), w.convention)
-            .velocity_m_s
-            .expect("Deribas reached");
+        let v = headroom(
+            &w,
+            &setup,
+            &c,
+            &LimitRef::Criterion(CriterionId::DeribasLower),
+            w.convention,
+        )
+        .velocity_m_s
+        .expect("Deribas reached");
         let s = Scatter {
             velocity: Some(VelocitySpread::Relative(0.03)),
             angle: None,
@@ -453,7 +467,12 @@ mod tests {
             .iter()
             .find(|f| f.limit == "deribas-lower")
             .expect("deribas");
-        assert!((p.inside - 0.5).abs() < 3.0 * p.standard_error, "{} +- {}", p.inside, p.standard_error);
+        assert!(
+            (p.inside - 0.5).abs() < 3.0 * p.standard_error,
+            "{} +- {}",
+            p.inside,
+            p.standard_error
+        );
         assert!((deribas.probability - (1.0 - p.inside)).abs() < 1e-12);
         assert_eq!(p.dominant_inputs[0].input, "velocity");
         assert!(p.dominant_inputs[0].share > 0.9, "{:?}", p.dominant_inputs);
@@ -472,7 +491,10 @@ mod tests {
         let c = weld_probability(&w, &at(420.0, 9.0), &s, &sampling(9_000, 5)).expect("c");
         assert_eq!(a.json(), b.json());
         assert_eq!(a.json(), c.json());
-        let other = Sampling { seed: 4, ..sampling(9_000, 2) };
+        let other = Sampling {
+            seed: 4,
+            ..sampling(9_000, 2)
+        };
         let d = weld_probability(&w, &at(420.0, 9.0), &s, &other).expect("d");
         assert_ne!(a.inside, d.inside);
     }
@@ -487,7 +509,11 @@ mod tests {
         };
         for (v, a) in [(450.0, 12.0), (300.0, 10.0), (700.0, 9.0)] {
             let p = weld_probability(&w, &at(v, a), &s, &sampling(100, 1)).expect("p");
-            assert_eq!(p.inside, if p.nominal_inside { 1.0 } else { 0.0 }, "{v} {a}");
+            assert_eq!(
+                p.inside,
+                if p.nominal_inside { 1.0 } else { 0.0 },
+                "{v} {a}"
+            );
             assert!(p.dominant_inputs.is_empty());
         }
     }

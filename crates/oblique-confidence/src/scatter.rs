@@ -70,7 +70,7 @@ impl Scatter {
     /// [`ConfidenceError::Invalid`] for a negative, non-finite or oversized spread.
     pub fn validate(&self) -> ConfidenceResult<()> {
         match self.velocity {
-            Some(VelocitySpread::Relative(r)) if !(r >= 0.0 && r <= MAX_RELATIVE_VELOCITY_SD) => {
+            Some(VelocitySpread::Relative(r)) if !(0.0..=MAX_RELATIVE_VELOCITY_SD).contains(&r) => {
                 return Err(ConfidenceError::invalid(
                     "--velocity-sd",
                     format!(
@@ -81,7 +81,7 @@ impl Scatter {
                 ))
             }
             Some(VelocitySpread::Absolute(a))
-                if !(a >= 0.0 && a <= MAX_ABSOLUTE_VELOCITY_SD_M_S) =>
+                if !(0.0..=MAX_ABSOLUTE_VELOCITY_SD_M_S).contains(&a) =>
             {
                 return Err(ConfidenceError::invalid(
                     "--velocity-sd",
@@ -92,7 +92,7 @@ impl Scatter {
         }
         if let Some(a) = self.angle {
             let d = a.degrees();
-            if !(d >= 0.0 && d <= MAX_ANGLE_SD_DEG) {
+            if !(0.0..=MAX_ANGLE_SD_DEG).contains(&d) {
                 return Err(ConfidenceError::invalid(
                     "--angle-sd",
                     format!("{d} deg is outside 0 to {MAX_ANGLE_SD_DEG} deg"),

@@ -3,7 +3,7 @@
 //! repetitions. The observed coverage is printed (run with `--nocapture`) and recorded in
 //! docs/theory.md §15.3.
 
-use oblique_confidence::fit::{fit, synthetic_trials, FitSettings};
+use oblique_confidence::fit::{fit, synthetic_trials, FitSettings, SyntheticDesign};
 use oblique_confidence::priors::Constant;
 
 const REPETITIONS: usize = 200;
@@ -24,13 +24,15 @@ fn intervals_cover_the_truth_in_about_95_percent_of_repetitions() {
                         // 3 % velocity and 1 deg angle noise (invented, seeded per repetition).
                         let w = synthetic_trials(
                             demo,
-                            TRUTH,
-                            60,
-                            (250.0, 900.0),
-                            (2.0, 30.0),
-                            0.03,
-                            1.0,
-                            1000 + rep as u64,
+                            &SyntheticDesign {
+                                truth: TRUTH,
+                                shots: 60,
+                                velocity_m_s: (250.0, 900.0),
+                                angle_deg: (2.0, 30.0),
+                                sd_velocity_relative: 0.03,
+                                sd_angle_deg: 1.0,
+                                seed: 1000 + rep as u64,
+                            },
                         )
                         .expect("trials");
                         let r = fit(&w, &FitSettings::default()).expect("fit");
@@ -54,7 +56,10 @@ fn intervals_cover_the_truth_in_about_95_percent_of_repetitions() {
                 })
             })
             .collect();
-        handles.into_iter().flat_map(|h| h.join().expect("worker")).collect()
+        handles
+            .into_iter()
+            .flat_map(|h| h.join().expect("worker"))
+            .collect()
     });
     assert_eq!(results.len(), REPETITIONS);
     for c in [Constant::DeribasK, Constant::WittmanN] {
@@ -73,7 +78,11 @@ fn intervals_cover_the_truth_in_about_95_percent_of_repetitions() {
         );
         // 200 repetitions: the binomial standard deviation of a 95 % coverage is 1.5 %; allow
         // about four of them either way.
-        assert!((0.89..=0.995).contains(&coverage), "{}: {coverage}", c.key());
+        assert!(
+            (0.89..=0.995).contains(&coverage),
+            "{}: {coverage}",
+            c.key()
+        );
         assert!(bounded > REPETITIONS * 8 / 10, "{}: {bounded}", c.key());
     }
 }

@@ -4,7 +4,9 @@
 //! configurable). The legend states the scatter assumed.
 
 use crate::error::RenderResult;
-use crate::window_plot::{contour, draw, encode_png, plot_err, prepare, register_fonts, PlotRequest, HEIGHT, WIDTH};
+use crate::window_plot::{
+    contour, draw, encode_png, plot_err, prepare, register_fonts, PlotRequest, HEIGHT, WIDTH,
+};
 use oblique_confidence::{probability_grid, ProbabilityGrid, Sampling, Scatter};
 use plotters::coord::types::RangedCoordf64;
 use plotters::prelude::*;
@@ -39,13 +41,16 @@ impl ProbabilityOverlay {
     }
 }
 
+/// A polyline in the plot's coordinates (velocity m/s, angle deg).
+pub type Polyline = Vec<(f64, f64)>;
+
 /// The grid and its contour lines, in the plot's coordinates.
 #[derive(Debug, Clone)]
 pub struct Contours {
     /// The probability grid (typed, for reports and tests).
     pub grid: ProbabilityGrid,
     /// Per level: the level and its polylines (velocity m/s, angle deg).
-    pub lines: Vec<(f64, Vec<Vec<(f64, f64)>>)>,
+    pub lines: Vec<(f64, Vec<Polyline>)>,
 }
 
 /// The probability grid over [0, x_max] x [0, y_max] and its contours at `overlay.levels`.
@@ -127,7 +132,11 @@ pub(crate) fn draw_contours<DB: DrawingBackend>(
                 )))
                 .map_err(plot_err)?;
         }
-        legend.push((format!("weld probability {:.0} %", 100.0 * level), style, mark));
+        legend.push((
+            format!("weld probability {:.0} %", 100.0 * level),
+            style,
+            mark,
+        ));
     }
     let s = &c.grid.scatter;
     legend.push((

@@ -272,8 +272,11 @@ fn default_level() -> f64 {
 impl Fitted {
     /// The names of the constants a fit may carry, with the largest value accepted for each
     /// (the command line's bounds, docs/theory.md).
-    pub const CONSTANTS: [(&'static str, f64); 3] =
-        [("deribas_k", 5.0), ("wittman_n", 10.0), ("hel_multiple", 100.0)];
+    pub const CONSTANTS: [(&'static str, f64); 3] = [
+        ("deribas_k", 5.0),
+        ("wittman_n", 10.0),
+        ("hel_multiple", 100.0),
+    ];
 
     /// A fitted constant by name (`deribas_k`, `wittman_n`, `hel_multiple`).
     pub fn constant(&self, key: &str) -> Option<&FittedValue> {

@@ -700,7 +700,10 @@ pub fn render_fitted(f: &crate::pair::Fitted) -> String {
     s.push_str(&format!("        observations: {},\n", f.observations));
     s.push_str(&format!("        level: {},\n", ron_number(f.level, 4)));
     for (key, v) in f.constants() {
-        s.push_str(&format!("        {key}: (value: {}", ron_number(v.value, 4)));
+        s.push_str(&format!(
+            "        {key}: (value: {}",
+            ron_number(v.value, 4)
+        ));
         if let Some(lo) = v.low {
             s.push_str(&format!(", low: {}", ron_number(lo, 4)));
         }
@@ -979,9 +982,15 @@ mod tests {
         let two = set_top_field(p, &one, "fitted", "(b: 2)").expect("replace");
         assert_eq!(two, one.replace("(a: 1)", "(b: 2)"));
         let some = one.replace("fitted: (a: 1)", "fitted: Some((a: 1))");
-        assert_eq!(set_top_field(p, &some, "fitted", "(b: 2)").expect("some"), two);
+        assert_eq!(
+            set_top_field(p, &some, "fitted", "(b: 2)").expect("some"),
+            two
+        );
         let none = one.replace("fitted: (a: 1)", "fitted: None");
-        assert_eq!(set_top_field(p, &none, "fitted", "(b: 2)").expect("none"), two);
+        assert_eq!(
+            set_top_field(p, &none, "fitted", "(b: 2)").expect("none"),
+            two
+        );
         let crlf = format!("\u{feff}{}", base.replace('\n', "\r\n"));
         let out = set_top_field(p, &crlf, "fitted", "(\n        a: 1,\n    )").expect("crlf");
         assert!(out.starts_with('\u{feff}'));

@@ -97,7 +97,9 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
             velocity: match (a.velocity.velocity, a.velocity.collision_velocity) {
                 (Some(v), _) => oblique_confidence::PointVelocity::Impact(v),
                 (None, Some(v)) => oblique_confidence::PointVelocity::Collision(v),
-                (None, None) => oblique_confidence::PointVelocity::Impact(point.impact_velocity.si()),
+                (None, None) => {
+                    oblique_confidence::PointVelocity::Impact(point.impact_velocity.si())
+                }
             },
             angle_rad: a.angle,
         };
@@ -105,7 +107,8 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
             &window,
             &p,
             &a.scatter.scatter(),
-            &a.scatter.sampling(oblique_confidence::scatter::DEFAULT_SAMPLES),
+            &a.scatter
+                .sampling(oblique_confidence::scatter::DEFAULT_SAMPLES),
         )?)
     } else {
         None
@@ -156,7 +159,8 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         }
         return emit_json(&v);
     }
-    let mut text = converted.unwrap_or_default() + &classification_text(&window, &c, a.pair.is_some());
+    let mut text =
+        converted.unwrap_or_default() + &classification_text(&window, &c, a.pair.is_some());
     if let Some(n) = fitted_note {
         text.push_str(&n);
     }

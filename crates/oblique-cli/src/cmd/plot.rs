@@ -191,7 +191,9 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
     let bytes = if a.probability {
         let mut overlay = oblique_render::probability::ProbabilityOverlay::new(
             a.scatter.scatter(),
-            a.scatter.seed.unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
+            a.scatter
+                .seed
+                .unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
         );
         overlay.sampling = a
             .scatter

@@ -392,7 +392,12 @@ fn weld_probability_json_has_the_contract_keys() {
     assert_eq!(p["samples"], 20000);
     assert_eq!(p["seed"], 1);
     let failure = p["criteria_failure"].as_object().expect("object");
-    for key in ["deribas-lower", "melting-upper", "jetting", "tip bounce-back angle (HBW-2026)"] {
+    for key in [
+        "deribas-lower",
+        "melting-upper",
+        "jetting",
+        "tip bounce-back angle (HBW-2026)",
+    ] {
         assert!(failure.contains_key(key), "{key} in {p}");
     }
     let shares: Vec<f64> = p["dominant_inputs"]
@@ -406,7 +411,10 @@ fn weld_probability_json_has_the_contract_keys() {
         .collect();
     assert!(!shares.is_empty());
     assert!(shares.windows(2).all(|w| w[0] >= w[1]), "{shares:?}");
-    assert!(p["caution"].as_str().expect("caution").contains("not a guarantee"));
+    assert!(p["caution"]
+        .as_str()
+        .expect("caution")
+        .contains("not a guarantee"));
     assert!(!p["not_covered"].as_array().expect("list").is_empty());
 }
 
@@ -465,7 +473,13 @@ fn bad_scatter_input_exits_2_naming_the_flag() {
     ];
     for (extra, flag) in cases {
         let mut args = vec![
-            "check", "--pair", "demo-al6061-on-cu", "--velocity", "450m/s", "--angle", "10deg",
+            "check",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity",
+            "450m/s",
+            "--angle",
+            "10deg",
         ];
         args.extend_from_slice(extra);
         fails_with(&args, &[flag]);
@@ -477,17 +491,40 @@ fn plot_probability_draws_contours_and_states_the_scatter() {
     let dir = tempfile::tempdir().expect("tempdir");
     let out = dir.path().join("p.svg");
     let o = run(&[
-        "plot", "--pair", "demo-al6061-on-cu", "--probability", "--velocity-sd", "5%", "--angle-sd", "1deg",
-        "--samples", "32", "-o", out.to_str().expect("path"),
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--probability",
+        "--velocity-sd",
+        "5%",
+        "--angle-sd",
+        "1deg",
+        "--samples",
+        "32",
+        "-o",
+        out.to_str().expect("path"),
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let svg = std::fs::read_to_string(&out).expect("svg");
     roxmltree::Document::parse(&svg).expect("well-formed");
-    for needle in ["weld probability 10 %", "weld probability 50 %", "weld probability 90 %", "velocity sd 5 %"] {
+    for needle in [
+        "weld probability 10 %",
+        "weld probability 50 %",
+        "weld probability 90 %",
+        "velocity sd 5 %",
+    ] {
         assert!(svg.contains(needle), "{needle}");
     }
     fails_with(
-        &["plot", "--pair", "demo-al6061-on-cu", "--velocity-sd", "5%", "-o", out.to_str().expect("path")],
+        &[
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity-sd",
+            "5%",
+            "-o",
+            out.to_str().expect("path"),
+        ],
         &["need --probability"],
     );
 }

@@ -375,7 +375,11 @@ pub(super) fn fitted(c: &mut Collector, parsed: &PairFile) -> Option<Fitted> {
     let f = parsed.fitted.as_ref()?;
     let before = c.problems.len();
     if let Some(problem) = crate::diag::date_problem(&f.date) {
-        c.push("fitted.date", problem, Some("write it like \"2026-11-30\"".into()));
+        c.push(
+            "fitted.date",
+            problem,
+            Some("write it like \"2026-11-30\"".into()),
+        );
     }
     if f.method.trim().is_empty() {
         c.push("fitted.method", "a fit needs its method in words", None);
@@ -411,10 +415,7 @@ pub(super) fn fitted(c: &mut Collector, parsed: &PairFile) -> Option<Fitted> {
         if v.low.is_some_and(|lo| lo > v.value) || v.high.is_some_and(|hi| hi < v.value) {
             c.push(
                 &base,
-                format!(
-                    "the value {} lies outside its own interval",
-                    v.value
-                ),
+                format!("the value {} lies outside its own interval", v.value),
                 Some("low <= value <= high".into()),
             );
         }
