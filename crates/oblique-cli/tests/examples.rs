@@ -3,6 +3,8 @@
 
 #[path = "../../../examples/check_point.rs"]
 mod check_point;
+#[path = "../../../examples/weld_probability.rs"]
+mod weld_probability;
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
@@ -33,6 +35,11 @@ fn p(path: &Path) -> &str {
 #[test]
 fn example_check_point_runs() {
     check_point::main();
+}
+
+#[test]
+fn example_weld_probability_runs() {
+    weld_probability::main();
 }
 
 #[test]

@@ -81,5 +81,37 @@ fn grid(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, point, grid);
+fn fit_and_next_shot(c: &mut Criterion) {
+    use oblique_confidence::fit::{fit, synthetic_trials, SyntheticDesign};
+    use oblique_confidence::next_shot::{next_shots, NextShotSettings};
+    let w = demo();
+    let mut g = c.benchmark_group("fit");
+    g.sample_size(10);
+    // An invented series of 500 shots (the recovery test's design).
+    let trials = synthetic_trials(
+        &w,
+        &SyntheticDesign {
+            truth: [0.8, 0.13, 5.0],
+            shots: 500,
+            velocity_m_s: (250.0, 900.0),
+            angle_deg: (2.0, 30.0),
+            sd_velocity_relative: 0.03,
+            sd_angle_deg: 1.0,
+            seed: 7,
+        },
+    )
+    .expect("trials");
+    g.bench_function("pair fit, 500 observations (k and N, profile intervals)", |b| {
+        b.iter(|| black_box(fit(&trials, &Default::default()).expect("fit")))
+    });
+    g.bench_function("next-shot, 3 shots, demo pair (fit included)", |b| {
+        b.iter(|| black_box(next_shots(&w, &NextShotSettings::default()).expect("shots")))
+    });
+    g.bench_function("next-shot, 3 shots, 500 observations (fit included)", |b| {
+        b.iter(|| black_box(next_shots(&trials, &NextShotSettings::default()).expect("shots")))
+    });
+    g.finish();
+}
+
+criterion_group!(benches, point, grid, fit_and_next_shot);
 criterion_main!(benches);
