@@ -50,7 +50,11 @@ pub fn main() {
         scatter.text()
     );
     for f in &p.criteria_failure {
-        println!("  {} fails in {:.1} % of the samples", f.limit, 100.0 * f.probability);
+        println!(
+            "  {} fails in {:.1} % of the samples",
+            f.limit,
+            100.0 * f.probability
+        );
     }
     println!("  {}", p.doubt);
 

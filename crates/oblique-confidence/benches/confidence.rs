@@ -101,9 +101,10 @@ fn fit_and_next_shot(c: &mut Criterion) {
         },
     )
     .expect("trials");
-    g.bench_function("pair fit, 500 observations (k and N, profile intervals)", |b| {
-        b.iter(|| black_box(fit(&trials, &Default::default()).expect("fit")))
-    });
+    g.bench_function(
+        "pair fit, 500 observations (k and N, profile intervals)",
+        |b| b.iter(|| black_box(fit(&trials, &Default::default()).expect("fit"))),
+    );
     g.bench_function("next-shot, 3 shots, demo pair (fit included)", |b| {
         b.iter(|| black_box(next_shots(&w, &NextShotSettings::default()).expect("shots")))
     });

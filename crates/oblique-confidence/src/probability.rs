@@ -1,7 +1,7 @@
 //! The weld probability at one point: the share of samples inside the window, its standard
 //! error, the failure probability of every limit, and the inputs that dominate the doubt.
 
-use crate::engine::{Engine, Limit, Tally, BINS};
+use crate::engine::{Engine, Tally, BINS};
 use crate::error::ConfidenceResult;
 use crate::inputs::{Input, InputKind};
 use crate::present::{percent, CAUTION};
@@ -126,7 +126,7 @@ pub fn weld_probability(
         })
         .collect();
     let (dominant_inputs, interactions) = shares(&engine.inputs, &tally);
-    let doubt = doubt_sentence(window, &engine, point, &c, &dominant_inputs, &tally);
+    let doubt = doubt_sentence(window, &setup, &engine, point, &c, &dominant_inputs, &tally);
     Ok(WeldProbability {
         inside: p,
         standard_error: (p * (1.0 - p) / n).sqrt(),
@@ -196,6 +196,7 @@ fn shares(inputs: &[Input], t: &Tally) -> (Vec<InputShare>, Option<f64>) {
 /// (where the melting limit lies) would narrow it."
 fn doubt_sentence(
     window: &PairWindow,
+    setup: &oblique_core::PairSetup,
     engine: &Engine<'_>,
     point: &Point,
     c: &oblique_window::Classification,
@@ -221,12 +222,14 @@ fn doubt_sentence(
         return String::new();
     };
     let beta = point.angle_rad.to_degrees();
-    let setup = window.setup();
     let reached = |id: CriterionId| {
-        setup
-            .as_ref()
-            .ok()
-            .map(|s| headroom(window, s, c, &LimitRef::Criterion(id), point.convention))
+        Some(headroom(
+            window,
+            setup,
+            c,
+            &LimitRef::Criterion(id),
+            point.convention,
+        ))
     };
     let action = match input.kind {
         InputKind::Velocity => "measuring the set-up's impact velocity (for example by photon Doppler velocimetry on a trial shot) or a steadier set-up would narrow it".to_string(),
@@ -358,24 +361,6 @@ impl WeldProbability {
         }
         s.push_str(&format!("  {}\n", self.caution));
         s
-    }
-}
-
-/// The engine's limits, for callers that label them.
-pub fn limit_labels(window: &PairWindow) -> Vec<String> {
-    let dummy = Point {
-        convention: window.convention,
-        velocity: crate::scatter::PointVelocity::Impact(400.0),
-        angle_rad: 0.2,
-    };
-    let scatter = Scatter {
-        velocity: None,
-        angle: None,
-        model: false,
-    };
-    match Engine::new(window, &dummy, &scatter) {
-        Ok(e) => e.limits.iter().map(|l: &Limit| e.limit_label(l)).collect(),
-        Err(_) => Vec::new(),
     }
 }
 

@@ -13,6 +13,9 @@ use std::collections::BTreeMap;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
+mod fitted;
+pub use fitted::{render_fitted, save_fitted, set_top_field};
+
 /// Test hook: when set to a number of milliseconds, a write pauses that long after the temporary
 /// file is complete and before the rename, so that a test can kill the process mid-write.
 pub const FAULT_PAUSE_ENV: &str = "OBLIQUE_FAULT_PAUSE_BEFORE_RENAME_MS";
@@ -571,17 +574,7 @@ pub fn append_to_top_list(
     list: &str,
     rendered: &str,
 ) -> Result<String, WriteError> {
-    let (bom, body) = match text.strip_prefix('\u{feff}') {
-        Some(rest) => ("\u{feff}", rest),
-        None => ("", text),
-    };
-    let crlf = body.contains("\r\n");
-    let nl = if crlf { "\r\n" } else { "\n" };
-    let rendered = if crlf {
-        rendered.replace("\r\n", "\n").replace('\n', "\r\n")
-    } else {
-        rendered.to_string()
-    };
+    let (bom, body, nl, rendered) = edit_parts(text, rendered);
     let index = RonIndex::scan(body);
     let mut out = String::with_capacity(text.len() + rendered.len() + 64);
     out.push_str(bom);
@@ -622,6 +615,23 @@ pub fn append_to_top_list(
     out.push_str("    ],");
     out.push_str(&body[t.code_end..]);
     Ok(out)
+}
+
+/// A user file's text split for an edit: its byte-order mark (kept first), the rest, the line
+/// end the file uses, and `rendered` (written with `\n`) converted to that line end.
+fn edit_parts<'t>(text: &'t str, rendered: &str) -> (&'static str, &'t str, &'static str, String) {
+    let (bom, body) = match text.strip_prefix('\u{feff}') {
+        Some(rest) => ("\u{feff}", rest),
+        None => ("", text),
+    };
+    let crlf = body.contains("\r\n");
+    let nl = if crlf { "\r\n" } else { "\n" };
+    let rendered = if crlf {
+        rendered.replace("\r\n", "\n").replace('\n', "\r\n")
+    } else {
+        rendered.to_string()
+    };
+    (bom, body, nl, rendered)
 }
 
 /// Update the user's file at `path`: read it (refusing if it is not `expected_sha256`, when the
@@ -678,140 +688,6 @@ pub fn update_file<T>(
     let parsed = parse(origin, &new_text).map_err(WriteError::Invalid)?;
     write_target(&target, new_text.as_bytes(), Some(&read_sha))?;
     Ok(parsed)
-}
-
-/// A number for a RON file: at most `digits` significant digits, written so that it reads back
-/// as the same `f64` (the shortest representation of the rounded value).
-fn ron_number(x: f64, digits: i32) -> String {
-    if x == 0.0 || !x.is_finite() {
-        return format!("{x:?}");
-    }
-    let scale = 10f64.powi(digits - 1 - x.abs().log10().floor() as i32);
-    let r = (x * scale).round() / scale;
-    format!("{r:?}")
-}
-
-/// The RON text of a `fitted` section (the value only, indented for a top-level field), every
-/// number rounded to four significant digits.
-pub fn render_fitted(f: &crate::pair::Fitted) -> String {
-    let mut s = String::from("(\n");
-    s.push_str(&format!("        date: {},\n", ron_string(&f.date)));
-    s.push_str(&format!("        method: {},\n", ron_string(&f.method)));
-    s.push_str(&format!("        observations: {},\n", f.observations));
-    s.push_str(&format!("        level: {},\n", ron_number(f.level, 4)));
-    for (key, v) in f.constants() {
-        s.push_str(&format!(
-            "        {key}: (value: {}",
-            ron_number(v.value, 4)
-        ));
-        if let Some(lo) = v.low {
-            s.push_str(&format!(", low: {}", ron_number(lo, 4)));
-        }
-        if let Some(hi) = v.high {
-            s.push_str(&format!(", high: {}", ron_number(hi, 4)));
-        }
-        s.push_str("),\n");
-    }
-    s.push_str("    )");
-    s
-}
-
-/// The text of `text` with the top-level field `field` set to `value` (RON text, `\n` line
-/// ends): an existing value is replaced, bytes before and after it kept; a missing field is
-/// added before the top-level closing parenthesis. A byte-order mark stays first and a file with
-/// CRLF line ends gets CRLF.
-///
-/// # Errors
-/// [`WriteError::Structure`] when the file's structure cannot be followed.
-pub fn set_top_field(
-    path: &Path,
-    text: &str,
-    field: &str,
-    value: &str,
-) -> Result<String, WriteError> {
-    let (bom, body) = match text.strip_prefix('\u{feff}') {
-        Some(rest) => ("\u{feff}", rest),
-        None => ("", text),
-    };
-    let crlf = body.contains("\r\n");
-    let nl = if crlf { "\r\n" } else { "\n" };
-    let value = if crlf {
-        value.replace('\n', "\r\n")
-    } else {
-        value.to_string()
-    };
-    let index = RonIndex::scan(body);
-    let structure = |message: &str| WriteError::Structure {
-        path: path.to_path_buf(),
-        message: message.into(),
-    };
-    let mut out = String::with_capacity(text.len() + value.len() + 64);
-    out.push_str(bom);
-    if let Some(mut start) = index.start(field) {
-        // The value's end: after its closing parenthesis, or after a bare identifier such as
-        // `None`. The scanner starts a `Some(..)` value at its inner parenthesis: take the
-        // wrapper too.
-        let mut end = match index.tail(field) {
-            Some(t) => t.close + 1,
-            None => {
-                let rest = &body[start..];
-                start
-                    + rest
-                        .find(|c: char| !(c.is_ascii_alphanumeric() || c == '_'))
-                        .unwrap_or(rest.len())
-            }
-        };
-        let before = body[..start].trim_end();
-        if let Some(wrapper) = before.strip_suffix('(').map(str::trim_end) {
-            if wrapper.ends_with("Some") {
-                start = wrapper.len() - "Some".len();
-                let rest = &body[end..];
-                let skip = rest.len() - rest.trim_start().len();
-                if !rest.trim_start().starts_with(')') {
-                    return Err(structure("cannot find the end of the `fitted` value"));
-                }
-                end += skip + 1;
-            }
-        }
-        out.push_str(&body[..start]);
-        out.push_str(&value);
-        out.push_str(&body[end..]);
-        return Ok(out);
-    }
-    let t = index
-        .tail("")
-        .ok_or_else(|| structure("no closing parenthesis found for the top-level structure"))?;
-    out.push_str(&body[..t.code_end]);
-    if t.needs_comma {
-        out.push(',');
-    }
-    out.push_str(nl);
-    out.push_str(&format!("    {field}: "));
-    out.push_str(&value);
-    out.push(',');
-    out.push_str(&body[t.code_end..]);
-    Ok(out)
-}
-
-/// Write fitted constants into the pair file at `path` (replacing an earlier fit), through the
-/// folder lock and the atomic write; every other byte, every observation included, is kept.
-/// The new text is validated against `materials` before it is written.
-///
-/// # Errors
-/// [`WriteError`]; the file is untouched on every error.
-pub fn save_fitted(
-    path: &Path,
-    fitted: &crate::pair::Fitted,
-    materials: &BTreeMap<String, MaterialRecord>,
-    expected_sha256: Option<&str>,
-) -> Result<PairWindow, WriteError> {
-    let value = render_fitted(fitted);
-    update_file(
-        path,
-        expected_sha256,
-        |text| set_top_field(path, text, "fitted", &value),
-        |origin, text| parse_pair_file(origin, text, materials).map(|(_, w)| w),
-    )
 }
 
 /// Append observations to the pair file at `path`: validate the new text against `materials`,

@@ -15,7 +15,8 @@ use std::path::PathBuf;
   oblique check --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --velocity 350m/s --angle 12deg --convention normal-to-flyer
   oblique check --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --collision-velocity 2.4km/s --angle 10deg --convention bisector --deribas-k 1.0 --json
   oblique check --pair demo-al6061-on-cu --velocity 320m/s --angle 9deg
-  oblique check --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg --velocity-sd 5% --angle-sd 1deg
+  oblique check --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg \\
+      --velocity-sd 5% --angle-sd 1deg
 
 With --velocity-sd, --angle-sd (or --samples, --seed, --model-uncertainty) the weld probability is
 estimated by sampling: the stated scatter, and (model uncertainty on, the default) the criterion
