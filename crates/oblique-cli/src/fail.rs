@@ -76,3 +76,13 @@ impl From<oblique_render::RenderError> for Fail {
         }
     }
 }
+
+impl From<oblique_confidence::ConfidenceError> for Fail {
+    fn from(e: oblique_confidence::ConfidenceError) -> Self {
+        if e.is_input() {
+            Fail::input(e.to_string())
+        } else {
+            Fail::other(e.to_string())
+        }
+    }
+}

@@ -151,3 +151,112 @@ pub fn date(s: &str) -> Result<String, String> {
         Some(p) => Err(format!("{p}: write it as YYYY-MM-DD, e.g. 2026-11-30")),
     }
 }
+
+/// A velocity standard deviation: relative (`5%`, 0 to 50 %) or absolute (`20m/s`).
+pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String> {
+    use oblique_confidence::scatter::{MAX_ABSOLUTE_VELOCITY_SD_M_S, MAX_RELATIVE_VELOCITY_SD};
+    let t = s.trim();
+    if let Some(p) = t.strip_suffix('%') {
+        let v: f64 = p.trim().parse().map_err(|_| {
+            format!("'{s}' is not a percentage (write it like 5%) or a velocity (20m/s)")
+        })?;
+        if !(v.is_finite() && v >= 0.0) {
+            return Err(format!("{v} % must be zero or above"));
+        }
+        if v > 100.0 * MAX_RELATIVE_VELOCITY_SD {
+            return Err(format!(
+                "{v} % is above {} %: beyond it a normal scatter puts visible weight on negative velocities",
+                100.0 * MAX_RELATIVE_VELOCITY_SD
+            ));
+        }
+        return Ok(oblique_confidence::VelocitySpread::Relative(v / 100.0));
+    }
+    let v = velocity(t).map_err(|e| format!("{e} (or a percentage such as 5%)"))?;
+    if !(v >= 0.0) {
+        return Err(format!(
+            "a standard deviation must be zero or above, got {v} m/s"
+        ));
+    }
+    if v > MAX_ABSOLUTE_VELOCITY_SD_M_S {
+        return Err(format!(
+            "{v} m/s is above {MAX_ABSOLUTE_VELOCITY_SD_M_S} m/s"
+        ));
+    }
+    Ok(oblique_confidence::VelocitySpread::Absolute(v))
+}
+
+/// An angle standard deviation (0 to 30 deg), with its unit; a percentage is refused.
+pub fn angle_sd(s: &str) -> Result<f64, String> {
+    if s.trim().ends_with('%') {
+        return Err(format!(
+            "'{s}': the angle's standard deviation needs an angle such as 1deg, not a percentage"
+        ));
+    }
+    let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;
+    let deg = rad.to_degrees();
+    if !(deg >= 0.0) {
+        return Err(format!(
+            "a standard deviation must be zero or above, got {deg} deg"
+        ));
+    }
+    if deg > oblique_confidence::scatter::MAX_ANGLE_SD_DEG {
+        return Err(format!(
+            "{deg} deg is above {} deg",
+            oblique_confidence::scatter::MAX_ANGLE_SD_DEG
+        ));
+    }
+    Ok(rad)
+}
+
+/// A number of samples: a whole number from 1 to 10 000 000.
+pub fn samples(s: &str) -> Result<usize, String> {
+    let max = oblique_confidence::scatter::MAX_SAMPLES;
+    let n: usize = s
+        .trim()
+        .replace('_', "")
+        .parse()
+        .map_err(|_| format!("'{s}' is not a whole number of samples (1 to {max})"))?;
+    if n == 0 || n > max {
+        return Err(format!(
+            "{n} is outside 1 to {max} (10 million samples take about 2 s at one point)"
+        ));
+    }
+    Ok(n)
+}
+
+/// A confidence level as a percentage, strictly between 0 and 100 % (e.g. 95%).
+pub fn level(s: &str) -> Result<f64, String> {
+    let p = s
+        .trim()
+        .strip_suffix('%')
+        .ok_or_else(|| format!("'{s}' needs a percent sign, e.g. 95%"))?;
+    let v: f64 = p
+        .trim()
+        .parse()
+        .map_err(|_| format!("'{s}' is not a percentage, e.g. 95%"))?;
+    if !(v > 0.0 && v < 100.0) {
+        return Err(format!("{v} % is outside (0, 100) %"));
+    }
+    Ok(v / 100.0)
+}
+
+fn range(s: &str, one: fn(&str) -> Result<f64, String>) -> Result<(f64, f64), String> {
+    let (a, b) = s
+        .split_once("..")
+        .ok_or_else(|| format!("'{s}' is not LOW..HIGH (for example 300m/s..700m/s)"))?;
+    let (a, b) = (one(a)?, one(b)?);
+    if !(a < b) {
+        return Err(format!("'{s}': the low end must be below the high end"));
+    }
+    Ok((a, b))
+}
+
+/// A velocity range LOW..HIGH, both ends with units.
+pub fn velocity_range(s: &str) -> Result<(f64, f64), String> {
+    range(s, positive_velocity)
+}
+
+/// An angle range LOW..HIGH inside (0, 90) deg, both ends with units (radians inside).
+pub fn angle_range(s: &str) -> Result<(f64, f64), String> {
+    range(s, angle)
+}

@@ -308,7 +308,7 @@ const SWEEP: &[&str] = &[
 ];
 
 #[test]
-fn sweep_ranks_the_settings_inside_by_their_velocity_headroom() {
+fn sweep_ranks_the_settings_inside_by_weld_probability_then_headroom() {
     let v = ok_json(&with(SWEEP, &["--angle", "8deg", "--json"]));
     let points = v["points"].as_array().expect("array");
     assert_eq!(points.len(), 28);
@@ -317,18 +317,32 @@ fn sweep_ranks_the_settings_inside_by_their_velocity_headroom() {
     assert!(!ranked.is_empty(), "the demo sweep has settings inside");
     assert_eq!(ranked.len(), inside.len());
     assert_eq!(v["inside_count"].as_u64(), Some(ranked.len() as u64));
-    // Ranked by how far the impact velocity can move at the same angle before the verdict
-    // changes, relative to Vp, largest first.
-    let headroom: Vec<f64> = ranked
+    // Ranked by weld probability (to 1 %), ties by how far the impact velocity can move at the
+    // same angle before the verdict changes, relative to Vp, largest first; and it says so.
+    let keys: Vec<(i64, f64)> = ranked
         .iter()
         .map(|p| {
             let vp = p["impact_velocity_m_s"].as_f64().expect("vp");
-            p["verdict_change_impact_velocity_m_s"]
+            let headroom = p["verdict_change_impact_velocity_m_s"]
                 .as_f64()
-                .map_or(f64::INFINITY, |x| (x - vp).abs() / vp)
+                .map_or(f64::INFINITY, |x| (x - vp).abs() / vp);
+            let prob = p["weld_probability"].as_f64().expect("probability");
+            ((prob * 100.0).round() as i64, headroom)
         })
         .collect();
-    assert!(headroom.windows(2).all(|w| w[0] >= w[1]), "{headroom:?}");
+    assert!(
+        keys.windows(2)
+            .all(|w| w[0].0 > w[1].0 || (w[0].0 == w[1].0 && w[0].1 >= w[1].1)),
+        "{keys:?}"
+    );
+    assert!(v["ranking"]
+        .as_str()
+        .expect("ranking")
+        .contains("by weld probability"));
+    assert!(v["probability"]["velocity_spread_basis"]
+        .as_str()
+        .expect("basis")
+        .contains("not calibrated"));
     assert!(ranked
         .iter()
         .all(|p| p["binding_relative_margin"].as_f64().expect("number") >= 0.0));
@@ -876,4 +890,63 @@ fn sheet_estimate_with_the_demo_bar_coil() {
     let vp = velocity(&v);
     assert!((150.0..=700.0).contains(&vp), "{vp}");
     assert!((vp - 403.0).abs() < 5.0, "{vp}");
+}
+
+#[test]
+fn estimate_carries_the_velocity_uncertainty_into_a_weld_probability() {
+    let v = ok_json(&with(
+        TUBE,
+        &[
+            "--standoff",
+            "2mm",
+            "--charge-voltage",
+            "8kV",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--angle",
+            "10deg",
+            "--samples",
+            "5000",
+            "--json",
+        ],
+    ));
+    let p = &v["probability"];
+    let inside = p["inside"].as_f64().expect("inside");
+    assert!((0.0..=1.0).contains(&inside));
+    assert_eq!(p["samples"], 5000);
+    // Uncalibrated efficiency: the wide documented spread (25 %).
+    assert_eq!(p["scatter"]["velocity_sd"]["value"].as_f64(), Some(0.25));
+    assert!(p["velocity_spread_basis"]
+        .as_str()
+        .expect("basis")
+        .contains("not calibrated"));
+    // A stated spread replaces it.
+    let v = ok_json(&with(
+        TUBE,
+        &[
+            "--standoff",
+            "2mm",
+            "--charge-voltage",
+            "8kV",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--angle",
+            "10deg",
+            "--samples",
+            "5000",
+            "--velocity-sd",
+            "5%",
+            "--json",
+        ],
+    ));
+    assert_eq!(
+        v["probability"]["scatter"]["velocity_sd"]["value"].as_f64(),
+        Some(0.05)
+    );
+    // Without a window there is no probability.
+    let v = ok_json(&with(
+        TUBE,
+        &["--standoff", "2mm", "--charge-voltage", "8kV", "--json"],
+    ));
+    assert!(v.get("probability").is_none());
 }

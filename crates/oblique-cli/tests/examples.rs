@@ -7,6 +7,8 @@ mod check_point;
 mod classify_interface;
 #[path = "../../../examples/estimate_setup.rs"]
 mod estimate_setup;
+#[path = "../../../examples/weld_probability.rs"]
+mod weld_probability;
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
@@ -47,6 +49,11 @@ fn example_classify_interface_runs() {
 #[test]
 fn example_estimate_setup_runs() {
     estimate_setup::main();
+}
+
+#[test]
+fn example_weld_probability_runs() {
+    weld_probability::main();
 }
 
 #[test]

@@ -9,13 +9,20 @@ pub enum RenderError {
     /// The drawing library or the image encoder failed (exit 1 in the CLI).
     #[error("plot: {0}")]
     Draw(String),
+    /// The weld probability could not be computed (a setting out of range is bad input).
+    #[error(transparent)]
+    Confidence(#[from] oblique_confidence::ConfidenceError),
 }
 
 impl RenderError {
     /// True when the cause is the user's input rather than the program.
     #[must_use]
     pub fn is_input(&self) -> bool {
-        matches!(self, RenderError::Physics(_))
+        match self {
+            RenderError::Physics(_) => true,
+            RenderError::Confidence(e) => e.is_input(),
+            RenderError::Draw(_) => false,
+        }
     }
 }
 

@@ -25,6 +25,7 @@
 
 pub mod error;
 pub mod png;
+pub mod probability;
 pub mod report;
 pub mod sweep_plot;
 pub mod weld_map;

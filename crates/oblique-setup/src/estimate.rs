@@ -39,6 +39,9 @@ pub struct PulseReport<'a> {
     pub estimate: PulseEstimate,
     /// The window check at the user's angle, when there is an impact, a window and an angle.
     pub check: Option<Classification>,
+    /// The weld probability at the estimated point under the velocity's uncertainty, with the
+    /// basis of its spread, once computed (`crate::uncertainty::estimate_probability`).
+    pub probability: Option<(oblique_confidence::WeldProbability, String)>,
 }
 
 /// Resolve an estimate request against the catalog: pair window, bank, coil, workpiece, charge,
@@ -130,6 +133,7 @@ impl<'a> ResolvedSetup<'a> {
             setup: self,
             estimate,
             check,
+            probability: None,
         })
     }
 }

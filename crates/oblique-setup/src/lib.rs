@@ -66,6 +66,7 @@ pub mod present;
 pub mod request;
 pub mod resolve;
 pub mod sweep;
+pub mod uncertainty;
 
 pub use calibrate::{calibrate, CalibrationFit, CalibrationRequest, RingDown, RingDownRequest};
 pub use decision::{

@@ -139,6 +139,9 @@ pub struct SweepRanking<'a> {
     pub settings: Vec<Setting>,
     /// Indices into `settings` of those inside the window, best first.
     pub ranked: Vec<usize>,
+    /// The weld probability of every setting, once computed by
+    /// [`crate::uncertainty::rank_by_probability`] (which then re-ranks `ranked` by it).
+    pub probability: Option<crate::uncertainty::SweepProbability>,
 }
 
 impl SweepRanking<'_> {
@@ -351,6 +354,7 @@ pub fn run_sweep<'a>(
         result,
         settings,
         ranked,
+        probability: None,
     })
 }
 

@@ -51,4 +51,4 @@ pub use classify::{classify, Classification, LimitRef, Prediction};
 pub use diag::{Diagnostic, Diagnostics};
 pub use library::Library;
 pub use materials::MaterialRecord;
-pub use pair::{Observation, ObservationEntry, Outcome, PairWindow};
+pub use pair::{Fitted, FittedValue, Observation, ObservationEntry, Outcome, PairWindow};

@@ -414,6 +414,7 @@ impl Library {
             criteria_reasons: std::collections::BTreeMap::new(),
             boundaries: Vec::new(),
             observations: Vec::new(),
+            fitted: None,
             origin: crate::pair::Origin {
                 display: "command line".into(),
                 path: None,

@@ -224,6 +224,100 @@ pub struct ObservationEntry {
     pub note: Option<String>,
 }
 
+/// One fitted constant: the estimate and its interval (either end absent when the trials do
+/// not bound the constant on that side).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FittedValue {
+    /// The estimate.
+    pub value: f64,
+    /// Lower end of the interval, if the trials bound the constant from below.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub low: Option<f64>,
+    /// Upper end of the interval, if the trials bound the constant from above.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub high: Option<f64>,
+}
+
+/// Criterion constants fitted to the pair's own trials (written by `oblique pair fit --save`),
+/// with their provenance. When present, the fitted values replace the `criteria` section's
+/// constants for every use of the window.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Fitted {
+    /// ISO date of the fit.
+    pub date: String,
+    /// How the constants were fitted, in words.
+    pub method: String,
+    /// Number of observations the fit used.
+    pub observations: usize,
+    /// Confidence level of the intervals (0.95 for 95 %).
+    #[serde(default = "default_level")]
+    pub level: f64,
+    /// Deribas k.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub deribas_k: Option<FittedValue>,
+    /// Wittman N.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub wittman_n: Option<FittedValue>,
+    /// HEL multiple m.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub hel_multiple: Option<FittedValue>,
+}
+
+fn default_level() -> f64 {
+    0.95
+}
+
+impl Fitted {
+    /// The names of the constants a fit may carry, with the largest value accepted for each
+    /// (the command line's bounds, docs/theory.md).
+    pub const CONSTANTS: [(&'static str, f64); 3] = [
+        ("deribas_k", 5.0),
+        ("wittman_n", 10.0),
+        ("hel_multiple", 100.0),
+    ];
+
+    /// A fitted constant by name (`deribas_k`, `wittman_n`, `hel_multiple`).
+    pub fn constant(&self, key: &str) -> Option<&FittedValue> {
+        match key {
+            "deribas_k" => self.deribas_k.as_ref(),
+            "wittman_n" => self.wittman_n.as_ref(),
+            "hel_multiple" => self.hel_multiple.as_ref(),
+            _ => None,
+        }
+    }
+
+    /// Each fitted constant with its name, in file order.
+    pub fn constants(&self) -> impl Iterator<Item = (&'static str, &FittedValue)> {
+        [
+            ("deribas_k", self.deribas_k.as_ref()),
+            ("wittman_n", self.wittman_n.as_ref()),
+            ("hel_multiple", self.hel_multiple.as_ref()),
+        ]
+        .into_iter()
+        .filter_map(|(k, v)| v.map(|v| (k, v)))
+    }
+
+    /// Put the fitted values into a criteria configuration.
+    pub fn apply(&self, criteria: &mut CriteriaConfig) {
+        if let Some(v) = &self.deribas_k {
+            criteria.deribas_k = v.value;
+        }
+        if let Some(v) = &self.wittman_n {
+            criteria.wittman_n = v.value;
+        }
+        if let Some(v) = &self.hel_multiple {
+            criteria.hel_multiple = v.value;
+        }
+    }
+
+    /// "fitted to N trials on DATE", for outputs.
+    pub fn summary(&self) -> String {
+        format!("fitted to {} trials on {}", self.observations, self.date)
+    }
+}
+
 /// The whole pair window file.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -269,6 +363,9 @@ pub struct PairFile {
     /// Trial observations.
     #[serde(default)]
     pub observations: Vec<ObservationEntry>,
+    /// Criterion constants fitted to the observations (`oblique pair fit --save`).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub fitted: Option<Fitted>,
 }
 
 /// Observed result of a trial.
@@ -411,6 +508,9 @@ pub struct PairWindow {
     pub boundaries: Vec<Boundary>,
     /// Observations.
     pub observations: Vec<Observation>,
+    /// Constants fitted to the observations, when the file has them (already applied to
+    /// `criteria`).
+    pub fitted: Option<Fitted>,
     /// Origin.
     pub origin: Origin,
 }
@@ -520,9 +620,13 @@ pub fn parse_pair_file(
         }
     };
 
-    let (criteria, criteria_reasons) = validate::criteria(&mut c, &parsed);
+    let (mut criteria, criteria_reasons) = validate::criteria(&mut c, &parsed);
     let boundaries = validate::boundaries(&mut c, &parsed);
     let observations = validate::observations(&mut c, &parsed);
+    let fitted = validate::fitted(&mut c, &parsed);
+    if let Some(f) = &fitted {
+        f.apply(&mut criteria);
+    }
 
     let problems = c.problems.len();
     c.finish()?;
@@ -554,6 +658,7 @@ pub fn parse_pair_file(
         criteria_reasons,
         boundaries,
         observations,
+        fitted,
         origin,
     };
     Ok((parsed, window))

@@ -13,6 +13,9 @@ use std::collections::BTreeMap;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
+mod fitted;
+pub use fitted::{render_fitted, save_fitted, set_top_field};
+
 /// Test hook: when set to a number of milliseconds, a write pauses that long after the temporary
 /// file is complete and before the rename, so that a test can kill the process mid-write.
 pub const FAULT_PAUSE_ENV: &str = "OBLIQUE_FAULT_PAUSE_BEFORE_RENAME_MS";
@@ -571,17 +574,7 @@ pub fn append_to_top_list(
     list: &str,
     rendered: &str,
 ) -> Result<String, WriteError> {
-    let (bom, body) = match text.strip_prefix('\u{feff}') {
-        Some(rest) => ("\u{feff}", rest),
-        None => ("", text),
-    };
-    let crlf = body.contains("\r\n");
-    let nl = if crlf { "\r\n" } else { "\n" };
-    let rendered = if crlf {
-        rendered.replace("\r\n", "\n").replace('\n', "\r\n")
-    } else {
-        rendered.to_string()
-    };
+    let (bom, body, nl, rendered) = edit_parts(text, rendered);
     let index = RonIndex::scan(body);
     let mut out = String::with_capacity(text.len() + rendered.len() + 64);
     out.push_str(bom);
@@ -622,6 +615,23 @@ pub fn append_to_top_list(
     out.push_str("    ],");
     out.push_str(&body[t.code_end..]);
     Ok(out)
+}
+
+/// A user file's text split for an edit: its byte-order mark (kept first), the rest, the line
+/// end the file uses, and `rendered` (written with `\n`) converted to that line end.
+fn edit_parts<'t>(text: &'t str, rendered: &str) -> (&'static str, &'t str, &'static str, String) {
+    let (bom, body) = match text.strip_prefix('\u{feff}') {
+        Some(rest) => ("\u{feff}", rest),
+        None => ("", text),
+    };
+    let crlf = body.contains("\r\n");
+    let nl = if crlf { "\r\n" } else { "\n" };
+    let rendered = if crlf {
+        rendered.replace("\r\n", "\n").replace('\n', "\r\n")
+    } else {
+        rendered.to_string()
+    };
+    (bom, body, nl, rendered)
 }
 
 /// Update the user's file at `path`: read it (refusing if it is not `expected_sha256`, when the

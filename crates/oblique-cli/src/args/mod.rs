@@ -70,3 +70,79 @@ impl ConstantArgs {
         cfg
     }
 }
+
+/// On or off.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum OnOff {
+    /// On.
+    On,
+    /// Off.
+    Off,
+}
+
+/// The stated scatter of a point and the sampling settings of its weld probability.
+#[derive(Debug, Clone, Default, Args)]
+pub struct ScatterArgs {
+    /// One standard deviation of the velocity, relative (5%) or absolute (20m/s); asks for the
+    /// weld probability.
+    #[arg(long = "velocity-sd", value_name = "SD", allow_hyphen_values = true, value_parser = qarg::velocity_sd)]
+    pub velocity_sd: Option<oblique_confidence::VelocitySpread>,
+    /// One standard deviation of the collision angle, e.g. 1deg; asks for the weld probability.
+    #[arg(long = "angle-sd", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_sd)]
+    pub angle_sd: Option<f64>,
+    /// Number of samples of the weld probability (1 to 10000000).
+    #[arg(long, value_name = "N", value_parser = qarg::samples)]
+    pub samples: Option<usize>,
+    /// Seed of the random streams (a whole number; default 1): the same seed gives the same
+    /// numbers.
+    #[arg(long, value_name = "S")]
+    pub seed: Option<u64>,
+    /// Sample the criterion constants and the material properties too (docs/theory.md §15);
+    /// default on.
+    #[arg(long = "model-uncertainty", value_enum, value_name = "ON|OFF")]
+    pub model_uncertainty: Option<OnOff>,
+}
+
+impl ScatterArgs {
+    /// True when any of the flags was given: the weld probability is asked for.
+    pub fn asked(&self) -> bool {
+        self.velocity_sd.is_some()
+            || self.angle_sd.is_some()
+            || self.samples.is_some()
+            || self.seed.is_some()
+            || self.model_uncertainty.is_some()
+    }
+
+    /// The scatter, with defaults for what was not given.
+    pub fn scatter(&self) -> oblique_confidence::Scatter {
+        oblique_confidence::Scatter {
+            velocity: self.velocity_sd,
+            angle: self.angle_sd.map(oblique_core::units::Angle::from_radians),
+            model: self.model_uncertainty != Some(OnOff::Off),
+        }
+    }
+
+    /// The sampling settings, `default_samples` when --samples is not given.
+    pub fn sampling(&self, default_samples: usize) -> oblique_confidence::Sampling {
+        oblique_confidence::Sampling {
+            samples: self.samples.unwrap_or(default_samples),
+            seed: self
+                .seed
+                .unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
+            threads: None,
+        }
+    }
+}
+
+impl ScatterArgs {
+    /// The stated scatter of a process estimate (defaults left to `oblique_setup`).
+    pub fn process(&self) -> oblique_setup::uncertainty::ProcessScatter {
+        oblique_setup::uncertainty::ProcessScatter {
+            velocity: self.velocity_sd,
+            angle: self.angle_sd.map(oblique_core::units::Angle::from_radians),
+            model: self.model_uncertainty.map(|m| m == OnOff::On),
+            samples: self.samples,
+            seed: self.seed,
+        }
+    }
+}

@@ -1,6 +1,6 @@
 //! `oblique check`: one process point against the window criteria (or a pair window).
 
-use crate::args::{ConstantArgs, ConventionArg, VelocityInput};
+use crate::args::{ConstantArgs, ConventionArg, ScatterArgs, VelocityInput};
 use crate::common::{ad_hoc_window, classify_given, load_library, need};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{classification_json, classification_text, emit, emit_json};
@@ -15,6 +15,13 @@ use std::path::PathBuf;
   oblique check --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --velocity 350m/s --angle 12deg --convention normal-to-flyer
   oblique check --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --collision-velocity 2.4km/s --angle 10deg --convention bisector --deribas-k 1.0 --json
   oblique check --pair demo-al6061-on-cu --velocity 320m/s --angle 9deg
+  oblique check --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg \\
+      --velocity-sd 5% --angle-sd 1deg
+
+With --velocity-sd, --angle-sd (or --samples, --seed, --model-uncertainty) the weld probability is
+estimated by sampling: the stated scatter, and (model uncertainty on, the default) the criterion
+constants and material properties from the distributions of docs/theory.md section 15. The
+probability is conditional on the model and on those distributions.
 
 Exit status: 0 when the check ran (inside or not), 2 on bad input.
 Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts are
@@ -45,6 +52,8 @@ pub struct CheckArgs {
     pub convention: Option<ConventionArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,
+    #[command(flatten)]
+    pub scatter: ScatterArgs,
     /// Print JSON (SI values, keys with unit suffixes) instead of the table.
     #[arg(long)]
     pub json: bool,
@@ -80,8 +89,31 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
     if let Some(t) = a.parent_thickness {
         window.parent_thickness = Some(Length::from_m(t));
     }
+    let fitted_note = fitted_note(&window, &a.constants);
     window.criteria = a.constants.apply(window.criteria.clone());
     let (point, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
+    let probability = if a.scatter.asked() {
+        let p = oblique_confidence::Point {
+            convention: point.convention,
+            velocity: match (a.velocity.velocity, a.velocity.collision_velocity) {
+                (Some(v), _) => oblique_confidence::PointVelocity::Impact(v),
+                (None, Some(v)) => oblique_confidence::PointVelocity::Collision(v),
+                (None, None) => {
+                    oblique_confidence::PointVelocity::Impact(point.impact_velocity.si())
+                }
+            },
+            angle_rad: a.angle,
+        };
+        Some(oblique_confidence::weld_probability(
+            &window,
+            &p,
+            &a.scatter.scatter(),
+            &a.scatter
+                .sampling(oblique_confidence::scatter::DEFAULT_SAMPLES),
+        )?)
+    } else {
+        None
+    };
     // A point given in another convention than the window's is re-expressed in the window's
     // (same Vc and beta, so the same collision); say so, with the value as given.
     let converted = (point.convention != window.convention).then(|| {
@@ -108,8 +140,62 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
                 "input_impact_velocity_m_s".into(),
                 crate::output::sig(point.impact_velocity.si()),
             );
+            if let Some(f) = &window.fitted {
+                o.insert(
+                    "fitted".into(),
+                    serde_json::json!({
+                        "summary": f.summary(),
+                        "date": f.date,
+                        "observations": f.observations,
+                        "constants": f.constants().map(|(k, v)| (k.to_string(), serde_json::json!({
+                            "value": v.value, "low": v.low, "high": v.high,
+                        }))).collect::<serde_json::Map<_, _>>(),
+                        "overridden_by_flags": fitted_note.as_ref().is_some_and(|n| n.contains("overrides")),
+                    }),
+                );
+            }
+            if let Some(p) = &probability {
+                o.insert("probability".into(), p.json());
+            }
         }
         return emit_json(&v);
     }
-    emit(&(converted.unwrap_or_default() + &classification_text(&window, &c, a.pair.is_some())))
+    let mut text =
+        converted.unwrap_or_default() + &classification_text(&window, &c, a.pair.is_some());
+    if let Some(n) = fitted_note {
+        text.push_str(&n);
+    }
+    if let Some(p) = &probability {
+        text.push('\n');
+        text.push_str(&p.text());
+    }
+    emit(&text)
+}
+
+/// "constants fitted to N trials ...", with each fitted constant and its interval, and a word
+/// when a flag overrides one.
+fn fitted_note(window: &oblique_window::PairWindow, flags: &ConstantArgs) -> Option<String> {
+    let f = window.fitted.as_ref()?;
+    let mut s = format!("constants {}:", f.summary());
+    for (key, v) in f.constants() {
+        s.push_str(&format!(
+            " {key} {} ({} % interval {})",
+            oblique_confidence::present::num(v.value),
+            oblique_confidence::present::num(100.0 * f.level),
+            oblique_confidence::present::interval(v.low, v.high)
+        ));
+        let overridden = match key {
+            "deribas_k" => flags.deribas_k.is_some(),
+            "wittman_n" => flags.wittman_n.is_some(),
+            "hel_multiple" => flags.hel_multiple.is_some(),
+            _ => false,
+        };
+        if overridden {
+            s.push_str(" [the flag overrides it]");
+        }
+        s.push(';');
+    }
+    s.pop();
+    s.push('\n');
+    Some(s)
 }

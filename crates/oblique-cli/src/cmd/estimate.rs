@@ -105,6 +105,8 @@ pub struct EstimateCommon {
     pub history: Option<PathBuf>,
     #[command(flatten)]
     pub integration: IntegrationFlags,
+    #[command(flatten)]
+    pub scatter: crate::args::ScatterArgs,
     /// Print JSON (SI values, keys with unit suffixes) instead of the table.
     #[arg(long)]
     pub json: bool,
@@ -192,6 +194,8 @@ pub struct SweepCommon {
     pub threads: Option<std::num::NonZeroUsize>,
     #[command(flatten)]
     pub integration: IntegrationFlags,
+    #[command(flatten)]
+    pub scatter: crate::args::ScatterArgs,
     /// Print JSON.
     #[arg(long)]
     pub json: bool,

@@ -15,6 +15,7 @@ use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 
 mod boundary;
+mod fit;
 mod import;
 mod validate;
 mod view;
@@ -253,6 +254,26 @@ The first four columns are required; the others are optional."
         #[arg(long)]
         json: bool,
     },
+    /// Fit the criterion constants (Deribas k, Wittman N) to the pair's trials, with intervals.
+    #[command(after_help = "Examples:
+  oblique pair fit demo-al6061-on-cu
+  oblique --library ./shop pair fit al-on-cu --save
+  oblique --library ./shop pair fit al-on-cu --constants deribas-k,wittman-n,hel-multiple --json
+
+A maximum-likelihood fit (docs/theory.md section 15.3): not-welded shots count as a failed lower
+limit, melted ones as a failed ceiling, partial ones as on the edge; each shot's velocity and angle
+uncertainty is used where recorded. The intervals are profile-likelihood intervals; a constant the
+trials bound on one side only is said to be. A screening estimate, never a guarantee.")]
+    Fit(fit::FitArgs),
+    /// Propose the next trial shots that would tell most about the fitted constants.
+    #[command(after_help = "Examples:
+  oblique pair next-shot demo-al6061-on-cu
+  oblique pair next-shot demo-al6061-on-cu --count 3 --velocity-range 350m/s..650m/s --angle-range 4deg..20deg --json
+
+The shots are chosen by the expected information their outcome gives about the fitted constants
+(docs/theory.md section 15.4). Every shot is a real shot: lethal voltages, stored energy and flying
+parts; follow local codes and licensed practice.")]
+    NextShot(fit::NextShotArgs),
 }
 
 pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
@@ -317,6 +338,8 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
         PairCommand::Import(a) => import(dirs, a),
         PairCommand::Validate { files, json } => validate(dirs, &files, json),
         PairCommand::Boundary(c) => run_boundary(dirs, c),
+        PairCommand::Fit(a) => fit::run_fit(dirs, a),
+        PairCommand::NextShot(a) => fit::run_next_shot(dirs, a),
         PairCommand::Agreement { name, json } => {
             let lib = load_library(dirs)?;
             let w = lib.pair(&name).map_err(Fail::input)?;

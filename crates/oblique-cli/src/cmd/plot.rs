@@ -1,6 +1,6 @@
 //! `oblique plot`: the window with trials, proposed points and process curves, as SVG.
 
-use crate::args::ConventionArg;
+use crate::args::{ConventionArg, ScatterArgs};
 use crate::common::{ad_hoc_window, output_format, read_point_csv, write_output, FileFormat};
 use crate::common::{load_library, need};
 use crate::fail::{CmdResult, Fail};
@@ -36,7 +36,12 @@ impl From<PlaneArg> for Plane {
 Points and curve files are CSV with units in the header: velocity[m/s],angle[deg],label
 (velocity is the impact velocity in the window's convention; label optional).
 The extension of -o picks the format: .svg, or .png (1100 x 680, the SVG rasterised with the
-bundled DejaVu Sans font) for slides.")]
+bundled DejaVu Sans font) for slides.
+
+--probability draws the 10 %, 50 % and 90 % lines of the weld probability under the stated scatter
+(--velocity-sd, --angle-sd; model uncertainty on unless --model-uncertainty off), 256 draws per node
+by default (--samples), the same draws at every node:
+  oblique plot --pair demo-al6061-on-cu --probability --velocity-sd 5% --angle-sd 1deg -o p.svg")]
 pub struct PlotArgs {
     /// Pair window from the library.
     #[arg(long, value_name = "NAME", conflicts_with_all = ["flyer", "parent", "flyer_thickness"])]
@@ -71,6 +76,11 @@ pub struct PlotArgs {
     /// Output file: .svg or .png (the extension picks the format).
     #[arg(short = 'o', long = "output", value_name = "OUT.svg|OUT.png")]
     pub output: PathBuf,
+    /// Draw contours of the weld probability (10, 50, 90 %) under the stated scatter.
+    #[arg(long)]
+    pub probability: bool,
+    #[command(flatten)]
+    pub scatter: ScatterArgs,
 }
 
 /// The window for plot/report: a pair, or one made from flags.
@@ -163,7 +173,27 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         curves,
         shot_numbers: a.shot_numbers,
     };
-    let bytes = if format == FileFormat::Png {
+    if !a.probability && a.scatter.asked() {
+        return Err(Fail::input(
+            "--velocity-sd, --angle-sd, --samples, --seed and --model-uncertainty need --probability here",
+        ));
+    }
+    let bytes = if a.probability {
+        let mut overlay = oblique_render::probability::ProbabilityOverlay::new(
+            a.scatter.scatter(),
+            a.scatter
+                .seed
+                .unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
+        );
+        overlay.sampling = a
+            .scatter
+            .sampling(oblique_confidence::grid::DEFAULT_GRID_SAMPLES);
+        if format == FileFormat::Png {
+            oblique_render::probability::render_png(&request, &overlay)?
+        } else {
+            oblique_render::probability::render_svg(&request, &overlay)?.into_bytes()
+        }
+    } else if format == FileFormat::Png {
         oblique_render::window_plot::render_png(&request)?
     } else {
         render_svg(&request)?.into_bytes()

@@ -359,3 +359,173 @@ fn closed_pipe_is_not_an_error() {
     assert!(!err.contains("panicked"), "{err}");
     assert!(status.code() == Some(0), "{status:?} {err}");
 }
+
+const PROBABILITY: [&str; 11] = [
+    "check",
+    "--pair",
+    "demo-al6061-on-cu",
+    "--velocity",
+    "450m/s",
+    "--angle",
+    "10deg",
+    "--velocity-sd",
+    "5%",
+    "--angle-sd",
+    "1deg",
+];
+
+fn probability_json(extra: &[&str]) -> Value {
+    let mut args = PROBABILITY.to_vec();
+    args.extend_from_slice(&["--samples", "20000", "--json"]);
+    args.extend_from_slice(extra);
+    let o = run(&args);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: Value = serde_json::from_str(&stdout(&o)).expect("json");
+    v["probability"].clone()
+}
+
+#[test]
+fn weld_probability_json_has_the_contract_keys() {
+    let p = probability_json(&[]);
+    let inside = p["inside"].as_f64().expect("inside");
+    assert!(inside > 0.0 && inside < 1.0, "{p}");
+    assert!(p["standard_error"].as_f64().expect("se") > 0.0);
+    assert_eq!(p["samples"], 20000);
+    assert_eq!(p["seed"], 1);
+    let failure = p["criteria_failure"].as_object().expect("object");
+    for key in [
+        "deribas-lower",
+        "melting-upper",
+        "jetting",
+        "tip bounce-back angle (HBW-2026)",
+    ] {
+        assert!(failure.contains_key(key), "{key} in {p}");
+    }
+    let shares: Vec<f64> = p["dominant_inputs"]
+        .as_array()
+        .expect("array")
+        .iter()
+        .map(|d| {
+            assert!(d["input"].is_string());
+            d["share"].as_f64().expect("share")
+        })
+        .collect();
+    assert!(!shares.is_empty());
+    assert!(shares.windows(2).all(|w| w[0] >= w[1]), "{shares:?}");
+    assert!(p["caution"]
+        .as_str()
+        .expect("caution")
+        .contains("not a guarantee"));
+    assert!(!p["not_covered"].as_array().expect("list").is_empty());
+}
+
+#[test]
+fn weld_probability_is_reproducible_and_seeded() {
+    assert_eq!(probability_json(&[]), probability_json(&[]));
+    assert_eq!(probability_json(&[]), probability_json(&["--seed", "1"]));
+    let other = probability_json(&["--seed", "2"]);
+    assert_ne!(probability_json(&[])["inside"], other["inside"]);
+    assert_eq!(other["seed"], 2);
+}
+
+#[test]
+fn weld_probability_text_names_the_doubt_and_the_caution() {
+    let o = run(&PROBABILITY);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let s = stdout(&o);
+    for needle in [
+        "weld probability:",
+        "standard error",
+        "failure probability per limit",
+        "inputs that dominate the doubt",
+        "accounts for",
+        "would narrow it",
+        "not covered by this probability",
+        "not a guarantee",
+    ] {
+        assert!(s.contains(needle), "missing '{needle}' in\n{s}");
+    }
+}
+
+#[test]
+fn model_uncertainty_off_samples_only_the_stated_scatter() {
+    let p = probability_json(&["--model-uncertainty", "off"]);
+    let inputs: Vec<&str> = p["inputs"]
+        .as_array()
+        .expect("inputs")
+        .iter()
+        .map(|i| i["input"].as_str().expect("id"))
+        .collect();
+    assert_eq!(inputs, ["velocity", "angle"]);
+}
+
+#[test]
+fn bad_scatter_input_exits_2_naming_the_flag() {
+    let cases: [(&[&str], &str); 9] = [
+        (&["--velocity-sd", "-5%"], "--velocity-sd"),
+        (&["--velocity-sd", "5"], "--velocity-sd"),
+        (&["--velocity-sd", "nan%"], "--velocity-sd"),
+        (&["--velocity-sd", "80%"], "--velocity-sd"),
+        (&["--angle-sd", "5%"], "--angle-sd"),
+        (&["--angle-sd", "-1deg"], "--angle-sd"),
+        (&["--samples", "0"], "--samples"),
+        (&["--samples", "20000000"], "--samples"),
+        (&["--seed", "1.5"], "--seed"),
+    ];
+    for (extra, flag) in cases {
+        let mut args = vec![
+            "check",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity",
+            "450m/s",
+            "--angle",
+            "10deg",
+        ];
+        args.extend_from_slice(extra);
+        fails_with(&args, &[flag]);
+    }
+}
+
+#[test]
+fn plot_probability_draws_contours_and_states_the_scatter() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let out = dir.path().join("p.svg");
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--probability",
+        "--velocity-sd",
+        "5%",
+        "--angle-sd",
+        "1deg",
+        "--samples",
+        "32",
+        "-o",
+        out.to_str().expect("path"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).expect("svg");
+    roxmltree::Document::parse(&svg).expect("well-formed");
+    for needle in [
+        "weld probability 10 %",
+        "weld probability 50 %",
+        "weld probability 90 %",
+        "under the stated scatter: velocity sd 5",
+    ] {
+        assert!(svg.contains(needle), "{needle}");
+    }
+    fails_with(
+        &[
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity-sd",
+            "5%",
+            "-o",
+            out.to_str().expect("path"),
+        ],
+        &["need --probability"],
+    );
+}

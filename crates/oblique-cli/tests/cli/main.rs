@@ -2,6 +2,7 @@
 
 mod check;
 mod comfort;
+mod fit;
 mod kill;
 mod pair;
 mod record;

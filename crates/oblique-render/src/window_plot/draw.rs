@@ -88,6 +88,7 @@ pub(super) fn draw(
     req: &PlotRequest<'_>,
     field: &Field<'_>,
     (x_max, y_max): (f64, f64),
+    overlay: Option<&crate::probability::Contours>,
 ) -> RenderResult {
     let w = req.window;
     root.fill(&WHITE).map_err(plot_err)?;
@@ -113,6 +114,9 @@ pub(super) fn draw(
     }
     draw_limits(&mut chart, w, field, &mut layers)?;
     draw_boundaries(&mut chart, req, &mut layers)?;
+    if let Some(c) = overlay {
+        draw_probability(&mut chart, c, &mut layers)?;
+    }
     draw_curves(&mut chart, req, &mut layers)?;
     draw_trials(&mut chart, req, &mut layers)?;
     if !binned {
@@ -138,6 +142,73 @@ pub(super) fn draw(
             .map_err(plot_err)?;
     }
     root.present().map_err(plot_err)?;
+    Ok(())
+}
+
+const C_PROBABILITY: RGBColor = RGBColor(0, 110, 110);
+
+/// Weld-probability contours: 50 % solid and wider, lower levels long dashes, higher levels
+/// short dashes, one label per level at the middle of its longest line (placed clear of the
+/// rest like every label), and a legend section stating the scatter assumed.
+fn draw_probability(
+    chart: &mut Chart<'_, '_>,
+    c: &crate::probability::Contours,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    let mut section = Section::new("Weld probability");
+    for (level, lines) in &c.lines {
+        let middle = (*level - 0.5).abs() < 1e-9;
+        let width = if middle { 3 } else { 2 };
+        let dash = if middle {
+            None
+        } else if *level < 0.5 {
+            Some((6, 4))
+        } else {
+            Some((2, 3))
+        };
+        for line in lines {
+            let pix: Vec<(f64, f64)> = line.iter().map(|p| px(chart, *p)).collect();
+            layers.placer.add_line(&pix);
+            let style = C_PROBABILITY.stroke_width(width);
+            match dash {
+                None => chart
+                    .draw_series(LineSeries::new(line.clone(), style))
+                    .map_err(plot_err)?,
+                Some((d, g)) => chart
+                    .draw_series(DashedLineSeries::new(line.clone(), d, g, style))
+                    .map_err(plot_err)?,
+            };
+        }
+        if let Some(longest) = lines.iter().max_by_key(|l| l.len()) {
+            layers.labels.push(Label {
+                text: format!("{:.0} %", 100.0 * level),
+                anchor: px(chart, longest[longest.len() / 2]),
+                radius: 3.0,
+                size: 13,
+                colour: C_PROBABILITY,
+                need: Need::Optional,
+            });
+        }
+        section.push(Entry::new(
+            format!("weld probability {:.0} %", 100.0 * level),
+            Mark::Line {
+                colour: C_PROBABILITY,
+                width,
+                dash,
+            },
+        ));
+    }
+    let s = &c.grid.scatter;
+    section.push(Entry::new(
+        format!(
+            "under the stated scatter: {}; {} draws per node, seed {}; conditional on the model (docs/theory.md, section 15)",
+            s.text(),
+            c.grid.samples,
+            c.grid.seed
+        ),
+        Mark::Fill(WHITE),
+    ));
+    layers.sections.push(section);
     Ok(())
 }
 

@@ -243,6 +243,14 @@ fn plot_err<E: std::fmt::Display>(e: E) -> RenderError {
 /// # Errors
 /// A physics error in the window, or a drawing error.
 pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
+    render_svg_overlay(req, None)
+}
+
+/// The window plot as SVG, with weld-probability contours over it when given.
+pub(crate) fn render_svg_overlay(
+    req: &PlotRequest<'_>,
+    overlay: Option<&crate::probability::Contours>,
+) -> RenderResult<String> {
     register_fonts();
     let (x_max, y_max) = plot_ranges(req);
     let field = field::Field::evaluate(req.window, req.plane, x_max, y_max)?;
@@ -252,6 +260,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
         req,
         &field,
         (x_max, y_max),
+        overlay,
     )?;
     // User text (labels, names) may hold characters XML forbids: keep the SVG well-formed.
     Ok(oblique_window::present::xml_safe(&svg).into_owned())

@@ -127,6 +127,13 @@ pub fn estimate_json(r: &PulseReport<'_>, history_file: Option<&Path>) -> Value 
             _ => Value::Null,
         },
     );
+    if let Some((p, basis)) = &r.probability {
+        let mut v = p.json();
+        if let Some(m) = v.as_object_mut() {
+            m.insert("velocity_spread_basis".into(), json!(basis));
+        }
+        o.insert("probability".into(), v);
+    }
     if let Some(p) = history_file {
         o.insert("history_file".into(), json!(p.display().to_string()));
     }
@@ -166,6 +173,10 @@ pub fn estimate_text(r: &PulseReport<'_>, history_file: Option<&Path>) -> String
     ));
     if r.check.as_ref().is_some_and(|c| c.inside) && !s.inputs.efficiency_warnings().is_empty() {
         out.push_str("  the verdict rests on an uncalibrated (or transferred) efficiency: the real impact velocity is likely lower; check where the window is above before any shot\n");
+    }
+    if let Some((p, basis)) = &r.probability {
+        out.push_str(&format!("\nwith the velocity's uncertainty ({basis}):\n"));
+        out.push_str(&p.text());
     }
     out.push_str(s.model.assumptions());
     out.push('\n');

@@ -29,6 +29,17 @@ fn point_json(r: &SweepRanking<'_>, s: &Setting) -> Value {
             .as_ref()
             .map_or(Value::Null, |a| sig(a[j].to_degrees())),
     );
+    if let Some(pr) = &r.probability {
+        let k = i * grid.standoffs.len() + j;
+        p.insert(
+            "weld_probability".into(),
+            pr.per_setting
+                .get(k)
+                .copied()
+                .flatten()
+                .map_or(Value::Null, |x| json!(x)),
+        );
+    }
     match r.result.point(i, j).map(|p| p.outcome) {
         Some(ImpactOutcome::Impact {
             time,
@@ -133,11 +144,27 @@ pub fn sweep_json(r: &SweepRanking<'_>) -> Value {
         "inside_ranked".into(),
         Value::Array(r.inside_ranked().map(|s| point_json(r, s)).collect()),
     );
-    o.insert("ranking".into(), json!("settings inside the window, by velocity headroom (how far the impact velocity can move at the same angle before the limit reached first is reached, in % of Vp), largest first"));
+    o.insert("ranking".into(), json!(ranking_words(r)));
     o.insert(
         "rounding".into(),
         json!(oblique_window::margin::ROUNDING_RULE),
     );
+    if let Some(pr) = &r.probability {
+        o.insert(
+            "probability".into(),
+            json!({
+                "scatter": {
+                    "velocity_sd": pr.scatter.velocity,
+                    "angle_sd_deg": pr.scatter.angle.map(|a| a.degrees()),
+                    "model_uncertainty": pr.scatter.model,
+                },
+                "velocity_spread_basis": pr.basis,
+                "samples_per_setting": pr.samples,
+                "seed": pr.seed,
+                "caution": oblique_confidence::present::CAUTION,
+            }),
+        );
+    }
     o.insert(
         "assumptions".into(),
         assumptions_value(r.model.assumptions()),
@@ -194,6 +221,18 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
     out
 }
 
+/// How the settings inside are ranked, in words.
+fn ranking_words(r: &SweepRanking<'_>) -> String {
+    match &r.probability {
+        Some(p) => format!(
+            "settings inside the window, by weld probability (to 1 %; {}; the same {} draws for every setting), ties by velocity headroom (how far the impact velocity can move at the same angle before the limit reached first is reached, in % of Vp), largest first",
+            p.scatter.text(),
+            p.samples
+        ),
+        None => "settings inside the window, by velocity headroom (how far the impact velocity can move at the same angle before the limit reached first is reached, in % of Vp), largest first".into(),
+    }
+}
+
 /// The ranking of the settings inside the window (the first `top`).
 fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
     let grid = &r.grid;
@@ -208,14 +247,23 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
         return out;
     }
     out.push_str(&format!(
-        "; ranked by velocity headroom (how far the impact velocity can move at the same angle before the limit reached first is reached, in % of Vp), largest first (top {}):\n",
+        "; ranked by {} (top {}):\n",
+        ranking_words(r).trim_start_matches("settings inside the window, by "),
         top.min(r.ranked.len())
     ));
+    if let Some(p) = &r.probability {
+        out.push_str(&format!("  velocity spread: {}\n", p.basis));
+    }
     let mut trows = Vec::new();
     for (n, s) in r.inside_ranked().take(top).enumerate() {
         let v = r.velocity(s).unwrap_or(0.0);
+        let k = s.voltage_index * grid.standoffs.len() + s.standoff_index;
         trows.push(vec![
             format!("{}", n + 1),
+            r.probability
+                .as_ref()
+                .and_then(|p| p.per_setting.get(k).copied().flatten())
+                .map_or("-".into(), |x| format!("{:.0} %", 100.0 * x)),
             human::kv(grid.voltages[s.voltage_index]),
             human::kj(r.stored_energy(grid.voltages[s.voltage_index])),
             human::mm(grid.standoffs[s.standoff_index]),
@@ -235,6 +283,7 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
     out.push_str(&table(
         &[
             "rank",
+            "P(weld)",
             "U0",
             "E0",
             "standoff",

@@ -368,3 +368,57 @@ pub(super) fn observations(c: &mut Collector, parsed: &PairFile) -> Vec<Observat
     }
     observations
 }
+
+/// The `fitted` section, each value checked: finite, above zero, within the command line's
+/// bounds, inside its own interval.
+pub(super) fn fitted(c: &mut Collector, parsed: &PairFile) -> Option<Fitted> {
+    let f = parsed.fitted.as_ref()?;
+    let before = c.problems.len();
+    if let Some(problem) = crate::diag::date_problem(&f.date) {
+        c.push(
+            "fitted.date",
+            problem,
+            Some("write it like \"2026-11-30\"".into()),
+        );
+    }
+    if f.method.trim().is_empty() {
+        c.push("fitted.method", "a fit needs its method in words", None);
+    }
+    if f.observations == 0 {
+        c.push(
+            "fitted.observations",
+            "a fit needs at least one observation",
+            None,
+        );
+    }
+    if !(f.level > 0.0 && f.level < 1.0) {
+        c.push(
+            "fitted.level",
+            format!("level {} must lie strictly between 0 and 1", f.level),
+            Some("0.95 for 95 % intervals".into()),
+        );
+    }
+    for (key, max) in Fitted::CONSTANTS {
+        let Some(v) = f.constant(key) else { continue };
+        let base = format!("fitted.{key}");
+        for (field, x) in [("value", Some(v.value)), ("low", v.low), ("high", v.high)] {
+            if let Some(x) = x {
+                if !(x.is_finite() && x > 0.0 && x <= max) {
+                    c.push(
+                        &format!("{base}.{field}"),
+                        format!("{x} must be a finite number above zero and at most {max}"),
+                        None,
+                    );
+                }
+            }
+        }
+        if v.low.is_some_and(|lo| lo > v.value) || v.high.is_some_and(|hi| hi < v.value) {
+            c.push(
+                &base,
+                format!("the value {} lies outside its own interval", v.value),
+                Some("low <= value <= high".into()),
+            );
+        }
+    }
+    (c.problems.len() == before).then(|| f.clone())
+}

@@ -158,3 +158,33 @@ fn an_append_never_alters_a_string_with_slashes_on_its_last_line() {
     assert!(out.contains("see http://example.org/log\"),"), "{out}");
     assert!(!out.contains("http:,//"), "{out}");
 }
+
+/// Setting the `fitted` field inserts it, replaces an earlier value (also one written as
+/// `Some(..)` or `None`), and keeps every other byte, a byte-order mark and CRLF line ends.
+#[test]
+fn set_top_field_inserts_and_replaces_keeping_the_rest() {
+    let p = Path::new("p.ron");
+    let base = "(\n    name: \"x\",\n    observations: [\n        (velocity: \"1 m/s\"), // keep\n    ],\n)\n";
+    let one = set_top_field(p, base, "fitted", "(a: 1)").expect("insert");
+    assert_eq!(
+        one,
+        "(\n    name: \"x\",\n    observations: [\n        (velocity: \"1 m/s\"), // keep\n    ],\n    fitted: (a: 1),\n)\n"
+    );
+    let two = set_top_field(p, &one, "fitted", "(b: 2)").expect("replace");
+    assert_eq!(two, one.replace("(a: 1)", "(b: 2)"));
+    let some = one.replace("fitted: (a: 1)", "fitted: Some((a: 1))");
+    assert_eq!(
+        set_top_field(p, &some, "fitted", "(b: 2)").expect("some"),
+        two
+    );
+    let none = one.replace("fitted: (a: 1)", "fitted: None");
+    assert_eq!(
+        set_top_field(p, &none, "fitted", "(b: 2)").expect("none"),
+        two
+    );
+    let crlf = format!("\u{feff}{}", base.replace('\n', "\r\n"));
+    let out = set_top_field(p, &crlf, "fitted", "(\n        a: 1,\n    )").expect("crlf");
+    assert!(out.starts_with('\u{feff}'));
+    assert!(!out.replace("\r\n", "").contains('\n'), "{out:?}");
+    assert!(out.contains("observations: [\r\n        (velocity: \"1 m/s\"), // keep\r\n    ],"));
+}

@@ -63,11 +63,14 @@ fn run_pulse(
             .map_err(|e| Fail::input(format!("--history: cannot write {}: {e}", path.display())))?;
     }
     let check = setup.check(&estimate)?;
-    let report = PulseReport {
+    let mut report = PulseReport {
         setup,
         estimate,
         check,
+        probability: None,
     };
+    report.probability =
+        oblique_setup::uncertainty::estimate_probability(&report, &common.scatter.process())?;
     let history = common.history.as_deref();
     if common.json {
         emit_json(&estimate_json(&report, history))

@@ -47,7 +47,8 @@ fn run(dirs: &[PathBuf], process: MagneticRequest, c: &SweepCommon) -> CmdResult
     let mut notes = Vec::new();
     let ranking = run_sweep(&catalog, &request, &mut notes);
     print_notes(&notes);
-    let ranking = ranking?;
+    let mut ranking = ranking?;
+    oblique_setup::uncertainty::rank_by_probability(&mut ranking, &c.scatter.process())?;
     if let Some(dir) = &c.curves_csv {
         write_curves(dir, &ranking)?;
     }
