@@ -513,3 +513,51 @@ fn an_explosive_record_with_alternatives() {
         ],
     );
 }
+
+#[test]
+fn a_record_states_the_weld_probability_and_the_scatter_when_asked() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("r.json");
+    let o = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "--velocity-sd",
+        "5%",
+        "--angle-sd",
+        "1deg",
+        "--samples",
+        "4000",
+        "-o",
+        out.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&out).expect("record")).expect("JSON");
+    let p = &v["probability"];
+    let value = p["value"].as_f64().expect("a probability");
+    assert!(value > 0.5 && value < 1.0, "{p}");
+    let method = p["method"].as_str().expect("method");
+    assert!(method.contains("velocity sd 5 %"), "{method}");
+    assert!(method.contains("4000 draws"), "{method}");
+    // Without the flags the record says no probability was computed.
+    let o = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        out.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&out).expect("record")).expect("JSON");
+    assert!(v["probability"].is_null());
+}
