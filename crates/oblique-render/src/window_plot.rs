@@ -9,6 +9,7 @@ use oblique_core::{Collision, CriterionId};
 use oblique_window::boundary::Plane;
 use oblique_window::classify::{classify_with_jetting, Classification, LimitRef};
 use oblique_window::{Outcome, PairWindow};
+use plotters::coord::types::RangedCoordf64;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
@@ -66,6 +67,9 @@ const C_INFO: RGBColor = RGBColor(120, 120, 120);
 const REGION_UNTRIED: RGBColor = RGBColor(224, 229, 235);
 const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
 const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
+/// Cells outside the validity domain, and the domain's edge.
+const C_OUTSIDE_DOMAIN: RGBColor = RGBColor(232, 232, 232);
+const C_DOMAIN_EDGE: RGBColor = RGBColor(110, 110, 110);
 
 fn criterion_colour(id: CriterionId) -> RGBColor {
     match id {
@@ -142,6 +146,8 @@ struct Field {
     margins: Vec<(CriterionId, Vec<f64>)>,
     sonic_parent: Vec<f64>,
     sonic_flyer: Vec<f64>,
+    /// +1 inside the validity domain, -1 outside, NaN where not evaluated.
+    domain: Vec<f64>,
 }
 
 fn evaluate_field(
@@ -168,6 +174,7 @@ fn evaluate_field(
     let mut region = vec![0u8; NX * NY];
     let mut sonic_parent = vec![f64::NAN; NX * NY];
     let mut sonic_flyer = vec![f64::NAN; NX * NY];
+    let mut domain = vec![f64::NAN; NX * NY];
     let c0p = setup.parent.sound_speed().si();
     let c0f = setup.flyer.sound_speed().si();
     for (j, &y) in ys.iter().enumerate() {
@@ -186,8 +193,10 @@ fn evaluate_field(
                 &setup.parent.hugoniot,
                 col.flow_velocity,
                 col.collision_velocity,
+                window.criteria.mixed_jetting,
             )?;
             let c = classify_with_jetting(window, &setup, &col, jet)?;
+            domain[k] = if c.domain.inside() { 1.0 } else { -1.0 };
             region[k] = match (c.inside, c.outside_trial_data) {
                 (false, _) => 0,
                 (true, false) => 1,
@@ -207,7 +216,53 @@ fn evaluate_field(
         margins,
         sonic_parent,
         sonic_flyer,
+        domain,
     })
+}
+
+/// Light grey over the cells outside the validity domain (no verdict claimed there) and a
+/// grey line along its edge; the legend entry, when some cell lies outside.
+fn draw_validity_domain<DB: DrawingBackend>(
+    chart: &mut ChartContext<'_, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>,
+    field: &Field,
+    dx: f64,
+    dy: f64,
+) -> RenderResult<Option<(String, ShapeStyle, u8)>> {
+    let mut rects = Vec::new();
+    for j in 0..NY {
+        let mut i = 0;
+        while i < NX {
+            if field.domain[j * NX + i] < 0.0 {
+                let start = i;
+                while i < NX && field.domain[j * NX + i] < 0.0 {
+                    i += 1;
+                }
+                rects.push(Rectangle::new(
+                    [
+                        (start as f64 * dx, j as f64 * dy),
+                        (i as f64 * dx, (j + 1) as f64 * dy),
+                    ],
+                    C_OUTSIDE_DOMAIN.filled(),
+                ));
+            } else {
+                i += 1;
+            }
+        }
+    }
+    if rects.is_empty() {
+        return Ok(None);
+    }
+    chart.draw_series(rects).map_err(plot_err)?;
+    for line in contour(&field.xs, &field.ys, &field.domain) {
+        chart
+            .draw_series(LineSeries::new(line, C_DOMAIN_EDGE.stroke_width(1)))
+            .map_err(plot_err)?;
+    }
+    Ok(Some((
+        "outside the validity domain: no verdict claimed (docs/theory.md §7.1)".into(),
+        C_OUTSIDE_DOMAIN.filled(),
+        0,
+    )))
 }
 
 fn criterion_enabled(window: &PairWindow, id: CriterionId) -> bool {
@@ -487,6 +542,7 @@ fn draw<DB: DrawingBackend>(
         }
     }
     chart.draw_series(rects).map_err(plot_err)?;
+    let domain_legend = draw_validity_domain(&mut chart, field, dx, dy)?;
 
     // Many proposed points: a density under the limits and trials.
     let mut binned_legend = None;
@@ -537,6 +593,9 @@ fn draw<DB: DrawingBackend>(
         REGION.filled(),
         0,
     )];
+    if let Some(d) = domain_legend {
+        legend.push(d);
+    }
     if field.region.contains(&2) {
         legend.push((
             "predicted welded, but a user boundary does not span here (outside the trial data)"

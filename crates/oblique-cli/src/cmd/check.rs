@@ -1,12 +1,13 @@
 //! `oblique check`: one process point against the window criteria (or a pair window).
 
-use crate::args::{ConstantArgs, ConventionArg, VelocityInput};
-use crate::common::{ad_hoc_window, classify_given, load_library, need};
+use crate::args::{ConstantArgs, ConventionArg, ProcessArg, VelocityInput};
+use crate::common::{ad_hoc_window, classify_given, load_library, need, refuse_empty_window};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{classification_json, classification_text, emit, emit_json};
 use crate::qarg;
 use clap::Args;
 use oblique_core::units::Length;
+use oblique_window::present::{head_on_json, head_on_text};
 use std::path::PathBuf;
 
 /// Flags of `oblique check`.
@@ -15,6 +16,11 @@ use std::path::PathBuf;
   oblique check --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --velocity 350m/s --angle 12deg --convention normal-to-flyer
   oblique check --flyer aa6061-t6 --parent ss304 --flyer-thickness 1mm --collision-velocity 2.4km/s --angle 10deg --convention bisector --deribas-k 1.0 --json
   oblique check --pair demo-al6061-on-cu --velocity 320m/s --angle 9deg
+  oblique check --flyer ti-gr2 --parent cu-c11000 --flyer-thickness 0.127mm --velocity 900m/s --angle 0deg --convention normal-to-flyer --process laser
+
+A point outside the validity domain (docs/theory.md §7.1: collision angle up to 30 deg, Vp 50 to
+2000 m/s, Vc and Vf up to 2 C0, flyer 10 um to 50 mm) gets no verdict: OUTSIDE THE VALIDITY
+DOMAIN. An angle of 0 is a head-on impact: not welded, no collision point sweeps the interface.
 
 Exit status: 0 when the check ran (inside or not), 2 on bad input.
 Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts are
@@ -37,12 +43,16 @@ pub struct CheckArgs {
     pub parent_thickness: Option<f64>,
     #[command(flatten)]
     pub velocity: VelocityInput,
-    /// Dynamic collision angle beta, strictly between 0 and 90 deg, e.g. 12deg.
-    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+    /// Dynamic collision angle beta, from 0 (a head-on impact) to below 90 deg, e.g. 12deg.
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_or_head_on)]
     pub angle: f64,
     /// How Vp relates to Vc: bisector, normal-to-flyer or normal-to-parent (required unless --pair gives it).
     #[arg(long, value_enum, value_name = "CONVENTION")]
     pub convention: Option<ConventionArg>,
+    /// The welding process, for a check without --pair: sets whether the pressure limit is on
+    /// (off for explosive welding; default: on, its source states it for magnetic pulse welding).
+    #[arg(long, value_enum, value_name = "PROCESS", conflicts_with = "pair")]
+    pub process: Option<ProcessArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,
     /// Print JSON (SI values, keys with unit suffixes) instead of the table.
@@ -74,6 +84,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
                 )?,
                 a.parent_thickness,
                 convention.into(),
+                a.process.map(ProcessArg::as_str),
             )?
         }
     };
@@ -81,6 +92,10 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         window.parent_thickness = Some(Length::from_m(t));
     }
     window.criteria = a.constants.apply(window.criteria.clone());
+    refuse_empty_window(&window, &a.constants)?;
+    if qarg::is_head_on(a.angle) {
+        return head_on(&window, &a);
+    }
     let (point, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     // A point given in another convention than the window's is re-expressed in the window's
     // (same Vc and beta, so the same collision); say so, with the value as given.
@@ -112,4 +127,24 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
         return emit_json(&v);
     }
     emit(&(converted.unwrap_or_default() + &classification_text(&window, &c, a.pair.is_some())))
+}
+
+/// A head-on impact (`--angle 0deg`): not welded, with the 1-D impact state.
+fn head_on(window: &oblique_window::PairWindow, a: &CheckArgs) -> CmdResult {
+    let Some(vp) = a.velocity.velocity else {
+        return Err(Fail::input(
+            "--collision-velocity: a head-on impact (--angle 0deg) has no collision point; give the impact velocity with --velocity",
+        ));
+    };
+    let h = oblique_window::classify::classify_head_on(window, &window.setup()?, vp)?;
+    if a.json {
+        let mut v = head_on_json(window, &h);
+        if let Some(o) = v.as_object_mut() {
+            if a.pair.is_none() {
+                o.insert("pair".into(), serde_json::Value::Null);
+            }
+        }
+        return emit_json(&v);
+    }
+    emit(&head_on_text(window, &h, a.pair.is_some()))
 }

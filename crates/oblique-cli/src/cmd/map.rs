@@ -225,6 +225,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         .clone();
     let window_criteria = window.criteria.clone();
     window.criteria = a.constants.apply(window.criteria.clone());
+    crate::common::refuse_empty_window(&window, &a.constants)?;
     let opts = map_options(&a, &window, &window_criteria, stdin);
 
     // The input and its header, then the classifier.

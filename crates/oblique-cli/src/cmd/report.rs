@@ -57,6 +57,7 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
     window.criteria = a.constants.apply(window.criteria.clone());
+    crate::common::refuse_empty_window(&window, &a.constants)?;
     let (_, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     let agr = agreement(&window)?;
     let mut curves = Vec::new();

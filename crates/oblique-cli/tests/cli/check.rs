@@ -172,12 +172,12 @@ fn bad_input_names_the_flag_and_exits_2() {
         &["--velocity", "unknown unit 'mph'"],
     );
     fails_with(
-        &with(&["--velocity", "350m/s", "--angle", "0deg"]),
-        &["--angle", "outside (0, 90) deg"],
+        &with(&["--velocity", "350m/s", "--angle", "-1deg"]),
+        &["--angle", "outside [0, 90) deg"],
     );
     fails_with(
         &with(&["--velocity", "350m/s", "--angle", "95deg"]),
-        &["--angle", "outside (0, 90) deg"],
+        &["--angle", "outside [0, 90) deg"],
     );
     fails_with(
         &with(&["--velocity", "0m/s", "--angle", "12deg"]),
