@@ -254,6 +254,30 @@ impl ValidityDomain {
         self.bounds.iter().find(|b| b.quantity == q)
     }
 
+    /// The comparison behind every check: the quantity's raw value at the point and the
+    /// bound's ends in the same scale. The Mach bounds compare the inflow speed with the bound
+    /// times C0 (`min * C0 <= V <= max * C0`), so that a caller can precompute the products and
+    /// get the same answer bit for bit (the weld map does).
+    pub fn raw(b: &DomainBound, pair: &PairSetup, c: &Collision) -> (f64, f64, f64) {
+        match b.quantity {
+            DomainQuantity::ParentMach => {
+                let c0 = pair.parent.hugoniot.c0.si();
+                (c.collision_velocity.si(), b.min * c0, b.max * c0)
+            }
+            DomainQuantity::FlyerMach => {
+                let c0 = pair.flyer.hugoniot.c0.si();
+                (c.flow_velocity.si(), b.min * c0, b.max * c0)
+            }
+            q => (Self::value(q, pair, c), b.min, b.max),
+        }
+    }
+
+    /// Whether the point meets bound `b`; a value that is not a number does not.
+    pub fn meets(b: &DomainBound, pair: &PairSetup, c: &Collision) -> bool {
+        let (v, lo, hi) = Self::raw(b, pair, c);
+        v >= lo && v <= hi
+    }
+
     /// Every bound the point misses (empty: inside the domain). A value that is not a number
     /// misses its bound.
     pub fn check(&self, pair: &PairSetup, c: &Collision) -> Vec<DomainExit> {
@@ -261,7 +285,7 @@ impl ValidityDomain {
             .iter()
             .filter_map(|b| {
                 let v = Self::value(b.quantity, pair, c);
-                (!(v >= b.min && v <= b.max)).then(|| DomainExit {
+                (!Self::meets(b, pair, c)).then(|| DomainExit {
                     quantity: b.quantity,
                     value: v,
                     min: b.min,
@@ -275,10 +299,7 @@ impl ValidityDomain {
 
     /// Whether the point meets every bound.
     pub fn contains(&self, pair: &PairSetup, c: &Collision) -> bool {
-        self.bounds.iter().all(|b| {
-            let v = Self::value(b.quantity, pair, c);
-            v >= b.min && v <= b.max
-        })
+        self.bounds.iter().all(|b| Self::meets(b, pair, c))
     }
 
     /// Bounds the pair itself misses whatever the point (the flyer thickness).

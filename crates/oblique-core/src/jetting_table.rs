@@ -311,7 +311,31 @@ impl JettingTable {
         self.nodes
     }
 
-    /// Classify a query: exact subsonic decision, table inside the domain, or outside.
+    /// The mixed case under [`MixedRule::SupersonicSidePolar`]: [`Lookup::Mixed`] with the
+    /// supersonic stream's interpolated largest deflection, [`Lookup::OutsideDomain`] beyond
+    /// the table (solve directly); the answer of [`Self::lookup`] for any other query or rule.
+    pub fn lookup_mixed(&self, vf: f64, vc: f64) -> Lookup {
+        let l = self.lookup(vf, vc);
+        if self.rule != MixedRule::SupersonicSidePolar {
+            return l;
+        }
+        match l {
+            Lookup::Subsonic(JettingRegime::SubsonicParent) if vf > self.c0_flyer => {
+                self.mixed(0, vf).map_or(Lookup::OutsideDomain, |r| {
+                    Lookup::Mixed(JettingRegime::SubsonicParent, r)
+                })
+            }
+            Lookup::Subsonic(JettingRegime::SubsonicFlyer) => {
+                self.mixed(1, vc).map_or(Lookup::OutsideDomain, |r| {
+                    Lookup::Mixed(JettingRegime::SubsonicFlyer, r)
+                })
+            }
+            other => other,
+        }
+    }
+
+    /// Classify a query: exact subsonic decision (a mixed case included: the subsonic stream's
+    /// regime, see [`Self::lookup_mixed`]), table inside the domain, or outside.
     /// `vf` and `vc` are the flyer and parent inflow speeds in m/s; non-positive or non-finite
     /// speeds give [`Lookup::OutsideDomain`] so that the direct solve reports the error.
     #[inline]
@@ -320,20 +344,12 @@ impl JettingTable {
             return Lookup::OutsideDomain;
         }
         // Same tests, same order, as the direct solve (ShockPolar::new: supersonic iff V > C0).
+        // A mixed case comes back as the subsonic stream's regime; under the polar rule its
+        // critical angle is `lookup_mixed`'s.
         if vc <= self.c0_parent {
-            if vf > self.c0_flyer && self.rule == MixedRule::SupersonicSidePolar {
-                return self.mixed(0, vf).map_or(Lookup::OutsideDomain, |r| {
-                    Lookup::Mixed(JettingRegime::SubsonicParent, r)
-                });
-            }
             return Lookup::Subsonic(JettingRegime::SubsonicParent);
         }
         if vf <= self.c0_flyer {
-            if self.rule == MixedRule::SupersonicSidePolar {
-                return self.mixed(1, vc).map_or(Lookup::OutsideDomain, |r| {
-                    Lookup::Mixed(JettingRegime::SubsonicFlyer, r)
-                });
-            }
             return Lookup::Subsonic(JettingRegime::SubsonicFlyer);
         }
         if vf > self.max_inflow || vc > self.max_inflow {
@@ -371,7 +387,7 @@ impl JettingTable {
     ) -> Result<JettingAssessment, PhysicsError> {
         let (vf, vc) = (flyer_inflow.si(), parent_inflow.si());
         let (fs, ps) = (vf > self.c0_flyer, vc > self.c0_parent);
-        match self.lookup(vf, vc) {
+        match self.lookup_mixed(vf, vc) {
             Lookup::Subsonic(regime) => Ok(JettingAssessment::any_angle(regime, fs, ps)),
             Lookup::Table(rad) => Ok(JettingAssessment::from_polar(
                 JettingRegime::Supersonic,

@@ -195,7 +195,8 @@ pub struct Classifier {
     pub limits: Vec<LimitInfo>,
     criteria: Vec<CriterionId>,
     /// The validity domain's bounds, (min, max) per quantity of `DomainQuantity::ALL` (open
-    /// where the domain has no bound), and the bits of the bounds the pair itself misses.
+    /// where the domain has no bound; the Mach bounds as speeds, bound times C0, as the core
+    /// compares them), and the bits of the bounds the pair itself misses.
     domain: [(f64, f64); 5],
     pair_exits: u8,
     /// C0 of the flyer and of the parent, m/s.
@@ -297,9 +298,15 @@ impl Classifier {
         }
         let mut domain = [(f64::NEG_INFINITY, f64::INFINITY); 5];
         let mut pair_exits = 0u8;
+        let c0 = (setup.flyer.hugoniot.c0.si(), setup.parent.hugoniot.c0.si());
         for (k, q) in DomainQuantity::ALL.into_iter().enumerate() {
             if let Some(b) = window.domain.bound(q) {
-                domain[k] = (b.min, b.max);
+                domain[k] = match q {
+                    // The same products as `ValidityDomain::raw`.
+                    DomainQuantity::ParentMach => (b.min * c0.1, b.max * c0.1),
+                    DomainQuantity::FlyerMach => (b.min * c0.0, b.max * c0.0),
+                    _ => (b.min, b.max),
+                };
             }
         }
         for e in window.domain.pair_exits(&setup) {
@@ -307,7 +314,6 @@ impl Classifier {
                 pair_exits |= 1 << k;
             }
         }
-        let c0 = (setup.flyer.hugoniot.c0.si(), setup.parent.hugoniot.c0.si());
         Ok(Self {
             domain,
             pair_exits,
@@ -462,7 +468,7 @@ impl Classifier {
     fn mixed_jetting(&self, c: &Collision) -> Result<(JettingAssessment, bool), PhysicsError> {
         let (vf, vc) = (c.flow_velocity, c.collision_velocity);
         if let Some(t) = self.table_for_supersonic() {
-            if let Lookup::Mixed(regime, rad) = t.lookup(vf.si(), vc.si()) {
+            if let Lookup::Mixed(regime, rad) = t.lookup_mixed(vf.si(), vc.si()) {
                 let crit = Angle::from_radians(rad);
                 if (c.angle.degrees() - crit.degrees()).abs() > JettingTable::ERROR_BOUND_DEG {
                     return Ok((
@@ -490,7 +496,7 @@ impl Classifier {
 
     /// The bounds of the validity domain the point (Vp, Vc, Vf m/s, beta deg) misses, as bits
     /// of `DomainQuantity::ALL`: the same values and comparisons as
-    /// `oblique_core::ValidityDomain::check`.
+    /// `oblique_core::ValidityDomain::check` (`ValidityDomain::raw`).
     #[inline(always)]
     fn domain_exits(&self, vp: f64, vc: f64, vf: f64, beta_deg: f64) -> u8 {
         let d = &self.domain;
@@ -498,8 +504,8 @@ impl Classifier {
         self.pair_exits
             | out(beta_deg, d[0])
             | out(vp, d[1]) << 1
-            | out(vc / self.c0.1, d[2]) << 2
-            | out(vf / self.c0.0, d[3]) << 3
+            | out(vc, d[2]) << 2
+            | out(vf, d[3]) << 3
     }
 
     /// Classify one point; `margins` receives one value per limit (resized to one slot per limit and overwritten).

@@ -487,7 +487,7 @@ impl Summary {
     /// segment, from the last one); stretches without a verdict included (they are not known
     /// to be welded); the whole interface at both ends when nothing is welded. Melted length
     /// is part of it: [`Self::unbonded_ends`] leaves it out.
-    fn to_weld_ends(&self) -> (Option<f64>, Option<f64>) {
+    pub(crate) fn to_weld_ends(&self) -> (Option<f64>, Option<f64>) {
         if self.unsorted {
             return (None, None);
         }

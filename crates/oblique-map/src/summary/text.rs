@@ -163,45 +163,44 @@ impl Summary {
             let (us, ue) = self.unbonded_ends();
             let (ns, ne) = self.no_verdict_at_ends;
             let (cs, ce) = self.ends_by_verdict();
-            let detail = |c: &[f64; super::N_VERDICTS], nv: f64| {
-                let mut d = Vec::new();
-                if c[2] > 0.0 {
-                    d.push(format!(
-                        "then melted {:.3} mm (bonded, brittle)",
-                        c[2] * 1e3
-                    ));
-                }
+            // "unbonded X mm (of it: ...) + melted Y mm (bonded, brittle)"
+            let split = |unbonded: f64, c: &[f64; super::N_VERDICTS], nv: f64| {
+                let mut of = Vec::new();
                 if c[4] > 0.0 {
-                    d.push(format!(
-                        "{:.3} mm of it outside the validity domain (no verdict claimed)",
+                    of.push(format!(
+                        "{:.3} mm outside the validity domain, no verdict claimed",
                         c[4] * 1e3
                     ));
                 }
                 if nv > 0.0 {
-                    d.push(format!(
-                        "{:.3} mm of it without verdict (rejected rows, not known to be welded)",
+                    of.push(format!(
+                        "{:.3} mm without verdict: rejected rows, not known to be welded",
                         nv * 1e3
                     ));
                 }
-                if d.is_empty() {
-                    String::new()
-                } else {
-                    format!(" ({})", d.join("; "))
+                let mut t = format!("unbonded {:.3} mm", unbonded * 1e3);
+                if !of.is_empty() {
+                    t.push_str(&format!(" (of it {})", of.join("; ")));
                 }
+                if c[2] > 0.0 {
+                    t.push_str(&format!(" + melted {:.3} mm (bonded, brittle)", c[2] * 1e3));
+                }
+                t
             };
+            let (to_start, to_end) = self.to_weld_ends();
             if self.first_weld_start.is_none() {
                 s.push_str(&format!(
-                    "unbonded: the whole classified interface but its melted length, {:.3} mm (no welded point){}\n",
-                    us.unwrap_or(0.0) * 1e3,
-                    detail(&cs, ns)
+                    "no welded point: the whole interface, {:.3} mm = {}\n",
+                    to_start.unwrap_or(0.0) * 1e3,
+                    split(us.unwrap_or(0.0), &cs, ns)
                 ));
             } else {
                 s.push_str(&format!(
-                    "unbonded at the start: {:.3} mm{}; at the end: {:.3} mm{}\n",
-                    us.unwrap_or(0.0) * 1e3,
-                    detail(&cs, ns),
-                    ue.unwrap_or(0.0) * 1e3,
-                    detail(&ce, ne)
+                    "to the first welded segment: {:.3} mm = {}; after the last one: {:.3} mm = {}\n",
+                    to_start.unwrap_or(0.0) * 1e3,
+                    split(us.unwrap_or(0.0), &cs, ns),
+                    to_end.unwrap_or(0.0) * 1e3,
+                    split(ue.unwrap_or(0.0), &ce, ne)
                 ));
             }
             if self.gaps_total > 0 {
