@@ -1527,6 +1527,106 @@ mod edge_tests {
         crate::pair::parse_pair_file(origin, &ok, &lib().materials).expect("k 1.2 loads");
     }
 
+    fn parse(text: &str) -> Result<PairWindow, String> {
+        let origin = crate::pair::Origin {
+            display: "p.ron".into(),
+            path: None,
+            sha256: String::new(),
+        };
+        crate::pair::parse_pair_file(origin, text, &lib().materials)
+            .map(|(_, w)| w)
+            .map_err(|e| e.to_string())
+    }
+
+    const HEAD: &str = r#"(
+    format: "oblique-window/1",
+    name: "p",
+    flyer: "aa6061-t6",
+    parent: "cu-c11000",
+    flyer_thickness: "1 mm",
+    convention: "normal-to-flyer",
+    maintainer: "test","#;
+
+    /// The mixed jetting rule is chosen in the pair file; a rule other than the default needs
+    /// a reason, an unknown one is refused at its field.
+    #[test]
+    fn the_mixed_rule_is_selectable_in_a_pair_file() {
+        let polar = parse(&format!("{HEAD}\n)")).expect("defaults");
+        assert_eq!(
+            polar.criteria.mixed_jetting,
+            oblique_core::MixedRule::SupersonicSidePolar
+        );
+        let either = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"either-subsonic\", reason: \"trials S-3\")),\n)"
+        ))
+        .expect("either-subsonic with a reason");
+        assert_eq!(
+            either.criteria.mixed_jetting,
+            oblique_core::MixedRule::EitherSubsonic
+        );
+        // In the mixed case the two rules differ: 382 m/s at 2 deg (Vc 10.9 km/s, both
+        // supersonic) is not mixed; 382 m/s at 5 deg is (Vc 4383 m/s > C0 Cu, Vf < C0 Al).
+        let a = explained(&polar, 382.0, 5.0);
+        let b = explained(&either, 382.0, 5.0);
+        assert!(a.evaluation.jetting.critical_angle.degrees() > 0.0);
+        assert_eq!(b.evaluation.jetting.critical_angle.degrees(), 0.0);
+        let e = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"either-subsonic\")),\n)"
+        ))
+        .expect_err("no reason");
+        assert!(
+            e.contains("criteria.jetting") && e.contains("gives no reason"),
+            "{e}"
+        );
+        let e = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"always\", reason: \"x\")),\n)"
+        ))
+        .expect_err("unknown rule");
+        assert!(
+            e.contains("criteria.jetting.mixed") && e.contains("unknown rule"),
+            "{e}"
+        );
+    }
+
+    /// The pressure limit follows the window's process: on for magnetic pulse welding (its
+    /// source), off for explosive welding; switching it against that default needs a reason.
+    #[test]
+    fn the_pressure_limit_is_scoped_by_process() {
+        let mpw = parse(&format!("{HEAD}\n process: \"magnetic-pulse\",\n)")).expect("mpw");
+        assert!(mpw.criteria.pressure_enabled);
+        let ex = parse(&format!("{HEAD}\n process: \"explosive\",\n)")).expect("explosive");
+        assert!(!ex.criteria.pressure_enabled);
+        let none = parse(&format!("{HEAD}\n)")).expect("no process");
+        assert!(none.criteria.pressure_enabled);
+        let e = parse(&format!(
+            "{HEAD}\n process: \"explosive\",\n criteria: (pressure_lower: (enabled: true)),\n)"
+        ))
+        .expect_err("on for explosive welding without a reason");
+        assert!(e.contains("pressure_lower differs from the default"), "{e}");
+        let e = parse(&format!("{HEAD}\n process: \"welding\",\n)")).expect_err("unknown");
+        assert!(e.contains("unknown process 'welding'"), "{e}");
+    }
+
+    /// Wittman form B has no source: every result with it says so.
+    #[test]
+    fn form_b_is_marked_unsourced() {
+        let w = parse(&format!(
+            "{HEAD}\n criteria: (melting_upper: (form: \"b\", reason: \"comparison\")),\n)"
+        ))
+        .expect("form b with a reason");
+        let c = explained(&w, 420.0, 11.0);
+        assert!(
+            c.warnings
+                .iter()
+                .any(|x| x.contains("form B, for which no source was found")),
+            "{:?}",
+            c.warnings
+        );
+        assert!(CriterionId::MeltingUpper
+            .source()
+            .contains("form B: no source found"));
+    }
+
     /// Inputs no practitioner would type are warned about (issue 14: a 500 mm flyer, Vc of
     /// 60 000 m/s at 0.2 deg).
     #[test]

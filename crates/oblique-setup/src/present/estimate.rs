@@ -351,6 +351,8 @@ pub fn verdict_lines(w: &PairWindow, angle: f64, whose: &str, c: &Classification
         human::g(angle.to_degrees()),
         if c.inside {
             "INSIDE the window"
+        } else if !c.domain.inside() {
+            "OUTSIDE THE VALIDITY DOMAIN (no verdict claimed)"
         } else {
             "OUTSIDE the window"
         }
@@ -370,6 +372,9 @@ pub fn verdict_lines(w: &PairWindow, angle: f64, whose: &str, c: &Classification
     s.push_str(&format!("  {}\n", c.reason));
     if let Some(t) = inside_stretch_text(c) {
         s.push_str(&format!("  where the window is: {t}\n"));
+    }
+    for w in &c.warnings {
+        s.push_str(&format!("  warning: {w}\n"));
     }
     s
 }
