@@ -297,6 +297,24 @@ impl ValidityDomain {
             .collect()
     }
 
+    /// How far inside the domain the point lies: the smallest relative margin over every
+    /// bound ((value - min) / min and (max - value) / max, open ends left out), positive
+    /// inside, negative outside, zero on the edge. A smooth field for drawing the domain's
+    /// edge; the verdict uses [`Self::contains`].
+    pub fn margin(&self, pair: &PairSetup, c: &Collision) -> f64 {
+        let mut m = f64::INFINITY;
+        for b in &self.bounds {
+            let (v, lo, hi) = Self::raw(b, pair, c);
+            if lo > 0.0 && lo.is_finite() {
+                m = m.min((v - lo) / lo);
+            }
+            if hi.is_finite() && hi > 0.0 {
+                m = m.min((hi - v) / hi);
+            }
+        }
+        m
+    }
+
     /// Whether the point meets every bound.
     pub fn contains(&self, pair: &PairSetup, c: &Collision) -> bool {
         self.bounds.iter().all(|b| Self::meets(b, pair, c))

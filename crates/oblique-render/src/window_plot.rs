@@ -68,8 +68,8 @@ const REGION_UNTRIED: RGBColor = RGBColor(224, 229, 235);
 const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
 const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
 /// Cells outside the validity domain, and the domain's edge.
-const C_OUTSIDE_DOMAIN: RGBColor = RGBColor(232, 232, 232);
-const C_DOMAIN_EDGE: RGBColor = RGBColor(110, 110, 110);
+const C_OUTSIDE_DOMAIN: RGBColor = RGBColor(212, 212, 212);
+const C_DOMAIN_EDGE: RGBColor = RGBColor(70, 70, 70);
 
 fn criterion_colour(id: CriterionId) -> RGBColor {
     match id {
@@ -146,7 +146,8 @@ struct Field {
     margins: Vec<(CriterionId, Vec<f64>)>,
     sonic_parent: Vec<f64>,
     sonic_flyer: Vec<f64>,
-    /// +1 inside the validity domain, -1 outside, NaN where not evaluated.
+    /// How far inside the validity domain (`ValidityDomain::margin`: positive inside, the
+    /// verdict's own test decides the sign), NaN where not evaluated.
     domain: Vec<f64>,
 }
 
@@ -196,7 +197,8 @@ fn evaluate_field(
                 window.criteria.mixed_jetting,
             )?;
             let c = classify_with_jetting(window, &setup, &col, jet)?;
-            domain[k] = if c.domain.inside() { 1.0 } else { -1.0 };
+            let m = window.domain.margin(&setup, &col).abs().max(1e-12);
+            domain[k] = if c.domain.inside() { m } else { -m };
             region[k] = match (c.inside, c.outside_trial_data) {
                 (false, _) => 0,
                 (true, false) => 1,
@@ -255,11 +257,17 @@ fn draw_validity_domain<DB: DrawingBackend>(
     chart.draw_series(rects).map_err(plot_err)?;
     for line in contour(&field.xs, &field.ys, &field.domain) {
         chart
-            .draw_series(LineSeries::new(line, C_DOMAIN_EDGE.stroke_width(1)))
+            .draw_series(DashedLineSeries::new(
+                line,
+                6,
+                3,
+                C_DOMAIN_EDGE.stroke_width(2),
+            ))
             .map_err(plot_err)?;
     }
     Ok(Some((
-        "outside the validity domain: no verdict claimed (docs/theory.md §7.1)".into(),
+        "outside the validity domain (dashed edge): no verdict claimed (docs/theory.md §7.1)"
+            .into(),
         C_OUTSIDE_DOMAIN.filled(),
         0,
     )))
@@ -1005,6 +1013,35 @@ pub fn binding_text(w: &PairWindow, c: &Classification) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The validity domain is drawn (issue 14): its outside tinted, its edge dashed, said in
+    /// the legend; nothing inside the window is drawn beyond it.
+    #[test]
+    fn the_validity_domain_is_drawn() {
+        register_fonts();
+        let lib = oblique_window::Library::load(&[]).expect("built-in library");
+        let w = lib
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair (invented data)");
+        let req = PlotRequest {
+            window: w,
+            plane: Plane::AngleImpactVelocity,
+            points: Vec::new(),
+            curves: Vec::new(),
+        };
+        let p = prepare(&req).expect("prepares");
+        assert!(p.field.domain.iter().any(|d| *d < 0.0));
+        for (k, r) in p.field.region.iter().enumerate() {
+            if *r != 0 {
+                assert!(
+                    p.field.domain[k] > 0.0,
+                    "cell {k} inside the window, outside the domain"
+                );
+            }
+        }
+        let svg = render_svg(&req).expect("draws");
+        assert!(svg.contains("outside the validity domain"));
+    }
 
     #[test]
     fn contour_of_a_plane_is_one_line() {

@@ -29,7 +29,7 @@ const C_HEAD_ON: RGBColor = RGBColor(150, 90, 40);
 /// Rows outside the validity domain (no verdict claimed).
 const C_OUTSIDE: RGBColor = RGBColor(215, 215, 215);
 /// Cells of the window plane outside the validity domain.
-const T_OUTSIDE: RGBColor = RGBColor(236, 236, 236);
+const T_OUTSIDE: RGBColor = RGBColor(212, 212, 212);
 /// Stretches without a verdict (rejected rows) on the strip.
 const C_NO_VERDICT: RGBColor = RGBColor(20, 20, 20);
 const T_WELDED: RGBColor = RGBColor(212, 226, 243);
