@@ -673,15 +673,28 @@ pub fn inside_stretch_of(
     };
     let velocity_m_s = span.velocity_m_s.and_then(|(lo, hi)| {
         let n = 240;
+        // The ends exactly the domain's, so a span reaching them reads as the domain's edge.
         let vgrid: Vec<f64> = (0..n)
-            .map(|i| lo * (hi / lo).powf(i as f64 / (n - 1) as f64))
+            .map(|i| {
+                if i + 1 == n {
+                    hi
+                } else {
+                    lo * (hi / lo).powf(i as f64 / (n - 1) as f64)
+                }
+            })
             .collect();
         inside_stretch(vp, &vgrid, |v| inside_at(v, beta))
     });
     let angle_deg = span.angle_deg.and_then(|(lo, hi)| {
         let n = 180;
         let agrid: Vec<f64> = (0..n)
-            .map(|i| lo + (hi - lo) * i as f64 / (n - 1) as f64)
+            .map(|i| {
+                if i + 1 == n {
+                    hi
+                } else {
+                    lo + (hi - lo) * i as f64 / (n - 1) as f64
+                }
+            })
             .collect();
         inside_stretch(beta.degrees(), &agrid, |a| {
             inside_at(vp, Angle::from_degrees(a))

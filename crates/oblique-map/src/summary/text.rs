@@ -160,27 +160,24 @@ impl Summary {
                 })
                 .collect();
             s.push_str(&format!("lengths: {}\n", parts.join(", ")));
-            let (us, ue) = self.unbonded_ends();
             let (ns, ne) = self.no_verdict_at_ends;
             let (cs, ce) = self.ends_by_verdict();
-            // "unbonded X mm (of it: ...) + melted Y mm (bonded, brittle)"
-            let split = |unbonded: f64, c: &[f64; super::N_VERDICTS], nv: f64| {
-                let mut of = Vec::new();
+            // The stretch in the categories of the `lengths` line: "unbonded X mm + outside the
+            // validity domain Y mm (no verdict claimed) + no verdict Z mm + melted W mm (bonded,
+            // brittle)"; the JSON's `unbonded_length_*` is its total less the melted part.
+            let split = |c: &[f64; super::N_VERDICTS], nv: f64| {
+                let mut t = format!("unbonded {:.3} mm", (c[0] + c[1] + c[3]) * 1e3);
                 if c[4] > 0.0 {
-                    of.push(format!(
-                        "{:.3} mm outside the validity domain, no verdict claimed",
+                    t.push_str(&format!(
+                        " + outside the validity domain {:.3} mm (no verdict claimed)",
                         c[4] * 1e3
                     ));
                 }
                 if nv > 0.0 {
-                    of.push(format!(
-                        "{:.3} mm without verdict: rejected rows, not known to be welded",
+                    t.push_str(&format!(
+                        " + no verdict {:.3} mm (rejected rows, not known to be welded)",
                         nv * 1e3
                     ));
-                }
-                let mut t = format!("unbonded {:.3} mm", unbonded * 1e3);
-                if !of.is_empty() {
-                    t.push_str(&format!(" (of it {})", of.join("; ")));
                 }
                 if c[2] > 0.0 {
                     t.push_str(&format!(" + melted {:.3} mm (bonded, brittle)", c[2] * 1e3));
@@ -192,15 +189,15 @@ impl Summary {
                 s.push_str(&format!(
                     "no welded point: the whole interface, {:.3} mm = {}\n",
                     to_start.unwrap_or(0.0) * 1e3,
-                    split(us.unwrap_or(0.0), &cs, ns)
+                    split(&cs, ns)
                 ));
             } else {
                 s.push_str(&format!(
                     "to the first welded segment: {:.3} mm = {}; after the last one: {:.3} mm = {}\n",
                     to_start.unwrap_or(0.0) * 1e3,
-                    split(us.unwrap_or(0.0), &cs, ns),
+                    split(&cs, ns),
                     to_end.unwrap_or(0.0) * 1e3,
-                    split(ue.unwrap_or(0.0), &ce, ne)
+                    split(&ce, ne)
                 ));
             }
             if self.gaps_total > 0 {

@@ -157,6 +157,7 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
                 }) => {
                     let mark = match &r.setting(i, j).check {
                         Some(k) if k.inside => " in",
+                        Some(k) if !k.domain.inside() => " dom",
                         Some(_) => " out",
                         None => "",
                     };
@@ -177,7 +178,7 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
         "impact velocity Vp [m/s] by charging voltage (rows) and standoff (columns)\n",
     );
     out.push_str(&table(&hdr, &trows));
-    out.push_str("  (in/out: inside or outside the pair window at the angle shown; * impact after the first current zero)\n\n");
+    out.push_str("  (in/out: inside or outside the pair window at the angle shown; dom: outside the validity domain, no verdict claimed (docs/theory.md §7.1); * impact after the first current zero)\n\n");
     out
 }
 
