@@ -90,6 +90,8 @@ pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
         a.output.display(),
         if c.inside {
             "inside the window"
+        } else if !c.domain.inside() {
+            "outside the validity domain: no verdict claimed"
         } else {
             "outside the window"
         },
