@@ -89,6 +89,7 @@ pub fn ad_hoc_window(
     flyer_thickness: f64,
     parent_thickness: Option<f64>,
     convention: Convention,
+    process: Option<&str>,
 ) -> CmdResult<PairWindow> {
     lib.ad_hoc_window(
         flyer,
@@ -96,8 +97,37 @@ pub fn ad_hoc_window(
         Length::from_m(flyer_thickness),
         parent_thickness.map(Length::from_m),
         convention,
+        process,
     )
     .map_err(|(which, m)| Fail::input(format!("--{which}: {m}")))
+}
+
+/// Refuse criterion constants set on the command line that leave the window empty in the
+/// validity domain (a limit that no point of it satisfies), naming the flags given.
+///
+/// # Errors
+/// [`Fail::input`] with the reason.
+pub fn refuse_empty_window(window: &PairWindow, c: &crate::args::ConstantArgs) -> CmdResult {
+    if !c.any() {
+        return Ok(());
+    }
+    match oblique_window::classify::empty_window(window) {
+        None => Ok(()),
+        Some(why) => {
+            let flags: Vec<&str> = [
+                (c.deribas_k.is_some(), "--deribas-k"),
+                (c.wittman_n.is_some(), "--wittman-n"),
+                (c.hel_multiple.is_some(), "--hel-multiple"),
+            ]
+            .into_iter()
+            .filter_map(|(set, f)| set.then_some(f))
+            .collect();
+            Err(Fail::input(format!(
+                "{}: with this constant the window is empty: {why}\n  hint: a constant this far from its published range (docs/theory.md §5) leaves no weld anywhere in the validity domain (§7.1)",
+                flags.join(", ")
+            )))
+        }
+    }
 }
 
 /// Build the collision from Vp or Vc.

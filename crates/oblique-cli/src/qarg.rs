@@ -48,6 +48,26 @@ pub fn angle(s: &str) -> Result<f64, String> {
     }
 }
 
+/// A collision angle that may be head-on: from 0 (a head-on impact, below [`MIN_ANGLE_DEG`]
+/// numerically so) to below 90 deg. `check` gives a head-on impact its own verdict.
+pub fn angle_or_head_on(s: &str) -> Result<f64, String> {
+    let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;
+    let deg = rad.to_degrees();
+    if (0.0..90.0).contains(&deg) {
+        Ok(rad)
+    } else {
+        Err(format!(
+            "collision angle {deg:.3} deg is outside [0, 90) deg (0 is a head-on impact)"
+        ))
+    }
+}
+
+/// Whether an angle (rad) from [`angle_or_head_on`] is a head-on impact: below
+/// [`MIN_ANGLE_DEG`], where no oblique relation covers it.
+pub fn is_head_on(rad: f64) -> bool {
+    rad.to_degrees() < MIN_ANGLE_DEG
+}
+
 /// An angle that may be zero (preset angles).
 pub fn angle_or_zero(s: &str) -> Result<f64, String> {
     let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;

@@ -950,3 +950,34 @@ fn estimate_carries_the_velocity_uncertainty_into_a_weld_probability() {
     ));
     assert!(v.get("probability").is_none());
 }
+
+/// Issue 14: a sweep setting whose collision is supersonic in one plate only (the mixed jetting
+/// case, which no source covers) is marked, and one outside the validity domain says so.
+#[test]
+fn sweep_marks_the_mixed_jetting_case_and_the_domain() {
+    let o = run(&[
+        "sweep",
+        "mpw-tube",
+        "--machine",
+        "harbourside-bank-300uf",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--tube-outer-radius",
+        "20mm",
+        "--charge-voltage",
+        "6kV..12kV",
+        "--steps",
+        "7",
+        "--standoff",
+        "1mm,2mm",
+        "--angle",
+        "5deg",
+    ]);
+    assert_eq!(o.status.code(), Some(0));
+    let s = stdout(&o);
+    assert!(s.contains("in~") || s.contains("out~"), "{s}");
+    assert!(s.contains(" dom"), "{s}");
+    assert!(s.contains("~ jetting in the mixed regime"), "{s}");
+}

@@ -221,6 +221,7 @@ impl<'w> Engine<'w> {
             Some(JettingModel::shared(
                 window.flyer.material.hugoniot,
                 window.parent.material.hugoniot,
+                window.criteria.mixed_jetting,
                 scatter.model,
             )?)
         } else {
@@ -664,10 +665,8 @@ mod tests {
                     )
                     .expect("jet")
                     * d.jet_factor;
-                let jet = JettingAssessment {
-                    regime: JettingRegime::Supersonic,
-                    critical_angle: Angle::from_radians(crit),
-                };
+                let mut jet = JettingAssessment::any_angle(JettingRegime::Supersonic, true, true);
+                jet.critical_angle = Angle::from_radians(crit);
                 let r = classify_with_jetting(&rw, &setup, &col, jet).expect("reference");
                 for (bit, limit) in e.limits.iter().enumerate() {
                     let fails_lean = (lean.failing >> bit) & 1 == 1;

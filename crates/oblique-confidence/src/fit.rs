@@ -307,6 +307,7 @@ impl<'w> TermBuilder<'w> {
                     &p.hugoniot,
                     c.flow_velocity,
                     c.collision_velocity,
+                    window.criteria.mixed_jetting,
                 )?
                 .critical_angle
                 .degrees())
@@ -928,10 +929,19 @@ pub fn synthetic_trials(window: &PairWindow, d: &SyntheticDesign) -> ConfidenceR
             Velocity::from_m_s(v),
             Angle::from_degrees(b),
         )?;
-        let outcome = match classify(&truth_window, &setup, &c)?.prediction {
+        let k = classify(&truth_window, &setup, &c)?;
+        // Outside the validity domain the synthetic truth is what the limits say there.
+        let said = if k.prediction == Prediction::OutsideDomain {
+            k.domain.limits_say
+        } else {
+            k.prediction
+        };
+        let outcome = match said {
             Prediction::Welded => Outcome::Welded,
-            Prediction::NotWelded => Outcome::NotWelded,
             Prediction::Melted => Outcome::Melted,
+            Prediction::NotWelded | Prediction::HeadOn | Prediction::OutsideDomain => {
+                Outcome::NotWelded
+            }
         };
         let zv: f64 = rng.sample(rand_distr::StandardNormal);
         let zb: f64 = rng.sample(rand_distr::StandardNormal);

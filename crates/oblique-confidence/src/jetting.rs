@@ -20,7 +20,7 @@
 //! solve runs with the sampled Hugoniots. The tests bound the difference from the direct solve.
 
 use oblique_core::hugoniot::Hugoniot;
-use oblique_core::jetting::critical_angle;
+use oblique_core::jetting::{critical_angle, MixedRule};
 use oblique_core::jetting_table::{JettingTable, Lookup};
 use oblique_core::units::{Density, Velocity};
 use oblique_core::PhysicsError;
@@ -81,6 +81,8 @@ impl JetScale {
 pub struct JettingModel {
     flyer: Hugoniot,
     parent: Hugoniot,
+    /// The mixed sub/supersonic rule of the pair (`criteria.jetting.mixed`).
+    rule: MixedRule,
     nominal: JettingTable,
     /// (minus, plus) for r, s_flyer, s_parent; `None` when only the nominal pair is evaluated.
     corrections: Option<[(JettingTable, JettingTable); 3]>,
@@ -92,7 +94,7 @@ pub struct JettingModel {
 /// Models already built in this process, by the bits of the two Hugoniots and whether the
 /// correction tables exist: the lazy tables keep the nodes they solved, so a second evaluation
 /// of the same pair (a sweep, a plot after a check, a benchmark) does not solve them again.
-static MODELS: std::sync::Mutex<Vec<([u64; 7], std::sync::Arc<JettingModel>)>> =
+static MODELS: std::sync::Mutex<Vec<([u64; 8], std::sync::Arc<JettingModel>)>> =
     std::sync::Mutex::new(Vec::new());
 /// The most models kept.
 const MAX_CACHED: usize = 8;
@@ -106,6 +108,7 @@ impl JettingModel {
     pub fn shared(
         flyer: Hugoniot,
         parent: Hugoniot,
+        rule: MixedRule,
         perturbed: bool,
     ) -> Result<std::sync::Arc<Self>, PhysicsError> {
         let key = [
@@ -116,6 +119,7 @@ impl JettingModel {
             parent.c0.si().to_bits(),
             parent.s.to_bits(),
             u64::from(perturbed),
+            u64::from(rule == MixedRule::SupersonicSidePolar),
         ];
         let mut cache = MODELS
             .lock()
@@ -123,7 +127,7 @@ impl JettingModel {
         if let Some((_, m)) = cache.iter().find(|(k, _)| *k == key) {
             return Ok(m.clone());
         }
-        let m = std::sync::Arc::new(Self::new(flyer, parent, perturbed)?);
+        let m = std::sync::Arc::new(Self::new(flyer, parent, rule, perturbed)?);
         if cache.len() >= MAX_CACHED {
             cache.remove(0);
         }
@@ -136,8 +140,13 @@ impl JettingModel {
     ///
     /// # Errors
     /// [`PhysicsError`] for a Hugoniot the tables refuse.
-    pub fn new(flyer: Hugoniot, parent: Hugoniot, perturbed: bool) -> Result<Self, PhysicsError> {
-        let nominal = JettingTable::new(flyer, parent, 0)?;
+    pub fn new(
+        flyer: Hugoniot,
+        parent: Hugoniot,
+        rule: MixedRule,
+        perturbed: bool,
+    ) -> Result<Self, PhysicsError> {
+        let nominal = JettingTable::new(flyer, parent, rule, 0)?;
         let [dr, dsf, dsp] = STEPS;
         let corrections = if perturbed {
             let with = |rf: f64, sf: f64, sp: f64| -> Result<JettingTable, PhysicsError> {
@@ -147,7 +156,7 @@ impl JettingModel {
                     flyer.s * sf,
                 )?;
                 let p = Hugoniot::new(parent.density, parent.c0, parent.s * sp)?;
-                JettingTable::new(f, p, 0)
+                JettingTable::new(f, p, rule, 0)
             };
             Some([
                 (with((-dr).exp(), 1.0, 1.0)?, with(dr.exp(), 1.0, 1.0)?),
@@ -165,7 +174,7 @@ impl JettingModel {
                     flyer.s * sf,
                 )?;
                 let p = Hugoniot::new(parent.density, parent.c0, parent.s * sp)?;
-                JettingTable::new(f, p, 0)
+                JettingTable::new(f, p, rule, 0)
             };
             Some([
                 with(dr.exp(), dsf.exp(), 1.0)?,
@@ -178,6 +187,7 @@ impl JettingModel {
         Ok(Self {
             flyer,
             parent,
+            rule,
             nominal,
             corrections,
             cross,
@@ -192,9 +202,9 @@ impl JettingModel {
     #[inline]
     pub fn critical_angle(&self, vf: f64, vc: f64, scale: &JetScale) -> Result<f64, PhysicsError> {
         if scale.is_nominal() {
-            return match self.nominal.lookup(vf, vc) {
+            return match self.nominal.lookup_mixed(vf, vc) {
                 Lookup::Subsonic(_) => Ok(0.0),
-                Lookup::Table(a) => Ok(a),
+                Lookup::Table(a) | Lookup::Mixed(_, a) => Ok(a),
                 Lookup::OutsideDomain => Ok(self
                     .nominal
                     .solve(Velocity::from_m_s(vf), Velocity::from_m_s(vc))?
@@ -203,9 +213,9 @@ impl JettingModel {
             };
         }
         let (xf, xc) = (vf / scale.a_flyer, vc / scale.a_parent);
-        let base = match self.nominal.lookup(xf, xc) {
+        let base = match self.nominal.lookup_mixed(xf, xc) {
             Lookup::Subsonic(_) => return Ok(0.0),
-            Lookup::Table(a) => a,
+            Lookup::Table(a) | Lookup::Mixed(_, a) => a,
             Lookup::OutsideDomain => return self.direct(vf, vc, scale),
         };
         let (Some(corr), Some(cross)) = (&self.corrections, &self.cross) else {
@@ -218,8 +228,8 @@ impl JettingModel {
             if x[k] == 0.0 {
                 continue;
             }
-            let (Lookup::Table(m), Lookup::Table(p)) =
-                (minus_t.lookup(xf, xc), plus_t.lookup(xf, xc))
+            let (Lookup::Table(m) | Lookup::Mixed(_, m), Lookup::Table(p) | Lookup::Mixed(_, p)) =
+                (minus_t.lookup_mixed(xf, xc), plus_t.lookup_mixed(xf, xc))
             else {
                 return self.direct(vf, vc, scale);
             };
@@ -233,7 +243,7 @@ impl JettingModel {
             if x[a] == 0.0 || x[b] == 0.0 {
                 continue;
             }
-            let Lookup::Table(pp) = t.lookup(xf, xc) else {
+            let (Lookup::Table(pp) | Lookup::Mixed(_, pp)) = t.lookup_mixed(xf, xc) else {
                 return self.direct(vf, vc, scale);
             };
             let mixed = (pp - plus[a] - plus[b] + base) / (STEPS[a] * STEPS[b]);
@@ -245,11 +255,15 @@ impl JettingModel {
     /// The direct solve with the sampled Hugoniots rebuilt from the scale.
     fn direct(&self, vf: f64, vc: f64, scale: &JetScale) -> Result<f64, PhysicsError> {
         let (f, p) = self.sampled(scale)?;
-        Ok(
-            critical_angle(&f, &p, Velocity::from_m_s(vf), Velocity::from_m_s(vc))?
-                .critical_angle
-                .radians(),
-        )
+        Ok(critical_angle(
+            &f,
+            &p,
+            Velocity::from_m_s(vf),
+            Velocity::from_m_s(vc),
+            self.rule,
+        )?
+        .critical_angle
+        .radians())
     }
 
     /// Hugoniots with the given scale (the parent at its nominal density, the flyer's density
@@ -297,10 +311,16 @@ mod tests {
         let (af, bf, ap, bp) = (1.04, 0.98, 0.97, 1.02);
         let fs = h(2700.0 * bf, 5350.0 * af, 1.34);
         let ps = h(8930.0 * bp, 3940.0 * ap, 1.489);
-        let direct = critical_angle(&fs, &ps, Velocity::from_m_s(vf), Velocity::from_m_s(vc))
-            .expect("solve")
-            .critical_angle
-            .radians();
+        let direct = critical_angle(
+            &fs,
+            &ps,
+            Velocity::from_m_s(vf),
+            Velocity::from_m_s(vc),
+            MixedRule::SupersonicSidePolar,
+        )
+        .expect("solve")
+        .critical_angle
+        .radians();
         let r = (bf * af * af) / (bp * ap * ap);
         let fr = h(2700.0 * r, 5350.0, 1.34);
         let scaled = critical_angle(
@@ -308,6 +328,7 @@ mod tests {
             &p,
             Velocity::from_m_s(vf / af),
             Velocity::from_m_s(vc / ap),
+            MixedRule::SupersonicSidePolar,
         )
         .expect("solve")
         .critical_angle
@@ -333,7 +354,7 @@ mod tests {
             let ps = h(8930.0 * (0.01 * zrp).exp(), 3940.0 * (0.02 * zp).exp(), 1.489 * (0.05 * zsp).exp());
             let scale = JetScale::of((&f, &p), (&fs, &ps));
             let fast = model.critical_angle(vf, vc, &scale).expect("fast");
-            let direct = critical_angle(&fs, &ps, Velocity::from_m_s(vf), Velocity::from_m_s(vc))
+            let direct = critical_angle(&fs, &ps, Velocity::from_m_s(vf), Velocity::from_m_s(vc), MixedRule::SupersonicSidePolar)
                 .expect("direct").critical_angle.radians();
             let bound = 0.05 + 0.01 * direct.to_degrees();
             prop_assert!((fast - direct).to_degrees().abs() < bound, "{} {}", fast.to_degrees(), direct.to_degrees());
@@ -344,14 +365,14 @@ mod tests {
         static MODEL: std::sync::OnceLock<JettingModel> = std::sync::OnceLock::new();
         MODEL.get_or_init(|| {
             let (f, p) = pair();
-            JettingModel::new(f, p, true).expect("model")
+            JettingModel::new(f, p, MixedRule::SupersonicSidePolar, true).expect("model")
         })
     }
 
     #[test]
-    fn subsonic_is_exact() {
+    fn subsonic_is_exact_under_the_either_subsonic_rule() {
         let (f, p) = pair();
-        let model = JettingModel::new(f, p, true).expect("model");
+        let model = JettingModel::new(f, p, MixedRule::EitherSubsonic, true).expect("model");
         let scale = JetScale {
             a_parent: 1.1,
             ..JetScale::NOMINAL
@@ -367,5 +388,8 @@ mod tests {
                 .expect("ok")
                 > 0.0
         );
+        // Under the conservative rule the mixed case takes the supersonic flyer's own polar.
+        let polar = JettingModel::new(f, p, MixedRule::SupersonicSidePolar, true).expect("model");
+        assert!(polar.critical_angle(9000.0, 4200.0, &scale).expect("ok") > 0.0);
     }
 }

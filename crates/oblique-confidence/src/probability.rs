@@ -222,6 +222,7 @@ fn doubt_sentence(
         return String::new();
     };
     let beta = point.angle_rad.to_degrees();
+    let span = oblique_window::classify::domain_span_of(window, setup, c, point.convention);
     let reached = |id: CriterionId| {
         Some(headroom(
             window,
@@ -229,6 +230,7 @@ fn doubt_sentence(
             c,
             &LimitRef::Criterion(id),
             point.convention,
+            &span,
         ))
     };
     let action = match input.kind {
@@ -432,12 +434,14 @@ mod tests {
         let setup = w.setup().expect("setup");
         let nominal = at(450.0, 14.0).collision(w.convention).expect("collision");
         let c = classify(&w, &setup, &nominal).expect("classify");
+        let span = oblique_window::classify::domain_span_of(&w, &setup, &c, w.convention);
         let v = headroom(
             &w,
             &setup,
             &c,
             &LimitRef::Criterion(CriterionId::DeribasLower),
             w.convention,
+            &span,
         )
         .velocity_m_s
         .expect("Deribas reached");

@@ -7,7 +7,7 @@
 
 use crate::error::{positive, PhysicsError};
 use crate::hugoniot::{impedance_match, ImpactState};
-use crate::jetting::{critical_angle, JettingAssessment};
+use crate::jetting::{critical_angle, JettingAssessment, MixedRule};
 use crate::kinematics::Collision;
 use crate::material::Material;
 use crate::units::{Angle, ArealEnergy, Length, Velocity};
@@ -92,12 +92,12 @@ impl CriterionId {
             CriterionId::StrengthLower => {
                 "Wittman 1973; Carpenter & Wittman 1975 (cited; formula from memory; see docs/theory.md)"
             }
-            CriterionId::PressureLower => "HEL relation as quoted from Kore et al. 2010 (confirmed); 5 HEL is common practice for magnetic pulse welding",
+            CriterionId::PressureLower => "p >= 5 HEL, HEL = 0.5 (K/G + 4/3) Y0, as quoted from Kore et al. 2010 (confirmed) for magnetic pulse welding; other processes by default per docs/theory.md §5.4",
             CriterionId::MeltingUpper => {
-                "Wittman; Carpenter & Wittman 1975, Annu. Rev. Mater. Sci. 5:177 (form and exponents from memory; N = 0.11 from memory)"
+                "Wittman; Carpenter & Wittman 1975, Annu. Rev. Mater. Sci. 5:177 (form A corroborated second-hand, exponents from memory; form B: no source found; N = 0.11 from memory, its SI scale with Tm in kelvin unconfirmed)"
             }
             CriterionId::Jetting => {
-                "Cowan & Holtzman 1963 (subsonic, cited); Walsh, Shreffler & Willig 1953 (polars, from memory); dissimilar construction derived"
+                "Cowan & Holtzman 1963 (both subsonic, cited); Walsh, Shreffler & Willig 1953 (polars, from memory); dissimilar construction derived; mixed case: no source, rule chosen per pair (docs/theory.md §4.3)"
             }
             CriterionId::WavyTransition => "Cowan, Bergmann & Holtzman 1971; Re_crit = 10.6 (from memory)",
         }
@@ -110,16 +110,24 @@ impl fmt::Display for CriterionId {
     }
 }
 
-/// Which of the two forms of the Wittman melting limit is used (both circulate; both from memory,
-/// `physics-notes.md` §4).
+/// Which of the two forms of the Wittman melting limit is used (both circulate, `physics-notes.md`
+/// §4). Form A is corroborated second-hand (`physics-notes.md` §7); **no source was found for
+/// form B**: it is kept only to show how much the form matters, and every result with it says
+/// so.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum WittmanForm {
     /// (1/N) sqrt(Tm C0) / Vc (k Cp C0 / (rho h))^(1/4) (the default).
     A,
-    /// (1/N) sqrt(Tm / Vc) (k Cp C0 / (rho h))^(1/4).
+    /// (1/N) sqrt(Tm / Vc) (k Cp C0 / (rho h))^(1/4). Unsourced.
     B,
 }
+
+/// The Wittman constant's stated uncertainty: no source read confirms N = 0.11 in SI with the
+/// solidus in kelvin (`physics-notes.md` §7); with the solidus in degrees Celsius the limit
+/// falls by the factor sqrt((Tm - 273.15 K) / Tm), 10-20 % for the library's metals. Fit N to
+/// your own trials.
+pub const WITTMAN_SCALE_NOTE: &str = "N = 0.11 is from memory and its scale is unconfirmed: no source read says whether Tm enters in kelvin (used) or degrees Celsius, which lowers the limit by 10-20 %; fit N to your trials";
 
 /// Constants and switches of every criterion. `Default` gives the usual defaults (k 0.6, N 0.11,
 /// 5 HEL, Re 10.6; from memory or common practice, see docs/theory.md).
@@ -147,6 +155,8 @@ pub struct CriteriaConfig {
     pub wavy_enabled: bool,
     /// Critical Reynolds number of the wavy transition (10.6).
     pub wavy_critical_reynolds: f64,
+    /// How the jetting test treats a collision supersonic in one plate only.
+    pub mixed_jetting: MixedRule,
 }
 
 impl Default for CriteriaConfig {
@@ -163,6 +173,7 @@ impl Default for CriteriaConfig {
             jetting_enabled: true,
             wavy_enabled: true,
             wavy_critical_reynolds: 10.6,
+            mixed_jetting: MixedRule::default(),
         }
     }
 }
@@ -263,6 +274,10 @@ pub struct CriterionResult {
     pub limit_parent: Option<f64>,
     /// The criterion's constants, by name (`k`, `n`, `hel_multiple`, `critical_reynolds`).
     pub constants: Vec<(&'static str, f64)>,
+    /// The melting limit with the solidus taken in degrees Celsius instead of kelvin: the low
+    /// end of the Wittman constant's scale uncertainty ([`WITTMAN_SCALE_NOTE`]); `None` for the
+    /// other criteria.
+    pub limit_tm_celsius: Option<f64>,
 }
 
 impl CriterionResult {
@@ -295,6 +310,7 @@ impl CriterionResult {
         let l = format_in_unit(self.limit, self.unit);
         match (self.id, self.satisfied) {
             (CriterionId::DeribasLower, false) => format!("collision angle {v} is below the Deribas minimum {l} at this collision-point velocity"),
+            (CriterionId::Jetting, false) if self.limit >= 90.0 => "the shock polars turn both streams at every collision angle: no jet at this collision-point velocity (no critical angle below 90 deg)".to_string(),
             (CriterionId::Jetting, false) => format!("collision angle {v} is below the jetting critical angle {l}: no jet at this collision-point velocity"),
             (CriterionId::StrengthLower, false) => format!("impact velocity {v} is below the strength minimum {l}"),
             (CriterionId::PressureLower, false) => format!("impact pressure {v} is below the required {l}"),
@@ -308,6 +324,16 @@ impl CriterionResult {
     /// The margin with its unit, human scale.
     pub fn margin_text(&self) -> String {
         format_in_unit(self.margin, self.unit)
+    }
+
+    /// The limit with its unit, human scale; the jetting limit without a critical angle below
+    /// 90 deg is said in words.
+    pub fn limit_text(&self) -> String {
+        if self.id == CriterionId::Jetting && self.limit >= 90.0 {
+            "none below 90 deg".to_string()
+        } else {
+            format_in_unit(self.limit, self.unit)
+        }
     }
 }
 
@@ -515,7 +541,17 @@ fn lower(
         limit_flyer: Some(limit_flyer),
         limit_parent: Some(limit_parent),
         constants,
+        limit_tm_celsius: None,
     }
+}
+
+/// The factor by which a plate's Wittman limit falls when its solidus enters in degrees Celsius
+/// instead of kelvin, sqrt((Tm - 273.15 K) / Tm) (both forms carry sqrt(Tm)); derived here from
+/// the formula, the low end of [`WITTMAN_SCALE_NOTE`]. 0.83 for Al 6061-T6 (855 K), 0.89 for
+/// Cu C11000 (1338 K).
+pub fn celsius_factor(material: &Material) -> f64 {
+    let tm = material.melting_temperature.si();
+    ((tm - 273.15).max(0.0) / tm).sqrt()
 }
 
 /// Evaluate every enabled criterion at one point.
@@ -547,6 +583,7 @@ pub fn evaluate(
         &pair.parent.hugoniot,
         collision.flow_velocity,
         collision.collision_velocity,
+        config.mixed_jetting,
     )?;
     evaluate_with_jetting(pair, collision, config, jetting)
 }
@@ -625,6 +662,11 @@ pub fn evaluate_with_jetting(
                     limit_flyer: Some(lf),
                     limit_parent: Some(lp),
                     constants: vec![("n", config.wittman_n), ("form", form)],
+                    limit_tm_celsius: Some(if lf <= lp {
+                        lf * celsius_factor(f)
+                    } else {
+                        lp * celsius_factor(p)
+                    }),
                 }
             }
             CriterionId::Jetting => {
@@ -642,6 +684,7 @@ pub fn evaluate_with_jetting(
                     limit_flyer: None,
                     limit_parent: None,
                     constants: vec![],
+                    limit_tm_celsius: None,
                 }
             }
             CriterionId::WavyTransition => {
@@ -661,6 +704,7 @@ pub fn evaluate_with_jetting(
                     limit_flyer: None,
                     limit_parent: None,
                     constants: vec![("critical_reynolds", limit)],
+                    limit_tm_celsius: None,
                 }
             }
         };
@@ -691,7 +735,7 @@ pub fn evaluate_with_jetting(
 }
 
 #[cfg(test)]
-mod tests {
+pub(crate) mod tests {
     use super::*;
     use crate::hugoniot::Hugoniot;
     use crate::kinematics::Convention;

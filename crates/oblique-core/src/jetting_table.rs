@@ -18,23 +18,35 @@
 //! the construction climbs steeply and then stops being meaningful), fall back to the direct
 //! solve.
 //!
+//! The mixed case (one stream supersonic, the other not) under
+//! [`MixedRule::SupersonicSidePolar`] needs the largest deflection of the supersonic stream's
+//! polar alone, a function of one inflow speed: two one-dimensional tables along the same
+//! stretched axes give it, interpolated linearly, also lazily. Under
+//! [`MixedRule::EitherSubsonic`] the mixed case is decided exactly with zero, as before.
+//!
 //! Error bound: [`JettingTable::ERROR_BOUND_DEG`] (0.05 deg) against the direct solve, checked by
 //! the tests below on every cell centre of tables for several material pairs and on random
 //! points (proptest); the measured worst case is reported by [`JettingTable::measured_error`].
 
 use crate::error::{positive, PhysicsError};
 use crate::hugoniot::Hugoniot;
-use crate::jetting::{critical_angle, JettingAssessment, JettingRegime};
-use crate::units::{Angle, Velocity};
+use crate::jetting::{
+    critical_angle, single_polar_max_deflection, JettingAssessment, JettingRegime, MixedRule,
+};
+use crate::units::Velocity;
 use std::sync::OnceLock;
 
 /// Where a query was answered.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum Lookup {
-    /// A subsonic regime, decided exactly: the critical angle is exactly zero.
+    /// A subsonic stream decides, exactly: the critical angle is exactly zero (both streams
+    /// subsonic, or a mixed case under [`MixedRule::EitherSubsonic`]).
     Subsonic(JettingRegime),
     /// Both inflows supersonic and inside the table: the interpolated critical angle (radians).
     Table(f64),
+    /// A mixed case under [`MixedRule::SupersonicSidePolar`], inside the table: the regime (the
+    /// subsonic stream) and the supersonic stream's interpolated largest deflection (radians).
+    Mixed(JettingRegime, f64),
     /// Both inflows supersonic but outside the table: the caller must solve directly.
     OutsideDomain,
 }
@@ -57,6 +69,11 @@ pub struct JettingTable {
     /// Critical angle in radians at node (i along the flyer axis, j along the parent axis),
     /// stored at `i * nodes + j`; filled up front, or on first use for a lazy table.
     values: Vec<OnceLock<f64>>,
+    /// The rule of the mixed case.
+    rule: MixedRule,
+    /// The largest deflection of the flyer's polar alone at node i of the flyer axis, and of the
+    /// parent's at node j of the parent axis (radians), filled on first use.
+    single: [Vec<OnceLock<f64>>; 2],
 }
 
 impl JettingTable {
@@ -80,10 +97,16 @@ impl JettingTable {
     ///
     /// # Errors
     /// [`PhysicsError`] when the direct solve fails at a node (it does not for valid Hugoniots).
-    pub fn new(flyer: Hugoniot, parent: Hugoniot, threads: usize) -> Result<Self, PhysicsError> {
+    pub fn new(
+        flyer: Hugoniot,
+        parent: Hugoniot,
+        rule: MixedRule,
+        threads: usize,
+    ) -> Result<Self, PhysicsError> {
         Self::with_resolution(
             flyer,
             parent,
+            rule,
             Velocity::from_m_s(Self::DEFAULT_MAX_INFLOW),
             Self::DEFAULT_NODES,
             threads,
@@ -98,6 +121,7 @@ impl JettingTable {
     pub fn with_resolution(
         flyer: Hugoniot,
         parent: Hugoniot,
+        rule: MixedRule,
         max_inflow: Velocity,
         nodes: usize,
         threads: usize,
@@ -134,6 +158,7 @@ impl JettingTable {
                         &parent,
                         Velocity::from_m_s(vf),
                         Velocity::from_m_s(vc),
+                        rule,
                     )?
                     .critical_angle
                     .radians()
@@ -204,7 +229,54 @@ impl JettingTable {
             } else {
                 values.into_iter().map(OnceLock::from).collect()
             },
+            rule,
+            single: [
+                (0..nodes).map(|_| OnceLock::new()).collect(),
+                (0..nodes).map(|_| OnceLock::new()).collect(),
+            ],
         })
+    }
+
+    /// The largest deflection (radians) of one stream's polar alone at node `i` of its axis
+    /// (`side` 0: the flyer, 1: the parent), solved on first use; zero at the sonic node.
+    #[inline]
+    fn single_node(&self, side: usize, i: usize) -> f64 {
+        *self.single[side][i].get_or_init(|| {
+            if i == 0 {
+                return 0.0;
+            }
+            let (h, c0, du) = if side == 0 {
+                (&self.flyer, self.c0_flyer, self.du_flyer)
+            } else {
+                (&self.parent, self.c0_parent, self.du_parent)
+            };
+            let u = du * i as f64;
+            single_polar_max_deflection(h, Velocity::from_m_s(c0 + u * u))
+        })
+    }
+
+    /// The mixed case under the polar rule: the supersonic stream (`side` 0: the flyer at
+    /// speed `v`, 1: the parent) interpolated along its axis; `None` beyond the table.
+    #[cold]
+    fn mixed(&self, side: usize, v: f64) -> Option<f64> {
+        if v > self.max_inflow {
+            return None;
+        }
+        let (c0, inv) = if side == 0 {
+            (self.c0_flyer, self.inv_du_flyer)
+        } else {
+            (self.c0_parent, self.inv_du_parent)
+        };
+        let x = (v - c0).sqrt() * inv;
+        let i = (x as usize).min(self.nodes - 2);
+        let t = x - i as f64;
+        let (a, b) = (self.single_node(side, i), self.single_node(side, i + 1));
+        Some(a + (b - a) * t)
+    }
+
+    /// The rule of the mixed case this table was built for.
+    pub fn rule(&self) -> MixedRule {
+        self.rule
     }
 
     /// The critical angle (radians) at node (i, j), solving it on first use in a lazy table. A
@@ -223,6 +295,7 @@ impl JettingTable {
                 &self.parent,
                 Velocity::from_m_s(self.c0_flyer + uf * uf),
                 Velocity::from_m_s(self.c0_parent + up * up),
+                self.rule,
             )
             .map_or(f64::INFINITY, |a| a.critical_angle.radians())
         })
@@ -238,7 +311,31 @@ impl JettingTable {
         self.nodes
     }
 
-    /// Classify a query: exact subsonic decision, table inside the domain, or outside.
+    /// The mixed case under [`MixedRule::SupersonicSidePolar`]: [`Lookup::Mixed`] with the
+    /// supersonic stream's interpolated largest deflection, [`Lookup::OutsideDomain`] beyond
+    /// the table (solve directly); the answer of [`Self::lookup`] for any other query or rule.
+    pub fn lookup_mixed(&self, vf: f64, vc: f64) -> Lookup {
+        let l = self.lookup(vf, vc);
+        if self.rule != MixedRule::SupersonicSidePolar {
+            return l;
+        }
+        match l {
+            Lookup::Subsonic(JettingRegime::SubsonicParent) if vf > self.c0_flyer => {
+                self.mixed(0, vf).map_or(Lookup::OutsideDomain, |r| {
+                    Lookup::Mixed(JettingRegime::SubsonicParent, r)
+                })
+            }
+            Lookup::Subsonic(JettingRegime::SubsonicFlyer) => {
+                self.mixed(1, vc).map_or(Lookup::OutsideDomain, |r| {
+                    Lookup::Mixed(JettingRegime::SubsonicFlyer, r)
+                })
+            }
+            other => other,
+        }
+    }
+
+    /// Classify a query: exact subsonic decision (a mixed case included: the subsonic stream's
+    /// regime, see [`Self::lookup_mixed`]), table inside the domain, or outside.
     /// `vf` and `vc` are the flyer and parent inflow speeds in m/s; non-positive or non-finite
     /// speeds give [`Lookup::OutsideDomain`] so that the direct solve reports the error.
     #[inline]
@@ -247,6 +344,8 @@ impl JettingTable {
             return Lookup::OutsideDomain;
         }
         // Same tests, same order, as the direct solve (ShockPolar::new: supersonic iff V > C0).
+        // A mixed case comes back as the subsonic stream's regime; under the polar rule its
+        // critical angle is `lookup_mixed`'s.
         if vc <= self.c0_parent {
             return Lookup::Subsonic(JettingRegime::SubsonicParent);
         }
@@ -286,15 +385,24 @@ impl JettingTable {
         flyer_inflow: Velocity,
         parent_inflow: Velocity,
     ) -> Result<JettingAssessment, PhysicsError> {
-        match self.lookup(flyer_inflow.si(), parent_inflow.si()) {
-            Lookup::Subsonic(regime) => Ok(JettingAssessment {
+        let (vf, vc) = (flyer_inflow.si(), parent_inflow.si());
+        let (fs, ps) = (vf > self.c0_flyer, vc > self.c0_parent);
+        match self.lookup_mixed(vf, vc) {
+            Lookup::Subsonic(regime) => Ok(JettingAssessment::any_angle(regime, fs, ps)),
+            Lookup::Table(rad) => Ok(JettingAssessment::from_polar(
+                JettingRegime::Supersonic,
+                rad,
+                true,
+                true,
+                None,
+            )),
+            Lookup::Mixed(regime, rad) => Ok(JettingAssessment::from_polar(
                 regime,
-                critical_angle: Angle::from_radians(0.0),
-            }),
-            Lookup::Table(rad) => Ok(JettingAssessment {
-                regime: JettingRegime::Supersonic,
-                critical_angle: Angle::from_radians(rad),
-            }),
+                rad,
+                fs,
+                ps,
+                Some(MixedRule::SupersonicSidePolar),
+            )),
             Lookup::OutsideDomain => self.solve(flyer_inflow, parent_inflow),
         }
     }
@@ -308,7 +416,13 @@ impl JettingTable {
         flyer_inflow: Velocity,
         parent_inflow: Velocity,
     ) -> Result<JettingAssessment, PhysicsError> {
-        critical_angle(&self.flyer, &self.parent, flyer_inflow, parent_inflow)
+        critical_angle(
+            &self.flyer,
+            &self.parent,
+            flyer_inflow,
+            parent_inflow,
+            self.rule,
+        )
     }
 
     /// The largest |table - direct| in degrees over the centres of every cell, where bilinear
@@ -374,12 +488,60 @@ mod tests {
         static T: [OnceLock<JettingTable>; 3] = [OnceLock::new(), OnceLock::new(), OnceLock::new()];
         T[k].get_or_init(|| {
             let (f, p) = [(al(), cu()), (ti(), ta()), (mg(), ti())][k];
-            JettingTable::new(f, p, 2).unwrap()
+            JettingTable::new(f, p, MixedRule::SupersonicSidePolar, 2).unwrap()
+        })
+    }
+
+    fn table_either(k: usize) -> &'static JettingTable {
+        static T: [OnceLock<JettingTable>; 3] = [OnceLock::new(), OnceLock::new(), OnceLock::new()];
+        T[k].get_or_init(|| {
+            let (f, p) = [(al(), cu()), (ti(), ta()), (mg(), ti())][k];
+            JettingTable::new(f, p, MixedRule::EitherSubsonic, 0).unwrap()
         })
     }
 
     fn direct(f: &Hugoniot, p: &Hugoniot, vf: f64, vc: f64) -> JettingAssessment {
-        critical_angle(f, p, Velocity::from_m_s(vf), Velocity::from_m_s(vc)).unwrap()
+        critical_angle(
+            f,
+            p,
+            Velocity::from_m_s(vf),
+            Velocity::from_m_s(vc),
+            MixedRule::SupersonicSidePolar,
+        )
+        .unwrap()
+    }
+
+    /// The mixed case under the polar rule: every mid-point between two nodes of both
+    /// one-dimensional tables within the bound.
+    #[test]
+    fn mixed_case_within_the_bound() {
+        for k in 0..3 {
+            let t = table(k);
+            let (f, p) = [(al(), cu()), (ti(), ta()), (mg(), ti())][k];
+            for i in 0..t.nodes - 1 {
+                for (side, h, du) in [(0, f, t.du_flyer), (1, p, t.du_parent)] {
+                    let u = du * (i as f64 + 0.5);
+                    let v = h.c0.si() + u * u;
+                    // The other stream subsonic.
+                    let (vf, vc) = if side == 0 {
+                        (v, 0.9 * p.c0.si())
+                    } else {
+                        (0.9 * f.c0.si(), v)
+                    };
+                    let got = t
+                        .critical_angle(Velocity::from_m_s(vf), Velocity::from_m_s(vc))
+                        .unwrap();
+                    let want = direct(&f, &p, vf, vc);
+                    assert_eq!(got.regime, want.regime);
+                    assert_eq!(got.mixed_rule, Some(MixedRule::SupersonicSidePolar));
+                    let err = (got.critical_angle.degrees() - want.critical_angle.degrees()).abs();
+                    assert!(
+                        err <= JettingTable::ERROR_BOUND_DEG,
+                        "{k} {side} {v}: {err}"
+                    );
+                }
+            }
+        }
     }
 
     /// Every cell centre (where bilinear interpolation is worst) within the bound, for pairs
@@ -396,13 +558,12 @@ mod tests {
 
     #[test]
     fn thread_count_does_not_change_the_table() {
-        let a =
-            JettingTable::with_resolution(al(), cu(), Velocity::from_m_s(9000.0), 12, 1).unwrap();
-        let b =
-            JettingTable::with_resolution(al(), cu(), Velocity::from_m_s(9000.0), 12, 3).unwrap();
+        let r = MixedRule::SupersonicSidePolar;
+        let top = Velocity::from_m_s(9000.0);
+        let a = JettingTable::with_resolution(al(), cu(), r, top, 12, 1).unwrap();
+        let b = JettingTable::with_resolution(al(), cu(), r, top, 12, 3).unwrap();
         // A lazy table fills the same values on demand.
-        let lazy =
-            JettingTable::with_resolution(al(), cu(), Velocity::from_m_s(9000.0), 12, 0).unwrap();
+        let lazy = JettingTable::with_resolution(al(), cu(), r, top, 12, 0).unwrap();
         for i in 0..12 {
             for j in 0..12 {
                 assert_eq!(a.node(i, j), b.node(i, j));
@@ -443,7 +604,13 @@ mod tests {
         let t = table(0);
         for (vf, vc) in [(-1.0, 5000.0), (5000.0, 0.0), (f64::NAN, 5000.0)] {
             let a = t.critical_angle(Velocity::from_m_s(vf), Velocity::from_m_s(vc));
-            let d = critical_angle(&al(), &cu(), Velocity::from_m_s(vf), Velocity::from_m_s(vc));
+            let d = critical_angle(
+                &al(),
+                &cu(),
+                Velocity::from_m_s(vf),
+                Velocity::from_m_s(vc),
+                MixedRule::SupersonicSidePolar,
+            );
             assert!(a.is_err());
             assert_eq!(format!("{a:?}"), format!("{d:?}"));
         }
@@ -481,16 +648,28 @@ mod tests {
             prop_assert!(err <= JettingTable::ERROR_BOUND_DEG, "vf {} vc {}: {} deg", vf, vc, err);
         }
 
-        /// The subsonic regimes are decided exactly, with exactly zero, as the direct solve.
+        /// The subsonic regimes of the either-subsonic rule are decided exactly, with exactly
+        /// zero, as the direct solve; under the polar rule both-subsonic is exact too and the
+        /// mixed case within the bound.
         #[test]
         fn subsonic_is_exact(k in 0usize..3, vf in 1.0f64..30_000.0, frac in 0.0f64..1.0, parent_side in any::<bool>()) {
-            let t = table(k);
             let (f, p) = [(al(), cu()), (ti(), ta()), (mg(), ti())][k];
             let (vf, vc) = if parent_side { (vf, frac * p.c0.si()) } else { (frac * f.c0.si(), vf) };
             prop_assume!(vf > 0.0 && vc > 0.0);
+            let t = table_either(k);
             let got = t.critical_angle(Velocity::from_m_s(vf), Velocity::from_m_s(vc)).unwrap();
-            prop_assert_eq!(got, direct(&f, &p, vf, vc));
+            let want = critical_angle(&f, &p, Velocity::from_m_s(vf), Velocity::from_m_s(vc), MixedRule::EitherSubsonic).unwrap();
+            prop_assert_eq!(got, want);
             prop_assert_eq!(got.critical_angle.radians(), 0.0);
+            let got = table(k).critical_angle(Velocity::from_m_s(vf), Velocity::from_m_s(vc)).unwrap();
+            let want = direct(&f, &p, vf, vc);
+            prop_assert_eq!(got.regime, want.regime);
+            prop_assert_eq!(got.mixed_rule, want.mixed_rule);
+            if !want.any_supersonic() {
+                prop_assert_eq!(got, want);
+            }
+            let err = (got.critical_angle.degrees() - want.critical_angle.degrees()).abs();
+            prop_assert!(err <= JettingTable::ERROR_BOUND_DEG, "{} deg", err);
         }
     }
 }

@@ -17,7 +17,8 @@ use std::str::FromStr;
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum Convention {
-    /// Vp along the bisector of the collision angle (Birkhoff-Taylor; explosive welding):
+    /// Vp along the bisector of the two plates' normals, beta/2 from each (so perpendicular to
+    /// the bisector of the collision angle; Birkhoff-Taylor; explosive welding):
     /// Vc = Vp / (2 sin(beta/2)), Vf = Vc.
     Bisector,
     /// Vp normal to the flyer surface (magnetic pulse and foil-actuator welding):
@@ -203,8 +204,9 @@ pub fn explosive_parallel(
 /// Explosive welding, inclined set-up with preset angle alpha between flyer and parent: the
 /// flyer bends by gamma = beta - alpha, Vp = 2 Vd sin(gamma/2), and the law of sines gives
 /// Vc = Vd sin(gamma) / sin(beta) (`physics-notes.md` §1, derived), and the flyer inflows at
-/// Vf = Vd (sin(beta) - sin(alpha)) / sin(beta) (derived here). Vp lies along the bisector of the
-/// bend, so the result is labelled bisector; for alpha > 0 Vf differs from Vc, and converting the
+/// Vf = Vd (sin(beta) - sin(alpha)) / sin(beta) (derived here). Vp bisects the normals of the
+/// flyer before and after the bend (it is perpendicular to the bend's bisector), so the result
+/// is labelled bisector; for alpha > 0 Vf differs from Vc, and converting the
 /// result to another convention re-derives Vp from Vc and beta. With alpha = 0 this is the
 /// parallel set-up.
 ///

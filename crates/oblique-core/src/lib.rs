@@ -32,6 +32,7 @@
 #![deny(missing_docs)]
 
 pub mod criteria;
+pub mod domain;
 pub mod error;
 pub mod hugoniot;
 pub mod jetting;
@@ -45,6 +46,8 @@ pub use criteria::{
     evaluate, evaluate_with_jetting, CriteriaConfig, CriterionId, CriterionResult, Governing,
     LimitKind, PairSetup, PointEvaluation, WittmanForm,
 };
+pub use domain::{DomainExit, DomainQuantity, ValidityDomain};
 pub use error::PhysicsError;
+pub use jetting::MixedRule;
 pub use kinematics::{Collision, Convention};
 pub use material::Material;

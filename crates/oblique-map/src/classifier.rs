@@ -10,15 +10,21 @@
 //! re-solved directly, so the jetting verdict is always that of the direct solve; only the
 //! reported critical angle and jetting margin of the other points carry the table's error
 //! (at most `JettingTable::ERROR_BOUND_DEG`).
+//!
+//! The validity domain (`oblique_core::ValidityDomain`) is checked with the same operations
+//! as the core, so a row outside it is `outside-domain` exactly when `check` says so; its
+//! limits are still computed (extrapolated) and written.
 
 use oblique_core::criteria::{
     deribas_coefficient, melting_coefficient, melting_divisor, relative_margin,
 };
 use oblique_core::hugoniot::impedance_match;
-use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime};
+use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime, MixedRule};
 use oblique_core::jetting_table::{JettingTable, Lookup};
 use oblique_core::units::{Angle, Velocity};
-use oblique_core::{Collision, Convention, CriterionId, LimitKind, PairSetup, PhysicsError};
+use oblique_core::{
+    Collision, Convention, CriterionId, DomainQuantity, LimitKind, PairSetup, PhysicsError,
+};
 use oblique_window::boundary::{interpolate, Plane, WeldSide};
 use oblique_window::classify::{limit_label, LimitRef, Prediction};
 use oblique_window::PairWindow;
@@ -130,6 +136,12 @@ pub struct Point {
     pub jetting_deg: f64,
     /// Regime of the jetting test.
     pub regime: JettingRegime,
+    /// Which streams flow in above their C0: bit 0 the flyer, bit 1 the parent (1 or 2: a
+    /// mixed case).
+    pub sonic: u8,
+    /// The bounds of the validity domain the point misses: bit k for quantity k of
+    /// `DomainQuantity::ALL`; 0 inside the domain.
+    pub domain_exits: u8,
     /// The jetting test was solved directly for this point.
     pub jetting_direct: bool,
     /// The verdict.
@@ -182,6 +194,13 @@ pub struct Classifier {
     /// The decisive limits, in the order `classify_with_jetting` ranks them.
     pub limits: Vec<LimitInfo>,
     criteria: Vec<CriterionId>,
+    /// The validity domain's bounds, (min, max) per quantity of `DomainQuantity::ALL` (open
+    /// where the domain has no bound; the Mach bounds as speeds, bound times C0, as the core
+    /// compares them), and the bits of the bounds the pair itself misses.
+    domain: [(f64, f64); 5],
+    pair_exits: u8,
+    /// C0 of the flyer and of the parent, m/s.
+    c0: (f64, f64),
 }
 
 impl Classifier {
@@ -277,7 +296,28 @@ impl Classifier {
                 },
             });
         }
+        let mut domain = [(f64::NEG_INFINITY, f64::INFINITY); 5];
+        let mut pair_exits = 0u8;
+        let c0 = (setup.flyer.hugoniot.c0.si(), setup.parent.hugoniot.c0.si());
+        for (k, q) in DomainQuantity::ALL.into_iter().enumerate() {
+            if let Some(b) = window.domain.bound(q) {
+                domain[k] = match q {
+                    // The same products as `ValidityDomain::raw`.
+                    DomainQuantity::ParentMach => (b.min * c0.1, b.max * c0.1),
+                    DomainQuantity::FlyerMach => (b.min * c0.0, b.max * c0.0),
+                    _ => (b.min, b.max),
+                };
+            }
+        }
+        for e in window.domain.pair_exits(&setup) {
+            if let Some(k) = DomainQuantity::ALL.iter().position(|q| *q == e.quantity) {
+                pair_exits |= 1 << k;
+            }
+        }
         Ok(Self {
+            domain,
+            pair_exits,
+            c0,
             setup,
             convention: window.convention,
             kind,
@@ -334,7 +374,13 @@ impl Classifier {
         self.table
             .get_or_init(|| {
                 // Lazy: only the nodes the data visit are solved (0 threads = on demand).
-                JettingTable::new(self.setup.flyer.hugoniot, self.setup.parent.hugoniot, 0).ok()
+                JettingTable::new(
+                    self.setup.flyer.hugoniot,
+                    self.setup.parent.hugoniot,
+                    self.cfg.mixed_jetting,
+                    0,
+                )
+                .ok()
             })
             .as_ref()
     }
@@ -364,48 +410,46 @@ impl Classifier {
         let vc = c.collision_velocity;
         // The subsonic regimes, exactly as the direct solve decides them (no table needed).
         let positive = vf.si() > 0.0 && vc.si() > 0.0 && vf.si().is_finite() && vc.si().is_finite();
-        if positive && vc.si() <= self.setup.parent.hugoniot.c0.si() {
+        let (fs, ps) = (vf.si() > self.c0.0, vc.si() > self.c0.1);
+        if positive && !ps {
+            if fs && self.cfg.mixed_jetting == MixedRule::SupersonicSidePolar {
+                return self.mixed_jetting(c);
+            }
             return Ok((
-                JettingAssessment {
-                    regime: JettingRegime::SubsonicParent,
-                    critical_angle: Angle::from_radians(0.0),
-                },
+                JettingAssessment::any_angle(JettingRegime::SubsonicParent, fs, false),
                 false,
             ));
         }
-        if positive && vf.si() <= self.setup.flyer.hugoniot.c0.si() {
+        if positive && !fs {
+            if self.cfg.mixed_jetting == MixedRule::SupersonicSidePolar {
+                return self.mixed_jetting(c);
+            }
             return Ok((
-                JettingAssessment {
-                    regime: JettingRegime::SubsonicFlyer,
-                    critical_angle: Angle::from_radians(0.0),
-                },
+                JettingAssessment::any_angle(JettingRegime::SubsonicFlyer, false, true),
                 false,
             ));
         }
         if let Some(t) = self.table_for_supersonic() {
             match t.lookup(vf.si(), vc.si()) {
                 Lookup::Subsonic(regime) => {
-                    return Ok((
-                        JettingAssessment {
-                            regime,
-                            critical_angle: Angle::from_radians(0.0),
-                        },
-                        false,
-                    ))
+                    return Ok((JettingAssessment::any_angle(regime, fs, ps), false))
                 }
                 Lookup::Table(rad) => {
                     let crit = Angle::from_radians(rad);
                     if (c.angle.degrees() - crit.degrees()).abs() > JettingTable::ERROR_BOUND_DEG {
                         return Ok((
-                            JettingAssessment {
-                                regime: JettingRegime::Supersonic,
-                                critical_angle: crit,
-                            },
+                            JettingAssessment::from_polar(
+                                JettingRegime::Supersonic,
+                                rad,
+                                true,
+                                true,
+                                None,
+                            ),
                             false,
                         ));
                     }
                 }
-                Lookup::OutsideDomain => {}
+                Lookup::Mixed(..) | Lookup::OutsideDomain => {}
             }
         }
         let direct = critical_angle(
@@ -413,8 +457,55 @@ impl Classifier {
             &self.setup.parent.hugoniot,
             vf,
             vc,
+            self.cfg.mixed_jetting,
         )?;
         Ok((direct, true))
+    }
+
+    /// The mixed case under the conservative polar rule: the supersonic stream's own polar,
+    /// from the table's one-dimensional part, re-solved directly near the limit.
+    #[cold]
+    fn mixed_jetting(&self, c: &Collision) -> Result<(JettingAssessment, bool), PhysicsError> {
+        let (vf, vc) = (c.flow_velocity, c.collision_velocity);
+        if let Some(t) = self.table_for_supersonic() {
+            if let Lookup::Mixed(regime, rad) = t.lookup_mixed(vf.si(), vc.si()) {
+                let crit = Angle::from_radians(rad);
+                if (c.angle.degrees() - crit.degrees()).abs() > JettingTable::ERROR_BOUND_DEG {
+                    return Ok((
+                        JettingAssessment::from_polar(
+                            regime,
+                            rad,
+                            vf.si() > self.c0.0,
+                            vc.si() > self.c0.1,
+                            Some(MixedRule::SupersonicSidePolar),
+                        ),
+                        false,
+                    ));
+                }
+            }
+        }
+        let direct = critical_angle(
+            &self.setup.flyer.hugoniot,
+            &self.setup.parent.hugoniot,
+            vf,
+            vc,
+            self.cfg.mixed_jetting,
+        )?;
+        Ok((direct, true))
+    }
+
+    /// The bounds of the validity domain the point (Vp, Vc, Vf m/s, beta deg) misses, as bits
+    /// of `DomainQuantity::ALL`: the same values and comparisons as
+    /// `oblique_core::ValidityDomain::check` (`ValidityDomain::raw`).
+    #[inline(always)]
+    fn domain_exits(&self, vp: f64, vc: f64, vf: f64, beta_deg: f64) -> u8 {
+        let d = &self.domain;
+        let out = |v: f64, (lo, hi): (f64, f64)| u8::from(!(v >= lo && v <= hi));
+        self.pair_exits
+            | out(beta_deg, d[0])
+            | out(vp, d[1]) << 1
+            | out(vc, d[2]) << 2
+            | out(vf, d[3]) << 3
     }
 
     /// Classify one point; `margins` receives one value per limit (resized to one slot per limit and overwritten).
@@ -477,20 +568,65 @@ impl Classifier {
         let at = (vp.si(), vc.si(), beta_deg);
         self.criteria_margins(at, impact.pressure.si(), &jet, margins, &mut rank)?;
         let outside_trial_data = self.boundary_margins(at, margins, &mut rank);
+        let domain_exits = self.domain_exits(vp.si(), vc.si(), c.flow_velocity.si(), beta_deg);
         Ok(Point {
             vp: vp.si(),
             vc: vc.si(),
             vf: c.flow_velocity.si(),
             beta_deg,
             pressure: impact.pressure.si(),
-            jetting_deg: jet.critical_angle.degrees(),
+            jetting_deg: if jet.none_below_90 {
+                f64::NAN
+            } else {
+                jet.critical_angle.degrees()
+            },
             regime: jet.regime,
+            sonic: u8::from(jet.flyer_supersonic) | u8::from(jet.parent_supersonic) << 1,
+            domain_exits,
             jetting_direct,
-            verdict: rank.verdict(),
+            verdict: if domain_exits == 0 {
+                rank.verdict()
+            } else {
+                Prediction::OutsideDomain
+            },
             binding: rank.best.map(|b| b.0),
             binding_relative: rank.best.map_or(f64::NAN, |b| b.1),
             outside_trial_data,
             failing: rank.failing,
+        })
+    }
+
+    /// A head-on row (collision angle 0): no collision point, no limit applies; the verdict
+    /// `head-on` (not welded), the 1-D impact pressure at `vp` (m/s, the impact velocity:
+    /// normal to both plates in every convention), every margin NaN.
+    ///
+    /// # Errors
+    /// A velocity the impedance matching refuses.
+    #[cold]
+    pub fn head_on(&self, vp: f64, margins: &mut Vec<f64>) -> Result<Point, PhysicsError> {
+        margins.clear();
+        margins.resize(self.limits.len(), f64::NAN);
+        let impact = impedance_match(
+            &self.setup.flyer.hugoniot,
+            &self.setup.parent.hugoniot,
+            Velocity::from_m_s(vp),
+        )?;
+        Ok(Point {
+            vp,
+            vc: f64::NAN,
+            vf: f64::NAN,
+            beta_deg: 0.0,
+            pressure: impact.pressure.si(),
+            jetting_deg: f64::NAN,
+            regime: JettingRegime::SubsonicParent,
+            sonic: 0,
+            domain_exits: 0,
+            jetting_direct: false,
+            verdict: Prediction::HeadOn,
+            binding: None,
+            binding_relative: f64::NAN,
+            outside_trial_data: false,
+            failing: 0,
         })
     }
 

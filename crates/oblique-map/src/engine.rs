@@ -270,6 +270,13 @@ impl<'a> WeldMap<'a> {
                 window.flyer_thickness.mm(),
                 window.parent.material.id
             ),
+            mixed_rule: window.criteria.mixed_jetting.as_str(),
+            domain: window
+                .domain
+                .bounds
+                .iter()
+                .map(|b| format!("{} {}", b.quantity.label(), b.range_text()))
+                .collect(),
         }
     }
 }
@@ -356,6 +363,11 @@ fn merge_counts(slot: &Slot, summary: &mut Summary) {
     summary.outside_trial_data += st.outside;
     summary.welded_outside_trial_data += st.welded_outside;
     summary.jetting_direct += st.jetting_direct;
+    summary.supersonic_rows += st.supersonic;
+    summary.mixed_rows += st.mixed;
+    for (a, b) in summary.domain_exits.iter_mut().zip(st.domain_exits) {
+        *a += b;
+    }
     summary.non_utf8_cells += st.non_utf8_cells;
     for (l, (m, b)) in summary
         .limits

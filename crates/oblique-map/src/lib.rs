@@ -24,7 +24,8 @@
 //! let mut map = Vec::new();
 //! let summary = classify_stream(window, csv.as_bytes(), &mut map, &MapOptions::default())
 //!     .expect("three good rows");
-//! assert_eq!(summary.counts, [2, 1, 0]); // welded, not welded, melted
+//! // welded, not welded, melted, head-on, outside the validity domain
+//! assert_eq!(summary.counts, [2, 1, 0, 0, 0]);
 //! assert!(String::from_utf8(map).unwrap().starts_with("row,position[mm],"));
 //! print!("{}", summary.to_text()); // ends with the caution line
 //! ```
@@ -58,5 +59,5 @@ pub use options::{BadRows, ColumnNames, ConstantNote, Format, MapOptions};
 pub use record::Rejected;
 pub use summary::{
     Histogram, LimitStat, Run, RunInfo, Sample, StripAcc, Summary, EXAMPLE_CAP, GAP_CAP, MARK_CAP,
-    SAMPLE_CAP, SEGMENT_CAP,
+    N_VERDICTS, SAMPLE_CAP, SEGMENT_CAP,
 };

@@ -104,6 +104,9 @@ impl Candidate<'_> {
                 "inside the model limits, outside the trial data".into()
             }
             Some(c) if c.inside => "inside the window".into(),
+            Some(c) if !c.domain.inside() => {
+                "outside the validity domain: no verdict claimed".into()
+            }
             Some(c) => format!(
                 "outside the window (binding {})",
                 c.binding

@@ -1,9 +1,11 @@
 //! Agreement of a window with its own trials: predicted against observed outcome for every
 //! observation, and which limit misjudged each disagreeing one.
 //!
-//! Rules (documented in docs/window-format.md): `welded`, `not-welded` and `melted` agree with
+//! Rules (documented in docs/theory.md §8.3): `welded`, `not-welded` and `melted` agree with
 //! the prediction of the same word; `partial` agrees when the point lies near the window edge,
-//! that is when the binding limit's relative margin is within [`PARTIAL_EDGE_BAND`].
+//! that is when the binding limit's relative margin is within [`PARTIAL_EDGE_BAND`]. A trial
+//! outside the validity domain is neither agreement nor disagreement: the window claims no
+//! verdict there; such trials are counted and listed apart.
 
 use crate::classify::{classify, limit_label, LimitRef, Prediction};
 use crate::pair::{Outcome, PairWindow};
@@ -35,13 +37,30 @@ pub struct Disagreement {
     pub explanation: String,
 }
 
+/// A trial outside the validity domain (no verdict claimed there).
+#[derive(Debug, Clone, Serialize)]
+pub struct OutsideDomainTrial {
+    /// Index in the file's observation list.
+    pub index: usize,
+    /// Impact velocity, m/s.
+    pub velocity_m_s: f64,
+    /// Collision angle, deg.
+    pub angle_deg: f64,
+    /// Observed outcome.
+    pub observed: Outcome,
+    /// The bounds it misses, in words.
+    pub exits: String,
+}
+
 /// The agreement report.
 #[derive(Debug, Clone, Serialize)]
 pub struct Agreement {
     /// Number of observations.
     pub observations: usize,
-    /// Number that agree.
+    /// Number that agree (among the trials inside the validity domain).
     pub agreeing: usize,
+    /// Trials outside the validity domain: neither agreeing nor disagreeing.
+    pub outside_domain: Vec<OutsideDomainTrial>,
     /// predicted -> observed -> count.
     pub table: BTreeMap<&'static str, BTreeMap<&'static str, usize>>,
     /// Each disagreeing observation.
@@ -57,7 +76,11 @@ pub struct Agreement {
 pub fn agreement(window: &PairWindow) -> Result<Agreement, PhysicsError> {
     let setup = window.setup()?;
     let mut table: BTreeMap<&'static str, BTreeMap<&'static str, usize>> = BTreeMap::new();
-    for p in Prediction::ALL {
+    // A trial has a collision angle above zero (the file refuses 0), so never head-on.
+    for p in Prediction::ALL
+        .into_iter()
+        .filter(|p| *p != Prediction::HeadOn)
+    {
         let row = table.entry(p.as_str()).or_default();
         for o in Outcome::ALL {
             row.insert(o.as_str(), 0);
@@ -65,6 +88,7 @@ pub fn agreement(window: &PairWindow) -> Result<Agreement, PhysicsError> {
     }
     let mut agreeing = 0;
     let mut disagreements = Vec::new();
+    let mut outside_domain = Vec::new();
     for obs in &window.observations {
         let collision = Collision::from_impact(window.convention, obs.velocity, obs.angle)?;
         let c = classify(window, &setup, &collision)?;
@@ -73,6 +97,16 @@ pub fn agreement(window: &PairWindow) -> Result<Agreement, PhysicsError> {
             .or_default()
             .entry(obs.outcome.as_str())
             .or_default() += 1;
+        if c.prediction == Prediction::OutsideDomain {
+            outside_domain.push(OutsideDomainTrial {
+                index: obs.index,
+                velocity_m_s: obs.velocity.si(),
+                angle_deg: obs.angle.degrees(),
+                observed: obs.outcome,
+                exits: c.domain.exits_text(),
+            });
+            continue;
+        }
         let near_edge = c
             .binding_relative_margin
             .is_some_and(|m| m.abs() <= PARTIAL_EDGE_BAND);
@@ -130,6 +164,7 @@ pub fn agreement(window: &PairWindow) -> Result<Agreement, PhysicsError> {
     Ok(Agreement {
         observations: window.observations.len(),
         agreeing,
+        outside_domain,
         table,
         disagreements,
         partial_rule: format!(

@@ -1,13 +1,16 @@
 //! Classification of one process point against a pair window: every model criterion and user
-//! boundary with its margin, the binding limit, a reason in plain words, and the prediction used
-//! to compare with trials.
+//! boundary with its margin, the binding limit, the validity domain, a reason in plain words,
+//! and the prediction used to compare with trials.
 
 use crate::boundary::BoundaryResult;
 use crate::pair::PairWindow;
+use oblique_core::criteria::format_in_unit;
+use oblique_core::hugoniot::{impedance_match, ImpactState};
+use oblique_core::jetting::JettingAssessment;
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{
-    evaluate_with_jetting, Collision, Convention, CriterionId, LimitKind, PairSetup, PhysicsError,
-    PointEvaluation,
+    evaluate_with_jetting, Collision, Convention, CriterionId, DomainExit, LimitKind, PairSetup,
+    PhysicsError, PointEvaluation, ValidityDomain, WittmanForm,
 };
 use serde::Serialize;
 
@@ -25,20 +28,28 @@ pub enum LimitRef {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum Prediction {
-    /// Every decisive limit holds.
+    /// Every decisive limit holds, inside the validity domain.
     Welded,
     /// A lower limit (or an angle ceiling) fails.
     NotWelded,
     /// Only velocity ceilings fail (melting upper, a left-side boundary).
     Melted,
+    /// A head-on impact (collision angle 0): no collision point sweeps the interface, so no
+    /// jet forms and nothing welds (not welded).
+    HeadOn,
+    /// The point lies outside the validity domain (docs/theory.md §7.1): the limits there are
+    /// extrapolations, and no verdict is claimed.
+    OutsideDomain,
 }
 
 impl Prediction {
-    /// All predictions.
-    pub const ALL: [Prediction; 3] = [
+    /// All predictions, in the order of the map's counts.
+    pub const ALL: [Prediction; 5] = [
         Prediction::Welded,
         Prediction::NotWelded,
         Prediction::Melted,
+        Prediction::HeadOn,
+        Prediction::OutsideDomain,
     ];
     /// The word.
     pub fn as_str(self) -> &'static str {
@@ -46,8 +57,59 @@ impl Prediction {
             Prediction::Welded => "welded",
             Prediction::NotWelded => "not-welded",
             Prediction::Melted => "melted",
+            Prediction::HeadOn => "head-on",
+            Prediction::OutsideDomain => "outside-domain",
         }
     }
+    /// Its index in [`Self::ALL`].
+    pub fn index(self) -> usize {
+        match self {
+            Prediction::Welded => 0,
+            Prediction::NotWelded => 1,
+            Prediction::Melted => 2,
+            Prediction::HeadOn => 3,
+            Prediction::OutsideDomain => 4,
+        }
+    }
+}
+
+/// Where the point stands against the validity domain.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DomainStatus {
+    /// Every bound the point misses; empty inside the domain.
+    pub exits: Vec<DomainExit>,
+    /// The limits evaluated outside their part of the domain (extrapolated).
+    pub extrapolated: Vec<CriterionId>,
+    /// What the limits alone say at the point (welded, not-welded or melted), extrapolated when
+    /// the point is outside: never a verdict there.
+    pub limits_say: Prediction,
+}
+
+impl DomainStatus {
+    /// Inside the validity domain.
+    pub fn inside(&self) -> bool {
+        self.exits.is_empty()
+    }
+
+    /// The exits in words, `; `-separated.
+    pub fn exits_text(&self) -> String {
+        self.exits
+            .iter()
+            .map(DomainExit::text)
+            .collect::<Vec<_>>()
+            .join("; ")
+    }
+}
+
+/// The validity domain along the two controls at the point: the stretch of impact velocity
+/// (in the convention of the headroom) at the point's angle, and of angle at its impact
+/// velocity, that lies inside the domain. `None` on an axis where nothing does.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct DomainSpan {
+    /// Lowest and highest impact velocity (m/s) inside the domain at this angle.
+    pub velocity_m_s: Option<(f64, f64)>,
+    /// Lowest and highest angle (deg) inside the domain at this impact velocity.
+    pub angle_deg: Option<(f64, f64)>,
 }
 
 /// A point classified against a window.
@@ -57,7 +119,8 @@ pub struct Classification {
     pub evaluation: PointEvaluation,
     /// Every user boundary at the point.
     pub boundaries: Vec<BoundaryResult>,
-    /// Every decisive criterion and every in-range boundary satisfied.
+    /// Every decisive criterion and every in-range boundary satisfied, inside the validity
+    /// domain.
     pub inside: bool,
     /// The binding limit: the most violated one, or the closest one when inside.
     pub binding: Option<LimitRef>,
@@ -65,10 +128,12 @@ pub struct Classification {
     pub binding_relative_margin: Option<f64>,
     /// Some boundary does not span the point.
     pub outside_trial_data: bool,
-    /// The prediction.
+    /// The prediction (`outside-domain` outside the validity domain).
     pub prediction: Prediction,
     /// Failing decisive limits.
     pub failing: Vec<LimitRef>,
+    /// The point against the validity domain.
+    pub domain: DomainStatus,
     /// A plain-words reason; filled by [`explain`] (empty after a bare [`classify`], which is
     /// also used for grids and sweeps where the text is not needed).
     pub reason: String,
@@ -79,6 +144,13 @@ pub struct Classification {
     pub headroom_convention: Convention,
     /// Where this angle and this velocity are inside the window; filled by [`explain`].
     pub inside_stretch: Option<InsideStretch>,
+    /// The validity domain along the two controls; filled by [`explain`].
+    pub domain_span: Option<DomainSpan>,
+    /// What the physics does not know at this point, and inputs no practitioner would type:
+    /// the mixed jetting case, supersonic inflow, an unsourced form, the melting limit's scale,
+    /// implausible magnitudes (each threshold documented in docs/theory.md §7.2); filled by
+    /// [`explain`].
+    pub warnings: Vec<String>,
 }
 
 impl Classification {
@@ -112,6 +184,7 @@ pub fn classify(
         &setup.parent.hugoniot,
         collision.flow_velocity,
         collision.collision_velocity,
+        window.criteria.mixed_jetting,
     )?;
     classify_with_jetting(window, setup, &collision, jetting)
 }
@@ -125,7 +198,7 @@ pub fn classify_with_jetting(
     window: &PairWindow,
     setup: &PairSetup,
     collision: &Collision,
-    jetting: oblique_core::jetting::JettingAssessment,
+    jetting: JettingAssessment,
 ) -> Result<Classification, PhysicsError> {
     let evaluation = evaluate_with_jetting(setup, collision, &window.criteria, jetting)?;
     let boundaries: Vec<BoundaryResult> = window
@@ -160,19 +233,30 @@ pub fn classify_with_jetting(
             ));
         }
     }
-    let inside = decisive.iter().all(|d| d.2);
+    let limits_inside = decisive.iter().all(|d| d.2);
     let failing: Vec<LimitRef> = decisive
         .iter()
         .filter(|d| !d.2)
         .map(|d| d.0.clone())
         .collect();
     let binding = decisive.iter().min_by(|a, b| a.1.total_cmp(&b.1));
-    let prediction = if inside {
+    let limits_say = if limits_inside {
         Prediction::Welded
     } else if decisive.iter().filter(|d| !d.2).all(|d| d.3) {
         Prediction::Melted
     } else {
         Prediction::NotWelded
+    };
+    let exits = window.domain.check(setup, collision);
+    let domain = DomainStatus {
+        extrapolated: ValidityDomain::extrapolated(&exits),
+        exits,
+        limits_say,
+    };
+    let (inside, prediction) = if domain.inside() {
+        (limits_inside, limits_say)
+    } else {
+        (false, Prediction::OutsideDomain)
     };
     let outside_trial_data = boundaries.iter().any(|b| !b.in_range);
     let c = Classification {
@@ -184,10 +268,13 @@ pub fn classify_with_jetting(
         outside_trial_data,
         prediction,
         failing,
+        domain,
         reason: String::new(),
         headroom: Vec::new(),
         headroom_convention: window.convention,
         inside_stretch: None,
+        domain_span: None,
+        warnings: Vec::new(),
     };
     Ok(c)
 }
@@ -196,16 +283,22 @@ pub fn classify_with_jetting(
 /// velocity at the same collision angle (the bank energy or the charge), and the collision angle
 /// at the same impact velocity (the taper or chamfer). A criterion's own margin is taken at the
 /// point's collision-point velocity, which moves when either control moves, so it can overstate
-/// or understate the room left; these values do not.
+/// or understate the room left; these values do not. Both searches stay inside the validity
+/// domain and cover all of it along their axis.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Headroom {
-    /// Impact velocity (m/s, the window's convention) at this angle where the limit is reached,
-    /// nearest to the point; `None` when it is not reached in a search from Vp/20 to 20 Vp, or a
-    /// user boundary stops spanning the points first (no extrapolation).
+    /// Impact velocity (m/s, the headroom's convention) at this angle where the limit is
+    /// reached, nearest to the point, inside the validity domain; `None` when it is not reached
+    /// there, or a user boundary stops spanning the points first (no extrapolation).
     pub velocity_m_s: Option<f64>,
+    /// The velocity is the edge of the validity domain: the point lies outside it and the
+    /// limit's verdict already changes between the point and the domain's edge.
+    pub velocity_at_domain_edge: bool,
     /// Collision angle (deg) at this impact velocity where the limit is reached, nearest to the
-    /// point; `None` when not reached within (0, 90) deg.
+    /// point, inside the validity domain; `None` when not reached there.
     pub angle_deg: Option<f64>,
+    /// As `velocity_at_domain_edge`, for the angle.
+    pub angle_at_domain_edge: bool,
 }
 
 /// The signed margin of one limit at (vp, beta): positive on the welding side; `None` where it
@@ -233,14 +326,16 @@ fn limit_margin(
                     &setup.parent.hugoniot,
                     col.flow_velocity,
                     col.collision_velocity,
+                    window.criteria.mixed_jetting,
                 )
                 .ok()?
             } else {
                 // Not used by the other criteria.
-                oblique_core::jetting::JettingAssessment {
-                    regime: oblique_core::jetting::JettingRegime::SubsonicParent,
-                    critical_angle: Angle::from_radians(0.0),
-                }
+                JettingAssessment::any_angle(
+                    oblique_core::jetting::JettingRegime::SubsonicParent,
+                    false,
+                    false,
+                )
             };
             let e = evaluate_with_jetting(setup, &col, &window.criteria, jet).ok()?;
             e.criterion(*id).map(|r| r.margin)
@@ -314,16 +409,84 @@ fn nearest_crossing(
     best
 }
 
+/// The nearest crossing of `f` from `x0` inside the domain stretch [lo, hi]. A point outside
+/// the stretch starts from its nearest end; when `f`'s sign already differs there from the
+/// point's, that end is the answer (flagged `true`: the crossing itself lies outside the
+/// domain). The first step is `step0` of the starting value.
+fn crossing_in_domain(
+    x0: f64,
+    (lo, hi): (f64, f64),
+    step0: impl Fn(f64) -> f64,
+    tol: f64,
+    f: impl Fn(f64) -> Option<f64>,
+) -> Option<(f64, bool)> {
+    let x1 = x0.clamp(lo, hi);
+    if x1 == x0 {
+        return nearest_crossing(x0, step0(x0), lo, hi, tol, f).map(|x| (x, false));
+    }
+    let s0 = f(x0).map(|v| v >= 0.0);
+    let s1 = f(x1)? >= 0.0;
+    if s0.is_some_and(|s| s != s1) {
+        return Some((x1, true));
+    }
+    nearest_crossing(x1, step0(x1), lo, hi, tol, f).map(|x| (x, false))
+}
+
+/// The stretch of impact velocity (in `convention`, at the point's angle) inside the validity
+/// domain: every speed scales with Vp at a fixed angle, so it is one interval.
+fn domain_velocity_span(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &Classification,
+    convention: Convention,
+) -> Option<(f64, f64)> {
+    let col = &c.evaluation.collision;
+    let vp = col.with_convention(convention).impact_velocity.si();
+    window
+        .domain
+        .speed_scale_interval(setup, col)
+        .map(|(lo, hi)| (vp * lo, vp * hi))
+}
+
+/// The stretch of angle (deg, at impact velocity `vp` in `convention`) inside the validity
+/// domain nearest to `beta0` deg: a scan in 0.05 deg steps up to the angle bound, both ends
+/// bisected.
+fn domain_angle_span(
+    window: &PairWindow,
+    setup: &PairSetup,
+    vp: f64,
+    beta0: f64,
+    convention: Convention,
+) -> Option<(f64, f64)> {
+    let top = window
+        .domain
+        .bound(oblique_core::DomainQuantity::CollisionAngle)
+        .map_or(89.999, |b| b.max.min(89.999));
+    let inside = |deg: f64| {
+        Collision::from_impact(convention, Velocity::from_m_s(vp), Angle::from_degrees(deg))
+            .is_ok_and(|col| {
+                window
+                    .domain
+                    .contains(setup, &col.with_convention(window.convention))
+            })
+    };
+    let n = (top / 0.05).ceil() as usize;
+    let grid: Vec<f64> = (1..=n).map(|i| (i as f64 * 0.05).min(top)).collect();
+    inside_stretch(beta0, &grid, inside)
+}
+
 /// Where `limit` is reached along impact velocity (at this angle) and along angle (at this
-/// impact velocity), for the point of `c`.
-/// The impact velocity is taken in `convention` (the one the user typed the point in), at the
-/// point's angle; the limit is evaluated in the window's convention (same Vc and angle).
+/// impact velocity), for the point of `c`, inside the validity domain (`span`, see
+/// [`DomainSpan`]). The impact velocity is taken in `convention` (the one the user typed the
+/// point in), at the point's angle; the limit is evaluated in the window's convention (same Vc
+/// and angle).
 pub fn headroom(
     window: &PairWindow,
     setup: &PairSetup,
     c: &Classification,
     limit: &LimitRef,
     convention: Convention,
+    span: &DomainSpan,
 ) -> Headroom {
     let vp = c
         .evaluation
@@ -332,20 +495,50 @@ pub fn headroom(
         .impact_velocity
         .si();
     let beta = c.evaluation.collision.angle.radians();
-    let half_pi = std::f64::consts::FRAC_PI_2;
-    let angle_deg = nearest_crossing(beta, 0.05f64.to_radians(), 0.0, half_pi, 1e-7, |b| {
-        limit_margin(window, setup, limit, convention, vp, b)
-    })
-    .map(f64::to_degrees);
+    let velocity = span
+        .velocity_m_s
+        .and_then(|s| velocity_search(window, setup, limit, convention, vp, beta, s));
+    let angle = span.angle_deg.and_then(|(lo, hi)| {
+        crossing_in_domain(
+            beta,
+            (lo.to_radians(), hi.to_radians()),
+            |_| 0.05f64.to_radians(),
+            1e-7,
+            |b| limit_margin(window, setup, limit, convention, vp, b),
+        )
+    });
     Headroom {
-        velocity_m_s: velocity_crossing(window, setup, c, limit, convention),
-        angle_deg,
+        velocity_m_s: velocity.map(|v| v.0),
+        velocity_at_domain_edge: velocity.is_some_and(|v| v.1),
+        angle_deg: angle.map(|a| a.0.to_degrees()),
+        angle_at_domain_edge: angle.is_some_and(|a| a.1),
     }
 }
 
+/// The search for where `limit` is reached along the impact velocity (in `convention`) at the
+/// angle `beta` (rad), nearest to `vp`, within the domain's stretch `span` of velocities: the
+/// crossing and whether it is the domain's edge.
+fn velocity_search(
+    window: &PairWindow,
+    setup: &PairSetup,
+    limit: &LimitRef,
+    convention: Convention,
+    vp: f64,
+    beta: f64,
+    span: (f64, f64),
+) -> Option<(f64, bool)> {
+    crossing_in_domain(
+        vp,
+        span,
+        |x| 0.005 * x,
+        1e-3,
+        |v| limit_margin(window, setup, limit, convention, v, beta),
+    )
+}
+
 /// Where `limit` is reached along the impact velocity (in `convention`) at the point's angle,
-/// nearest to the point: the one search every velocity headroom comes from (check, estimate,
-/// sweep, report), so that they agree to the last digit.
+/// nearest to the point, inside the validity domain: the one search every velocity headroom
+/// comes from (check, estimate, sweep, report), so that they agree to the last digit.
 pub fn velocity_crossing(
     window: &PairWindow,
     setup: &PairSetup,
@@ -360,9 +553,8 @@ pub fn velocity_crossing(
         .impact_velocity
         .si();
     let beta = c.evaluation.collision.angle.radians();
-    nearest_crossing(vp, 0.005 * vp, vp / 20.0, vp * 20.0, 1e-3, |v| {
-        limit_margin(window, setup, limit, convention, v, beta)
-    })
+    let span = domain_velocity_span(window, setup, c, convention)?;
+    velocity_search(window, setup, limit, convention, vp, beta, span).map(|v| v.0)
 }
 
 /// The decisive limits of a classification: every enabled, non-informational criterion and
@@ -393,15 +585,25 @@ pub fn explain_velocity(
     convention: Convention,
 ) {
     c.headroom_convention = convention;
+    let span = domain_velocity_span(window, setup, c, convention);
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(convention)
+        .impact_velocity
+        .si();
+    let beta = c.evaluation.collision.angle.radians();
     c.headroom = decisive_limits(window, c)
         .into_iter()
         .map(|l| {
-            let v = velocity_crossing(window, setup, c, &l, convention);
+            let v = span.and_then(|s| velocity_search(window, setup, &l, convention, vp, beta, s));
             (
                 l,
                 Headroom {
-                    velocity_m_s: v,
+                    velocity_m_s: v.map(|x| x.0),
+                    velocity_at_domain_edge: v.is_some_and(|x| x.1),
                     angle_deg: None,
+                    angle_at_domain_edge: false,
                 },
             )
         })
@@ -409,9 +611,9 @@ pub fn explain_velocity(
 }
 
 /// The stretches of impact velocity (at the point's angle) and of angle (at the point's impact
-/// velocity) that lie inside the window, nearest to the point: found by scanning 240 velocities
-/// from Vp/20 to 20 Vp (geometric) and 180 angles from 0.25 to 89.75 deg, then bisecting the ends.
-/// `None` on an axis where no scanned value is inside.
+/// velocity) that lie inside the window, nearest to the point, within the validity domain:
+/// found by scanning 240 velocities and 180 angles across the domain's stretch on each axis,
+/// then bisecting the ends. `None` on an axis where no scanned value is inside.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct InsideStretch {
     /// Lowest and highest inside impact velocity (m/s) at this angle, in the user's convention.
@@ -474,12 +676,39 @@ fn inside_stretch(x0: f64, grid: &[f64], inside: impl Fn(f64) -> bool) -> Option
     Some((lo, hi))
 }
 
-/// Where the point's angle and impact velocity are inside the window (see [`InsideStretch`]).
+/// The validity domain along the two controls at the point (see [`DomainSpan`]).
+pub fn domain_span_of(
+    window: &PairWindow,
+    setup: &PairSetup,
+    c: &Classification,
+    convention: Convention,
+) -> DomainSpan {
+    let vp = c
+        .evaluation
+        .collision
+        .with_convention(convention)
+        .impact_velocity
+        .si();
+    DomainSpan {
+        velocity_m_s: domain_velocity_span(window, setup, c, convention),
+        angle_deg: domain_angle_span(
+            window,
+            setup,
+            vp,
+            c.evaluation.collision.angle.degrees(),
+            convention,
+        ),
+    }
+}
+
+/// Where the point's angle and impact velocity are inside the window (see [`InsideStretch`]),
+/// scanning across the domain's stretch `span` on each axis.
 pub fn inside_stretch_of(
     window: &PairWindow,
     setup: &PairSetup,
     c: &Classification,
     convention: Convention,
+    span: &DomainSpan,
 ) -> InsideStretch {
     let vp = c
         .evaluation
@@ -494,16 +723,38 @@ pub fn inside_stretch_of(
             .and_then(|col| classify(window, setup, &col).ok())
             .is_some_and(|k| k.inside)
     };
-    let n = 240;
-    let vgrid: Vec<f64> = (0..n)
-        .map(|i| vp / 20.0 * 400f64.powf(i as f64 / (n - 1) as f64))
-        .collect();
-    let agrid: Vec<f64> = (0..180).map(|i| 0.25 + 0.5 * i as f64).collect();
-    InsideStretch {
-        velocity_m_s: inside_stretch(vp, &vgrid, |v| inside_at(v, beta)),
-        angle_deg: inside_stretch(beta.degrees(), &agrid, |a| {
+    let velocity_m_s = span.velocity_m_s.and_then(|(lo, hi)| {
+        let n = 240;
+        // The ends exactly the domain's, so a span reaching them reads as the domain's edge.
+        let vgrid: Vec<f64> = (0..n)
+            .map(|i| {
+                if i + 1 == n {
+                    hi
+                } else {
+                    lo * (hi / lo).powf(i as f64 / (n - 1) as f64)
+                }
+            })
+            .collect();
+        inside_stretch(vp, &vgrid, |v| inside_at(v, beta))
+    });
+    let angle_deg = span.angle_deg.and_then(|(lo, hi)| {
+        let n = 180;
+        let agrid: Vec<f64> = (0..n)
+            .map(|i| {
+                if i + 1 == n {
+                    hi
+                } else {
+                    lo + (hi - lo) * i as f64 / (n - 1) as f64
+                }
+            })
+            .collect();
+        inside_stretch(beta.degrees(), &agrid, |a| {
             inside_at(vp, Angle::from_degrees(a))
-        }),
+        })
+    });
+    InsideStretch {
+        velocity_m_s,
+        angle_deg,
     }
 }
 
@@ -522,14 +773,17 @@ pub fn explain_in(
     convention: Convention,
 ) {
     c.headroom_convention = convention;
-    c.inside_stretch = Some(inside_stretch_of(window, setup, c, convention));
+    let span = domain_span_of(window, setup, c, convention);
+    c.domain_span = Some(span);
+    c.inside_stretch = Some(inside_stretch_of(window, setup, c, convention, &span));
     c.headroom = decisive_limits(window, c)
         .into_iter()
         .map(|l| {
-            let h = headroom(window, setup, c, &l, convention);
+            let h = headroom(window, setup, c, &l, convention, &span);
             (l, h)
         })
         .collect();
+    c.warnings = warnings(window, setup, c);
     c.reason = reason(window, c);
 }
 
@@ -547,6 +801,119 @@ pub fn classify_explained(
     Ok(c)
 }
 
+/// Plausibility thresholds at the point of entry (common practice; docs/theory.md §7.2): values
+/// outside them are accepted but warned about as ones no practitioner would type.
+pub mod plausible {
+    /// Flyer thickness range, m (10 um foils to 100 mm plates).
+    pub const FLYER_THICKNESS_M: (f64, f64) = (1e-6, 0.1);
+    /// Largest parent thickness, m.
+    pub const PARENT_THICKNESS_MAX_M: f64 = 1.0;
+    /// Impact velocity range, m/s.
+    pub const IMPACT_VELOCITY_M_S: (f64, f64) = (10.0, 5000.0);
+    /// Largest collision-point velocity, m/s (the jetting table's range).
+    pub const COLLISION_VELOCITY_MAX_M_S: f64 = 20_000.0;
+}
+
+/// Warnings about inputs no practitioner would type (thresholds in [`plausible`]).
+pub fn plausibility_warnings(window: &PairWindow, collision: &Collision) -> Vec<String> {
+    let mut w = Vec::new();
+    let h = window.flyer_thickness.si();
+    let (hlo, hhi) = plausible::FLYER_THICKNESS_M;
+    if !(hlo..=hhi).contains(&h) {
+        w.push(format!(
+            "flyer thickness {} mm: no impact-welding flyer is {} (common practice: about 0.01 to 50 mm); is the unit right?",
+            fmt_num(h * 1e3),
+            if h > hhi { "that thick" } else { "that thin" }
+        ));
+    }
+    if let Some(t) = window.parent_thickness {
+        if t.si() > plausible::PARENT_THICKNESS_MAX_M {
+            w.push(format!(
+                "parent thickness {} mm: above 1 m, no impact-welded part is that thick (common practice); is the unit right?",
+                fmt_num(t.si() * 1e3)
+            ));
+        }
+    }
+    let vp = collision.impact_velocity.si();
+    let (vlo, vhi) = plausible::IMPACT_VELOCITY_M_S;
+    if !(vlo..=vhi).contains(&vp) {
+        w.push(format!(
+            "impact velocity {} m/s: {} any impact-welding process (common practice: about 100 to 1000 m/s); is the unit right?",
+            fmt_num(vp),
+            if vp > vhi { "far above" } else { "far below" }
+        ));
+    }
+    let vc = collision.collision_velocity.si();
+    if vc > plausible::COLLISION_VELOCITY_MAX_M_S {
+        w.push(format!(
+            "collision-point velocity {} m/s at {} deg: above 20 km/s no set-up welds (Vc = Vp / sin(beta) grows without bound as the angle goes to 0); is the angle's unit right?",
+            fmt_num(vc),
+            fmt_num(collision.angle.degrees())
+        ));
+    }
+    w
+}
+
+/// A number with about four significant digits, no exponent for everyday sizes.
+fn fmt_num(x: f64) -> String {
+    if x != 0.0 && (x.abs() >= 1e6 || x.abs() < 1e-3) {
+        format!("{x:.3e}")
+    } else if x.abs() >= 100.0 {
+        format!("{x:.0}")
+    } else {
+        let s = format!("{x:.4}");
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    }
+}
+
+/// What the physics does not know at this point, in words (see [`Classification::warnings`]).
+fn warnings(window: &PairWindow, setup: &PairSetup, c: &Classification) -> Vec<String> {
+    let e = &c.evaluation;
+    let mut w = plausibility_warnings(window, &e.collision);
+    let j = &e.jetting;
+    let jet_on = window.criteria.jetting_enabled;
+    if jet_on && j.is_mixed() {
+        let rule = window.criteria.mixed_jetting;
+        let how = match rule {
+            oblique_core::MixedRule::SupersonicSidePolar => format!(
+                "judged by the conservative supersonic-side polar rule (critical angle {})",
+                e.criterion(CriterionId::Jetting)
+                    .map_or_else(|| "-".into(), oblique_core::CriterionResult::limit_text)
+            ),
+            oblique_core::MixedRule::EitherSubsonic => {
+                "judged by the either-subsonic rule (jet at any angle, from memory)".into()
+            }
+        };
+        w.push(format!(
+            "jetting in the mixed regime ({}; Vc/C0 parent {:.2}, Vf/C0 flyer {:.2}): no source covers a collision supersonic in one plate only; {how} (docs/theory.md §4.3)",
+            j.inflow_text(),
+            e.collision.collision_velocity.si() / setup.parent.hugoniot.c0.si(),
+            e.collision.flow_velocity.si() / setup.flyer.hugoniot.c0.si(),
+        ));
+    } else if jet_on && j.any_supersonic() {
+        w.push(format!(
+            "supersonic collision in both plates (Vc/C0 parent {:.2}, Vf/C0 flyer {:.2}): the jetting limit rests on the shock-polar criterion (Walsh et al. 1953, from memory) and on linear Hugoniot fits; read points near the limit with that uncertainty",
+            e.collision.collision_velocity.si() / setup.parent.hugoniot.c0.si(),
+            e.collision.flow_velocity.si() / setup.flyer.hugoniot.c0.si(),
+        ));
+    }
+    if let Some(m) = e.criterion(CriterionId::MeltingUpper) {
+        if window.criteria.wittman_form == WittmanForm::B {
+            w.push("the Wittman melting limit uses form B, for which no source was found; it is kept only for comparison (docs/theory.md §5.6)".into());
+        }
+        if let Some(low) = m.limit_tm_celsius {
+            if m.value > low && m.value <= m.limit {
+                w.push(format!(
+                    "the impact velocity lies within the melting limit's scale uncertainty: {} with Tm in kelvin, {} with Tm in degrees Celsius (the Wittman constant's scale is unconfirmed; fit N to your trials)",
+                    format_in_unit(m.limit, "m/s"),
+                    format_in_unit(low, "m/s")
+                ));
+            }
+        }
+    }
+    w
+}
+
 /// The label of a limit.
 pub fn limit_label(window: &PairWindow, limit: &LimitRef) -> String {
     match limit {
@@ -558,9 +925,27 @@ pub fn limit_label(window: &PairWindow, limit: &LimitRef) -> String {
     }
 }
 
+/// The validity domain along the two controls in words ("Vp 50-1638 m/s at this angle, angle
+/// 3.1-30 deg at this velocity"), for advice that cannot be followed inside it.
+fn domain_span_text(c: &Classification) -> String {
+    let Some(span) = c.domain_span else {
+        return String::new();
+    };
+    let v = span.velocity_m_s.map_or_else(
+        || "no impact velocity at this angle".to_string(),
+        |(a, b)| format!("Vp {:.0}-{:.0} m/s at this angle", a.ceil(), b.floor()),
+    );
+    let a = span.angle_deg.map_or_else(
+        || "no angle at this velocity".to_string(),
+        |(a, b)| format!("angle {a:.2}-{b:.2} deg at this velocity"),
+    );
+    format!("{v}, {a}")
+}
+
 /// Plain-words advice for one limit at this point, from its velocity and angle headroom
 /// ([`crate::margin`]; call [`explain`] first; without it the advice only states the margin at
-/// this point). Figures are rounded to the safe side ([`crate::margin::ROUNDING_RULE`]).
+/// this point), searched inside the validity domain. Figures are rounded to the safe side
+/// ([`crate::margin::ROUNDING_RULE`]).
 pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -> String {
     if !c.headroom.iter().any(|(l, _)| l == limit) {
         return match limit {
@@ -607,10 +992,14 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
         .flatten()
         .collect();
     match (parts.is_empty(), holds) {
-        (true, true) => {
-            "not reached by changing the impact velocity or the angle alone".to_string()
-        }
-        (true, false) => "not cured by changing the impact velocity or the angle alone (within Vp/20 to 20 Vp and 0 to 90 deg)".to_string(),
+        (true, true) => format!(
+            "not reached inside the validity domain by changing the impact velocity or the angle alone ({})",
+            domain_span_text(c)
+        ),
+        (true, false) => format!(
+            "not reachable inside the validity domain by changing the impact velocity or the angle alone ({})",
+            domain_span_text(c)
+        ),
         (false, true) => parts.join("; "),
         (false, false) => parts.join("; or "),
     }
@@ -618,33 +1007,67 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
 
 /// Where the window lies along the two controls, in words (after [`explain`]): the stretch of
 /// impact velocity inside at this angle and of angle inside at this velocity, or that there is
-/// none. Advice for one limit can cross another; this line says where the window really is.
+/// none inside the validity domain. Advice for one limit can cross another; this line says
+/// where the window really is.
 pub fn inside_stretch_text(c: &Classification) -> Option<String> {
     let st = c.inside_stretch?;
+    let span = c.domain_span.unwrap_or(DomainSpan {
+        velocity_m_s: None,
+        angle_deg: None,
+    });
     let conv = c.headroom_convention;
-    let v = match st.velocity_m_s {
-        Some((a, b)) => format!(
+    let v = match (st.velocity_m_s, span.velocity_m_s) {
+        (Some((a, b)), _) => format!(
             "at this angle the window spans Vp ({conv}) from {:.0} to {:.0} m/s",
             a.ceil(),
             b.floor()
         ),
-        None => {
-            "at this angle no impact velocity from Vp/20 to 20 Vp is inside the window".to_string()
+        (None, Some((a, b))) => format!(
+            "at this angle no impact velocity in the validity domain ({:.0}-{:.0} m/s) is inside the window",
+            a.ceil(),
+            b.floor()
+        ),
+        (None, None) => {
+            "at this angle no impact velocity lies in the validity domain".to_string()
         }
     };
-    let a = match st.angle_deg {
-        Some((lo, hi)) => format!(
+    let a = match (st.angle_deg, span.angle_deg) {
+        (Some((lo, hi)), _) => format!(
             "at this velocity it spans the angle from {:.2} to {:.2} deg",
             (lo * 100.0).ceil() / 100.0,
             (hi * 100.0).floor() / 100.0
         ),
-        None => "at this velocity no angle is inside".to_string(),
+        (None, Some((lo, hi))) => format!(
+            "at this velocity no angle in the validity domain ({lo:.2}-{hi:.2} deg) is inside"
+        ),
+        (None, None) => "at this velocity no angle lies in the validity domain".to_string(),
     };
     Some(format!("{v}; {a}"))
 }
 
 fn reason(window: &PairWindow, c: &Classification) -> String {
-    let mut s = if c.inside {
+    let mut s = if !c.domain.inside() {
+        let say = match c.domain.limits_say {
+            Prediction::Welded => "inside the window".to_string(),
+            Prediction::Melted => "melted".to_string(),
+            _ => "not welded".to_string(),
+        };
+        let binding = c
+            .binding
+            .as_ref()
+            .map(|b| {
+                format!(
+                    " (binding limit {}: {})",
+                    limit_label(window, b),
+                    limit_advice(window, c, b)
+                )
+            })
+            .unwrap_or_default();
+        format!(
+            "outside the validity domain: {}; no verdict is claimed there (the limits, extrapolated, would say {say}{binding})",
+            c.domain.exits_text()
+        )
+    } else if c.inside {
         match crate::margin::verdict_velocity_headroom(window, c) {
             Some(v) => format!("inside the window; {}", v.sentence()),
             None => match &c.binding {
@@ -682,6 +1105,147 @@ fn reason(window: &PairWindow, c: &Classification) -> String {
         ));
     }
     s
+}
+
+/// A head-on impact (collision angle 0): the flyer meets the parent face to face, no collision
+/// point sweeps the interface, no jet forms and the surfaces are not cleaned, so nothing welds
+/// (Abdelmaola et al., Metals 14 (2024) 342: a laser impact weld of 0.127 mm Ti on Cu at about
+/// 900 m/s, head-on at the weld centre, left the centre unwelded). Only the 1-D impact state is
+/// computed.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct HeadOn {
+    /// Impact velocity Vp (normal to both plates: every convention agrees), m/s.
+    pub impact_velocity_m_s: f64,
+    /// The 1-D impact state at Vp.
+    pub impact: ImpactState,
+    /// Inputs no practitioner would type.
+    pub warnings: Vec<String>,
+}
+
+/// The source of the head-on verdict.
+pub const HEAD_ON_SOURCE: &str = "Abdelmaola et al., Metals 14 (2024) 342: a laser impact weld of 0.127 mm Ti on Cu at about 900 m/s, head-on at the weld centre, left the centre unwelded";
+
+/// The verdict of a head-on impact in words.
+pub const HEAD_ON_REASON: &str = "not welded: head-on impact, no collision point sweeps the interface, so no jet forms and the surfaces are not cleaned";
+
+/// Classify a head-on impact at impact velocity `vp` (m/s): always [`Prediction::HeadOn`].
+///
+/// # Errors
+/// [`PhysicsError`] when the impact state cannot be computed (a non-positive velocity).
+pub fn classify_head_on(
+    window: &PairWindow,
+    setup: &PairSetup,
+    vp: f64,
+) -> Result<HeadOn, PhysicsError> {
+    let impact = impedance_match(
+        &setup.flyer.hugoniot,
+        &setup.parent.hugoniot,
+        Velocity::from_m_s(vp),
+    )?;
+    let mut warnings = Vec::new();
+    let probe = Collision::from_impact(
+        window.convention,
+        Velocity::from_m_s(vp),
+        Angle::from_degrees(45.0),
+    );
+    if let Ok(col) = probe {
+        warnings.extend(
+            plausibility_warnings(window, &col)
+                .into_iter()
+                .filter(|w| !w.starts_with("collision-point velocity")),
+        );
+    }
+    Ok(HeadOn {
+        impact_velocity_m_s: vp,
+        impact,
+        warnings,
+    })
+}
+
+/// Whether a criterion whose constant can be changed (Deribas k, the HEL multiple m, Wittman's
+/// N) fails at every point of the validity domain, which leaves the window empty whatever the
+/// other limits say. `None` when each holds somewhere; otherwise the reason in words, naming
+/// the limit, its closest approach and the constant. A scan of 60 angles (0.5 to 30 deg) by 60
+/// impact velocities (50 to 2000 m/s, geometric) over the domain, edges included: each of these
+/// limits is monotonic in the impact velocity, so a limit satisfied anywhere in the domain is
+/// satisfied at a scanned point near the domain's edge. (A window whose limits each hold
+/// somewhere but never together is not refused: every point is then reported outside, with
+/// the advice of each limit.)
+pub fn empty_window(window: &PairWindow) -> Option<String> {
+    let setup = window.setup().ok()?;
+    let top = window
+        .domain
+        .bound(oblique_core::DomainQuantity::CollisionAngle)
+        .map_or(30.0, |b| b.max);
+    let (vlo, vhi) = window
+        .domain
+        .bound(oblique_core::DomainQuantity::ImpactVelocity)
+        .map_or((50.0, 2000.0), |b| (b.min, b.max));
+    let angles: Vec<f64> = (1..=60).map(|i| top * i as f64 / 60.0).collect();
+    let speeds: Vec<f64> = (0..60)
+        .map(|i| vlo * (vhi / vlo).powf(i as f64 / 59.0))
+        .collect();
+    let watched = [
+        CriterionId::DeribasLower,
+        CriterionId::PressureLower,
+        CriterionId::MeltingUpper,
+    ];
+    // Per limit: satisfied somewhere, and its best relative margin with where.
+    let mut best: std::collections::BTreeMap<CriterionId, (bool, f64, f64, f64)> =
+        std::collections::BTreeMap::new();
+    // None of these limits uses the jetting assessment.
+    let jet = JettingAssessment::any_angle(
+        oblique_core::jetting::JettingRegime::SubsonicParent,
+        false,
+        false,
+    );
+    for &deg in &angles {
+        for &v in &speeds {
+            let Ok(col) = Collision::from_impact(
+                window.convention,
+                Velocity::from_m_s(v),
+                Angle::from_degrees(deg),
+            ) else {
+                continue;
+            };
+            if !window.domain.contains(&setup, &col) {
+                continue;
+            }
+            let Ok(e) = evaluate_with_jetting(&setup, &col, &window.criteria, jet) else {
+                continue;
+            };
+            for r in e.criteria.iter().filter(|r| watched.contains(&r.id)) {
+                let rel = r.relative_margin();
+                let entry = best
+                    .entry(r.id)
+                    .or_insert((false, f64::NEG_INFINITY, v, deg));
+                entry.0 |= r.satisfied;
+                if rel > entry.1 {
+                    *entry = (entry.0, rel, v, deg);
+                }
+            }
+        }
+    }
+    let constant = |id: CriterionId| -> String {
+        let c = &window.criteria;
+        match id {
+            CriterionId::DeribasLower => format!("k = {}", c.deribas_k),
+            CriterionId::PressureLower => format!("m = {}", c.hel_multiple),
+            _ => format!("N = {}", c.wittman_n),
+        }
+    };
+    let never: Vec<String> = best
+        .iter()
+        .filter(|(_, (sat, ..))| !sat)
+        .map(|(id, (_, rel, v, deg))| {
+            format!(
+                "{id} with {} fails at every point of the validity domain (Vp {vlo:.0}-{vhi:.0} m/s, angle up to {top:.0} deg; closest at Vp {v:.0} m/s, {deg:.1} deg, {:.0} % short)",
+                constant(*id),
+                -100.0 * rel
+            )
+        })
+        .collect();
+    (!never.is_empty()).then(|| never.join("; "))
 }
 
 #[cfg(test)]
@@ -770,7 +1334,14 @@ mod tests {
     fn agreement_on_the_demo_window() {
         let a = crate::agreement::agreement(&demo()).expect("agreement");
         assert_eq!(a.observations, 16);
-        assert_eq!(a.agreeing, 14);
+        // Shot 10 (450 m/s at 3 deg: Vc = 8.6 km/s, 2.2 C0 of the copper) lies outside the
+        // validity domain: neither agreement nor disagreement.
+        assert_eq!(a.agreeing, 13);
+        assert_eq!(
+            a.outside_domain.iter().map(|o| o.index).collect::<Vec<_>>(),
+            vec![9]
+        );
+        assert!(a.outside_domain[0].exits.contains("Vc / C0 of the parent"));
         let idx: Vec<usize> = a.disagreements.iter().map(|d| d.index).collect();
         assert_eq!(idx, vec![10, 13]);
         assert!(a.disagreements[1]
@@ -782,6 +1353,353 @@ mod tests {
             "the partial shot near the edge agrees"
         );
         assert_eq!(a.table["melted"]["melted"], 1);
+    }
+}
+
+/// The findings of issue 14 at the edges of the physics, each a test that failed before.
+#[cfg(test)]
+mod edge_tests {
+    use super::*;
+    use crate::library::Library;
+    use oblique_core::units::Length;
+    use proptest::prelude::*;
+    use std::sync::OnceLock;
+
+    fn lib() -> &'static Library {
+        static L: OnceLock<Library> = OnceLock::new();
+        L.get_or_init(|| Library::load(&[]).expect("built-in library"))
+    }
+
+    /// `check --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --convention
+    /// normal-to-flyer`, as the issue ran it.
+    fn al_on_cu() -> PairWindow {
+        lib()
+            .ad_hoc_window(
+                "aa6061-t6",
+                "cu-c11000",
+                Length::from_m(1e-3),
+                None,
+                Convention::NormalToFlyer,
+                None,
+            )
+            .expect("materials")
+    }
+
+    fn explained(w: &PairWindow, v: f64, deg: f64) -> Classification {
+        let c = Collision::from_impact(
+            w.convention,
+            Velocity::from_m_s(v),
+            Angle::from_degrees(deg),
+        )
+        .expect("collision");
+        classify_explained(w, &w.setup().expect("setup"), &c).expect("classifies")
+    }
+
+    fn all_text(w: &PairWindow, c: &Classification) -> String {
+        let mut t = c.reason.clone();
+        for (l, _) in &c.headroom {
+            t.push_str(&limit_advice(w, c, l));
+        }
+        t.push_str(&inside_stretch_text(c).unwrap_or_default());
+        t
+    }
+
+    /// Issue 14: at 89.9 deg the point was "INSIDE" and the window's span ran "5.95 to
+    /// 89.75 deg". Now it is outside the validity domain and no span reaches past 30 deg.
+    #[test]
+    fn a_steep_angle_is_outside_the_domain_and_no_span_reaches_it() {
+        let w = al_on_cu();
+        let c = explained(&w, 420.0, 89.9);
+        assert!(!c.inside);
+        assert_eq!(c.prediction, Prediction::OutsideDomain);
+        assert!(
+            c.reason.starts_with(
+                "outside the validity domain: collision angle 89.9 deg is above 30 deg"
+            ),
+            "{}",
+            c.reason
+        );
+        let ok = explained(&w, 420.0, 11.0);
+        assert!(ok.inside, "{}", ok.reason);
+        let (lo, hi) = ok.inside_stretch.and_then(|s| s.angle_deg).expect("span");
+        assert!(hi <= 30.0 && lo > 0.0, "{lo} {hi}");
+        assert!(!inside_stretch_text(&ok)
+            .unwrap_or_default()
+            .contains("89.75"));
+    }
+
+    /// Issue 14: at 35000 m/s and 12 deg the melting limit was "not cured by changing the
+    /// impact velocity or the angle alone" although the window at 12 deg spans 372-595 m/s
+    /// (the search covered only Vp/20 to 20 Vp). Now the searches cover the validity domain.
+    #[test]
+    fn advice_covers_the_whole_domain() {
+        let w = al_on_cu();
+        let c = explained(&w, 35_000.0, 12.0);
+        assert_eq!(c.prediction, Prediction::OutsideDomain);
+        let melt = c
+            .headroom
+            .iter()
+            .find(|(l, _)| *l == LimitRef::Criterion(CriterionId::MeltingUpper))
+            .expect("melting")
+            .1;
+        let v = melt.velocity_m_s.expect("reachable along the velocity");
+        assert!((550.0..650.0).contains(&v), "{v}");
+        let (a, b) = c
+            .inside_stretch
+            .and_then(|s| s.velocity_m_s)
+            .expect("the window at 12 deg");
+        assert!(
+            (340.0..400.0).contains(&a) && (550.0..650.0).contains(&b),
+            "{a} {b}"
+        );
+        let text = all_text(&w, &c);
+        assert!(!text.contains("not cured"), "{text}");
+        assert!(text.contains("the impact velocity must fall by"), "{text}");
+    }
+
+    /// Issue 14: at 1 m/s and 0.01 deg the advice was "lower the impact velocity to 0 m/s".
+    #[test]
+    fn no_advice_leads_out_of_the_domain() {
+        let w = al_on_cu();
+        let c = explained(&w, 1.0, 0.01);
+        assert_eq!(c.prediction, Prediction::OutsideDomain);
+        let text = all_text(&w, &c);
+        assert!(!text.contains(" 0 m/s"), "{text}");
+        assert!(
+            text.contains("not reachable inside the validity domain"),
+            "{text}"
+        );
+        for (_, h) in &c.headroom {
+            assert!(h.velocity_m_s.is_none_or(|v| v >= 50.0), "{h:?}");
+        }
+    }
+
+    /// Issue 14: a Deribas k of 6 in a pair file was accepted (beta_min = 93 deg: an empty
+    /// window). Now the file is refused with the reason.
+    #[test]
+    fn constants_that_empty_the_window_are_refused() {
+        let text = r#"(
+    format: "oblique-window/1",
+    name: "k6",
+    flyer: "aa6061-t6",
+    parent: "cu-c11000",
+    flyer_thickness: "1 mm",
+    convention: "normal-to-flyer",
+    maintainer: "test",
+    criteria: (deribas_lower: (k: 6.0, reason: "a typo")),
+)"#;
+        let origin = crate::pair::Origin {
+            display: "k6.ron".into(),
+            path: None,
+            sha256: String::new(),
+        };
+        let e = crate::pair::parse_pair_file(origin.clone(), text, &lib().materials)
+            .expect_err("an empty window is refused");
+        let msg = e.to_string();
+        assert!(msg.contains("criteria.deribas_lower.k"), "{msg}");
+        assert!(msg.contains("the window is empty"), "{msg}");
+        assert!(
+            msg.contains("deribas-lower with k = 6 fails at every point"),
+            "{msg}"
+        );
+        // k = 1.2, the top of the published range, is fine.
+        let ok = text.replace("6.0", "1.2");
+        crate::pair::parse_pair_file(origin, &ok, &lib().materials).expect("k 1.2 loads");
+    }
+
+    fn parse(text: &str) -> Result<PairWindow, String> {
+        let origin = crate::pair::Origin {
+            display: "p.ron".into(),
+            path: None,
+            sha256: String::new(),
+        };
+        crate::pair::parse_pair_file(origin, text, &lib().materials)
+            .map(|(_, w)| w)
+            .map_err(|e| e.to_string())
+    }
+
+    const HEAD: &str = r#"(
+    format: "oblique-window/1",
+    name: "p",
+    flyer: "aa6061-t6",
+    parent: "cu-c11000",
+    flyer_thickness: "1 mm",
+    convention: "normal-to-flyer",
+    maintainer: "test","#;
+
+    /// The mixed jetting rule is chosen in the pair file; a rule other than the default needs
+    /// a reason, an unknown one is refused at its field.
+    #[test]
+    fn the_mixed_rule_is_selectable_in_a_pair_file() {
+        let polar = parse(&format!("{HEAD}\n)")).expect("defaults");
+        assert_eq!(
+            polar.criteria.mixed_jetting,
+            oblique_core::MixedRule::SupersonicSidePolar
+        );
+        let either = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"either-subsonic\", reason: \"trials S-3\")),\n)"
+        ))
+        .expect("either-subsonic with a reason");
+        assert_eq!(
+            either.criteria.mixed_jetting,
+            oblique_core::MixedRule::EitherSubsonic
+        );
+        // In the mixed case the two rules differ: 382 m/s at 2 deg (Vc 10.9 km/s, both
+        // supersonic) is not mixed; 382 m/s at 5 deg is (Vc 4383 m/s > C0 Cu, Vf < C0 Al).
+        let a = explained(&polar, 382.0, 5.0);
+        let b = explained(&either, 382.0, 5.0);
+        assert!(a.evaluation.jetting.critical_angle.degrees() > 0.0);
+        assert_eq!(b.evaluation.jetting.critical_angle.degrees(), 0.0);
+        let e = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"either-subsonic\")),\n)"
+        ))
+        .expect_err("no reason");
+        assert!(
+            e.contains("criteria.jetting") && e.contains("gives no reason"),
+            "{e}"
+        );
+        let e = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"always\", reason: \"x\")),\n)"
+        ))
+        .expect_err("unknown rule");
+        assert!(
+            e.contains("criteria.jetting.mixed") && e.contains("unknown rule"),
+            "{e}"
+        );
+    }
+
+    /// The pressure limit follows the window's process: on for magnetic pulse welding (its
+    /// source), off for explosive welding; switching it against that default needs a reason.
+    #[test]
+    fn the_pressure_limit_is_scoped_by_process() {
+        let mpw = parse(&format!("{HEAD}\n process: \"magnetic-pulse\",\n)")).expect("mpw");
+        assert!(mpw.criteria.pressure_enabled);
+        let ex = parse(&format!("{HEAD}\n process: \"explosive\",\n)")).expect("explosive");
+        assert!(!ex.criteria.pressure_enabled);
+        let none = parse(&format!("{HEAD}\n)")).expect("no process");
+        assert!(none.criteria.pressure_enabled);
+        let e = parse(&format!(
+            "{HEAD}\n process: \"explosive\",\n criteria: (pressure_lower: (enabled: true)),\n)"
+        ))
+        .expect_err("on for explosive welding without a reason");
+        assert!(e.contains("pressure_lower differs from the default"), "{e}");
+        let e = parse(&format!("{HEAD}\n process: \"welding\",\n)")).expect_err("unknown");
+        assert!(e.contains("unknown process 'welding'"), "{e}");
+    }
+
+    /// Wittman form B has no source: every result with it says so.
+    #[test]
+    fn form_b_is_marked_unsourced() {
+        let w = parse(&format!(
+            "{HEAD}\n criteria: (melting_upper: (form: \"b\", reason: \"comparison\")),\n)"
+        ))
+        .expect("form b with a reason");
+        let c = explained(&w, 420.0, 11.0);
+        assert!(
+            c.warnings
+                .iter()
+                .any(|x| x.contains("form B, for which no source was found")),
+            "{:?}",
+            c.warnings
+        );
+        assert!(CriterionId::MeltingUpper
+            .source()
+            .contains("form B: no source found"));
+    }
+
+    /// Inputs no practitioner would type are warned about (issue 14: a 500 mm flyer, Vc of
+    /// 60 000 m/s at 0.2 deg).
+    #[test]
+    fn implausible_inputs_are_warned_about() {
+        let mut w = al_on_cu();
+        w.flyer_thickness = Length::from_m(0.5);
+        let c = explained(&w, 420.0, 11.0);
+        assert!(
+            c.warnings
+                .iter()
+                .any(|x| x.contains("flyer thickness 500 mm")),
+            "{:?}",
+            c.warnings
+        );
+        let w = al_on_cu();
+        let c = explained(&w, 60_000.0 * 0.2f64.to_radians().sin(), 0.2);
+        assert!(
+            c.warnings
+                .iter()
+                .any(|x| x.contains("collision-point velocity 60000 m/s")),
+            "{:?}",
+            c.warnings
+        );
+    }
+
+    /// Issue 14: at 382 m/s and 5 deg on Al 6061 on Cu, Vc = 4383 m/s is above the parent's
+    /// C0 while Vf is below the flyer's: the mixed case is never silent.
+    #[test]
+    fn the_mixed_jetting_case_is_never_silent() {
+        let w = al_on_cu();
+        let c = explained(&w, 382.0, 5.0);
+        assert!(c.evaluation.jetting.is_mixed());
+        assert!(
+            c.warnings.iter().any(|x| x.contains("mixed regime")),
+            "{:?}",
+            c.warnings
+        );
+        // A fully subsonic point has no such warning.
+        let c = explained(&w, 300.0, 15.0);
+        assert!(!c.evaluation.jetting.any_supersonic());
+        assert!(
+            c.warnings.iter().all(|x| !x.contains("supersonic")),
+            "{:?}",
+            c.warnings
+        );
+    }
+
+    /// The head-on impact gives its own verdict (not welded), not an error.
+    #[test]
+    fn head_on_is_not_welded() {
+        let w = lib()
+            .ad_hoc_window(
+                "ti-gr2",
+                "cu-c11000",
+                Length::from_m(0.127e-3),
+                None,
+                Convention::NormalToFlyer,
+                Some("laser"),
+            )
+            .expect("materials");
+        let h = classify_head_on(&w, &w.setup().expect("setup"), 900.0).expect("head-on");
+        assert!(h.impact.pressure.gpa() > 10.0);
+        assert!(HEAD_ON_REASON.starts_with("not welded"));
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(300))]
+        /// No verdict is "inside" outside the validity domain, over the whole input range the
+        /// command line accepts (and beyond the domain on every axis), every convention.
+        #[test]
+        fn nothing_is_inside_outside_the_domain(
+            lv in -3.0f64..5.0, deg in 1e-6f64..89.99, k in 0usize..3, lh in -6.0f64..0.0,
+        ) {
+            let mut w = al_on_cu();
+            w.convention = Convention::ALL[k];
+            w.flyer_thickness = Length::from_m(10f64.powf(lh));
+            let setup = w.setup().expect("setup");
+            let col = Collision::from_impact(w.convention, Velocity::from_m_s(10f64.powf(lv)), Angle::from_degrees(deg)).expect("collision");
+            let c = classify(&w, &setup, &col).expect("classifies");
+            let in_domain = w.domain.contains(&setup, &col);
+            prop_assert_eq!(in_domain, c.domain.inside());
+            if !in_domain {
+                prop_assert!(!c.inside);
+                prop_assert_eq!(c.prediction, Prediction::OutsideDomain);
+            }
+            if c.inside {
+                prop_assert!(in_domain);
+                prop_assert_eq!(c.prediction, Prediction::Welded);
+            }
+            // The jetting critical angle is always physical.
+            let j = c.evaluation.jetting;
+            prop_assert!(j.none_below_90 || j.critical_angle.degrees() < 90.0);
+        }
     }
 }
 

@@ -385,7 +385,8 @@ impl Library {
     }
 
     /// A window made on the spot from two material ids and a flyer thickness, with the
-    /// published default criteria, no boundaries and no trials.
+    /// published default criteria (the pressure limit as the process's default,
+    /// [`crate::pair::pressure_default`]), no boundaries and no trials.
     ///
     /// # Errors
     /// An unknown material id, as `(which, message)` with `which` "flyer" or "parent".
@@ -396,9 +397,14 @@ impl Library {
         flyer_thickness: oblique_core::units::Length,
         parent_thickness: Option<oblique_core::units::Length>,
         convention: oblique_core::Convention,
+        process: Option<&str>,
     ) -> Result<crate::PairWindow, (&'static str, String)> {
         let f = self.material(flyer).map_err(|m| ("flyer", m))?;
         let p = self.material(parent).map_err(|m| ("parent", m))?;
+        let criteria = oblique_core::CriteriaConfig {
+            pressure_enabled: crate::pair::pressure_default(process).0,
+            ..oblique_core::CriteriaConfig::default()
+        };
         Ok(crate::PairWindow {
             name: format!("{flyer}-on-{parent}"),
             description: "made from the command line with the published default criteria".into(),
@@ -408,9 +414,11 @@ impl Library {
             flyer_thickness,
             parent_thickness,
             convention,
+            process: process.map(str::to_string),
+            domain: oblique_core::ValidityDomain::default(),
             maintainer: String::new(),
             revisions: Vec::new(),
-            criteria: oblique_core::CriteriaConfig::default(),
+            criteria,
             criteria_reasons: std::collections::BTreeMap::new(),
             boundaries: Vec::new(),
             observations: Vec::new(),

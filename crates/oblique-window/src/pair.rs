@@ -5,7 +5,9 @@ use crate::boundary::{self_crossing, Boundary, Plane, WeldSide};
 use crate::diag::{close_matches, parse_ron, Collector, Diagnostics};
 use crate::materials::{validate_entries, MaterialEntry, MaterialRecord, Revision};
 use oblique_core::units::{Angle, Length, QuantityKind, Velocity};
-use oblique_core::{Convention, CriteriaConfig, CriterionId, WittmanForm};
+use oblique_core::{
+    Convention, CriteriaConfig, CriterionId, MixedRule, ValidityDomain, WittmanForm,
+};
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
@@ -70,9 +72,9 @@ impl Default for DeribasEntry {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct PressureEntry {
-    /// On or off.
-    #[serde(default = "yes")]
-    pub enabled: bool,
+    /// On or off; absent: the default of the window's process ([`pressure_default`]).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub enabled: Option<bool>,
     /// Multiple of the Hugoniot elastic limit.
     #[serde(default = "default_hel")]
     pub hel_multiple: f64,
@@ -86,10 +88,38 @@ fn default_hel() -> f64 {
 impl Default for PressureEntry {
     fn default() -> Self {
         Self {
-            enabled: true,
+            enabled: None,
             hel_multiple: default_hel(),
             reason: None,
         }
+    }
+}
+
+/// Whether the pressure limit (p >= m HEL) is on by default for a process (`None`: the file
+/// names no process), and why (docs/theory.md §5.4). Its source, Kore et al. 2010 as quoted,
+/// states it for magnetic pulse welding; the classical explosive-welding windows are drawn
+/// without it, so it is off for explosive welding; for the other processes, and when the
+/// process is not given, it stays on as the conservative choice (a lower limit can only remove
+/// points from the window).
+#[must_use]
+pub fn pressure_default(process: Option<&str>) -> (bool, &'static str) {
+    match process {
+        Some("magnetic-pulse") => (
+            true,
+            "on: stated for magnetic pulse welding (Kore et al. 2010, as quoted)",
+        ),
+        Some("explosive") => (
+            false,
+            "off for explosive welding: its source states it for magnetic pulse welding, and the classical explosive-welding windows are drawn without it",
+        ),
+        Some(_) => (
+            true,
+            "on as the conservative choice (common practice): its source states it for magnetic pulse welding only",
+        ),
+        None => (
+            true,
+            "on as the conservative choice: stated for magnetic pulse welding, and no process is given",
+        ),
     }
 }
 
@@ -122,6 +152,35 @@ impl Default for MeltingEntry {
             enabled: true,
             n: default_n(),
             form: default_form(),
+            reason: None,
+        }
+    }
+}
+
+/// Jetting settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct JettingEntry {
+    /// On or off.
+    #[serde(default = "yes")]
+    pub enabled: bool,
+    /// The rule of the mixed case (one plate supersonic, the other subsonic):
+    /// `"supersonic-side-polar"` (the default, conservative) or `"either-subsonic"`
+    /// (docs/theory.md §4.3).
+    #[serde(default = "default_mixed")]
+    pub mixed: String,
+    /// Why it was changed from the default, if it was.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub reason: Option<String>,
+}
+fn default_mixed() -> String {
+    MixedRule::default().as_str().into()
+}
+impl Default for JettingEntry {
+    fn default() -> Self {
+        Self {
+            enabled: true,
+            mixed: default_mixed(),
             reason: None,
         }
     }
@@ -172,7 +231,7 @@ pub struct CriteriaSection {
     pub melting_upper: MeltingEntry,
     /// Jetting.
     #[serde(default)]
-    pub jetting: Switch,
+    pub jetting: JettingEntry,
     /// Wavy transition (informational).
     #[serde(default)]
     pub wavy_transition: WavyEntry,
@@ -343,6 +402,10 @@ pub struct PairFile {
     pub parent_thickness: Option<String>,
     /// Velocity convention of the observations and of `angle-impact-velocity` boundaries.
     pub convention: String,
+    /// The process the window is for (one of [`PROCESSES`]); sets the default of the pressure
+    /// limit ([`pressure_default`]). Absent: not given.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub process: Option<String>,
     /// Who maintains the file.
     pub maintainer: String,
     /// Revision notes.
@@ -496,6 +559,10 @@ pub struct PairWindow {
     pub parent_thickness: Option<Length>,
     /// Convention of the observations.
     pub convention: Convention,
+    /// The process the window is for, if given.
+    pub process: Option<String>,
+    /// Where the window's relations are claimed to hold (docs/theory.md §7.1).
+    pub domain: ValidityDomain,
     /// Maintainer.
     pub maintainer: String,
     /// Revisions.
@@ -619,6 +686,15 @@ pub fn parse_pair_file(
             None
         }
     };
+    if let Some(p) = &parsed.process {
+        if !PROCESSES.contains(&p.as_str()) {
+            c.push(
+                "process",
+                format!("unknown process '{}'", crate::present::short(p, 40)),
+                Some(format!("use one of {}", PROCESSES.join(", "))),
+            );
+        }
+    }
 
     let (mut criteria, criteria_reasons) = validate::criteria(&mut c, &parsed);
     let boundaries = validate::boundaries(&mut c, &parsed);
@@ -629,10 +705,10 @@ pub fn parse_pair_file(
     }
 
     let problems = c.problems.len();
-    c.finish()?;
     let (Some(flyer), Some(parent), Some(ft), Some(convention)) =
         (flyer, parent, flyer_thickness, convention)
     else {
+        c.finish()?;
         // Unreachable when there were no problems; kept as an error rather than a panic.
         return Err(Diagnostics(vec![crate::diag::Diagnostic {
             file,
@@ -652,6 +728,8 @@ pub fn parse_pair_file(
         flyer_thickness: Length::from_m(ft),
         parent_thickness: parent_thickness.map(Length::from_m),
         convention,
+        process: parsed.process.clone(),
+        domain: ValidityDomain::default(),
         maintainer: parsed.maintainer.clone(),
         revisions: parsed.revisions.clone(),
         criteria,
@@ -661,6 +739,18 @@ pub fn parse_pair_file(
         fitted,
         origin,
     };
+    // Constants changed from their defaults must leave a window: refuse, with the reason,
+    // those that leave no point of the validity domain inside the model limits.
+    if problems == 0 && validate::constants_changed(&parsed) {
+        if let Some(why) = crate::classify::empty_window(&window) {
+            c.push(
+                &validate::changed_constant_field(&parsed),
+                format!("with these criterion constants the window is empty: {why}"),
+                Some("a constant this far from its published range leaves no weld anywhere in the validity domain (docs/theory.md §7.1); check the value and its reason".into()),
+            );
+        }
+    }
+    c.finish()?;
     Ok((parsed, window))
 }
 

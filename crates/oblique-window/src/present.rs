@@ -2,7 +2,7 @@
 //! materials, criteria and classifications (SI values, keys with unit suffixes), plain text
 //! tables and numbers in their criterion's unit. Pure functions: nothing here writes anywhere.
 
-use crate::classify::{limit_advice, limit_label, Classification, LimitRef};
+use crate::classify::{limit_advice, limit_label, Classification, HeadOn, LimitRef};
 use crate::{MaterialRecord, PairWindow};
 use oblique_core::{CriterionResult, PointEvaluation};
 use serde_json::{json, Map, Value};
@@ -32,6 +32,10 @@ pub fn material_json(rec: &MaterialRecord, with_sources: bool) -> Value {
     o.insert("id".into(), json!(m.id));
     o.insert("name".into(), json!(m.name));
     o.insert("density_kg_m3".into(), sig(m.density().si()));
+    // The Hugoniot intercept C0, under its own name; `bulk_sound_speed_m_s` holds the same
+    // number and is kept for existing scripts (C0 is not exactly the bulk sound speed
+    // sqrt(K/rho), docs/theory.md §9).
+    o.insert("hugoniot_c0_m_s".into(), sig(m.hugoniot.c0.si()));
     o.insert("bulk_sound_speed_m_s".into(), sig(m.sound_speed().si()));
     o.insert("hugoniot_slope".into(), sig(m.hugoniot.s));
     o.insert("vickers_hardness_pa".into(), sig(m.vickers_hardness.si()));
@@ -91,11 +95,15 @@ pub fn criterion_json(c: &CriterionResult, binding: bool) -> Value {
             ((*k).to_string(), value)
         })
         .collect();
+    // The jetting limit without a critical angle below 90 deg is no number (docs/theory.md §4).
+    let no_limit = c.id == oblique_core::CriterionId::Jetting && c.limit >= 90.0;
     json!({
         "id": c.id.as_str(),
         "title": c.id.title(),
         "value": sig(c.value),
-        "limit": sig(c.limit),
+        "limit": if no_limit { Value::Null } else { sig(c.limit) },
+        "limit_text": c.limit_text(),
+        "limit_tm_celsius": c.limit_tm_celsius.map(sig),
         "margin": sig(c.margin),
         "unit": c.unit,
         "kind": c.kind,
@@ -132,9 +140,20 @@ pub fn evaluation_fields(e: &PointEvaluation, o: &mut Map<String, Value>) {
     );
     o.insert(
         "jetting_critical_angle_deg".into(),
-        sig(e.jetting.critical_angle.degrees()),
+        e.jetting.critical_angle_deg().map_or(Value::Null, sig),
     );
     o.insert("jetting_regime".into(), json!(e.jetting.regime));
+    o.insert(
+        "jetting".into(),
+        json!({
+            "flyer_supersonic": e.jetting.flyer_supersonic,
+            "parent_supersonic": e.jetting.parent_supersonic,
+            "mixed": e.jetting.is_mixed(),
+            "mixed_rule": e.jetting.mixed_rule.map(|r| r.as_str()),
+            "none_below_90_deg": e.jetting.none_below_90,
+            "inflow": e.jetting.inflow_text(),
+        }),
+    );
     o.insert("interface_wavelength_m".into(), sig(e.wavelength.si()));
     o.insert(
         "dissipated_energy_j_m2".into(),
@@ -172,7 +191,76 @@ fn add_headroom(v: &mut Value, window: &PairWindow, c: &Classification, limit: &
             "angle_headroom".into(),
             a.as_ref().map_or(Value::Null, crate::margin::Along::json),
         );
+        o.insert(
+            "reached_at_domain_edge".into(),
+            json!({"impact_velocity": h.velocity_at_domain_edge, "angle": h.angle_at_domain_edge}),
+        );
     }
+}
+
+/// An open bound end (0 for a ratio or an angle, or infinite) as null, else the number.
+fn bound_end(x: f64, low: bool) -> Value {
+    if x.is_finite() && (!low || x > 0.0) {
+        sig(x)
+    } else {
+        Value::Null
+    }
+}
+
+/// The validity domain of a classification as JSON: whether the point is inside, the bounds it
+/// misses, the limits extrapolated, what they would say, every bound with its source, and the
+/// domain and the window along the two controls (after `explain`).
+pub fn domain_json(window: &PairWindow, c: &Classification) -> Value {
+    let exits: Vec<Value> = c
+        .domain
+        .exits
+        .iter()
+        .map(|e| {
+            json!({
+                "quantity": e.quantity.as_str(),
+                "value": sig(e.value),
+                "min": bound_end(e.min, true),
+                "max": bound_end(e.max, false),
+                "unit": e.quantity.unit(),
+                "text": e.text(),
+                "limits": e.limits.iter().map(|l| l.as_str()).collect::<Vec<_>>(),
+                "source": e.source,
+            })
+        })
+        .collect();
+    let bounds: Vec<Value> = window
+        .domain
+        .bounds
+        .iter()
+        .map(|b| {
+            json!({
+                "quantity": b.quantity.as_str(),
+                "min": bound_end(b.min, true),
+                "max": bound_end(b.max, false),
+                "unit": b.quantity.unit(),
+                "range": b.range_text(),
+                "limits": b.limits.iter().map(|l| l.as_str()).collect::<Vec<_>>(),
+                "source": b.source,
+            })
+        })
+        .collect();
+    let pair = |x: Option<(f64, f64)>| x.map_or(Value::Null, |(a, b)| json!([sig(a), sig(b)]));
+    json!({
+        "inside": c.domain.inside(),
+        "exits": exits,
+        "extrapolated_limits": c.domain.extrapolated.iter().map(|l| l.as_str()).collect::<Vec<_>>(),
+        "limits_say": c.domain.limits_say.as_str(),
+        "bounds": bounds,
+        "span": c.domain_span.map_or(Value::Null, |s| json!({
+            "convention": c.headroom_convention.as_str(),
+            "impact_velocity_m_s": pair(s.velocity_m_s),
+            "collision_angle_deg": pair(s.angle_deg),
+        })),
+        "window_span": c.inside_stretch.map_or(Value::Null, |s| json!({
+            "impact_velocity_m_s": pair(s.velocity_m_s),
+            "collision_angle_deg": pair(s.angle_deg),
+        })),
+    })
 }
 
 /// JSON of a classification against a pair window (check --pair, report).
@@ -240,6 +328,13 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
     );
     o.insert("outside_trial_data".into(), json!(c.outside_trial_data));
     o.insert("prediction".into(), json!(c.prediction.as_str()));
+    o.insert("domain".into(), domain_json(window, c));
+    o.insert("process".into(), json!(window.process));
+    o.insert(
+        "pressure_scope".into(),
+        json!(crate::pair::pressure_default(window.process.as_deref()).1),
+    );
+    o.insert("warnings".into(), json!(c.warnings));
     o.insert("reason".into(), json!(c.reason));
     o.insert(
         "velocity_headroom".into(),
@@ -248,6 +343,113 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
     o.insert("rounding".into(), json!(crate::margin::ROUNDING_RULE));
     o.insert("caution".into(), json!(CAUTION));
     Value::Object(o)
+}
+
+/// JSON of a head-on impact (`check --angle 0deg`): the same keys as a classification where
+/// they have a meaning, `null` where a head-on impact has none (no collision point).
+pub fn head_on_json(window: &PairWindow, h: &HeadOn) -> Value {
+    let mut o = Map::new();
+    o.insert("pair".into(), json!(window.name));
+    o.insert("flyer".into(), material_json(&window.flyer, false));
+    if let Some(Value::Object(f)) = o.get_mut("flyer") {
+        f.insert("thickness_m".into(), sig(window.flyer_thickness.si()));
+    }
+    o.insert("parent".into(), material_json(&window.parent, false));
+    o.insert("convention".into(), json!(window.convention.as_str()));
+    o.insert("impact_velocity_m_s".into(), sig(h.impact_velocity_m_s));
+    o.insert("collision_angle_deg".into(), json!(0.0));
+    for k in [
+        "collision_velocity_m_s",
+        "flow_velocity_m_s",
+        "jetting_critical_angle_deg",
+        "jetting_regime",
+        "interface_wavelength_m",
+        "binding",
+        "binding_kind",
+    ] {
+        o.insert(k.into(), Value::Null);
+    }
+    o.insert("impact_pressure_pa".into(), sig(h.impact.pressure.si()));
+    o.insert(
+        "flyer_particle_velocity_m_s".into(),
+        sig(h.impact.flyer_particle_velocity.si()),
+    );
+    o.insert(
+        "parent_particle_velocity_m_s".into(),
+        sig(h.impact.target_particle_velocity.si()),
+    );
+    o.insert("criteria".into(), json!([]));
+    o.insert("boundaries".into(), json!([]));
+    o.insert("inside".into(), json!(false));
+    o.insert("outside_trial_data".into(), json!(false));
+    o.insert("head_on".into(), json!(true));
+    o.insert(
+        "prediction".into(),
+        json!(crate::classify::Prediction::HeadOn.as_str()),
+    );
+    o.insert("process".into(), json!(window.process));
+    o.insert("warnings".into(), json!(h.warnings));
+    o.insert("reason".into(), json!(crate::classify::HEAD_ON_REASON));
+    o.insert("source".into(), json!(crate::classify::HEAD_ON_SOURCE));
+    o.insert("caution".into(), json!(CAUTION));
+    Value::Object(o)
+}
+
+/// The text of a head-on impact (`check --angle 0deg`): the 1-D impact state and the verdict.
+#[must_use]
+pub fn head_on_text(window: &PairWindow, h: &HeadOn, is_pair: bool) -> String {
+    let mut s = String::new();
+    let pair_note = if is_pair {
+        format!(" (pair window '{}')", window.name)
+    } else {
+        String::new()
+    };
+    s.push_str(&format!(
+        "{} flyer, {:.2} mm, on {} parent{}; head-on impact (collision angle 0)\n\n",
+        window.flyer.material.id,
+        window.flyer_thickness.mm(),
+        window.parent.material.id,
+        pair_note,
+    ));
+    let rows = vec![
+        vec![
+            "impact velocity Vp".into(),
+            format!("{:.1} m/s", h.impact_velocity_m_s),
+            "normal to both plates (every convention agrees)".into(),
+        ],
+        vec![
+            "collision angle beta".into(),
+            "0.00 deg".into(),
+            "head-on: the flyer meets the parent face to face".into(),
+        ],
+        vec![
+            "collision-point velocity Vc".into(),
+            "none".into(),
+            "no collision point sweeps the interface".into(),
+        ],
+        vec![
+            "impact pressure".into(),
+            format!("{:.2} GPa", h.impact.pressure.gpa()),
+            "1-D impedance matching at Vp".into(),
+        ],
+        vec![
+            "jetting critical angle".into(),
+            "none".into(),
+            "no jet forms in a head-on impact".into(),
+        ],
+    ];
+    s.push_str(&table(&["quantity", "value", "note"], &rows));
+    s.push('\n');
+    s.push_str("verdict: NOT WELDED (head-on)\n");
+    s.push_str(&format!("why: {}\n", crate::classify::HEAD_ON_REASON));
+    s.push_str(&format!("source: {}\n", crate::classify::HEAD_ON_SOURCE));
+    s.push_str("advice: tilt the flyer or the parent so that a collision angle forms (the window's limits are checked for angles above 0)\n");
+    for w in &h.warnings {
+        s.push_str(&format!("warning: {w}\n"));
+    }
+    s.push_str(CAUTION);
+    s.push('\n');
+    s
 }
 
 /// A plain text table: columns padded to their widest cell.
@@ -331,17 +533,11 @@ fn quantities_text(window: &PairWindow, c: &Classification, is_pair: bool) -> St
         pair_note,
         col.convention
     ));
-    let jet_note = match e.jetting.regime {
-        oblique_core::jetting::JettingRegime::SubsonicParent => {
-            "subsonic: Vc below C0 of the parent, jet at any angle"
-        }
-        oblique_core::jetting::JettingRegime::SubsonicFlyer => {
-            "subsonic: Vf below C0 of the flyer, jet at any angle"
-        }
-        oblique_core::jetting::JettingRegime::Supersonic => {
-            "supersonic inflow: shock-polar construction"
-        }
-    };
+    let jet_note = jetting_note(&e.jetting);
+    let jet_value = e.jetting.critical_angle_deg().map_or_else(
+        || "none below 90 deg".to_string(),
+        |d| format!("{d:.2} deg"),
+    );
     let rows = vec![
         vec![
             "impact velocity Vp".into(),
@@ -369,10 +565,15 @@ fn quantities_text(window: &PairWindow, c: &Classification, is_pair: bool) -> St
             "1-D impedance matching at Vp".into(),
         ],
         vec![
-            "jetting critical angle".into(),
-            format!("{:.2} deg", e.jetting.critical_angle.degrees()),
-            jet_note.into(),
+            "Vc / C0, Vf / C0".into(),
+            format!(
+                "{:.2}, {:.2}",
+                col.collision_velocity.si() / window.parent.material.hugoniot.c0.si(),
+                col.flow_velocity.si() / window.flyer.material.hugoniot.c0.si()
+            ),
+            "inflow Mach numbers: parent, flyer".into(),
         ],
+        vec!["jetting critical angle".into(), jet_value, jet_note],
         vec![
             "interface wavelength".into(),
             format!("{:.3} mm", e.wavelength.mm()),
@@ -393,6 +594,26 @@ fn quantities_text(window: &PairWindow, c: &Classification, is_pair: bool) -> St
     s
 }
 
+/// The jetting row's note: which streams are supersonic and which rule decided.
+fn jetting_note(j: &oblique_core::jetting::JettingAssessment) -> String {
+    use oblique_core::jetting::JettingRegime;
+    match (j.regime, j.mixed_rule) {
+        (_, Some(oblique_core::MixedRule::SupersonicSidePolar)) => format!(
+            "{}: the supersonic stream's own polar (conservative mixed rule)",
+            j.inflow_text()
+        ),
+        (_, Some(oblique_core::MixedRule::EitherSubsonic)) => format!(
+            "{}: jet at any angle (either-subsonic rule, from memory)",
+            j.inflow_text()
+        ),
+        (JettingRegime::Supersonic, _) if j.none_below_90 => {
+            "both supersonic: the shock polars turn both streams at every angle".into()
+        }
+        (JettingRegime::Supersonic, _) => "both supersonic: shock-polar construction".into(),
+        _ => "both subsonic: jet at any angle".into(),
+    }
+}
+
 /// The table of every criterion and boundary with its margin and where it is reached.
 fn limits_text(window: &PairWindow, c: &Classification) -> String {
     let e = &c.evaluation;
@@ -404,22 +625,34 @@ fn limits_text(window: &PairWindow, c: &Classification) -> String {
             r.id.as_str().to_string(),
             fmt_value(r.value, r.unit),
             format!(
-                "{} {}",
+                "{} {}{}",
                 if r.kind == oblique_core::LimitKind::Lower {
                     ">="
                 } else {
                     "<="
                 },
-                fmt_value(r.limit, r.unit)
+                r.limit_text(),
+                r.limit_tm_celsius.map_or(String::new(), |l| format!(
+                    " ({} if Tm in degC)",
+                    fmt_value(l, r.unit)
+                ))
             ),
             fmt_margin(r.margin, r.unit),
-            if r.informational {
-                "info".into()
-            } else if r.satisfied {
-                "yes".into()
-            } else {
-                "NO".into()
-            },
+            format!(
+                "{}{}",
+                if r.informational {
+                    "info"
+                } else if r.satisfied {
+                    "yes"
+                } else {
+                    "NO"
+                },
+                if c.domain.extrapolated.contains(&r.id) {
+                    "*"
+                } else {
+                    ""
+                }
+            ),
             r.governing.as_str().into(),
             headroom_cells(window, c, &LimitRef::Criterion(r.id)).0,
             headroom_cells(window, c, &LimitRef::Criterion(r.id)).1,
@@ -471,8 +704,11 @@ fn limits_text(window: &PairWindow, c: &Classification) -> String {
         ],
         &crit_rows,
     ));
-    s.push_str("  (velocity headroom: where the limit is reached along the impact velocity at this angle, and the change from the point; angle headroom: the same along the angle at this velocity; margin at this point: value - limit at this Vc)\n");
+    s.push_str("  (velocity headroom: where the limit is reached along the impact velocity at this angle, and the change from the point; angle headroom: the same along the angle at this velocity; both searched inside the validity domain; margin at this point: value - limit at this Vc)\n");
     s.push_str(&format!("  ({})\n", crate::margin::ROUNDING_RULE));
+    if !c.domain.extrapolated.is_empty() {
+        s.push_str("  (*: evaluated outside its validity domain, an extrapolation)\n");
+    }
     s.push('\n');
     s
 }
@@ -480,26 +716,54 @@ fn limits_text(window: &PairWindow, c: &Classification) -> String {
 /// The verdict, the binding and failing limits with their advice, and the caution.
 fn verdict_text(window: &PairWindow, c: &Classification) -> String {
     let mut s = String::new();
-    let verdict = match (c.inside, c.outside_trial_data) {
-        (true, false) => "INSIDE the window",
-        (true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
-        (false, _) => "OUTSIDE the window",
+    let verdict = match (c.domain.inside(), c.inside, c.outside_trial_data) {
+        (false, ..) => "OUTSIDE THE VALIDITY DOMAIN (no verdict claimed)",
+        (true, true, false) => "INSIDE the window",
+        (true, true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
+        (true, false, _) => "OUTSIDE the window",
     };
     s.push_str(&format!("verdict: {verdict}\n"));
+    if !c.domain.inside() {
+        for e in &c.domain.exits {
+            s.push_str(&format!(
+                "domain: {} ({})\n",
+                e.text(),
+                short_source(e.source)
+            ));
+        }
+        let say = match c.domain.limits_say {
+            crate::classify::Prediction::Welded => "inside the window",
+            crate::classify::Prediction::Melted => "melted",
+            _ => "not welded",
+        };
+        s.push_str(&format!(
+            "the limits, extrapolated to this point, would say: {say} (not a prediction)\n"
+        ));
+    }
+    let x = if c.domain.inside() {
+        ""
+    } else {
+        " (extrapolated)"
+    };
     if c.inside {
         if let Some(v) = crate::margin::verdict_velocity_headroom(window, c) {
             s.push_str(&format!("{}\n", v.sentence()));
         }
     } else if let Some(b) = &c.binding {
         s.push_str(&format!(
-            "binding: {}: {}\n",
+            "{}{x}: {}: {}\n",
+            if c.domain.limits_say == crate::classify::Prediction::Welded && !c.domain.inside() {
+                "closest limit"
+            } else {
+                "binding"
+            },
             limit_label(window, b),
             limit_advice(window, c, b)
         ));
     }
     for f in c.failing.iter().filter(|f| Some(*f) != c.binding.as_ref()) {
         s.push_str(&format!(
-            "also failing: {}: {}\n",
+            "also failing{x}: {}: {}\n",
             limit_label(window, f),
             limit_advice(window, c, f)
         ));
@@ -510,7 +774,21 @@ fn verdict_text(window: &PairWindow, c: &Classification) -> String {
     if c.outside_trial_data {
         s.push_str("note: the point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated\n");
     }
+    if window.criteria.pressure_enabled && window.process.as_deref() != Some("magnetic-pulse") {
+        s.push_str(&format!(
+            "note: pressure-lower {}\n",
+            crate::pair::pressure_default(window.process.as_deref()).1
+        ));
+    }
+    for w in &c.warnings {
+        s.push_str(&format!("warning: {w}\n"));
+    }
     s.push_str(CAUTION);
     s.push('\n');
     s
+}
+
+/// A bound's source cut to its first clause, for one-line text.
+fn short_source(source: &str) -> &str {
+    source.split(':').next().unwrap_or(source)
 }

@@ -763,6 +763,8 @@ pub struct NewPair<'a> {
     pub parent_thickness: Option<&'a str>,
     /// Convention of the observations.
     pub convention: Convention,
+    /// The process the window is for (one of `pair::PROCESSES`).
+    pub process: &'a str,
     /// Who maintains the file.
     pub maintainer: &'a str,
     /// Creation date, YYYY-MM-DD.
@@ -779,9 +781,11 @@ pub fn new_pair_text(p: &NewPair<'_>) -> String {
         flyer_thickness,
         parent_thickness,
         convention,
+        process,
         maintainer,
         date,
     } = p;
+    let (pressure_on, pressure_why) = crate::pair::pressure_default(Some(process));
     let parent_line = parent_thickness.map_or(String::new(), |t| {
         format!("    parent_thickness: {},\n", ron_string(t))
     });
@@ -797,6 +801,7 @@ pub fn new_pair_text(p: &NewPair<'_>) -> String {
     parent: {parent},
     flyer_thickness: {thickness},
 {parent_line}    convention: {convention},
+    process: {process},
     maintainer: {maintainer},
     revisions: [
         (date: {date}, note: "created with `oblique pair new`"),
@@ -804,9 +809,11 @@ pub fn new_pair_text(p: &NewPair<'_>) -> String {
     criteria: (
         deribas_lower: (enabled: true, k: 0.6),
         strength_lower: (enabled: true),
-        pressure_lower: (enabled: true, hel_multiple: 5.0),
+        // pressure_lower {pressure_why}
+        pressure_lower: (enabled: {pressure_on}, hel_multiple: 5.0),
         melting_upper: (enabled: true, n: 0.11, form: "a"),
-        jetting: (enabled: true),
+        // mixed: the rule when one plate's inflow is supersonic and the other's subsonic (docs/theory.md §4.3)
+        jetting: (enabled: true, mixed: "supersonic-side-polar"),
         wavy_transition: (enabled: true, critical_reynolds: 10.6),
     ),
     boundaries: [
@@ -822,6 +829,7 @@ pub fn new_pair_text(p: &NewPair<'_>) -> String {
         parent = ron_string(parent),
         thickness = ron_string(flyer_thickness),
         convention = ron_string(convention.as_str()),
+        process = ron_string(process),
         maintainer = ron_string(maintainer),
         date = ron_string(date),
     )

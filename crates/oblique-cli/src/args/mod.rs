@@ -10,7 +10,7 @@ use oblique_core::CriteriaConfig;
 /// The velocity convention, as a flag value.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub enum ConventionArg {
-    /// Vp along the bisector of the collision angle (explosive welding).
+    /// Vp bisects the normals of flyer and parent, beta/2 from each (explosive welding).
     Bisector,
     /// Vp normal to the flyer (magnetic pulse, foil actuator).
     NormalToFlyer,
@@ -24,6 +24,37 @@ impl From<ConventionArg> for oblique_core::Convention {
             ConventionArg::Bisector => oblique_core::Convention::Bisector,
             ConventionArg::NormalToFlyer => oblique_core::Convention::NormalToFlyer,
             ConventionArg::NormalToParent => oblique_core::Convention::NormalToParent,
+        }
+    }
+}
+
+/// The welding process, as a flag value.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ProcessArg {
+    /// Magnetic pulse welding.
+    MagneticPulse,
+    /// Explosive welding.
+    Explosive,
+    /// Vaporizing foil actuator welding.
+    FoilActuator,
+    /// Laser impact welding.
+    Laser,
+    /// Gas gun.
+    GasGun,
+    /// Anything else.
+    Other,
+}
+
+impl ProcessArg {
+    /// The word used in files (`oblique_window::pair::PROCESSES`).
+    pub fn as_str(self) -> &'static str {
+        match self {
+            ProcessArg::MagneticPulse => "magnetic-pulse",
+            ProcessArg::Explosive => "explosive",
+            ProcessArg::FoilActuator => "foil-actuator",
+            ProcessArg::Laser => "laser",
+            ProcessArg::GasGun => "gas-gun",
+            ProcessArg::Other => "other",
         }
     }
 }
@@ -55,6 +86,12 @@ pub struct ConstantArgs {
 }
 
 impl ConstantArgs {
+    /// Whether any constant is set on the command line.
+    #[must_use]
+    pub fn any(&self) -> bool {
+        self.deribas_k.is_some() || self.wittman_n.is_some() || self.hel_multiple.is_some()
+    }
+
     /// Apply the command-line constant overrides to a criteria configuration.
     #[must_use]
     pub fn apply(&self, mut cfg: CriteriaConfig) -> CriteriaConfig {

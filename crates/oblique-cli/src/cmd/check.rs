@@ -1,12 +1,13 @@
 //! `oblique check`: one process point against the window criteria (or a pair window).
 
-use crate::args::{ConstantArgs, ConventionArg, ScatterArgs, VelocityInput};
-use crate::common::{ad_hoc_window, classify_given, load_library, need};
+use crate::args::{ConstantArgs, ConventionArg, ProcessArg, ScatterArgs, VelocityInput};
+use crate::common::{ad_hoc_window, classify_given, load_library, need, refuse_empty_window};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{classification_json, classification_text, emit, emit_json};
 use crate::qarg;
 use clap::Args;
 use oblique_core::units::Length;
+use oblique_window::present::{head_on_json, head_on_text};
 use std::path::PathBuf;
 
 /// Flags of `oblique check`.
@@ -17,11 +18,16 @@ use std::path::PathBuf;
   oblique check --pair demo-al6061-on-cu --velocity 320m/s --angle 9deg
   oblique check --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg \\
       --velocity-sd 5% --angle-sd 1deg
+  oblique check --flyer ti-gr2 --parent cu-c11000 --flyer-thickness 0.127mm --velocity 900m/s --angle 0deg --convention normal-to-flyer --process laser
 
 With --velocity-sd, --angle-sd (or --samples, --seed, --model-uncertainty) the weld probability is
 estimated by sampling: the stated scatter, and (model uncertainty on, the default) the criterion
 constants and material properties from the distributions of docs/theory.md section 15. The
 probability is conditional on the model and on those distributions.
+
+A point outside the validity domain (docs/theory.md §7.1: collision angle up to 30 deg, Vp 50 to
+2000 m/s, Vc and Vf up to 2 C0, flyer 10 um to 50 mm) gets no verdict: OUTSIDE THE VALIDITY
+DOMAIN. An angle of 0 is a head-on impact: not welded, no collision point sweeps the interface.
 
 Exit status: 0 when the check ran (inside or not), 2 on bad input.
 Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts are
@@ -44,12 +50,16 @@ pub struct CheckArgs {
     pub parent_thickness: Option<f64>,
     #[command(flatten)]
     pub velocity: VelocityInput,
-    /// Dynamic collision angle beta, strictly between 0 and 90 deg, e.g. 12deg.
-    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+    /// Dynamic collision angle beta, from 0 (a head-on impact) to below 90 deg, e.g. 12deg.
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_or_head_on)]
     pub angle: f64,
     /// How Vp relates to Vc: bisector, normal-to-flyer or normal-to-parent (required unless --pair gives it).
     #[arg(long, value_enum, value_name = "CONVENTION")]
     pub convention: Option<ConventionArg>,
+    /// The welding process, for a check without --pair: sets whether the pressure limit is on
+    /// (off for explosive welding; default: on, its source states it for magnetic pulse welding).
+    #[arg(long, value_enum, value_name = "PROCESS", conflicts_with = "pair")]
+    pub process: Option<ProcessArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,
     #[command(flatten)]
@@ -83,6 +93,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
                 )?,
                 a.parent_thickness,
                 convention.into(),
+                a.process.map(ProcessArg::as_str),
             )?
         }
     };
@@ -91,6 +102,10 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
     }
     let fitted_note = fitted_note(&window, &a.constants);
     window.criteria = a.constants.apply(window.criteria.clone());
+    refuse_empty_window(&window, &a.constants)?;
+    if qarg::is_head_on(a.angle) {
+        return head_on(&window, &a);
+    }
     let (point, c) = classify_given(&window, a.convention, &a.velocity, a.angle)?;
     let probability = if a.scatter.asked() {
         let p = oblique_confidence::Point {
@@ -198,4 +213,24 @@ fn fitted_note(window: &oblique_window::PairWindow, flags: &ConstantArgs) -> Opt
     s.pop();
     s.push('\n');
     Some(s)
+}
+
+/// A head-on impact (`--angle 0deg`): not welded, with the 1-D impact state.
+fn head_on(window: &oblique_window::PairWindow, a: &CheckArgs) -> CmdResult {
+    let Some(vp) = a.velocity.velocity else {
+        return Err(Fail::input(
+            "--collision-velocity: a head-on impact (--angle 0deg) has no collision point; give the impact velocity with --velocity",
+        ));
+    };
+    let h = oblique_window::classify::classify_head_on(window, &window.setup()?, vp)?;
+    if a.json {
+        let mut v = head_on_json(window, &h);
+        if let Some(o) = v.as_object_mut() {
+            if a.pair.is_none() {
+                o.insert("pair".into(), serde_json::Value::Null);
+            }
+        }
+        return emit_json(&v);
+    }
+    emit(&head_on_text(window, &h, a.pair.is_some()))
 }

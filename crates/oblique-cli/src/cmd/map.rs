@@ -36,8 +36,12 @@ but then computes no lengths or segments.
 Output: one row per classified input row: row (line number), the input fields as written, then
 verdict, binding limit, its margin (in that limit's unit, positive = on the welding side) and
 relative margin (over the limit's own value), every failing limit, Vc, Vf and impact pressure;
---all-columns adds Vp, the jetting critical angle and the margin of every decisive limit. The summary goes to standard
-error, or to standard output when -o is given; --json prints it as JSON instead (needs -o).
+--all-columns adds Vp, the jetting critical angle and the margin of every decisive limit.
+Verdicts: welded, not-welded, melted, head-on (angle 0: not welded, no collision point sweeps
+the interface) and outside-domain (outside the validity domain of docs/theory.md §7.1: no
+verdict claimed). The summary accounts for the whole interface (welded, melted, unbonded,
+outside the domain, no verdict) and goes to standard error, or to standard output when -o is
+given; --json prints it as JSON instead (needs -o).
 
 Examples:
   oblique map interface.csv --pair demo-al6061-on-cu -o map.csv --strip-svg strip.svg
@@ -225,6 +229,7 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
         .clone();
     let window_criteria = window.criteria.clone();
     window.criteria = a.constants.apply(window.criteria.clone());
+    crate::common::refuse_empty_window(&window, &a.constants)?;
     let opts = map_options(&a, &window, &window_criteria, stdin);
 
     // The input and its header, then the classifier.

@@ -1,6 +1,6 @@
 //! `oblique pair ...`: list, show, new, observe, import, validate, agreement.
 
-use crate::args::ConventionArg;
+use crate::args::{ConventionArg, ProcessArg};
 use crate::common::{load_library, today, user_dirs};
 use crate::fail::{CmdResult, Fail};
 use crate::output::{emit, emit_json, material_json, sig, table};
@@ -33,17 +33,6 @@ fn outcome_word(o: OutcomeArg) -> &'static str {
         OutcomeArg::NotWelded => "not-welded",
         OutcomeArg::Partial => "partial",
         OutcomeArg::Melted => "melted",
-    }
-}
-
-fn process_word(p: ProcessArg) -> &'static str {
-    match p {
-        ProcessArg::MagneticPulse => "magnetic-pulse",
-        ProcessArg::Explosive => "explosive",
-        ProcessArg::FoilActuator => "foil-actuator",
-        ProcessArg::Laser => "laser",
-        ProcessArg::GasGun => "gas-gun",
-        ProcessArg::Other => "other",
     }
 }
 
@@ -85,22 +74,6 @@ pub enum OutcomeArg {
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
-pub enum ProcessArg {
-    /// Magnetic pulse welding.
-    MagneticPulse,
-    /// Explosive welding.
-    Explosive,
-    /// Vaporizing foil actuator welding.
-    FoilActuator,
-    /// Laser impact welding.
-    Laser,
-    /// Gas gun.
-    GasGun,
-    /// Anything else.
-    Other,
-}
-
-#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub enum MethodArg {
     /// Measured (PDV, high-speed imaging, ...).
     Measured,
@@ -133,6 +106,10 @@ pub struct NewArgs {
     /// Convention in which the trials' velocities are recorded.
     #[arg(long, value_enum, default_value = "normal-to-flyer")]
     pub convention: ConventionArg,
+    /// Process the window is for; sets whether the pressure limit is on by default (on for
+    /// magnetic pulse, off for explosive welding: docs/theory.md §5.4).
+    #[arg(long, value_enum, default_value = "magnetic-pulse")]
+    pub process: ProcessArg,
     /// Who maintains the file (default: $USER).
     #[arg(long, value_name = "TEXT")]
     pub maintainer: Option<String>,
@@ -477,6 +454,7 @@ fn new_pair(dirs: &[PathBuf], a: NewArgs) -> CmdResult {
         parent_thickness,
         description,
         convention,
+        process,
         maintainer,
         json,
     } = a;
@@ -525,6 +503,7 @@ fn new_pair(dirs: &[PathBuf], a: NewArgs) -> CmdResult {
         flyer_thickness: &thickness,
         parent_thickness: parent_thickness.as_deref(),
         convention: convention.into(),
+        process: process.as_str(),
         maintainer: &who,
         date: &date,
     });
@@ -573,7 +552,7 @@ fn observe(dirs: &[PathBuf], a: ObserveArgs) -> CmdResult {
         velocity: format!("{velocity} m/s"),
         angle: format!("{} deg", round_deg(angle.to_degrees())),
         outcome: outcome_word(outcome).into(),
-        process: process_word(process).into(),
+        process: process.as_str().into(),
         method: method_word(method).into(),
         velocity_uncertainty: velocity_uncertainty.map(|v| format!("{v} m/s")),
         angle_uncertainty: angle_uncertainty.map(|a| format!("{} deg", round_deg(a.to_degrees()))),

@@ -110,6 +110,7 @@ pub fn window_from(
                 "bisector, normal-to-flyer or normal-to-parent",
             )?
             .into(),
+            None,
         ),
     }
 }

@@ -324,6 +324,7 @@ fn run_point(dirs: &[PathBuf], a: &ReportArgs) -> CmdResult {
         .map_err(|m| Fail::input(format!("--pair: {m}")))?
         .clone();
     window.criteria = a.constants.apply(window.criteria.clone());
+    crate::common::refuse_empty_window(&window, &a.constants)?;
     let conv: Convention = a.convention.map_or(window.convention, Into::into);
     let given = collision(
         conv,

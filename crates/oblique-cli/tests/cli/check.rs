@@ -173,12 +173,12 @@ fn bad_input_names_the_flag_and_exits_2() {
         &["--velocity", "unknown unit 'mph'"],
     );
     fails_with(
-        &with(&["--velocity", "350m/s", "--angle", "0deg"]),
-        &["--angle", "outside (0, 90) deg"],
+        &with(&["--velocity", "350m/s", "--angle", "-1deg"]),
+        &["--angle", "outside [0, 90) deg"],
     );
     fails_with(
         &with(&["--velocity", "350m/s", "--angle", "95deg"]),
-        &["--angle", "outside (0, 90) deg"],
+        &["--angle", "outside [0, 90) deg"],
     );
     fails_with(
         &with(&["--velocity", "0m/s", "--angle", "12deg"]),
@@ -528,4 +528,198 @@ fn plot_probability_draws_contours_and_states_the_scatter() {
         ],
         &["need --probability"],
     );
+}
+
+/// Issue 14, each finding as the command line shows it.
+mod edges {
+    use super::*;
+
+    /// At 89.9 deg the verdict was "INSIDE the window" and the span ran to 89.75 deg.
+    #[test]
+    fn a_steep_angle_gets_no_verdict() {
+        let o = run(&with(&["--velocity", "420m/s", "--angle", "89.9deg"]));
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        let s = stdout(&o);
+        assert!(s.contains("verdict: OUTSIDE THE VALIDITY DOMAIN"), "{s}");
+        assert!(!s.contains("verdict: INSIDE"), "{s}");
+        assert!(!s.contains("89.75"), "{s}");
+        let o = run(&with(&[
+            "--velocity",
+            "420m/s",
+            "--angle",
+            "89.9deg",
+            "--json",
+        ]));
+        let v: Value = serde_json::from_str(&stdout(&o)).unwrap();
+        assert_eq!(v["inside"], false);
+        assert_eq!(v["prediction"], "outside-domain");
+        assert_eq!(v["domain"]["inside"], false);
+        assert_eq!(v["domain"]["exits"][0]["quantity"], "collision_angle");
+        assert_eq!(v["domain"]["limits_say"], "welded");
+        assert_eq!(v["domain"]["bounds"].as_array().map(Vec::len), Some(5));
+        // The Hugoniot intercept under its own name, the old key kept for scripts.
+        assert_eq!(
+            v["flyer"]["hugoniot_c0_m_s"],
+            v["flyer"]["bulk_sound_speed_m_s"]
+        );
+    }
+
+    /// At 35 000 m/s and 12 deg the melting limit was "not cured by changing the impact
+    /// velocity or the angle alone"; at 1 m/s and 0.01 deg the advice was "lower the impact
+    /// velocity to 0 m/s".
+    #[test]
+    fn advice_stays_inside_the_domain() {
+        let s = stdout(&run(&with(&["--velocity", "35000m/s", "--angle", "12deg"])));
+        assert!(
+            s.contains("melting-upper: velocity shortfall: the impact velocity must fall by"),
+            "{s}"
+        );
+        assert!(s.contains("at this angle the window spans Vp"), "{s}");
+        assert!(!s.contains("not cured"), "{s}");
+        let s = stdout(&run(&with(&["--velocity", "1m/s", "--angle", "0.01deg"])));
+        assert!(!s.contains(" 0 m/s at this angle"), "{s}");
+        assert!(
+            s.contains("not reachable inside the validity domain"),
+            "{s}"
+        );
+    }
+
+    /// The jetting critical angle of Ti grade 2 on Cu, 0.127 mm, at 900 m/s and 1 deg was
+    /// 196.78 deg; at 0 deg the check refused the input instead of the head-on verdict
+    /// (Abdelmaola et al., Metals 14 (2024) 342: the head-on centre of such a laser impact weld
+    /// stayed unwelded).
+    #[test]
+    fn titanium_on_copper_at_the_edges() {
+        let ti = [
+            "check",
+            "--flyer",
+            "ti-gr2",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "0.127mm",
+            "--velocity",
+            "900m/s",
+            "--convention",
+            "normal-to-flyer",
+            "--json",
+        ];
+        let mut a = ti.to_vec();
+        a.extend(["--angle", "1deg"]);
+        let v: Value = serde_json::from_str(&stdout(&run(&a))).unwrap();
+        let crit = v["jetting_critical_angle_deg"].as_f64();
+        assert!(crit.is_none_or(|d| (0.0..90.0).contains(&d)), "{crit:?}");
+        assert_eq!(v["prediction"], "outside-domain");
+        let mut a = ti.to_vec();
+        a.extend(["--angle", "0deg", "--process", "laser"]);
+        let o = run(&a);
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        let v: Value = serde_json::from_str(&stdout(&o)).unwrap();
+        assert_eq!(v["prediction"], "head-on");
+        assert_eq!(v["inside"], false);
+        assert!(v["collision_velocity_m_s"].is_null());
+        assert!(v["impact_pressure_pa"].as_f64().is_some_and(|p| p > 1e10));
+        assert!(v["source"]
+            .as_str()
+            .is_some_and(|s| s.contains("Abdelmaola")));
+        let s = stdout(&run(&with(&["--velocity", "400m/s", "--angle", "0deg"])));
+        assert!(s.contains("verdict: NOT WELDED (head-on)"), "{s}");
+        // Numerically head-on too.
+        let s = stdout(&run(&with(&[
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "1e-300deg",
+        ])));
+        assert!(s.contains("verdict: NOT WELDED (head-on)"), "{s}");
+        fails_with(
+            &with(&["--collision-velocity", "2km/s", "--angle", "0deg"]),
+            &["--collision-velocity", "head-on"],
+        );
+    }
+
+    /// Plausibility warnings at the point of entry.
+    #[test]
+    fn implausible_inputs_are_warned_about() {
+        let mut a = BASE.to_vec();
+        a[6] = "500mm";
+        a.extend(["--velocity", "420m/s", "--angle", "11deg"]);
+        let s = stdout(&run(&a));
+        assert!(s.contains("warning: flyer thickness 500 mm"), "{s}");
+        let s = stdout(&run(&with(&[
+            "--collision-velocity",
+            "60000m/s",
+            "--angle",
+            "0.2deg",
+        ])));
+        assert!(
+            s.contains("warning: collision-point velocity 60000 m/s"),
+            "{s}"
+        );
+    }
+
+    /// The mixed jetting case is never silent (382 m/s, 5 deg: Vc above the copper's C0, Vf
+    /// below the aluminium's).
+    #[test]
+    fn the_mixed_jetting_case_is_warned_about() {
+        let s = stdout(&run(&with(&["--velocity", "382m/s", "--angle", "5deg"])));
+        assert!(s.contains("warning: jetting in the mixed regime"), "{s}");
+        assert!(s.contains("supersonic-side polar rule"), "{s}");
+    }
+
+    /// The pressure limit is scoped by process: off for explosive welding.
+    #[test]
+    fn the_pressure_limit_follows_the_process() {
+        let mut a = with(&["--velocity", "420m/s", "--angle", "11deg", "--json"]);
+        let v: Value = serde_json::from_str(&stdout(&run(&a))).unwrap();
+        assert!(v["criteria"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|c| c["id"] == "pressure-lower"));
+        a.extend(["--process", "explosive"]);
+        let v: Value = serde_json::from_str(&stdout(&run(&a))).unwrap();
+        assert!(v["criteria"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .all(|c| c["id"] != "pressure-lower"));
+        assert_eq!(v["process"], "explosive");
+    }
+
+    /// The melting limit's scale uncertainty is shown beside the limit.
+    #[test]
+    fn the_melting_scale_uncertainty_is_shown() {
+        let s = stdout(&run(&with(&["--velocity", "420m/s", "--angle", "11deg"])));
+        assert!(s.contains("if Tm in degC"), "{s}");
+    }
+
+    /// A Deribas k that leaves its limit unsatisfiable in the domain is refused.
+    #[test]
+    fn a_constant_that_empties_the_window_is_refused() {
+        fails_with(
+            &with(&[
+                "--velocity",
+                "420m/s",
+                "--angle",
+                "11deg",
+                "--deribas-k",
+                "5",
+            ]),
+            &[
+                "--deribas-k",
+                "the window is empty",
+                "deribas-lower with k = 5",
+            ],
+        );
+    }
+
+    /// --help said the bisector convention had "Vp along the bisector of the collision
+    /// angle"; Vp bisects the plates' normals (docs/theory.md §2.1).
+    #[test]
+    fn help_words_the_bisector_convention_right() {
+        let s = stdout(&run(&["check", "--help"]));
+        assert!(!s.contains("bisector of the collision angle"), "{s}");
+        assert!(s.contains("bisects the normals"), "{s}");
+    }
 }

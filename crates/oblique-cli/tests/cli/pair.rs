@@ -97,6 +97,36 @@ fn new_user_workflow_create_record_import_agree_check() {
     );
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(p.join("al-on-cu.ron").is_file());
+    // The new file names its process and the mixed jetting rule (issue 14).
+    let text = std::fs::read_to_string(p.join("al-on-cu.ron")).unwrap();
+    assert!(text.contains("process: \"magnetic-pulse\""), "{text}");
+    assert!(text.contains("mixed: \"supersonic-side-polar\""), "{text}");
+    // An explosive window starts with the pressure limit off, and loads without a reason.
+    let o = in_lib(
+        p,
+        &[
+            "pair",
+            "new",
+            "cu-on-steel",
+            "--flyer",
+            "cu-c11000",
+            "--parent",
+            "steel-1018",
+            "--flyer-thickness",
+            "3mm",
+            "--convention",
+            "bisector",
+            "--process",
+            "explosive",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = in_lib(p, &["pair", "show", "cu-on-steel"]);
+    assert!(
+        stdout(&o).contains("pressure-lower   off"),
+        "{}",
+        stdout(&o)
+    );
     let shots = [
         ("420m/s", "8deg", "welded"),
         ("300m/s", "10deg", "not-welded"),

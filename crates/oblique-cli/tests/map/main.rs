@@ -93,7 +93,9 @@ pub(crate) fn column(csv: &str, name: &str) -> Vec<String> {
 
 pub(crate) const BASIC_VERDICTS: [&str; 8] = [
     "not-welded",
-    "not-welded",
+    // 450 m/s at 2.5 deg: Vc = 10.3 km/s, 2.6 times the copper's C0, outside the validity
+    // domain (issue 14; it was not-welded, an extrapolation).
+    "outside-domain",
     "welded",
     "welded",
     "welded",
@@ -149,8 +151,14 @@ fn basic_fixture_verdicts_and_summary() {
     assert_eq!(v["rows_classified"], 8);
     assert_eq!(v["rows_rejected"], 0);
     assert_eq!(v["verdict_counts"]["welded"], 4);
-    assert_eq!(v["verdict_counts"]["not-welded"], 2);
+    assert_eq!(v["verdict_counts"]["not-welded"], 1);
+    assert_eq!(v["verdict_counts"]["outside-domain"], 1);
+    assert_eq!(v["verdict_counts"]["head-on"], 0);
     assert_eq!(v["verdict_counts"]["melted"], 2);
+    assert_eq!(
+        v["validity_domain"]["rows_outside_each_bound"]["parent_mach"],
+        1
+    );
     // Points 1 mm apart from 0 to 7 mm: each owns half the distance to its neighbours, so
     // welded = 1 + 1 + 1 + 0.5 mm of 7 mm.
     let wl = v["welded_length_m"].as_f64().expect("number");
@@ -392,7 +400,7 @@ fn bad_rows_save_writes_a_side_file_with_reasons() {
     );
     assert_eq!(column(&s, "row"), ["3", "4", "5", "6", "7", "8", "11"]);
     let reasons = column(&s, "reason");
-    assert!(reasons[1].contains("outside (0, 90) deg"), "{reasons:?}");
+    assert!(reasons[1].contains("outside [0, 90) deg"), "{reasons:?}");
     assert!(reasons[2].contains("empty"), "{reasons:?}");
 }
 

@@ -402,7 +402,7 @@ fn nothing_classified_is_an_error() {
         "{err}"
     );
     assert!(
-        err.contains("'12' (angle[rad]) = 687.549 deg is outside (0, 90) deg"),
+        err.contains("'12' (angle[rad]) = 687.549 deg is outside [0, 90) deg"),
         "{err}"
     );
     assert!(err.contains("write angle[deg] in the header"), "{err}");
@@ -605,4 +605,105 @@ fn min_segment_joins_short_runs() {
         "--unsorted",
     ]);
     assert_eq!(o.status.code(), Some(2));
+}
+
+/// Issue 14: a row at angle 0 (the centre of a simulated interface, where the plates meet
+/// head-on) was rejected as bad input; it is classified `head-on` (not welded: no collision
+/// point sweeps the interface). Melted length is reported apart from the unbonded length (it
+/// was counted as unbonded), and every millimetre is accounted for.
+#[test]
+fn head_on_rows_and_melted_length_are_accounted() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = write_input(
+        &dir,
+        "centre.csv",
+        "position[mm],velocity[m/s],angle[deg]\n0,450,0\n1,450,0\n2,700,9\n3,700,9\n4,450,12\n5,450,12\n",
+    );
+    let (v, csv) = summary_json(&[path_str(&input)]);
+    assert_eq!(
+        column(&csv, "verdict"),
+        ["head-on", "head-on", "melted", "melted", "welded", "welded"]
+    );
+    assert_eq!(v["rows_read"], 6);
+    assert_eq!(v["rows_classified"], 6);
+    assert_eq!(v["rows_rejected"], 0);
+    assert_eq!(v["verdict_counts"]["head-on"], 2);
+    // Head-on rows have no binding limit, no collision point, but an impact pressure.
+    assert_eq!(column(&csv, "binding")[0], "");
+    assert_eq!(column(&csv, "collision_velocity[m/s]")[0], "");
+    assert!(!column(&csv, "impact_pressure[GPa]")[0].is_empty());
+    // Each point owns half the distance to its neighbours: head-on 1.5 mm, melted 2 mm,
+    // welded 1.5 mm. From the start to the first welded segment (3.5 mm): unbonded 1.5 mm
+    // (the head-on centre), melted 2 mm (bonded, brittle), reported apart.
+    let num = |x: &Value| x.as_f64().expect("number");
+    assert!(
+        (num(&v["unbonded_length_start_m"]) - 1.5e-3).abs() < 1e-12,
+        "{v}"
+    );
+    assert!(
+        (num(&v["melted_length_start_m"]) - 2.0e-3).abs() < 1e-12,
+        "{v}"
+    );
+    let acc = &v["length_accounting_m"];
+    assert!((num(&acc["welded"]) - 1.5e-3).abs() < 1e-12);
+    assert!((num(&acc["melted"]) - 2.0e-3).abs() < 1e-12);
+    assert!((num(&acc["unbonded"]) - 1.5e-3).abs() < 1e-12);
+    assert!((num(&acc["total"]) - 5.0e-3).abs() < 1e-12);
+    assert_eq!(num(&acc["no_verdict"]), 0.0);
+    let ends = &v["ends_to_weld_m"]["start"];
+    assert!((num(&ends["head-on"]) - 1.5e-3).abs() < 1e-12);
+    // The text says so too.
+    let o = run(&["map", path_str(&input), "--pair", PAIR]);
+    assert!(o.status.success(), "{}", text(&o.stderr));
+    let err = text(&o.stderr);
+    assert!(err.contains("head-on 2 (33.3 %)"), "{err}");
+    assert!(err.contains("melted 2.000 mm (bonded, brittle)"), "{err}");
+    // A head-on row cannot carry a collision-point velocity.
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        PAIR,
+        "--velocity-kind",
+        "collision",
+    ]);
+    assert_fails_with(&o, "a head-on impact has no collision point");
+}
+
+/// Rows outside the validity domain (issue 14) are counted by bound, and rows supersonic in
+/// one plate (the mixed jetting case) are counted.
+#[test]
+fn domain_and_mixed_jetting_rows_are_counted() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let input = write_input(
+        &dir,
+        "edges.csv",
+        "position[mm],velocity[m/s],angle[deg]\n0,450,40\n1,3000,12\n2,382,5\n3,450,12\n",
+    );
+    let (v, csv) = summary_json(&[path_str(&input)]);
+    assert_eq!(
+        column(&csv, "verdict")[..2],
+        ["outside-domain", "outside-domain"]
+    );
+    let d = &v["validity_domain"];
+    assert_eq!(d["outside_rows"], 2);
+    assert_eq!(d["rows_outside_each_bound"]["collision_angle"], 1);
+    assert_eq!(d["rows_outside_each_bound"]["impact_velocity"], 1);
+    assert!(d["bounds"].as_array().is_some_and(|b| b.len() == 5));
+    // 382 m/s at 5 deg: Vc 4383 m/s above the copper's C0, Vf below the aluminium's.
+    assert!(
+        v["jetting"]["mixed_rows"].as_u64().is_some_and(|n| n >= 1),
+        "{v}"
+    );
+    assert!(v["jetting"]["supersonic_rows"]
+        .as_u64()
+        .is_some_and(|n| n >= 1));
+    assert_eq!(v["jetting"]["mixed_rule"], "supersonic-side-polar");
+    let o = run(&["map", path_str(&input), "--pair", PAIR]);
+    let err = text(&o.stderr);
+    assert!(err.contains("in one plate only (the mixed case"), "{err}");
+    assert!(
+        err.contains("validity domain: 2 row(s) outside it"),
+        "{err}"
+    );
 }

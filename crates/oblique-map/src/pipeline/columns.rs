@@ -11,11 +11,7 @@ use oblique_window::classify::Prediction;
 pub(super) fn computed_csv(ctx: &Ctx<'_>, margins: &[f64], out: &mut RowWriter<'_>, p: &Point) {
     // Decimals fixed per column, so each conversion is inlined for its count.
     let plan = &ctx.csv_plan;
-    let v = match p.verdict {
-        Prediction::Welded => 0,
-        Prediction::NotWelded => 1,
-        Prediction::Melted => 2,
-    };
+    let v = p.verdict.index();
     match ctx.verdict_words.get(v) {
         Some(w) => out.word(w),
         None => {

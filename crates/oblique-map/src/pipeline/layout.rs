@@ -49,7 +49,7 @@ pub struct Ctx<'a> {
     /// For a window of at most eight limits, the `failing_limits` text of every failing set,
     /// indexed by its bit mask (`Point::failing`); empty otherwise.
     pub failing_texts: Vec<Vec<u8>>,
-    /// `,verdict,` for each verdict (welded, not-welded, melted), padded.
+    /// `,verdict,` for each verdict (in `Prediction::ALL` order), padded.
     pub verdict_words: Vec<Word>,
     /// Binding limit ids as CSV fields, padded (`None` if one is too long to pad).
     pub binding_words: Option<Vec<Word>>,
@@ -252,14 +252,10 @@ impl<'a> Ctx<'a> {
         let binding_json = ids(push_json_string);
         let binding_max = binding_csv.iter().map(Vec::len).max().unwrap_or(0);
         // Short constants: they always fit a word.
-        let verdict_words: Vec<Word> = [
-            Prediction::Welded,
-            Prediction::NotWelded,
-            Prediction::Melted,
-        ]
-        .iter()
-        .filter_map(|v| Word::new(format!(",{},", v.as_str()).as_bytes()))
-        .collect();
+        let verdict_words: Vec<Word> = Prediction::ALL
+            .iter()
+            .filter_map(|v| Word::new(format!(",{},", v.as_str()).as_bytes()))
+            .collect();
         let outside_words: Vec<Word> = [b",true".as_slice(), b",false"]
             .iter()
             .filter_map(|t| Word::new(t))

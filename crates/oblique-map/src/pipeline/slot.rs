@@ -20,6 +20,12 @@ pub struct ChunkStats {
     pub welded_outside: u64,
     /// Rows solved directly for jetting.
     pub jetting_direct: u64,
+    /// Rows whose collision is supersonic in at least one plate.
+    pub supersonic: u64,
+    /// Rows supersonic in one plate and subsonic in the other (the mixed jetting case).
+    pub mixed: u64,
+    /// Rows outside each bound of the validity domain (`DomainQuantity::ALL` order).
+    pub domain_exits: [u64; 5],
     /// Pass-through cells whose bytes are not UTF-8 (JSON output replaces them).
     pub non_utf8_cells: u64,
     /// Smallest margin per limit among welded rows, with its row.

@@ -7,11 +7,14 @@
 const MAX_POSITION_M: f64 = 1e3;
 /// Rows faster than this (m/s) are refused, as on the command line (common practice bound).
 const MAX_VELOCITY_M_S: f64 = 1e5;
+/// Rows with a collision angle from 0 up to below this (deg) are head-on (numerically: no
+/// oblique relation covers them), with a verdict of their own; the command line's bound.
+pub(crate) const HEAD_ON_DEG: f64 = 1e-6;
 
 use super::columns::{computed_csv, computed_json};
 use super::layout::Ctx;
 use super::slot::Slot;
-use crate::classifier::Point;
+use crate::classifier::{Point, VelocityKind};
 use crate::format::{
     fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, Counter, TextBuf,
 };
@@ -21,7 +24,6 @@ use crate::input::{
 };
 use crate::options::{BadRows, Format};
 use crate::record::{Lite, Rejected};
-use oblique_window::classify::Prediction;
 use serde_json::{Map, Value};
 
 /// The values read from one row.
@@ -84,13 +86,12 @@ impl Worker {
         (position.abs() <= MAX_POSITION_M
             && velocity > 0.0
             && velocity <= MAX_VELOCITY_M_S
-            && deg > 0.0
-            && deg < 90.0)
-            .then_some(RowValues {
-                position,
-                velocity,
-                angle,
-            })
+            && (HEAD_ON_DEG..90.0).contains(&deg))
+        .then_some(RowValues {
+            position,
+            velocity,
+            angle,
+        })
     }
 
     fn values(&self, ctx: &Ctx<'_>, cells: &Cells<'_>) -> Result<RowValues, Bad> {
@@ -173,7 +174,16 @@ impl Worker {
             ));
         }
         let deg = angle.to_degrees();
-        if !(deg > 0.0 && deg < 90.0) {
+        if (0.0..HEAD_ON_DEG).contains(&deg) && ctx.classifier.kind() == VelocityKind::Collision {
+            return Err((
+                h.angle.cell.clone(),
+                format!(
+                    "{} with a collision-point velocity: a head-on impact has no collision point (give the impact velocity, --velocity-kind impact)",
+                    as_written(&h.angle, "deg", deg)
+                ),
+            ));
+        }
+        if !(0.0..90.0).contains(&deg) {
             let unit = split_cell(&h.angle.cell).1.unwrap_or("");
             let hint = if unit != "deg" && deg >= 90.0 {
                 format!(
@@ -186,7 +196,7 @@ impl Worker {
             return Err((
                 h.angle.cell.clone(),
                 format!(
-                    "{} is outside (0, 90) deg{hint}",
+                    "{} is outside [0, 90) deg{hint}",
                     as_written(&h.angle, "deg", deg)
                 ),
             ));
@@ -304,10 +314,13 @@ impl Worker {
             Some(v) => v,
             None => self.values(ctx, &cells)?,
         };
-        let p = ctx
-            .classifier
-            .classify(v.velocity, v.angle, &mut self.margins)
-            .map_err(|e| ("(classification)".to_string(), e.to_string()))?;
+        let p = if v.angle.to_degrees() < HEAD_ON_DEG {
+            ctx.classifier.head_on(v.velocity, &mut self.margins)
+        } else {
+            ctx.classifier
+                .classify(v.velocity, v.angle, &mut self.margins)
+        }
+        .map_err(|e| ("(classification)".to_string(), e.to_string()))?;
         let out = &mut slot.out;
         let out_start = out.len();
         match ctx.out_format {
@@ -492,11 +505,16 @@ fn json_row(
 /// The per-point record for the summary, and the chunk's counts.
 #[inline(always)]
 fn record(slot: &mut Slot, margins: &[f64], row: u64, position: f64, out_start: usize, p: &Point) {
-    let verdict = match p.verdict {
-        Prediction::Welded => 0u8,
-        Prediction::NotWelded => 1,
-        Prediction::Melted => 2,
-    };
+    let verdict = p.verdict.index() as u8;
+    if p.sonic != 0 {
+        slot.stats.supersonic += 1;
+        if p.sonic != 3 {
+            slot.stats.mixed += 1;
+        }
+    }
+    if p.domain_exits != 0 {
+        outside_domain(slot, p.domain_exits);
+    }
     if p.outside_trial_data {
         slot.stats.outside += 1;
         if verdict == 0 {
@@ -516,7 +534,7 @@ fn record(slot: &mut Slot, margins: &[f64], row: u64, position: f64, out_start: 
                 *slotm = Some((*m, row));
             }
         }
-    } else if let Some(b) = p.binding {
+    } else if let Some(b) = p.binding.filter(|_| verdict <= 2) {
         slot.stats.unwelded_binding[b][usize::from(verdict == 2)] += 1;
     }
     let (margin, binding) = match p.binding {
@@ -534,6 +552,14 @@ fn record(slot: &mut Slot, margins: &[f64], row: u64, position: f64, out_start: 
         margin,
         rel: p.binding_relative,
     });
+}
+
+/// Count a row outside the validity domain, by the bounds it misses.
+#[cold]
+fn outside_domain(slot: &mut Slot, exits: u8) {
+    for (k, n) in slot.stats.domain_exits.iter_mut().enumerate() {
+        *n += u64::from(exits >> k & 1);
+    }
 }
 
 trait MinSlot {

@@ -2,7 +2,7 @@
 //! segments (joined with `--min-segment`), stretches without a verdict where rows were
 //! rejected, and the rejected rows before the first and after the last classified row.
 
-use super::{OutOfOrder, Run, StripAcc, Summary, GAP_CAP, SEGMENT_CAP};
+use super::{OutOfOrder, Run, StripAcc, Summary, GAP_CAP, N_VERDICTS, SEGMENT_CAP};
 use crate::record::Lite;
 
 impl Summary {
@@ -55,7 +55,12 @@ impl Summary {
             if self.gaps.len() < GAP_CAP {
                 self.gaps.push((px, x));
             }
-            self.cur_seg = Some(new_run(u8::from(p.verdict != 0), x, p));
+            self.cur_seg = Some(new_run(
+                u8::from(p.verdict != 0),
+                x,
+                p,
+                self.length_by_verdict,
+            ));
             self.prev_boundary = x;
             self.prev = Some((x, p.verdict, p.row));
             return Ok(());
@@ -76,14 +81,19 @@ impl Summary {
             }
         } else {
             self.close_segment(boundary);
-            self.cur_seg = Some(new_run(state, boundary, p));
+            self.cur_seg = Some(new_run(state, boundary, p, self.length_by_verdict));
         }
         self.prev = Some((x, p.verdict, p.row));
         Ok(())
     }
 
     fn open(&mut self, p: &Lite, x: f64) {
-        self.cur_seg = Some(new_run(u8::from(p.verdict != 0), x, p));
+        self.cur_seg = Some(new_run(
+            u8::from(p.verdict != 0),
+            x,
+            p,
+            self.length_by_verdict,
+        ));
         if self.want_strip {
             self.strip = Some(StripAcc::new(x));
         }
@@ -92,6 +102,7 @@ impl Summary {
     pub(super) fn close_segment(&mut self, end: f64) {
         if let Some(mut s) = self.cur_seg.take() {
             s.end = end;
+            s.cum_end = self.length_by_verdict;
             if self.min_segment > 0.0 {
                 self.merge_run(s);
             } else {
@@ -151,8 +162,10 @@ impl Summary {
             if s.verdict == 0 {
                 if self.first_weld_start.is_none() {
                     self.first_weld_start = Some(s.start);
+                    self.first_weld_cum = s.cum_start;
                 }
                 self.last_weld_end = Some(s.end);
+                self.last_weld_cum = s.cum_end;
                 self.no_verdict_at_ends.1 = 0.0;
                 let longer = match self.longest_welded {
                     Some(l) => (s.end - s.start).abs() > (l.end - l.start).abs(),
@@ -213,6 +226,7 @@ impl Summary {
 /// Extend run `a` by the run `b` that follows it (the state stays `a`'s).
 fn extend_run(a: &mut Run, b: &Run) {
     a.end = b.end;
+    a.cum_end = b.cum_end;
     a.last_row = b.last_row;
     a.points += b.points;
     for (x, y) in a.by_verdict.iter_mut().zip(b.by_verdict) {
@@ -220,8 +234,8 @@ fn extend_run(a: &mut Run, b: &Run) {
     }
 }
 
-fn new_run(verdict: u8, start: f64, p: &Lite) -> Run {
-    let mut by_verdict = [0; 3];
+fn new_run(verdict: u8, start: f64, p: &Lite, cum: [f64; N_VERDICTS]) -> Run {
+    let mut by_verdict = [0; N_VERDICTS];
     by_verdict[p.verdict as usize] = 1;
     Run {
         verdict,
@@ -231,5 +245,7 @@ fn new_run(verdict: u8, start: f64, p: &Lite) -> Run {
         last_row: p.row,
         points: 1,
         by_verdict,
+        cum_start: cum,
+        cum_end: cum,
     }
 }

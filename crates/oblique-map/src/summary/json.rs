@@ -1,7 +1,7 @@
 //! The summary as JSON: SI values, margins in their criterion's unit, every list capped and
 //! said so.
 
-use super::{Run, Summary, SEGMENT_CAP};
+use super::{Run, Summary, N_VERDICTS, SEGMENT_CAP};
 use crate::options::ConstantNote;
 use oblique_core::jetting_table::JettingTable;
 use oblique_window::classify::Prediction;
@@ -21,7 +21,7 @@ fn segment_json(s: &Run) -> Value {
     })
 }
 
-fn verdict_map(c: &[u64; 3]) -> Value {
+fn verdict_map(c: &[u64; N_VERDICTS]) -> Value {
     let mut m = Map::new();
     for (p, n) in Prediction::ALL.iter().zip(c) {
         m.insert(p.as_str().into(), json!(n));
@@ -148,6 +148,50 @@ impl Summary {
         );
         o.insert("unbonded_length_start_m".into(), json!(u_start.map(sig)));
         o.insert("unbonded_length_end_m".into(), json!(u_end.map(sig)));
+        let (cs, ce) = self.ends_by_verdict();
+        o.insert(
+            "melted_length_start_m".into(),
+            json!(sorted.then(|| sig(cs[2]))),
+        );
+        o.insert(
+            "melted_length_end_m".into(),
+            json!(sorted.then(|| sig(ce[2]))),
+        );
+        let ends = |c: [f64; N_VERDICTS], nv: f64| {
+            let mut m = Map::new();
+            for (p, l) in Prediction::ALL.iter().zip(c) {
+                m.insert(p.as_str().into(), sig(l));
+            }
+            m.insert("no-verdict".into(), sig(nv));
+            Value::Object(m)
+        };
+        o.insert(
+            "ends_to_weld_m".into(),
+            if sorted {
+                json!({
+                    "start": ends(cs, self.no_verdict_at_ends.0),
+                    "end": ends(ce, self.no_verdict_at_ends.1),
+                })
+            } else {
+                Value::Null
+            },
+        );
+        let mut acc = Map::new();
+        for (k, l) in self.accounting() {
+            acc.insert(k.into(), sig(l));
+        }
+        acc.insert(
+            "total".into(),
+            sig(self.accounting().iter().map(|x| x.1).sum()),
+        );
+        o.insert(
+            "length_accounting_m".into(),
+            if sorted {
+                Value::Object(acc)
+            } else {
+                Value::Null
+            },
+        );
         o.insert(
             "unbonded_no_verdict_start_m".into(),
             json!(sorted.then(|| sig(self.no_verdict_at_ends.0))),
@@ -247,6 +291,24 @@ impl Summary {
                 "table_max_inflow_m_s": self.info.table.map(|t| t.1),
                 "error_bound_deg": self.info.table.map(|_| JettingTable::ERROR_BOUND_DEG),
                 "rows_solved_directly": self.jetting_direct,
+                "mixed_rule": self.info.mixed_rule,
+                "supersonic_rows": self.supersonic_rows,
+                "mixed_rows": self.mixed_rows,
+            }),
+        );
+        let mut exits = Map::new();
+        for (q, n) in oblique_core::DomainQuantity::ALL
+            .iter()
+            .zip(self.domain_exits)
+        {
+            exits.insert(q.as_str().into(), json!(n));
+        }
+        o.insert(
+            "validity_domain".into(),
+            json!({
+                "outside_rows": self.counts[Prediction::OutsideDomain.index()],
+                "rows_outside_each_bound": exits,
+                "bounds": self.info.domain.clone(),
             }),
         );
         let mut consts = Map::new();

@@ -15,7 +15,7 @@ mod json;
 mod parts;
 mod text;
 
-pub use parts::{Histogram, Run, Sample, StripAcc};
+pub use parts::{Histogram, Run, Sample, StripAcc, N_VERDICTS};
 
 use crate::format::fmt_g;
 use crate::options::ConstantNote;
@@ -67,7 +67,7 @@ pub struct Summary {
     /// Blank lines (not rows).
     pub blank_lines: u64,
     /// Verdict counts in `Prediction::ALL` order.
-    pub counts: [u64; 3],
+    pub counts: [u64; N_VERDICTS],
     /// Per-limit facts.
     pub limits: Vec<LimitStat>,
     /// Rows outside the span of some user boundary.
@@ -77,6 +77,15 @@ pub struct Summary {
     pub welded_outside_trial_data: u64,
     /// Rows whose jetting test was solved directly.
     pub jetting_direct: u64,
+    /// Rows whose collision is supersonic in at least one plate (the jetting limit rests on
+    /// the shock-polar criterion or on the mixed rule there).
+    pub supersonic_rows: u64,
+    /// Rows supersonic in one plate and subsonic in the other: the mixed jetting case, which no
+    /// source covers.
+    pub mixed_rows: u64,
+    /// Rows outside each bound of the validity domain (`DomainQuantity::ALL` order); a row
+    /// may miss several.
+    pub domain_exits: [u64; 5],
     /// First rejected rows.
     pub examples: Vec<Rejected>,
     /// +1 increasing, -1 decreasing, 0 not yet known.
@@ -86,7 +95,7 @@ pub struct Summary {
     /// Start of the previous point's owned interval.
     prev_boundary: f64,
     /// Owned length per verdict, m.
-    pub length_by_verdict: [f64; 3],
+    pub length_by_verdict: [f64; N_VERDICTS],
     /// Length between classified rows that had rejected rows between them: no verdict there.
     pub length_unclassified: f64,
     /// Rejected rows came after the previous classified row (set by `reject`).
@@ -120,6 +129,10 @@ pub struct Summary {
     pub first_weld_start: Option<f64>,
     /// See `first_weld_start`.
     pub last_weld_end: Option<f64>,
+    /// Owned length per verdict before the first welded segment, m.
+    pub first_weld_cum: [f64; N_VERDICTS],
+    /// Owned length per verdict before the end of the last welded segment, m.
+    pub last_weld_cum: [f64; N_VERDICTS],
     /// Length without a verdict before the first welded segment and after the last one, m.
     pub no_verdict_at_ends: (f64, f64),
     /// Stretches without a verdict (rejected rows between classified ones), m, file order; at
@@ -200,6 +213,10 @@ pub struct RunInfo {
     pub table: Option<(usize, f64)>,
     /// Flyer/parent/thickness line.
     pub pair_line: String,
+    /// The window's rule for the mixed jetting case.
+    pub mixed_rule: &'static str,
+    /// The validity domain's bounds in words (`quantity: range`), for the summary.
+    pub domain: Vec<String>,
 }
 
 impl Summary {
@@ -211,17 +228,20 @@ impl Summary {
             rows_classified: 0,
             rows_rejected: 0,
             blank_lines: 0,
-            counts: [0; 3],
+            counts: [0; N_VERDICTS],
             limits,
             outside_trial_data: 0,
             welded_outside_trial_data: 0,
             jetting_direct: 0,
+            supersonic_rows: 0,
+            mixed_rows: 0,
+            domain_exits: [0; 5],
             examples: Vec::new(),
             direction: 0.0,
             first_pos: None,
             prev: None,
             prev_boundary: 0.0,
-            length_by_verdict: [0.0; 3],
+            length_by_verdict: [0.0; N_VERDICTS],
             length_unclassified: 0.0,
             pending_gap: false,
             lead: (0, None),
@@ -238,6 +258,8 @@ impl Summary {
             segments_total: [0; 2],
             first_weld_start: None,
             last_weld_end: None,
+            first_weld_cum: [0.0; N_VERDICTS],
+            last_weld_cum: [0.0; N_VERDICTS],
             no_verdict_at_ends: (0.0, 0.0),
             gaps: Vec::new(),
             gaps_total: 0,
@@ -434,10 +456,38 @@ impl Summary {
         }
     }
 
-    /// The unbonded length at each end: from the interface's end to the nearest welded
-    /// segment, stretches without a verdict included (they are not known to be welded); the
-    /// whole interface at both ends when nothing is welded.
-    fn unbonded_ends(&self) -> (Option<f64>, Option<f64>) {
+    /// What lies between each end of the interface and the nearest welded segment: length per
+    /// verdict (welded only where `--min-segment` joined short welded runs to an unwelded
+    /// stretch), m; the whole interface at both ends when nothing is welded. Stretches without
+    /// a verdict are `no_verdict_at_ends`.
+    pub fn ends_by_verdict(&self) -> ([f64; N_VERDICTS], [f64; N_VERDICTS]) {
+        if self.first_weld_start.is_none() {
+            return (self.length_by_verdict, self.length_by_verdict);
+        }
+        let end: [f64; N_VERDICTS] =
+            std::array::from_fn(|v| (self.length_by_verdict[v] - self.last_weld_cum[v]).max(0.0));
+        (self.first_weld_cum, end)
+    }
+
+    /// The interface's length by what it is, m: welded, melted (bonded but brittle), unbonded
+    /// (not welded or head-on), outside the validity domain (no verdict claimed) and without a
+    /// verdict (rejected rows); they add up to the interface's length.
+    pub fn accounting(&self) -> [(&'static str, f64); 5] {
+        let l = &self.length_by_verdict;
+        [
+            ("welded", l[0]),
+            ("melted", l[2]),
+            ("unbonded", l[1] + l[3]),
+            ("outside_domain", l[4]),
+            ("no_verdict", self.length_unclassified),
+        ]
+    }
+
+    /// The stretch between each end and the nearest welded segment, m: (to the first welded
+    /// segment, from the last one); stretches without a verdict included (they are not known
+    /// to be welded); the whole interface at both ends when nothing is welded. Melted length
+    /// is part of it: [`Self::unbonded_ends`] leaves it out.
+    pub(crate) fn to_weld_ends(&self) -> (Option<f64>, Option<f64>) {
         if self.unsorted {
             return (None, None);
         }
@@ -451,6 +501,19 @@ impl Summary {
                 (Some(all), Some(all))
             }
         }
+    }
+
+    /// The unbonded length at each end: from the interface's end to the nearest welded
+    /// segment, less the melted length there (melted is bonded, though brittle, and is
+    /// reported apart: [`Self::ends_by_verdict`]); stretches without a verdict included (not
+    /// known to be welded).
+    fn unbonded_ends(&self) -> (Option<f64>, Option<f64>) {
+        let (a, b) = self.to_weld_ends();
+        let (ca, cb) = self.ends_by_verdict();
+        (
+            a.map(|x| (x - ca[2]).max(0.0)),
+            b.map(|x| (x - cb[2]).max(0.0)),
+        )
     }
 }
 

@@ -1,6 +1,10 @@
 //! The summary's building blocks: runs along the interface, the strip plot's samples and exact
 //! verdict lengths by position, and the window plot's histogram.
 
+/// Verdicts a point can have, in `Prediction::ALL` order: welded, not welded, melted, head-on,
+/// outside the validity domain.
+pub const N_VERDICTS: usize = 5;
+
 /// A run of points with one welded/unwelded state.
 #[derive(Debug, Clone, Copy)]
 pub struct Run {
@@ -16,8 +20,15 @@ pub struct Run {
     pub last_row: u64,
     /// Points in the run.
     pub points: u64,
-    /// Points per verdict (an unwelded segment may mix not-welded and melted).
-    pub by_verdict: [u64; 3],
+    /// Points per verdict (an unwelded segment may mix not-welded, melted, head-on and
+    /// outside-domain points).
+    pub by_verdict: [u64; N_VERDICTS],
+    /// Length per verdict owned by the points before the run's start, m (the summary's
+    /// running total when the run began): with `cum_end`, what lies before and after a
+    /// welded segment.
+    pub cum_start: [f64; N_VERDICTS],
+    /// The same when the run ended.
+    pub cum_end: [f64; N_VERDICTS],
 }
 
 /// A sample for the strip plot.
@@ -43,7 +54,7 @@ pub struct StripAcc {
     /// Column width, m (0 until the first interval of non-zero length).
     pub width: f64,
     /// Length per verdict in each column, m.
-    pub cols: Vec<[f64; 3]>,
+    pub cols: Vec<[f64; N_VERDICTS]>,
 }
 
 impl StripAcc {
@@ -55,7 +66,7 @@ impl StripAcc {
             origin,
             dir: 0.0,
             width: 0.0,
-            cols: vec![[0.0; 3]; Self::COLS],
+            cols: vec![[0.0; N_VERDICTS]; Self::COLS],
         }
     }
 
@@ -75,10 +86,10 @@ impl StripAcc {
         while db.max(da) > self.width * Self::COLS as f64 {
             for i in 0..Self::COLS / 2 {
                 let (l, r) = (self.cols[2 * i], self.cols[2 * i + 1]);
-                self.cols[i] = [l[0] + r[0], l[1] + r[1], l[2] + r[2]];
+                self.cols[i] = std::array::from_fn(|v| l[v] + r[v]);
             }
             for c in &mut self.cols[Self::COLS / 2..] {
-                *c = [0.0; 3];
+                *c = [0.0; N_VERDICTS];
             }
             self.width *= 2.0;
         }

@@ -69,7 +69,7 @@ impl Summary {
             ));
         }
         s.push_str(&format!(
-            "verdicts: welded {} ({:.1} %), not-welded {} ({:.1} %), melted {} ({:.1} %)\n",
+            "verdicts: welded {} ({:.1} %), not-welded {} ({:.1} %), melted {} ({:.1} %)",
             self.counts[0],
             pct(self.counts[0]),
             self.counts[1],
@@ -77,6 +77,16 @@ impl Summary {
             self.counts[2],
             pct(self.counts[2])
         ));
+        for (k, what) in [(3usize, "head-on"), (4, "outside the validity domain")] {
+            if self.counts[k] > 0 {
+                s.push_str(&format!(
+                    ", {what} {} ({:.1} %)",
+                    self.counts[k],
+                    pct(self.counts[k])
+                ));
+            }
+        }
+        s.push('\n');
     }
 
     /// Lengths, segments and stretches without a verdict along the interface.
@@ -131,27 +141,64 @@ impl Summary {
                 ));
             }
             s.push('\n');
-            let (us, ue) = self.unbonded_ends();
+            let acc = self.accounting();
+            let parts: Vec<String> = acc
+                .iter()
+                .filter(|(k, l)| *l > 0.0 || *k == "welded" || *k == "unbonded")
+                .map(|(k, l)| {
+                    format!(
+                        "{} {:.3} mm",
+                        match *k {
+                            "outside_domain" => "outside the validity domain",
+                            "no_verdict" => "no verdict",
+                            "unbonded" if self.length_by_verdict[3] > 0.0 =>
+                                "unbonded (head-on included)",
+                            other => other,
+                        },
+                        l * 1e3
+                    )
+                })
+                .collect();
+            s.push_str(&format!("lengths: {}\n", parts.join(", ")));
             let (ns, ne) = self.no_verdict_at_ends;
+            let (cs, ce) = self.ends_by_verdict();
+            // The stretch in the categories of the `lengths` line: "unbonded X mm + outside the
+            // validity domain Y mm (no verdict claimed) + no verdict Z mm + melted W mm (bonded,
+            // brittle)"; the JSON's `unbonded_length_*` is its total less the melted part.
+            let split = |c: &[f64; super::N_VERDICTS], nv: f64| {
+                let mut t = format!("unbonded {:.3} mm", (c[0] + c[1] + c[3]) * 1e3);
+                if c[4] > 0.0 {
+                    t.push_str(&format!(
+                        " + outside the validity domain {:.3} mm (no verdict claimed)",
+                        c[4] * 1e3
+                    ));
+                }
+                if nv > 0.0 {
+                    t.push_str(&format!(
+                        " + no verdict {:.3} mm (rejected rows, not known to be welded)",
+                        nv * 1e3
+                    ));
+                }
+                if c[2] > 0.0 {
+                    t.push_str(&format!(" + melted {:.3} mm (bonded, brittle)", c[2] * 1e3));
+                }
+                t
+            };
+            let (to_start, to_end) = self.to_weld_ends();
             if self.first_weld_start.is_none() {
                 s.push_str(&format!(
-                    "unbonded: the whole classified interface, {:.3} mm (no welded point)\n",
-                    us.unwrap_or(0.0) * 1e3
+                    "no welded point: the whole interface, {:.3} mm = {}\n",
+                    to_start.unwrap_or(0.0) * 1e3,
+                    split(&cs, ns)
                 ));
             } else {
                 s.push_str(&format!(
-                    "unbonded at the start: {:.3} mm; at the end: {:.3} mm",
-                    us.unwrap_or(0.0) * 1e3,
-                    ue.unwrap_or(0.0) * 1e3
+                    "to the first welded segment: {:.3} mm = {}; after the last one: {:.3} mm = {}\n",
+                    to_start.unwrap_or(0.0) * 1e3,
+                    split(&cs, ns),
+                    to_end.unwrap_or(0.0) * 1e3,
+                    split(&ce, ne)
                 ));
-                if ns > 0.0 || ne > 0.0 {
-                    s.push_str(&format!(
-                        " ({:.3} mm and {:.3} mm of them without verdict: rejected rows, not known to be welded)",
-                        ns * 1e3,
-                        ne * 1e3
-                    ));
-                }
-                s.push('\n');
             }
             if self.gaps_total > 0 {
                 let shown: Vec<String> = self
@@ -234,6 +281,26 @@ impl Summary {
             s.push_str(&format!(
                 "{} row(s) lie outside the span of a user boundary (outside the trial data; not extrapolated); {} of them are welded there by the model limits and the boundaries that do span them\n",
                 self.outside_trial_data, self.welded_outside_trial_data
+            ));
+        }
+        if self.supersonic_rows > 0 {
+            s.push_str(&format!(
+                "jetting: {} row(s) supersonic in at least one plate (the limit rests on the shock-polar criterion there), {} of them in one plate only (the mixed case, which no source covers; rule: {})\n",
+                self.supersonic_rows, self.mixed_rows, self.info.mixed_rule
+            ));
+        }
+        let outside = self.counts[4];
+        if outside > 0 {
+            let by: Vec<String> = oblique_core::DomainQuantity::ALL
+                .iter()
+                .zip(self.domain_exits)
+                .filter(|(_, n)| *n > 0)
+                .map(|(q, n)| format!("{} {n}", q.label()))
+                .collect();
+            s.push_str(&format!(
+                "validity domain: {outside} row(s) outside it (verdict outside-domain: their limits are extrapolations; {}); bounds: {}\n",
+                by.join(", "),
+                self.info.domain.join("; ")
             ));
         }
         match (self.info.jetting, self.info.table) {

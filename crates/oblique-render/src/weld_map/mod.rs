@@ -6,9 +6,10 @@
 //!   verdict regions tinted and the points on top, marked one by one when few, as a binned
 //!   density when many.
 //!
-//! Palette (own): welded dark blue, not welded orange, melted medium red with white hatching.
-//! Their lightness differs (dark, light, medium) so that they stay apart in greyscale and for
-//! the common colour-vision deficiencies; the markers differ in shape as well.
+//! Palette (own): welded dark blue, not welded orange, melted medium red with white hatching,
+//! head-on brown, outside the validity domain light grey (grey outlined triangles on the plane). Their lightness differs so that
+//! they stay apart in greyscale and for the common colour-vision deficiencies; the markers
+//! differ in shape as well.
 
 mod plane;
 mod strip;
@@ -23,6 +24,12 @@ use plotters::prelude::*;
 const C_WELDED: RGBColor = RGBColor(24, 54, 118);
 const C_NOT: RGBColor = RGBColor(225, 135, 0);
 const C_MELTED: RGBColor = RGBColor(196, 44, 44);
+/// Head-on rows (collision angle 0: not welded).
+const C_HEAD_ON: RGBColor = RGBColor(150, 90, 40);
+/// Rows outside the validity domain (no verdict claimed).
+const C_OUTSIDE: RGBColor = RGBColor(215, 215, 215);
+/// Cells of the window plane outside the validity domain.
+const T_OUTSIDE: RGBColor = RGBColor(212, 212, 212);
 /// Stretches without a verdict (rejected rows) on the strip.
 const C_NO_VERDICT: RGBColor = RGBColor(20, 20, 20);
 const T_WELDED: RGBColor = RGBColor(212, 226, 243);
@@ -44,6 +51,8 @@ fn verdict_colour(v: u8) -> RGBColor {
     match v {
         0 => C_WELDED,
         1 => C_NOT,
+        3 => C_HEAD_ON,
+        4 => C_OUTSIDE,
         _ => C_MELTED,
     }
 }

@@ -3,8 +3,8 @@
 //! points on top, one by one when few, as a binned density when many.
 
 use super::{
-    overridden_note, perr, C_MELTED, C_NOT, C_WELDED, GREY, PLOT_CAUTION, T_MELTED, T_UNTRIED,
-    T_WELDED,
+    overridden_note, perr, C_HEAD_ON, C_MELTED, C_NOT, C_WELDED, GREY, PLOT_CAUTION, T_MELTED,
+    T_OUTSIDE, T_UNTRIED, T_WELDED,
 };
 use crate::error::RenderResult;
 use oblique_map::{Classifier, Histogram, Summary};
@@ -96,8 +96,9 @@ pub fn window_plane_svg(w: &PairWindow, c: &Classifier, s: &Summary) -> RenderRe
     Ok(svg)
 }
 
-/// The verdict code of the window at a point: 0 welded, 1 not welded, 2 melted, 3 welded but
-/// outside a boundary's span; `None` where the point cannot be classified.
+/// The verdict code of the window at a point: 0 welded, 1 not welded (or head-on), 2 melted, 3
+/// welded but outside a boundary's span, 4 outside the validity domain; `None` where the point
+/// cannot be classified.
 fn verdict_at(c: &Classifier, vp: f64, beta_deg: f64, margins: &mut Vec<f64>) -> Option<u8> {
     if !(beta_deg < 90.0) {
         return None;
@@ -108,8 +109,9 @@ fn verdict_at(c: &Classifier, vp: f64, beta_deg: f64, margins: &mut Vec<f64>) ->
             // Welded, but some user boundary does not span the point.
             Prediction::Welded if p.outside_trial_data => 3,
             Prediction::Welded => 0,
-            Prediction::NotWelded => 1,
+            Prediction::NotWelded | Prediction::HeadOn => 1,
             Prediction::Melted => 2,
+            Prediction::OutsideDomain => 4,
         })
 }
 
@@ -140,7 +142,12 @@ fn region_grid(c: &Classifier, x_max: f64, y_max: f64) -> Regions {
 /// classifier (no stair steps).
 fn draw_regions(chart: &mut Chart<'_, '_>, r: &Regions, c: &Classifier) -> RenderResult {
     let margins = std::cell::RefCell::new(Vec::new());
-    for (code, colour) in [(0u8, T_WELDED), (3, T_UNTRIED), (2, T_MELTED)] {
+    for (code, colour) in [
+        (0u8, T_WELDED),
+        (3, T_UNTRIED),
+        (2, T_MELTED),
+        (4, T_OUTSIDE),
+    ] {
         if !r.codes.contains(&code) {
             continue;
         }
@@ -226,6 +233,15 @@ fn draw_points(
                 1 => chart.draw_series(std::iter::once(
                     EmptyElement::at(p) + Rectangle::new([(-4, -4), (4, 4)], C_NOT.stroke_width(2)),
                 )),
+                3 => chart.draw_series(std::iter::once(
+                    EmptyElement::at(p)
+                        + Rectangle::new([(-4, -4), (4, 4)], C_HEAD_ON.stroke_width(2)),
+                )),
+                4 => chart.draw_series(std::iter::once(TriangleMarker::new(
+                    p,
+                    5,
+                    GREY.stroke_width(2),
+                ))),
                 _ => chart.draw_series(std::iter::once(Cross::new(p, 5, C_MELTED.stroke_width(2)))),
             }
             .map_err(perr)?;
@@ -257,6 +273,7 @@ fn plane_legend(
         ("window predicts welded", T_WELDED),
         ("welded, outside a boundary's span", T_UNTRIED),
         ("window predicts melted", T_MELTED),
+        ("outside the validity domain", T_OUTSIDE),
     ] {
         legend
             .draw(&Rectangle::new([(10, y - 6), (34, y + 6)], colour.filled()))
@@ -317,7 +334,14 @@ fn plane_legend(
             y += 20;
         }
     } else {
-        for (label, v) in [("welded", 0u8), ("not welded", 1), ("melted", 2)] {
+        let mut marks = vec![("welded", 0u8), ("not welded", 1), ("melted", 2)];
+        if s.counts[3] > 0 {
+            marks.push(("head-on", 3));
+        }
+        if s.counts[4] > 0 {
+            marks.push(("outside the domain", 4));
+        }
+        for (label, v) in marks {
             let p = (22, y);
             match v {
                 0 => legend.draw(&Circle::new(p, 4, C_WELDED.filled())),
@@ -325,6 +349,11 @@ fn plane_legend(
                     &(EmptyElement::at(p)
                         + Rectangle::new([(-4, -4), (4, 4)], C_NOT.stroke_width(2))),
                 ),
+                3 => legend.draw(
+                    &(EmptyElement::at(p)
+                        + Rectangle::new([(-4, -4), (4, 4)], C_HEAD_ON.stroke_width(2))),
+                ),
+                4 => legend.draw(&TriangleMarker::new(p, 5, GREY.stroke_width(2))),
                 _ => legend.draw(&Cross::new(p, 5, C_MELTED.stroke_width(2))),
             }
             .map_err(perr)?;
@@ -343,6 +372,10 @@ fn plane_legend(
         format!(
             "welded {}, not welded {}, melted {}",
             s.counts[0], s.counts[1], s.counts[2]
+        ),
+        format!(
+            "head-on {}, outside the validity domain {}",
+            s.counts[3], s.counts[4]
         ),
         format!("rejected rows: {}", s.rows_rejected),
     ] {

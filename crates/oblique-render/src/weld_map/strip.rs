@@ -7,7 +7,7 @@ use super::{
     PLOT_CAUTION, TRACE,
 };
 use crate::error::RenderResult;
-use oblique_map::{StripAcc, Summary};
+use oblique_map::{StripAcc, Summary, N_VERDICTS};
 use oblique_window::PairWindow;
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -32,8 +32,8 @@ fn nice_step(span: f64) -> f64 {
 
 /// Length per verdict in each of `cols` equal plot columns over [x0, x1] (mm), from the
 /// exact strip accumulator (each of its columns spread evenly over the plot columns it meets).
-fn columns(st: &StripAcc, x0: f64, x1: f64, cols: usize) -> Vec<[f64; 3]> {
-    let mut acc = vec![[0.0; 3]; cols];
+fn columns(st: &StripAcc, x0: f64, x1: f64, cols: usize) -> Vec<[f64; N_VERDICTS]> {
+    let mut acc = vec![[0.0; N_VERDICTS]; cols];
     let w = (x1 - x0) / cols as f64;
     if !(w > 0.0) || st.width <= 0.0 {
         return acc;
@@ -52,7 +52,7 @@ fn columns(st: &StripAcc, x0: f64, x1: f64, cols: usize) -> Vec<[f64; 3]> {
         for (i, cell) in acc.iter_mut().enumerate().take(i1 + 1).skip(i0) {
             let c0 = x0 + i as f64 * w;
             let share = ((b.min(c0 + w) - a.max(c0)).max(0.0) / span).min(1.0);
-            for v in 0..3 {
+            for v in 0..N_VERDICTS {
                 cell[v] += c[v] * share;
             }
         }
@@ -220,11 +220,18 @@ fn strip_legend(head: &Area<'_>, s: &Summary) -> RenderResult {
     // Legend row, above the data.
     let mut lx = 16;
     let ly = 80;
-    for (label, v) in [
+    let mut entries = vec![
         ("welded", 0u8),
         ("not welded", 1),
         ("melted (velocity ceiling)", 2),
-    ] {
+    ];
+    if s.counts[3] > 0 {
+        entries.push(("head-on (not welded)", 3));
+    }
+    if s.counts[4] > 0 {
+        entries.push(("outside the validity domain", 4));
+    }
+    for (label, v) in entries {
         head.draw(&Rectangle::new(
             [(lx, ly - 7), (lx + 28, ly + 7)],
             verdict_colour(v).filled(),
@@ -318,7 +325,7 @@ fn verdict_strip(
     let cw = (x1 - x0) / cols as f64;
     let acc = match &s.strip {
         Some(st) => columns(st, x0, x1, cols),
-        None => vec![[0.0; 3]; cols],
+        None => vec![[0.0; N_VERDICTS]; cols],
     };
     // Merge equal neighbouring columns; each column is a stack of verdict fractions.
     let mut rects = Vec::new();
@@ -338,7 +345,7 @@ fn verdict_strip(
                 break;
             }
             let g = acc[j].map(|v| v / t2);
-            if (0..3).any(|k| (g[k] - f[k]).abs() > 0.02) {
+            if (0..N_VERDICTS).any(|k| (g[k] - f[k]).abs() > 0.02) {
                 break;
             }
             j += 1;

@@ -108,6 +108,7 @@ pub(super) fn draw(
         _req: std::marker::PhantomData,
     };
     draw_region(&mut chart, field, &mut layers)?;
+    draw_validity_domain(&mut chart, field, &mut layers)?;
     let binned = req.points.len() > MAX_MARKED_POINTS;
     if binned {
         draw_density(&mut chart, req, x_max, y_max, &mut layers)?;
@@ -209,6 +210,47 @@ fn draw_probability(
         Mark::Fill(WHITE),
     ));
     layers.sections.push(section);
+    Ok(())
+}
+
+/// Cells outside the validity domain, and the domain's edge.
+const C_OUTSIDE_DOMAIN: RGBColor = RGBColor(212, 212, 212);
+const C_DOMAIN_EDGE: RGBColor = RGBColor(70, 70, 70);
+
+/// Light grey over the regions outside the validity domain (no verdict claimed there), its
+/// edge dashed, and the legend entry, when some part of the plot lies outside (issue 14).
+fn draw_validity_domain(
+    chart: &mut Chart<'_, '_>,
+    field: &Field<'_>,
+    layers: &mut Layers<'_>,
+) -> RenderResult {
+    if !field.has_outside_domain() {
+        return Ok(());
+    }
+    chart
+        .draw_series(
+            field
+                .outside_domain_outlines()
+                .into_iter()
+                .map(|p| Polygon::new(p, C_OUTSIDE_DOMAIN.filled())),
+        )
+        .map_err(plot_err)?;
+    for line in field.domain_edge() {
+        let pix: Vec<(f64, f64)> = line.iter().map(|p| px(chart, *p)).collect();
+        layers.placer.add_line(&pix);
+        chart
+            .draw_series(DashedLineSeries::new(
+                line,
+                6,
+                3,
+                C_DOMAIN_EDGE.stroke_width(2),
+            ))
+            .map_err(plot_err)?;
+    }
+    layers.sections[0].push(Entry::new(
+        "outside the validity domain (dashed edge): no verdict claimed (docs/theory.md §7.1)",
+        Mark::Fill(C_OUTSIDE_DOMAIN),
+    ));
     Ok(())
 }
 

@@ -7,7 +7,6 @@
 
 use super::{collision_at, criterion_enabled};
 use crate::error::RenderResult;
-use oblique_core::units::Angle;
 use oblique_core::{CriterionId, PairSetup};
 use oblique_window::boundary::Plane;
 use oblique_window::classify::classify_with_jetting;
@@ -38,6 +37,9 @@ pub(super) struct Field<'a> {
     margins: Vec<(CriterionId, Vec<f64>)>,
     sonic_parent: Vec<f64>,
     sonic_flyer: Vec<f64>,
+    /// How far inside the validity domain (`ValidityDomain::margin`, its sign set by the
+    /// classification's own domain test: positive inside), NaN where not physical.
+    domain: Vec<f64>,
 }
 
 /// What a node or a probe point says.
@@ -45,6 +47,8 @@ pub(super) struct Field<'a> {
 enum Probe {
     Region,
     Tried,
+    /// Outside the validity domain (positive outside).
+    OutsideDomain,
     Criterion(CriterionId),
     SonicParent,
     SonicFlyer,
@@ -76,6 +80,7 @@ impl<'a> Field<'a> {
             region: vec![255; n],
             sonic_parent: vec![f64::NAN; n],
             sonic_flyer: vec![f64::NAN; n],
+            domain: vec![f64::NAN; n],
             xs,
             ys,
         };
@@ -88,6 +93,7 @@ impl<'a> Field<'a> {
                 f.region[k] = e.0;
                 f.sonic_parent[k] = e.1;
                 f.sonic_flyer[k] = e.2;
+                f.domain[k] = f.domain_value(f.xs[i], f.ys[j], &e.3);
                 for (id, m) in &mut f.margins {
                     if let Some(r) = e.3.evaluation.criterion(*id) {
                         m[k] = r.margin;
@@ -117,6 +123,7 @@ impl<'a> Field<'a> {
             &self.setup.parent.hugoniot,
             col.flow_velocity,
             col.collision_velocity,
+            self.window.criteria.mixed_jetting,
         )?;
         let c = classify_with_jetting(self.window, &self.setup, &col, jet)?;
         let code = match (c.inside, c.outside_trial_data) {
@@ -127,6 +134,42 @@ impl<'a> Field<'a> {
         let sp = col.collision_velocity.si() / self.setup.parent.sound_speed().si() - 1.0;
         let sf = col.flow_velocity.si() / self.setup.flyer.sound_speed().si() - 1.0;
         Ok(Some((code, sp, sf, c)))
+    }
+
+    /// The validity domain's margin at a point, positive inside (the classification decides the
+    /// sign, so the drawn edge agrees with the verdicts).
+    fn domain_value(&self, x: f64, y: f64, c: &oblique_window::Classification) -> f64 {
+        let Some(col) = collision_at(self.window, self.plane, x, y) else {
+            return f64::NAN;
+        };
+        let m = self
+            .window
+            .domain
+            .margin(&self.setup, &col)
+            .abs()
+            .max(1e-12);
+        if c.domain.inside() {
+            m
+        } else {
+            -m
+        }
+    }
+
+    /// True when some node lies outside the validity domain.
+    pub(super) fn has_outside_domain(&self) -> bool {
+        self.domain.iter().any(|d| *d < 0.0)
+    }
+
+    /// The regions outside the validity domain, as closed polygons.
+    pub(super) fn outside_domain_outlines(&self) -> Vec<Vec<P>> {
+        let values: Vec<f64> = self.domain.iter().map(|d| -d).collect();
+        self.trace(&values, Probe::OutsideDomain, true)
+    }
+
+    /// The validity domain's edge, as lines.
+    pub(super) fn domain_edge(&self) -> Vec<Vec<P>> {
+        let values: Vec<f64> = self.domain.iter().map(|d| -d).collect();
+        self.trace(&values, Probe::OutsideDomain, false)
     }
 
     /// The sign-carrying value of `probe` at a point off the grid (`None` where not physical).
@@ -144,10 +187,11 @@ impl<'a> Field<'a> {
             if id != CriterionId::Jetting {
                 // The other criteria do not use the jetting assessment: skip its solve.
                 let col = collision_at(self.window, self.plane, x, y)?;
-                let jet = oblique_core::jetting::JettingAssessment {
-                    regime: oblique_core::jetting::JettingRegime::SubsonicParent,
-                    critical_angle: Angle::from_radians(0.0),
-                };
+                let jet = oblique_core::jetting::JettingAssessment::any_angle(
+                    oblique_core::jetting::JettingRegime::SubsonicParent,
+                    false,
+                    false,
+                );
                 let e = oblique_core::evaluate_with_jetting(
                     &self.setup,
                     &col,
@@ -162,6 +206,7 @@ impl<'a> Field<'a> {
         Some(match probe {
             Probe::Region => inside_value(code),
             Probe::Tried => tried_value(code),
+            Probe::OutsideDomain => -self.domain_value(x, y, &c),
             Probe::Criterion(id) => c.evaluation.criterion(id)?.margin,
             Probe::SonicParent | Probe::SonicFlyer => unreachable!("handled above"),
         })
@@ -423,5 +468,34 @@ mod tests {
             let (a, b) = (poly[0], poly[poly.len() - 1]);
             assert!((a.0 - b.0).abs() < 1e-9 && (a.1 - b.1).abs() < 1e-9);
         }
+    }
+}
+
+#[cfg(test)]
+mod domain_tests {
+    use super::*;
+
+    /// The validity domain is drawn (issue 14): some of the demo plot lies outside it, nothing
+    /// inside the window does, and the plot says so in its legend.
+    #[test]
+    fn nothing_inside_the_window_lies_outside_the_validity_domain() {
+        let lib = oblique_window::Library::load(&[]).expect("built-in library");
+        let w = lib
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair (invented data)");
+        let f = Field::evaluate(w, Plane::AngleImpactVelocity, 900.0, 35.0).expect("field");
+        assert!(f.has_outside_domain());
+        for (k, r) in f.region.iter().enumerate() {
+            if *r != 0 && *r != 255 {
+                assert!(
+                    f.domain[k] > 0.0,
+                    "node {k} inside the window, outside the domain"
+                );
+            }
+        }
+        assert!(!f.outside_domain_outlines().is_empty());
+        let req = crate::window_plot::PlotRequest::new(w, Plane::AngleImpactVelocity);
+        let svg = crate::window_plot::render_svg(&req).expect("draws");
+        assert!(svg.contains("outside the validity domain"));
     }
 }

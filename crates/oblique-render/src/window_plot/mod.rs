@@ -358,6 +358,7 @@ mod tests {
                 Length::from_m(1e-3),
                 None,
                 Convention::NormalToFlyer,
+                None,
             )
             .expect("window");
         let mut req = PlotRequest::new(&w, Plane::AngleImpactVelocity);

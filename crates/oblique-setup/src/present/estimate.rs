@@ -362,6 +362,8 @@ pub fn verdict_lines(w: &PairWindow, angle: f64, whose: &str, c: &Classification
         human::g(angle.to_degrees()),
         if c.inside {
             "INSIDE the window"
+        } else if !c.domain.inside() {
+            "OUTSIDE THE VALIDITY DOMAIN (no verdict claimed)"
         } else {
             "OUTSIDE the window"
         }
@@ -371,6 +373,9 @@ pub fn verdict_lines(w: &PairWindow, angle: f64, whose: &str, c: &Classification
         s.push_str(&format!("  where the window is: {t}\n"));
     }
     s.push_str(&format!("  ({})\n", oblique_window::margin::ROUNDING_RULE));
+    for w in &c.warnings {
+        s.push_str(&format!("  warning: {w}\n"));
+    }
     s
 }
 

@@ -87,6 +87,15 @@ fn point_json(r: &SweepRanking<'_>, s: &Setting) -> Value {
                     .as_ref()
                     .map_or(Value::Null, oblique_window::margin::Along::json),
             );
+            p.insert(
+                "jetting_mixed".into(),
+                json!(k.evaluation.jetting.is_mixed()),
+            );
+            p.insert(
+                "jetting_supersonic".into(),
+                json!(k.evaluation.jetting.any_supersonic()),
+            );
+            p.insert("domain_inside".into(), json!(k.domain.inside()));
         }
         _ => {
             p.insert("inside".into(), Value::Null);
@@ -195,13 +204,20 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
                     after_first_half_wave,
                     ..
                 }) => {
-                    let mark = match &r.setting(i, j).check {
+                    let check = r.setting(i, j).check.as_ref();
+                    let mark = match check {
                         Some(k) if k.inside => " in",
+                        Some(k) if !k.domain.inside() => " dom",
                         Some(_) => " out",
                         None => "",
                     };
+                    let mixed = if check.is_some_and(|k| k.evaluation.jetting.is_mixed()) {
+                        "~"
+                    } else {
+                        ""
+                    };
                     format!(
-                        "{:.0}{}{mark}",
+                        "{:.0}{}{mark}{mixed}",
                         velocity.si(),
                         if after_first_half_wave { "*" } else { "" }
                     )
@@ -217,7 +233,7 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
         "impact velocity Vp [m/s] by charging voltage (rows) and standoff (columns)\n",
     );
     out.push_str(&table(&hdr, &trows));
-    out.push_str("  (in/out: inside or outside the pair window at the angle shown; * impact after the first current zero)\n\n");
+    out.push_str("  (in/out: inside or outside the pair window at the angle shown; dom: outside the validity domain, no verdict claimed (docs/theory.md §7.1); ~ jetting in the mixed regime, one plate supersonic, which no source covers (docs/theory.md §4.3); * impact after the first current zero)\n\n");
     out
 }
 

@@ -27,17 +27,35 @@ pub(super) fn criteria(
         other => {
             c.push(
                 "criteria.melting_upper.form",
-                format!("unknown form '{other}'"),
-                Some("use \"a\" or \"b\" (see docs/theory.md)".into()),
+                format!("unknown form '{}'", crate::present::short(other, 40)),
+                Some("use \"a\" (form b has no source and is kept only for comparison; see docs/theory.md §5.6)".into()),
             );
             WittmanForm::A
         }
     };
+    let mixed = match MixedRule::parse(&cs.jetting.mixed) {
+        Some(r) => r,
+        None => {
+            c.push(
+                "criteria.jetting.mixed",
+                format!(
+                    "unknown rule '{}' for the mixed jetting case",
+                    crate::present::short(&cs.jetting.mixed, 40)
+                ),
+                Some(
+                    "use \"supersonic-side-polar\" (the default) or \"either-subsonic\" (docs/theory.md §4.3)"
+                        .into(),
+                ),
+            );
+            MixedRule::default()
+        }
+    };
+    let (pressure_on, _) = pressure_default(parsed.process.as_deref());
     let criteria = CriteriaConfig {
         deribas_enabled: cs.deribas_lower.enabled,
         deribas_k: cs.deribas_lower.k,
         strength_enabled: cs.strength_lower.enabled,
-        pressure_enabled: cs.pressure_lower.enabled,
+        pressure_enabled: cs.pressure_lower.enabled.unwrap_or(pressure_on),
         hel_multiple: cs.pressure_lower.hel_multiple,
         melting_enabled: cs.melting_upper.enabled,
         wittman_n: cs.melting_upper.n,
@@ -45,6 +63,7 @@ pub(super) fn criteria(
         jetting_enabled: cs.jetting.enabled,
         wavy_enabled: cs.wavy_transition.enabled,
         wavy_critical_reynolds: cs.wavy_transition.critical_reynolds,
+        mixed_jetting: mixed,
     };
     let mut criteria_reasons = BTreeMap::new();
     let defaults = CriteriaSection::default();
@@ -68,11 +87,8 @@ pub(super) fn criteria(
         (
             CriterionId::PressureLower,
             "pressure_lower",
-            cs.pressure_lower
-                != PressureEntry {
-                    reason: cs.pressure_lower.reason.clone(),
-                    ..defaults.pressure_lower.clone()
-                },
+            cs.pressure_lower.enabled.is_some_and(|e| e != pressure_on)
+                || cs.pressure_lower.hel_multiple != defaults.pressure_lower.hel_multiple,
             &cs.pressure_lower.reason,
         ),
         (
@@ -88,7 +104,11 @@ pub(super) fn criteria(
         (
             CriterionId::Jetting,
             "jetting",
-            !cs.jetting.enabled,
+            cs.jetting
+                != JettingEntry {
+                    reason: cs.jetting.reason.clone(),
+                    ..defaults.jetting.clone()
+                },
             &cs.jetting.reason,
         ),
         (
@@ -116,6 +136,28 @@ pub(super) fn criteria(
         }
     }
     (criteria, criteria_reasons)
+}
+
+/// Whether a criterion constant differs from its default (then the window must not be empty).
+pub(super) fn constants_changed(parsed: &PairFile) -> bool {
+    let cs = &parsed.criteria;
+    let d = CriteriaSection::default();
+    cs.deribas_lower.k != d.deribas_lower.k
+        || cs.pressure_lower.hel_multiple != d.pressure_lower.hel_multiple
+        || cs.melting_upper.n != d.melting_upper.n
+}
+
+/// The field of the first changed constant, for the position of a message about them.
+pub(super) fn changed_constant_field(parsed: &PairFile) -> String {
+    let cs = &parsed.criteria;
+    let d = CriteriaSection::default();
+    if cs.deribas_lower.k != d.deribas_lower.k {
+        "criteria.deribas_lower.k".into()
+    } else if cs.pressure_lower.hel_multiple != d.pressure_lower.hel_multiple {
+        "criteria.pressure_lower.hel_multiple".into()
+    } else {
+        "criteria.melting_upper.n".into()
+    }
 }
 
 /// The user boundaries, each checked.

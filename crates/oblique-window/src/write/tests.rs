@@ -27,6 +27,7 @@ fn append_keeps_every_other_byte() {
         flyer_thickness: "1 mm",
         parent_thickness: None,
         convention: Convention::NormalToFlyer,
+        process: "magnetic-pulse",
         maintainer: "me",
         date: "2026-12-01",
     });
@@ -35,7 +36,7 @@ fn append_keeps_every_other_byte() {
     assert!(twice.starts_with(&text[..text.find("observations: [").unwrap()]));
     assert!(twice.ends_with("    ],\n)\n"));
     assert_eq!(twice.matches("velocity:").count(), 2);
-    let parsed: crate::pair::PairFile = ron::from_str(&twice).unwrap();
+    let parsed: crate::pair::PairFile = crate::diag::parse_ron("p.ron", &twice).unwrap();
     assert_eq!(parsed.observations[1].velocity, "310 m/s");
     assert_eq!(parsed.observations[0].source, "shot \"7\"");
 }

@@ -39,6 +39,12 @@ pub(super) fn pair_json(w: &PairWindow) -> Value {
     o.insert("flyer_material".into(), material_json(&w.flyer, true));
     o.insert("parent_material".into(), material_json(&w.parent, true));
     o.insert("criteria".into(), json!(w.criteria));
+    o.insert("process".into(), json!(w.process));
+    o.insert(
+        "pressure_scope".into(),
+        json!(oblique_window::pair::pressure_default(w.process.as_deref()).1),
+    );
+    o.insert("validity_domain".into(), json!(w.domain));
     o.insert(
         "criteria_reasons".into(),
         json!(w
@@ -96,6 +102,10 @@ pub(super) fn show_human(w: &PairWindow) -> String {
     if let Some(inv) = &w.invented {
         s.push_str(&format!("INVENTED DATA: {inv}\n"));
     }
+    s.push_str(&format!(
+        "process: {}\n",
+        w.process.as_deref().unwrap_or("not given")
+    ));
     if !w.description.is_empty() {
         s.push_str(&format!("{}\n", w.description));
     }
@@ -119,19 +129,26 @@ pub(super) fn show_human(w: &PairWindow) -> String {
         onoff(c.strength_enabled)
     ));
     s.push_str(&format!(
-        "  pressure-lower   {} {} x HEL\n",
+        "  pressure-lower   {} {} x HEL ({})\n",
         onoff(c.pressure_enabled),
-        c.hel_multiple
+        c.hel_multiple,
+        oblique_window::pair::pressure_default(w.process.as_deref()).1
     ));
     s.push_str(&format!(
-        "  melting-upper    {} N = {}, form {:?}\n",
+        "  melting-upper    {} N = {}, form {:?}{}\n",
         onoff(c.melting_enabled),
         c.wittman_n,
-        c.wittman_form
+        c.wittman_form,
+        if c.wittman_form == oblique_core::WittmanForm::B {
+            " (no source found for form B)"
+        } else {
+            ""
+        }
     ));
     s.push_str(&format!(
-        "  jetting          {}\n",
-        onoff(c.jetting_enabled)
+        "  jetting          {} mixed case (one plate supersonic): {}\n",
+        onoff(c.jetting_enabled),
+        c.mixed_jetting.as_str()
     ));
     s.push_str(&format!(
         "  wavy-transition  {} Re_crit = {} (informational)\n",
@@ -140,6 +157,10 @@ pub(super) fn show_human(w: &PairWindow) -> String {
     ));
     for (id, r) in &w.criteria_reasons {
         s.push_str(&format!("  reason for {id}: {r}\n"));
+    }
+    s.push_str("\nvalidity domain (no verdict outside it; docs/theory.md §7.1):\n");
+    for b in &w.domain.bounds {
+        s.push_str(&format!("  {}: {}\n", b.quantity.label(), b.range_text()));
     }
     s.push_str(&format!("\nboundaries: {}\n", w.boundaries.len()));
     for b in &w.boundaries {
@@ -186,14 +207,15 @@ pub(super) fn show_human(w: &PairWindow) -> String {
 }
 
 pub(super) fn agreement_human(w: &PairWindow, a: &oblique_window::Agreement) -> String {
+    let judged = a.observations - a.outside_domain.len();
     let mut s = format!(
         "agreement of pair '{}' with its {} trial(s): {} agree",
         w.name, a.observations, a.agreeing
     );
-    if a.observations > 0 {
+    if judged > 0 {
         s.push_str(&format!(
-            " ({:.0} %)",
-            100.0 * a.agreeing as f64 / a.observations as f64
+            " ({:.0} % of the {judged} inside the validity domain)",
+            100.0 * a.agreeing as f64 / judged as f64
         ));
     }
     s.push_str("\n\n");
@@ -235,6 +257,19 @@ pub(super) fn agreement_human(w: &PairWindow, a: &oblique_window::Agreement) -> 
                 if d.misjudged_by.is_empty() { "-".to_string() } else { d.misjudged_by.join(", ") },
                 d.explanation,
                 d.source
+            ));
+        }
+    }
+    if !a.outside_domain.is_empty() {
+        s.push_str("\noutside the validity domain (no verdict claimed there; neither agreement nor disagreement):\n");
+        for t in &a.outside_domain {
+            s.push_str(&format!(
+                "  #{} {:.0} m/s, {:.2} deg: observed {}; {}\n",
+                t.index + 1,
+                t.velocity_m_s,
+                t.angle_deg,
+                t.observed.as_str(),
+                t.exits
             ));
         }
     }
