@@ -94,6 +94,9 @@ pub struct Along {
     pub percent: Option<f64>,
     /// The value before rounding.
     pub unrounded: f64,
+    /// The figure is the edge of the validity domain (the limit's verdict changes between the
+    /// point and that edge, or the search stopped there).
+    pub at_domain_edge: bool,
 }
 
 fn holds(c: &Classification, limit: &LimitRef) -> bool {
@@ -113,7 +116,9 @@ fn holds(c: &Classification, limit: &LimitRef) -> bool {
 pub fn velocity_headroom(w: &PairWindow, c: &Classification, limit: &LimitRef) -> Option<Along> {
     let (_, h) = c.headroom.iter().find(|(l, _)| l == limit)?;
     let v = h.velocity_m_s?;
-    Some(velocity_along(w, c, limit, v))
+    let mut a = velocity_along(w, c, limit, v);
+    a.at_domain_edge = h.velocity_at_domain_edge;
+    Some(a)
 }
 
 /// A velocity headroom from a crossing velocity `v` (m/s, the headroom convention of `c`).
@@ -131,6 +136,7 @@ pub fn velocity_along(w: &PairWindow, c: &Classification, limit: &LimitRef, v: f
         change: round_change(change, 1.0, ok),
         percent: Some(round_change(100.0 * change / vp, 0.1, ok)),
         unrounded: v,
+        at_domain_edge: false,
     }
 }
 
@@ -150,6 +156,7 @@ pub fn angle_headroom(w: &PairWindow, c: &Classification, limit: &LimitRef) -> O
         change: round_change(a - beta, 0.01, ok),
         percent: None,
         unrounded: a,
+        at_domain_edge: h.angle_at_domain_edge,
     })
 }
 
@@ -195,6 +202,15 @@ impl Along {
     /// (15.7 %) to 379 m/s at this angle before boundary "..." is reached".
     #[must_use]
     pub fn sentence(&self) -> String {
+        let edge = if self.at_domain_edge {
+            " (the edge of the validity domain)"
+        } else {
+            ""
+        };
+        self.sentence_core() + edge
+    }
+
+    fn sentence_core(&self) -> String {
         let up = self.change > 0.0;
         if self.is_velocity() {
             let pct = self.percent.unwrap_or(0.0).abs();
@@ -246,6 +262,7 @@ impl Along {
                 "headroom_m_s": self.change,
                 "headroom_percent": self.percent,
                 "reached_at_unrounded_m_s": crate::present::sig(self.unrounded),
+                "reached_at_domain_edge": self.at_domain_edge,
             })
         } else {
             json!({
@@ -254,6 +271,7 @@ impl Along {
                 "reached_at_angle_deg": self.reached_at,
                 "headroom_deg": self.change,
                 "reached_at_unrounded_deg": crate::present::sig(self.unrounded),
+                "reached_at_domain_edge": self.at_domain_edge,
             })
         }
     }
