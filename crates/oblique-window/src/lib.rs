@@ -44,6 +44,7 @@ pub mod present;
 pub mod references;
 pub mod ronpath;
 pub mod text;
+pub mod trials;
 pub mod write;
 
 pub use agreement::{agreement, Agreement};

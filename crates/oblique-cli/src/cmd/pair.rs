@@ -375,7 +375,7 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
         text.push_str(&v.line());
     }
     if verdicts.iter().any(|v| !v.agrees) {
-        text.push_str("  (a disagreement is evidence against the window's constants or boundaries where the shot lies; `oblique pair agreement` shows every trial)\n");
+        text.push_str(&format!("  (a disagreement is evidence against the window's constants or boundaries where the shot lies: `oblique pair fit {}` fits the Deribas and Wittman constants to every trial, with intervals; `oblique pair agreement` shows every trial)\n", w.name));
     }
     emit(&text)
 }

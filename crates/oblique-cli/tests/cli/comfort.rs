@@ -401,3 +401,84 @@ fn a_boundary_is_added_from_the_command_line_and_every_new_shot_says_if_the_wind
         &["at least two points"],
     );
 }
+
+#[test]
+fn check_names_the_nearest_trials_and_a_point_beyond_them_is_outside_the_trial_data() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "narrow",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    // Every trial between 7 and 14 deg.
+    for (v, a) in [
+        ("420m/s", "7deg"),
+        ("450m/s", "10deg"),
+        ("480m/s", "14deg"),
+        ("500m/s", "12deg"),
+    ] {
+        let o = run(&[
+            "--library",
+            lib,
+            "pair",
+            "observe",
+            "narrow",
+            "--velocity",
+            v,
+            "--angle",
+            a,
+            "--outcome",
+            "welded",
+            "--source",
+            "s",
+        ]);
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    }
+    let check = |angle: &str| {
+        run(&[
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "narrow",
+            "--velocity",
+            "460m/s",
+            "--angle",
+            angle,
+            "--json",
+        ])
+    };
+    let v: serde_json::Value = serde_json::from_str(&stdout(&check("25deg"))).expect("JSON");
+    assert_eq!(v["beyond_trials"], true, "{v}");
+    let v: serde_json::Value = serde_json::from_str(&stdout(&check("11deg"))).expect("JSON");
+    assert_eq!(v["beyond_trials"], false, "{v}");
+    let near = v["nearest_trials"].as_array().expect("nearest");
+    assert_eq!(near.len(), 3);
+    assert_eq!(near[0]["shot"], 2, "{v}");
+    let text = stdout(&run(&[
+        "--library",
+        lib,
+        "check",
+        "--pair",
+        "narrow",
+        "--velocity",
+        "460m/s",
+        "--angle",
+        "25deg",
+    ]));
+    assert!(
+        text.contains("OUTSIDE the trial data") || text.contains("outside the trial data"),
+        "{text}"
+    );
+    assert!(text.contains("nearest trials"), "{text}");
+}

@@ -259,6 +259,10 @@ pub(super) fn agreement_human(w: &PairWindow, a: &oblique_window::Agreement) -> 
                 d.source
             ));
         }
+        s.push_str(&format!(
+            "what constants would fit: `oblique pair fit {}` fits the Deribas and Wittman constants to every trial (maximum likelihood, with intervals; --save stores them)\n",
+            w.name
+        ));
     }
     if !a.outside_domain.is_empty() {
         s.push_str("\noutside the validity domain (no verdict claimed there; neither agreement nor disagreement):\n");
