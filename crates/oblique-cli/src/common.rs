@@ -170,11 +170,15 @@ pub fn collision(
 
 /// Read `velocity[unit],angle[unit][,label]` rows.
 pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>> {
-    let display = path.display().to_string();
+    let bytes = read_input(path)?;
+    let display = if path.as_os_str() == "-" {
+        "standard input".to_string()
+    } else {
+        path.display().to_string()
+    };
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
-        .from_path(path)
-        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
+        .from_reader(&bytes[..]);
     let headers = rdr
         .headers()
         .map_err(|e| Fail::input(format!("{display}: {e}")))?
@@ -231,9 +235,47 @@ pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>>
     Ok(out)
 }
 
+/// The bytes of an input file, or of standard input for `-`.
+///
+/// # Errors
+/// The file cannot be read (exit 2, naming it).
+pub fn read_input(path: &Path) -> CmdResult<Vec<u8>> {
+    if path.as_os_str() == "-" {
+        let mut buf = Vec::new();
+        std::io::Read::read_to_end(&mut std::io::stdin().lock(), &mut buf)
+            .map_err(|e| Fail::input(format!("standard input: {e}")))?;
+        return Ok(buf);
+    }
+    std::fs::read(path).map_err(|e| Fail::input(format!("{}: {e}", path.display())))
+}
+
+/// Where a file went, for the closing message: on standard error when the file itself went to
+/// standard output (`-`), so that the output stays clean.
+pub fn said_where(path: &Path, text: &str) -> CmdResult {
+    if path.as_os_str() == "-" {
+        eprint!("{}", crate::fail::for_terminal(text));
+        Ok(())
+    } else {
+        crate::output::emit(text)
+    }
+}
+
 /// Write a file the user asked for, atomically.
 pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
     use oblique_window::write::WriteError;
+    if path.as_os_str() == "-" {
+        // Standard output; a closed pipe is a normal end.
+        use std::io::Write;
+        let mut out = std::io::stdout().lock();
+        return match out.write_all(bytes).and_then(|()| out.flush()) {
+            Ok(()) => Ok(()),
+            Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Err(Fail {
+                message: String::new(),
+                code: 0,
+            }),
+            Err(e) => Err(Fail::other(format!("cannot write to standard output: {e}"))),
+        };
+    }
     oblique_window::write::atomic_write(path, bytes, None).map_err(|e| match e {
         WriteError::Io { source, .. } => Fail::input(format!(
             "{}: cannot write: {source}\n  hint: check that the folder exists and is writable",

@@ -12,7 +12,7 @@ use crate::common::{
     collision, load_catalog, output_format, print_notes, read_point_csv, write_output, FileFormat,
 };
 use crate::fail::{CmdResult, Fail};
-use crate::output::{emit, emit_json};
+use crate::output::emit_json;
 use crate::qarg;
 use clap::{Args, Subcommand};
 use oblique_core::units::{Angle, Energy, Length, Velocity, Voltage};
@@ -309,7 +309,12 @@ fn preflight(r: &RecordArgs) -> CmdResult<(PathBuf, FileFormat)> {
         inputs.push(("the input of --from-sweep", f.as_path()));
     }
     crate::common::distinct_outputs(&inputs, &[("-o", out.as_path())])?;
-    let format = output_format("-o", &out, &[FileFormat::Html, FileFormat::Json], None)?;
+    let format = output_format(
+        "-o",
+        &out,
+        &[FileFormat::Html, FileFormat::Json],
+        Some(FileFormat::Html),
+    )?;
     Ok((out, format))
 }
 
@@ -606,12 +611,15 @@ fn write_record(
     if r.json {
         return emit_json(&json(&input));
     }
-    emit(&format!(
-        "wrote {} ({}: {}; {} alternative(s))\n{}\n",
-        out.display(),
-        decision.chosen.label,
-        decision.chosen.verdict(window),
-        decision.alternatives.len(),
-        crate::output::CAUTION
-    ))
+    crate::common::said_where(
+        &out,
+        &format!(
+            "wrote {} ({}: {}; {} alternative(s))\n{}\n",
+            out.display(),
+            decision.chosen.label,
+            decision.chosen.verdict(window),
+            decision.alternatives.len(),
+            crate::output::CAUTION
+        ),
+    )
 }

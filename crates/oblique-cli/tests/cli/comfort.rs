@@ -482,3 +482,67 @@ fn check_names_the_nearest_trials_and_a_point_beyond_them_is_outside_the_trial_d
     );
     assert!(text.contains("nearest trials"), "{text}");
 }
+
+#[test]
+fn a_dash_is_standard_input_or_output() {
+    // Plot and report to standard output (the format by default: SVG, HTML).
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--point",
+        "450m/s,10deg",
+        "-o",
+        "-",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).starts_with("<svg"), "{}", &stdout(&o)[..60]);
+    let o = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        "-",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).starts_with("<!DOCTYPE html>"));
+    // Shots from standard input.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "stdin",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args(["--library", lib, "pair", "import", "stdin", "-"])
+        .stdin(std::process::Stdio::piped())
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("spawn");
+    {
+        use std::io::Write;
+        let mut input = child.stdin.take().expect("stdin");
+        input
+            .write_all(b"velocity[m/s],angle[deg],outcome,source\n405,10,welded,piped\n")
+            .expect("write");
+    }
+    let o = child.wait_with_output().expect("runs");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(dir.path().join("stdin.ron")).expect("pair");
+    assert!(text.contains("\"piped\""), "{text}");
+}

@@ -104,7 +104,7 @@ pub(super) fn line_of(bytes: &[u8], offset: u64) -> u64 {
 
 pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEntry)>> {
     let display = file.display().to_string();
-    let bytes = std::fs::read(file).map_err(|e| Fail::input(format!("{display}: {e}")))?;
+    let bytes = crate::common::read_input(file)?;
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
         .from_reader(&bytes[..]);
