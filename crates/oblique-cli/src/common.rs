@@ -452,3 +452,48 @@ pub fn record_provenance(
         files,
     })
 }
+
+/// The weld probability of the chosen set-up, when the scatter flags ask for it (or `always`): under the stated
+/// scatter (a process estimate: the velocity spread of its efficiency's provenance unless
+/// --velocity-sd is given; the angle 1 deg unless --angle-sd is).
+pub fn chosen_probability(
+    window: &oblique_window::PairWindow,
+    decision: &oblique_setup::decision::Decision<'_>,
+    a: &crate::args::ScatterArgs,
+    always: bool,
+) -> CmdResult<Option<oblique_render::report::Probability>> {
+    if !a.asked() && !always {
+        return Ok(None);
+    }
+    let Some(check) = &decision.chosen.check else {
+        return Ok(None);
+    };
+    let col = &check.evaluation.collision;
+    let (scatter, basis) = match &decision.chosen.produced {
+        oblique_setup::decision::Produced::Magnetic(r) => a.process().resolve(&r.setup.inputs),
+        _ => (a.scatter(), "as stated".to_string()),
+    };
+    let point = oblique_confidence::Point::impact(col.convention, col.impact_velocity, col.angle);
+    let sampling = a.sampling(oblique_setup::uncertainty::ESTIMATE_SAMPLES);
+    let p = oblique_confidence::weld_probability(window, &point, &scatter, &sampling)
+        .map_err(|e| Fail::input(e.to_string()))?;
+    let half = 1.959964 * p.standard_error; // normal 0.975 quantile (NIST handbook table)
+    let mut doubt = p.doubt.clone();
+    if let Some(first) = doubt.get(..1) {
+        doubt = first.to_uppercase() + &doubt[1..];
+    }
+    if !doubt.ends_with('.') {
+        doubt.push('.');
+    }
+    Ok(Some(oblique_render::report::Probability {
+        value: p.inside,
+        interval: Some(((p.inside - half).max(0.0), (p.inside + half).min(1.0))),
+        method: format!(
+            "Monte Carlo, {} draws, seed {}, under the stated scatter ({}; velocity spread basis: {basis}); 95 % interval of the sampling only. {} The probability is conditional on the model and these distributions (docs/theory.md, section 15), a screening estimate, never a guarantee",
+            p.samples,
+            p.seed,
+            scatter.text(),
+            doubt
+        ),
+    }))
+}

@@ -207,7 +207,7 @@ fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
                 esc(&p.method)
             );
         }
-        None => h.push_str("<p class=\"probability small\">No weld probability is given: this version screens against limits and trials; it does not estimate a probability.</p>\n"),
+        None => h.push_str("<p class=\"probability small\">No weld probability was asked for: give the scatter of the set-up (--velocity-sd, --angle-sd) to have one stated here.</p>\n"),
     }
     let _ = writeln!(
         h,
