@@ -315,6 +315,9 @@ pub fn render_calibration(e: &CalibrationEntry) -> String {
         field("flyer_thickness", t);
     }
     field("settings", &e.settings);
+    if let Some(u) = &e.velocity_uncertainty {
+        field("velocity_uncertainty", u);
+    }
     field("source", &e.source);
     s.push_str("        ),\n");
     s

@@ -40,6 +40,10 @@ fn fit(
         charge,
         standoff: Length::from_m(standoff),
         measured_velocity: Velocity::from_m_s(c.measured_velocity),
+        velocity_uncertainty: c.measured_velocity_sd.map(|s| match s {
+            oblique_confidence::VelocitySpread::Relative(r) => r,
+            oblique_confidence::VelocitySpread::Absolute(a) => a / c.measured_velocity,
+        }),
         source: c.source.clone(),
         date: c.date.clone().unwrap_or_else(today),
         save: c.save,
