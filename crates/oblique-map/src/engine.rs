@@ -62,6 +62,15 @@ impl<'a> WeldMap<'a> {
         };
         let read = read_header(&mut source, opts.input_format, &opts.input_name, &wanted)?;
         let classifier = Classifier::new(window, opts.velocity_kind, opts.jetting)?;
+        let stems: Vec<String> = classifier.limits.iter().map(|l| l.column.clone()).collect();
+        let unknown = opts.selected_columns().unknown_margins(&stems).join(", ");
+        if !unknown.is_empty() {
+            return Err(MapError::Input(format!(
+                "--columns: {unknown}: not a limit of pair '{}', whose margins are {}",
+                window.name,
+                stems.join(", ")
+            )));
+        }
         Ok(Self {
             window,
             opts: opts.clone(),
@@ -91,7 +100,7 @@ impl<'a> WeldMap<'a> {
             &self.header,
             &self.classifier,
             opts.bad_rows,
-            opts.all_columns,
+            &opts.selected_columns(),
         )
     }
 

@@ -437,6 +437,19 @@ impl TextBuf {
         self.len = (self.len + n).min(self.bytes.len());
     }
 
+    /// Keep the `n` bytes written by the last [`TextBuf::writer`] but their first `skip` (0
+    /// or 1: a leading separator).
+    #[inline]
+    pub fn commit_from(&mut self, skip: usize, n: usize) {
+        if skip > 0 && n >= skip {
+            let end = (self.len + n).min(self.bytes.len());
+            self.bytes.copy_within(self.len + skip..end, self.len);
+            self.commit(n - skip);
+        } else {
+            self.commit(n);
+        }
+    }
+
     /// Append an unsigned integer in decimal.
     #[inline]
     pub fn u64(&mut self, n: u64) {

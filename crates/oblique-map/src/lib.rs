@@ -54,7 +54,9 @@ pub use classifier::{Classifier, JettingMode, LimitInfo, MarginUnit, Point, Velo
 pub use engine::{classify_stream, WeldMap};
 pub use error::{MapError, Output};
 pub use input::{Column, Header};
-pub use options::{BadRows, ColumnNames, ConstantNote, Format, MapOptions};
+pub use options::{
+    BadRows, ColumnNames, ColumnSelection, ConstantNote, Format, MapOptions, COLUMN_NAMES,
+};
 pub use record::Rejected;
 pub use summary::{
     Histogram, LimitStat, Run, RunInfo, Sample, StripAcc, Summary, EXAMPLE_CAP, GAP_CAP, MARK_CAP,

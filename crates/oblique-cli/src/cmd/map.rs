@@ -13,8 +13,8 @@ use crate::output::CAUTION;
 use clap::{Args, ValueEnum};
 use oblique_core::units::Length;
 use oblique_map::{
-    BadRows, ColumnNames, ConstantNote, Format, JettingMode, MapError, MapOptions, Output, Summary,
-    VelocityKind, WeldMap,
+    BadRows, ColumnNames, ColumnSelection, ConstantNote, Format, JettingMode, MapError, MapOptions,
+    Output, Summary, VelocityKind, WeldMap,
 };
 use oblique_window::PairWindow;
 use outputs::{write_file, AtomicFile, Out};
@@ -36,7 +36,8 @@ but then computes no lengths or segments.
 Output: one row per classified input row: row (line number), the input fields as written, then
 verdict, binding limit, its margin (in that limit's unit, positive = on the welding side) and
 relative margin (over the limit's own value), every failing limit, Vc, Vf and impact pressure;
---all-columns adds Vp, the jetting critical angle and the margin of every decisive limit. The summary goes to standard
+--all-columns adds Vp, the jetting critical angle and the margin of every decisive limit;
+--columns picks the columns (--columns verdict-only: the row number and the verdict). The summary goes to standard
 error, or to standard output when -o is given; --json prints it as JSON instead (needs -o).
 
 Examples:
@@ -138,9 +139,18 @@ pub struct MapArgs {
     /// Solve the jetting test directly for every row instead of using the table (slow).
     #[arg(long = "exact-jetting")]
     pub exact_jetting: bool,
-    /// Add Vp, the jetting critical angle and the margin of every limit to the output.
-    #[arg(long = "all-columns")]
+    /// Add Vp, the jetting critical angle and the margin of every limit to the output (the
+    /// same as --columns all).
+    #[arg(long = "all-columns", conflicts_with = "columns")]
     pub all_columns: bool,
+    /// The map's columns: a comma-separated list of column names and sets, written in the
+    /// map's own order: default, all, verdict-only (row,verdict); row, input (every input
+    /// column), verdict, binding, binding_margin, binding_margin_unit, binding_relative_margin,
+    /// failing_limits, impact_velocity, collision_velocity, flow_velocity, impact_pressure,
+    /// jetting_critical_angle, margins (every limit's), margin_<limit> (e.g. margin_jetting),
+    /// outside_trial_data.
+    #[arg(long, value_name = "LIST", value_parser = parse_columns)]
+    pub columns: Option<ColumnSelection>,
     /// Never show a progress bar.
     #[arg(long = "no-progress")]
     pub no_progress: bool,
@@ -157,6 +167,10 @@ pub enum BadRowsArg {
     Skip,
     /// Write to a side file with the reason.
     Save(PathBuf),
+}
+
+fn parse_columns(s: &str) -> Result<ColumnSelection, String> {
+    ColumnSelection::parse(s)
 }
 
 fn parse_policy(s: &str) -> Result<BadRowsArg, String> {
@@ -384,6 +398,7 @@ fn map_options(
         },
         bad_rows: a.bad_rows.policy(),
         all_columns: a.all_columns,
+        output_columns: a.columns.clone(),
         unsorted: a.unsorted,
         min_segment: a.min_segment.map(Length::from_m),
         collect_strip: a.strip_svg.is_some(),

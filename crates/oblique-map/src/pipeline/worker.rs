@@ -387,7 +387,7 @@ fn json_cells(ctx: &Ctx<'_>, rec: &[u8]) -> Result<Map<String, Value>, Bad> {
 }
 
 /// One CSV output row: the row number, the input cells as written (a CSV line is copied
-/// whole), the computed columns.
+/// whole), the computed columns; each as the column selection has it.
 #[inline(always)]
 fn csv_row(
     row_text: &mut Counter,
@@ -399,46 +399,56 @@ fn csv_row(
     p: &Point,
 ) {
     let line_len = match cells {
-        Cells::Csv { line, .. } => line.len(),
-        Cells::Json { .. } => 0,
+        Cells::Csv { line, .. } if ctx.input => line.len(),
+        _ => 0,
     };
+    // The computed columns each start with a comma: a row without the row number and the
+    // input drops the first one.
+    let lead = ctx.row || ctx.input;
     let mut w = out.writer(ctx.row_bound + line_len);
-    w.word(row_text.get(row));
-    w.push(b',');
-    if let Cells::Csv { line, .. } = cells {
-        w.extend(line);
-        computed_csv(ctx, margins, &mut w, p);
-        w.push(b'\n');
-        let n = w.written();
-        out.commit(n);
-    } else {
-        let n = w.written();
-        out.commit(n);
+    if ctx.row {
+        w.word(row_text.get(row));
     }
     match cells {
-        Cells::Csv { .. } => {}
-        Cells::Json { obj } => {
-            for (i, c) in ctx.header.cells.iter().enumerate() {
-                if i > 0 {
-                    out.push(b',');
+        Cells::Csv { line, .. } => {
+            if ctx.input {
+                if ctx.row {
+                    w.push(b',');
                 }
-                match obj.get(c) {
-                    None | Some(Value::Null) => {}
-                    Some(Value::String(s)) => out.csv_field(s.as_bytes()),
-                    Some(other) => out.csv_field(other.to_string().as_bytes()),
+                w.extend(line);
+            }
+            computed_csv(ctx, margins, &mut w, p);
+            w.push(b'\n');
+            let n = w.written();
+            out.commit_from(usize::from(!lead), n);
+        }
+        Cells::Json { obj } => {
+            let n = w.written();
+            out.commit(n);
+            if ctx.input {
+                for (i, c) in ctx.header.cells.iter().enumerate() {
+                    if i > 0 || ctx.row {
+                        out.push(b',');
+                    }
+                    match obj.get(c) {
+                        None | Some(Value::Null) => {}
+                        Some(Value::String(s)) => out.csv_field(s.as_bytes()),
+                        Some(other) => out.csv_field(other.to_string().as_bytes()),
+                    }
                 }
             }
             let mut w = out.writer(ctx.row_bound);
             computed_csv(ctx, margins, &mut w, p);
             w.push(b'\n');
             let n = w.written();
-            out.commit(n);
+            out.commit_from(usize::from(!lead), n);
         }
     }
 }
 
 /// One JSON-lines output row: the row number, the input cells (numbers of the mapped columns
-/// as numbers, other CSV cells as strings, JSON values as they were), the computed columns.
+/// as numbers, other CSV cells as strings, JSON values as they were), the computed columns;
+/// each as the column selection has it.
 #[inline(always)]
 fn json_row(
     ctx: &Ctx<'_>,
@@ -450,41 +460,51 @@ fn json_row(
 ) -> u64 {
     // Pass-through cells that are not UTF-8: JSON text cannot carry them (replaced, counted).
     let mut non_utf8 = 0;
-    out.extend(b"{\"row\":");
-    out.u64(row);
-    match cells {
-        Cells::Csv { line, fields } => {
-            for i in 0..ctx.header.cells.len() {
-                out.push(b',');
-                out.extend(&ctx.json_cell_keys[i]);
-                let text = fields.get(line, i).unwrap_or(b"");
-                if ctx.cell_role[i].is_some() {
-                    let t = trim_spaces(text);
-                    if is_json_number(t) {
-                        out.extend(t);
-                    } else {
-                        // Parsed before, so it is a finite number.
-                        let x = parse_number(t).unwrap_or(f64::NAN);
-                        out.extend(fmt_g(x).as_bytes());
+    out.push(b'{');
+    if ctx.row {
+        out.extend(b"\"row\":");
+        out.u64(row);
+    }
+    let mut comma = ctx.row;
+    if ctx.input {
+        match cells {
+            Cells::Csv { line, fields } => {
+                for i in 0..ctx.header.cells.len() {
+                    if std::mem::replace(&mut comma, true) {
+                        out.push(b',');
                     }
-                } else {
-                    non_utf8 += u64::from(std::str::from_utf8(text).is_err());
-                    out.json_string(text);
+                    out.extend(&ctx.json_cell_keys[i]);
+                    let text = fields.get(line, i).unwrap_or(b"");
+                    if ctx.cell_role[i].is_some() {
+                        let t = trim_spaces(text);
+                        if is_json_number(t) {
+                            out.extend(t);
+                        } else {
+                            // Parsed before, so it is a finite number.
+                            let x = parse_number(t).unwrap_or(f64::NAN);
+                            out.extend(fmt_g(x).as_bytes());
+                        }
+                    } else {
+                        non_utf8 += u64::from(std::str::from_utf8(text).is_err());
+                        out.json_string(text);
+                    }
                 }
             }
-        }
-        Cells::Json { obj } => {
-            for (i, c) in ctx.header.cells.iter().enumerate() {
-                out.push(b',');
-                out.extend(&ctx.json_cell_keys[i]);
-                match obj.get(c) {
-                    Some(v) => out.extend(v.to_string().as_bytes()),
-                    None => out.extend(b"null"),
+            Cells::Json { obj } => {
+                for (i, c) in ctx.header.cells.iter().enumerate() {
+                    if std::mem::replace(&mut comma, true) {
+                        out.push(b',');
+                    }
+                    out.extend(&ctx.json_cell_keys[i]);
+                    match obj.get(c) {
+                        Some(v) => out.extend(v.to_string().as_bytes()),
+                        None => out.extend(b"null"),
+                    }
                 }
             }
         }
     }
-    computed_json(ctx, margins, out, p);
+    computed_json(ctx, margins, out, p, comma);
     out.extend(b"}\n");
     non_utf8
 }
