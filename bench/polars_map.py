@@ -69,14 +69,9 @@ def column_set(spec):
 
 
 def relative(margin, limit):
-    """margin / |limit|, +-inf for a zero limit (as the Rust crates)."""
-    return (
-        pl.when(limit.abs() > 0)
-        .then(margin / limit.abs())
-        .when(margin >= 0)
-        .then(float("inf"))
-        .otherwise(float("-inf"))
-    )
+    """margin / |limit|, +-inf for a zero limit by the margin's sign, +inf for 0 / 0 (as the
+    Rust crates: a margin >= 0 over a zero limit is +inf); null (no margin) stays null."""
+    return (margin / limit.abs()).fill_nan(float("inf"))
 
 
 def interp_in_span(x, xs, ys):
@@ -240,7 +235,7 @@ def main(argv):
     n = len(limits)
     lf = lf.with_columns(
         *[l[2].alias(f"_m{k}") for k, l in enumerate(limits)],
-        *[pl.when(l[2].is_null()).then(float("inf")).otherwise(relative(l[2], l[3])).alias(f"_r{k}") for k, l in enumerate(limits)],
+        *[relative(l[2], l[3]).fill_null(float("inf")).alias(f"_r{k}") for k, l in enumerate(limits)],
         *[l[4].alias(f"_s{k}") for k, l in enumerate(limits)],
     )
     rel = [pl.col(f"_r{k}") for k in range(n)]

@@ -51,7 +51,7 @@ mod record;
 mod summary;
 
 pub use classifier::{Classifier, JettingMode, LimitInfo, MarginUnit, Point, VelocityKind};
-pub use engine::{classify_stream, WeldMap};
+pub use engine::{classify_stream, InMemory, WeldMap};
 pub use error::{MapError, Output};
 pub use input::{Column, Header};
 pub use options::{

@@ -4,6 +4,7 @@
 //! `oblique_render::weld_map`; this module turns the flags into `MapOptions`, opens the files,
 //! shows the progress bar and prints. Layout and policies: `docs/weld-map.md`.
 
+mod input;
 mod outputs;
 
 use crate::args::ConstantArgs;
@@ -242,17 +243,8 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
     let opts = map_options(&a, &window, &window_criteria, stdin);
 
     // The input and its header, then the classifier.
-    let (reader, total_len, is_file): (Box<dyn std::io::Read + Send>, Option<u64>, bool) = if stdin
-    {
-        (Box::new(std::io::stdin()), None, false)
-    } else {
-        let f = std::fs::File::open(&a.input)
-            .map_err(|e| Fail::input(format!("{}: cannot open: {e}", opts.input_name)))?;
-        let meta = f.metadata().ok();
-        let is_file = meta.as_ref().is_some_and(std::fs::Metadata::is_file);
-        (Box::new(f), meta.map(|m| m.len()), is_file)
-    };
-    let mut map = WeldMap::open(&window, reader, &opts).map_err(input_fail)?;
+    let (mut opened, total_len, is_file) = input::open(&a.input, stdin, &opts.input_name)?;
+    let mut map = input::weld_map(&window, &mut opened, &opts).map_err(input_fail)?;
 
     // Outputs.
     let mut out = match &a.output {

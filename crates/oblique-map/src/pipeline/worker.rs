@@ -199,11 +199,17 @@ impl Worker {
     }
 
     /// Parse, classify and write every record of the slot's chunk.
-    pub(super) fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot) {
+    pub(super) fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot, mapped: Option<&[u8]>) {
         let n_limits = ctx.classifier.limits.len();
         slot.stats.welded_min = vec![None; n_limits];
         slot.stats.unwelded_binding = vec![[0; 2]; n_limits];
-        let data = std::mem::take(&mut slot.data);
+        // A stream's chunk is taken out of the slot while its rows go in; a mapped one is read
+        // where it lies.
+        let owned = std::mem::take(&mut slot.data);
+        let data: &[u8] = match (slot.range, mapped) {
+            (Some((s, e)), Some(m)) => m.get(s..e).unwrap_or(&[]),
+            _ => &owned,
+        };
         let mut pos = 0;
         let mut line_no = slot.first_line;
         while pos < data.len() {
@@ -221,12 +227,12 @@ impl Worker {
                     split_plain_line(&data[pos..content], &mut self.fields);
                     (end, (end + 1).min(data.len()), 0, false)
                 }
-                Format::Csv => match scan_plain(&data, pos, &mut self.fields) {
+                Format::Csv => match scan_plain(data, pos, &mut self.fields) {
                     Some((end, next)) => {
                         plain = true;
                         (end, next, 0, false)
                     }
-                    None => next_record(&data, pos),
+                    None => next_record(data, pos),
                 },
                 Format::Jsonl => {
                     let nl = memchr::memchr(b'\n', &data[pos..]);
@@ -269,7 +275,7 @@ impl Worker {
                 }
             }
         }
-        slot.data = data;
+        slot.data = owned;
     }
 
     /// Classify one record and write its output row; the row's fault otherwise.
