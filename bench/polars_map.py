@@ -18,7 +18,7 @@ Usage:
 --columns takes the column sets of `oblique map --columns`: `default` (the row number, the input
 as written, verdict, binding limit with its margin, unit and relative margin, failing limits,
 Vc, Vf, impact pressure, outside_trial_data), `all` (also Vp, the jetting critical angle and
-every limit's margin), `verdict` (the row number and the verdict), or a comma-separated list of
+every limit's margin), `verdict-only` (the row number and the verdict), or a comma-separated list of
 the column names in docs/weld-map.md. Row numbers count lines as the tool does (header = row 1)
 for an input without comment or blank lines, which is what bench/gen_interface.py writes.
 Numbers are rounded to the tool's decimals; polars writes them in their shortest form
@@ -40,7 +40,7 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from reference_map import UNITS, Hug, JetTable, find_column  # noqa: E402
 
 PRESETS = {
-    "verdict": ["row", "verdict"],
+    "verdict-only": ["row", "verdict"],
     "default": [
         "row", "input", "verdict", "binding", "binding_margin", "binding_margin_unit",
         "binding_relative_margin", "failing_limits", "collision_velocity", "flow_velocity",
@@ -249,21 +249,19 @@ def main(argv):
     # Welded when nothing fails, melted when only velocity ceilings do, else not welded.
     verdict = pl.when(code == 0).then(0).when((code & (((1 << n) - 1) ^ ceilings)) == 0).then(2).otherwise(1)
     lf = lf.with_columns(verdict.cast(pl.UInt8).alias("_v"))
-    # The binding limit, the first with the smallest relative margin, carried limit by limit
-    # with its margin in its own unit (rounded to its decimals) and its relative margin.
+    # The binding limit: the first with the smallest relative margin; its margin in its own
+    # unit (rounded to its decimals) and its relative margin.
     if n:
-        lf = lf.with_columns(
-            pl.lit(0, pl.UInt8).alias("_b"),
-            rel[0].alias("_br"),
-            (pl.col("_m0") * limits[0][6]).round(limits[0][7]).alias("_bm"),
-        )
-    for k in range(1, n):
-        better = rel[k] < pl.col("_br")
-        lf = lf.with_columns(
-            pl.when(better).then(pl.lit(k, pl.UInt8)).otherwise(pl.col("_b")).alias("_b"),
-            pl.when(better).then(rel[k]).otherwise(pl.col("_br")).alias("_br"),
-            pl.when(better).then((pl.col(f"_m{k}") * limits[k][6]).round(limits[k][7])).otherwise(pl.col("_bm")).alias("_bm"),
-        )
+        rmin = pl.min_horizontal(rel)
+        first = pl.when(rel[0] == rmin).then(pl.lit(0, pl.UInt8))
+        for k in range(1, n):
+            first = first.when(rel[k] == rmin).then(pl.lit(k, pl.UInt8))
+        lf = lf.with_columns(first.alias("_b"), rmin.alias("_br"))
+        b = pl.col("_b")
+        bm = pl.when(b == 0).then((pl.col("_m0") * limits[0][6]).round(limits[0][7]))
+        for k in range(1, n):
+            bm = bm.when(b == k).then((pl.col(f"_m{k}") * limits[k][6]).round(limits[k][7]))
+        lf = lf.with_columns(bm.alias("_bm"))
     b = pl.col("_b")
     ids = list(range(n))
 
@@ -304,8 +302,6 @@ def main(argv):
     if "outside_trial_data" in want and w["boundary_list"]:
         outside = pl.any_horizontal([pl.col(f"_m{k}").is_null() for k, l in enumerate(limits) if l[0].startswith("boundary-")])
         out.append(outside.alias("outside_trial_data"))
-    if os.environ.get("EXPLAIN"):
-        print(lf.select(out).explain(engine="streaming")); sys.exit(0)
     sink = lf.select(out).sink_csv(a.output, lazy=True)
 
     # The summary from the same query: counts, welded length (each point owns half the
@@ -319,12 +315,9 @@ def main(argv):
         (pl.col("_jd").sum() if table is not None else pl.lit(0)).alias("direct"),
         pl.len().alias("rows"),
     )
-    if os.environ.get("NOSUMM"):
-        sink.collect(engine="streaming"); s=summ.select(pl.lit(1).alias("x")).collect()
-        s = {"n0":0,"n1":0,"n2":0,"welded":0,"total":1,"direct":0,"rows":0}
-    else:
-        _, s = pl.collect_all([sink, summ], engine="streaming")
-        s = s.row(0, named=True)
+    # One streaming run for both: polars shares the common part of the two queries.
+    _, s = pl.collect_all([sink, summ], engine="streaming")
+    s = s.row(0, named=True)
     counts = {"welded": s["n0"], "not-welded": s["n1"], "melted": s["n2"]}
     summary = {
         "rows_read": s["rows"],
