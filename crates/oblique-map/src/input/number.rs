@@ -7,17 +7,22 @@
 /// a finite number.
 #[inline]
 pub fn parse_number(bytes: &[u8]) -> Option<f64> {
-    let b = trim_spaces(bytes);
-    match plain_decimal(b) {
+    // A field with spaces around it is no plain decimal: the slow path trims it.
+    match plain_decimal(bytes) {
         Some(v) => Some(v),
-        None => parse_number_slow(b),
+        None => parse_number_slow(bytes),
     }
 }
 
-/// Everything but the plain shape: exponents, long mantissas, and what is not a number.
+/// Everything but the plain shape: spaces around the number, exponents, long mantissas, and
+/// what is not a number.
 #[cold]
 #[inline(never)]
-fn parse_number_slow(b: &[u8]) -> Option<f64> {
+fn parse_number_slow(bytes: &[u8]) -> Option<f64> {
+    let b = trim_spaces(bytes);
+    if let Some(v) = plain_decimal(b) {
+        return Some(v);
+    }
     match fast_float2::parse::<f64, _>(b) {
         // fast-float2 (like std) also reads "inf", "infinity" and "nan": refuse them.
         Ok(v) if v.is_finite() => Some(v),
@@ -88,21 +93,34 @@ fn plain_decimal(b: &[u8]) -> Option<f64> {
         Some((b'+', r)) => (false, r),
         _ => (false, b),
     };
+    // The integer digits, then (after a point) the fraction's: each loop tests one range per
+    // byte, and the digit counts come from where the loops stop.
     let mut mant: u64 = 0;
-    let mut digits = 0usize;
-    let mut point: Option<usize> = None;
-    for &c in rest {
+    let mut int = rest;
+    while let Some((&c, tail)) = int.split_first() {
         let d = c.wrapping_sub(b'0');
-        if d <= 9 {
-            mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
-            digits += 1;
-        } else if c == b'.' && point.is_none() {
-            point = Some(digits);
-        } else {
-            return None;
+        if d > 9 {
+            break;
         }
+        mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
+        int = tail;
     }
-    let frac = point.map_or(0, |p| digits - p);
+    let int_digits = rest.len() - int.len();
+    let frac = match int.split_first() {
+        None => 0,
+        Some((b'.', fraction)) => {
+            for &c in fraction {
+                let d = c.wrapping_sub(b'0');
+                if d > 9 {
+                    return None;
+                }
+                mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
+            }
+            fraction.len()
+        }
+        Some(_) => return None,
+    };
+    let digits = int_digits + frac;
     if digits == 0 || digits > 19 || mant > (1u64 << 53) || frac > 22 {
         return None;
     }
