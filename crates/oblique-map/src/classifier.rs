@@ -372,27 +372,23 @@ impl Classifier {
     /// (the same bits, tested), without the checks and their error values.
     #[inline(always)]
     fn collision_in_domain(&self, velocity: f64, beta: Angle) -> Collision {
-        // Vc / Vp and Vf / Vc as `Convention` computes them.
-        let vc_over_vp = || match self.convention {
-            Convention::Bisector => 1.0 / (2.0 * (beta.radians() / 2.0).sin()),
-            Convention::NormalToFlyer => 1.0 / beta.sin(),
-            Convention::NormalToParent => 1.0 / beta.tan(),
-        };
-        let vf_over_vc = || match self.convention {
-            Convention::Bisector => 1.0,
-            Convention::NormalToFlyer => beta.cos(),
-            Convention::NormalToParent => 1.0 / beta.cos(),
+        // Vc / Vp and Vf / Vc as `Convention` computes them (one match, so that the sine and
+        // cosine of one angle can be one libm call, as in the core).
+        let (vc_over_vp, vf_over_vc) = match self.convention {
+            Convention::Bisector => (1.0 / (2.0 * (beta.radians() / 2.0).sin()), 1.0),
+            Convention::NormalToFlyer => (1.0 / beta.sin(), beta.cos()),
+            Convention::NormalToParent => (1.0 / beta.tan(), 1.0 / beta.cos()),
         };
         let (vp, vc) = match self.kind {
-            VelocityKind::Impact => (velocity, velocity * vc_over_vp()),
-            VelocityKind::Collision => (velocity / vc_over_vp(), velocity),
+            VelocityKind::Impact => (velocity, velocity * vc_over_vp),
+            VelocityKind::Collision => (velocity / vc_over_vp, velocity),
         };
         Collision {
             convention: self.convention,
             impact_velocity: Velocity::from_m_s(vp),
             angle: beta,
             collision_velocity: Velocity::from_m_s(vc),
-            flow_velocity: Velocity::from_m_s(vc * vf_over_vc()),
+            flow_velocity: Velocity::from_m_s(vc * vf_over_vc),
         }
     }
 

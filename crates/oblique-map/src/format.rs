@@ -117,7 +117,7 @@ impl Word {
 }
 
 /// The decimal text of a row number, kept up to date by counting: the next row costs a digit
-/// increment, not a conversion. Kept by measurement: 4.6 ns a row against 5.9 ns for `itoa`
+/// increment, not a conversion. Kept by measurement: 4.3 ns a row against 5.5 ns for `itoa`
 /// 1.0 (1 000 000 consecutive row numbers written with their separator, best of 15 passes, one
 /// core, 2026-12-04, the VM of `docs/performance.md`; `cd bench/micro && cargo run --release`).
 #[derive(Debug, Clone)]
@@ -244,7 +244,7 @@ impl RowWriter<'_> {
     /// 10^8 / 10^d up takes `fixed` (`itoa`).
     ///
     /// Kept by measurement: the map's numbers (Vc with 1 decimal, a pressure with 3, a relative
-    /// margin with 4) 6.2 ns a number, against 9.2 ns for the same rounding with the digits
+    /// margin with 4) 5.6 ns a number, against 8.4 ns for the same rounding with the digits
     /// by `itoa` 1.0 (integer part, then the fraction zero-padded), best of 15 passes over
     /// 1 000 000 rows, one core, 2026-12-04, the VM of `docs/performance.md` (`cd bench/micro
     /// && cargo run --release`). `ryu` and `lexical-core` write the shortest or a significant-digit form,

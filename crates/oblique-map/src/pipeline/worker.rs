@@ -17,7 +17,7 @@ use crate::format::{
 };
 use crate::input::{
     json_object, json_reason, next_record, number_reason, parse_number, scan_plain, split_cell,
-    split_fields, split_plain_line, trim_spaces, Column, Fields,
+    split_fields, split_plain_record, trim_spaces, Column, Fields,
 };
 use crate::options::{BadRows, Format};
 use crate::record::{Lite, Rejected};
@@ -217,14 +217,10 @@ impl Worker {
             let (end, next, inside_nl, quoted) = match ctx.in_format {
                 Format::Csv if !slot.has_quote => {
                     // No quote in the whole chunk: every record is one line.
+                    // The fields and the line break in one pass (a `\r` before it is cut
+                    // from the last field below).
                     plain = true;
-                    let end = memchr::memchr(b'\n', &data[pos..]).map_or(data.len(), |p| pos + p);
-                    let content = if end > pos && data[end - 1] == b'\r' {
-                        end - 1
-                    } else {
-                        end
-                    };
-                    split_plain_line(&data[pos..content], &mut self.fields);
+                    let end = split_plain_record(data, pos, &mut self.fields);
                     (end, (end + 1).min(data.len()), 0, false)
                 }
                 Format::Csv => match scan_plain(data, pos, &mut self.fields) {
