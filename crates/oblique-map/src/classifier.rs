@@ -463,7 +463,15 @@ impl Classifier {
         angle_rad: f64,
         margins: &mut Vec<f64>,
     ) -> Result<Point, PhysicsError> {
-        let c = self.collision(velocity, angle_rad)?;
+        let beta = Angle::from_radians(angle_rad);
+        let deg = beta.degrees();
+        // In the domain (the map's rows always are): the collision in registers, no error value
+        // to pass through memory.
+        let c = if velocity.is_finite() && velocity > 0.0 && deg > 0.0 && deg < 90.0 {
+            self.collision_in_domain(velocity, beta)
+        } else {
+            self.collision(velocity, angle_rad)?
+        };
         let (jet, direct) = self.jetting(&c)?;
         self.classify_collision(&c, jet, direct, margins)
     }

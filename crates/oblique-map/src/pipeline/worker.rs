@@ -13,7 +13,7 @@ use super::layout::Ctx;
 use super::slot::Slot;
 use crate::classifier::Point;
 use crate::format::{
-    fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, Counter, TextBuf,
+    fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, TextBuf,
 };
 use crate::input::{
     json_object, json_reason, next_record, number_reason, parse_number, scan_plain, split_cell,
@@ -37,8 +37,6 @@ enum Cells<'r> {
 }
 
 pub(super) struct Worker {
-    /// The current row number as text.
-    row_text: Counter,
     fields: Fields,
     margins: Vec<f64>,
 }
@@ -57,7 +55,6 @@ impl Worker {
     /// A worker with empty scratch.
     pub(super) fn new() -> Self {
         Self {
-            row_text: Counter::default(),
             fields: Fields::default(),
             margins: Vec::new(),
         }
@@ -313,7 +310,7 @@ impl Worker {
         let out = &mut slot.out;
         let out_start = out.len();
         match ctx.out_format {
-            Format::Csv => csv_row(&mut self.row_text, ctx, &self.margins, out, row, &cells, &p),
+            Format::Csv => csv_row(ctx, &self.margins, out, row, &cells, &p),
             Format::Jsonl => {
                 slot.stats.non_utf8_cells += json_row(ctx, &self.margins, out, row, &cells, &p);
             }
@@ -392,7 +389,6 @@ fn json_cells(ctx: &Ctx<'_>, rec: &[u8]) -> Result<Map<String, Value>, Bad> {
 /// whole), the computed columns; each as the column selection has it.
 #[inline(always)]
 fn csv_row(
-    row_text: &mut Counter,
     ctx: &Ctx<'_>,
     margins: &[f64],
     out: &mut TextBuf,
@@ -409,7 +405,7 @@ fn csv_row(
     let lead = ctx.row || ctx.input;
     let mut w = out.writer(ctx.row_bound + line_len);
     if ctx.row {
-        w.word(row_text.get(row));
+        w.u64(row);
     }
     match cells {
         Cells::Csv { line, .. } => {
