@@ -373,6 +373,29 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Line breaks per chunk: [`super::CHUNK_LINES`], or fewer when the output's rows are wide,
+    /// so that a chunk's output stays about [`super::CHUNK_OUTPUT`] (an estimate per row: an
+    /// input line of 64 bytes where it is passed through, 16 bytes a computed value, the keys
+    /// of JSON lines).
+    pub fn chunk_lines(&self) -> usize {
+        let values = self.cols.len() + usize::from(self.row);
+        let mut row = 16 * values + 2;
+        if self.input {
+            row += 64;
+        }
+        if self.out_format == Format::Jsonl {
+            row += self.computed_keys.iter().map(Vec::len).sum::<usize>() + 8;
+            if self.input {
+                row += self
+                    .json_cell_keys
+                    .iter()
+                    .map(|k| k.len() + 16)
+                    .sum::<usize>();
+            }
+        }
+        (super::CHUNK_OUTPUT / row).clamp(256, super::CHUNK_LINES)
+    }
+
     /// The output header line (CSV only; JSON lines have none).
     pub fn csv_header(&self) -> Vec<u8> {
         let mut v = Vec::new();

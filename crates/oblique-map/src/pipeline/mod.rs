@@ -25,8 +25,12 @@ use worker::Worker;
 
 /// Input bytes per chunk.
 pub const CHUNK: usize = 256 * 1024;
-/// Line breaks per chunk at most (bounds the output of a chunk of very short rows).
+/// Line breaks per chunk at most (bounds the output of a chunk of very short rows); fewer when
+/// the output's rows are wide (see [`Ctx::chunk_lines`]).
 pub const CHUNK_LINES: usize = 8192;
+/// About how many bytes of output one chunk may make: with the slots in flight this bounds the
+/// memory of wide outputs (JSON lines, every column), whose rows are many times their input's.
+pub const CHUNK_OUTPUT: usize = 2 << 20;
 
 /// Page size for giving back the pages of a mapped input (a multiple of every page size the
 /// release could meet is not needed: a range that is not page-aligned is rounded inwards by
@@ -68,6 +72,7 @@ pub fn run<E>(
     let threads = threads.max(1);
     let slots = 2 * threads + 2;
     let quotes = ctx.in_format == Format::Csv;
+    let lines = ctx.chunk_lines();
     let cancel = AtomicBool::new(false);
     let reader_error: Mutex<Option<String>> = Mutex::new(None);
     std::thread::scope(|s| {
@@ -95,16 +100,15 @@ pub fn run<E>(
                 let next = match &mut input {
                     Input::Stream(source) => {
                         slot.range = None;
-                        source.next_chunk(&mut slot.data, CHUNK, CHUNK_LINES, quotes, MAX_RECORD)
+                        source.next_chunk(&mut slot.data, CHUNK, lines, quotes, MAX_RECORD)
                     }
-                    Input::Mapped { bytes, start, .. } => {
-                        next_mapped(bytes, start, quotes).map(|c| {
+                    Input::Mapped { bytes, start, .. } => next_mapped(bytes, start, lines, quotes)
+                        .map(|c| {
                             c.map(|(at, info)| {
                                 slot.range = Some((at, at + info.len));
                                 info
                             })
-                        })
-                    }
+                        }),
                 };
                 match next {
                     Ok(Some(info)) => {
@@ -191,6 +195,7 @@ pub fn run<E>(
 fn next_mapped(
     bytes: &[u8],
     start: &mut usize,
+    lines: usize,
     quotes: bool,
 ) -> std::io::Result<Option<(usize, crate::input::ChunkInfo)>> {
     let at = *start;
@@ -198,7 +203,7 @@ fn next_mapped(
     loop {
         let end = at.saturating_add(want).min(bytes.len());
         let at_end = end == bytes.len();
-        match cut_chunk(&bytes[at..end], at_end, CHUNK_LINES, quotes) {
+        match cut_chunk(&bytes[at..end], at_end, lines, quotes) {
             Some(info) => {
                 *start = at + info.len;
                 return Ok(Some((at, info)));
