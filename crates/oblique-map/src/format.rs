@@ -161,7 +161,7 @@ impl RowWriter<'_> {
     /// counting the digits up in memory (its byte stores stall the word that copies them
     /// out), best of 15 passes, one core, 2026-12-04, the VM of `docs/performance.md` (`cd
     /// bench/micro && cargo run --release`).
-    #[inline]
+    #[inline(always)]
     pub fn u64(&mut self, n: u64) {
         match u32::try_from(n) {
             Ok(m) if m < 100_000_000 => {
