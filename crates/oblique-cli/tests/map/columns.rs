@@ -125,3 +125,25 @@ fn bad_lists_are_refused_naming_the_flag() {
     assert_eq!(o.status.code(), Some(2));
     assert!(text(&o.stderr).contains("--all-columns"));
 }
+
+/// A regular file is memory-mapped; with `OBLIQUE_MAP_NO_MMAP` it is read, and standard input
+/// always is: the three give the same map, byte for byte.
+#[test]
+fn mapped_read_and_piped_inputs_give_the_same_map() {
+    let input = data("map-basic.csv");
+    let args = ["map", path_str(&input), "--pair", PAIR, "--all-columns"];
+    let mapped = oblique().args(args).output().expect("runs");
+    let read = oblique()
+        .args(args)
+        .env("OBLIQUE_MAP_NO_MMAP", "1")
+        .output()
+        .expect("runs");
+    let bytes = std::fs::read(&input).expect("fixture");
+    let piped = run_stdin(&["map", "-", "--pair", PAIR, "--all-columns"], &bytes);
+    for o in [&mapped, &read, &piped] {
+        assert!(o.status.success(), "{}", text(&o.stderr));
+    }
+    assert!(!mapped.stdout.is_empty());
+    assert_eq!(mapped.stdout, read.stdout);
+    assert_eq!(mapped.stdout, piped.stdout);
+}
