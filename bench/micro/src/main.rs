@@ -3,14 +3,14 @@
 //! 2 000 000-row benchmark file (`bench/gen_interface.py`), or a path given as the argument.
 
 #[allow(dead_code)]
-#[path = "../../../crates/oblique-map/src/input/number.rs"]
-mod number;
-#[allow(dead_code)]
 #[path = "../../../crates/oblique-map/src/input/fields.rs"]
 mod fields;
 #[allow(dead_code)]
 #[path = "../../../crates/oblique-map/src/format.rs"]
 mod format;
+#[allow(dead_code)]
+#[path = "../../../crates/oblique-map/src/input/number.rs"]
+mod number;
 
 use std::time::Instant;
 
@@ -66,9 +66,17 @@ fn main() {
     let per_field = |t: f64| t * 1e9 / spans.len() as f64;
     let mut sum = 0.0;
     let parsers: [(&str, &dyn Fn(&[u8]) -> Option<f64>); 4] = [
-        ("map (plain_decimal, fast-float2 behind)", &|b| number::parse_number(b)),
-        ("fast-float2", &|b| fast_float2::parse::<f64, _>(b).ok().filter(|v| v.is_finite())),
-        ("lexical-core", &|b| lexical_core::parse::<f64>(b).ok().filter(|v| v.is_finite())),
+        ("map (plain_decimal, fast-float2 behind)", &|b| {
+            number::parse_number(b)
+        }),
+        ("fast-float2", &|b| {
+            fast_float2::parse::<f64, _>(b)
+                .ok()
+                .filter(|v| v.is_finite())
+        }),
+        ("lexical-core", &|b| {
+            lexical_core::parse::<f64>(b).ok().filter(|v| v.is_finite())
+        }),
         ("std", &|b| std::str::from_utf8(b).ok()?.parse::<f64>().ok()),
     ];
     println!("parse: {} number fields", spans.len());
@@ -85,7 +93,9 @@ fn main() {
     let mut xs = Vec::with_capacity(1_000_000);
     let mut s = 12345u64;
     for _ in 0..1_000_000 {
-        s = s.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        s = s
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
         let u = (s >> 11) as f64 / (1u64 << 53) as f64;
         xs.push((1000.0 + 7000.0 * u, 1.0 + 3.0 * u, -0.9 + 1.8 * u));
     }
@@ -106,7 +116,11 @@ fn main() {
     });
     let swar = tb.as_bytes().to_vec();
     println!("format: 3 000 000 numbers with fixed decimals");
-    println!("  {:42} {:6.2} ns a number", "map (fixed_n, SWAR)", t * 1e9 / 3e6);
+    println!(
+        "  {:42} {:6.2} ns a number",
+        "map (fixed_n, SWAR)",
+        t * 1e9 / 3e6
+    );
     let mut v: Vec<u8> = Vec::with_capacity(64 << 20);
     let t = best(|| {
         v.clear();
@@ -120,8 +134,14 @@ fn main() {
         }
     });
     assert!(v == swar, "the same text");
-    println!("  {:42} {:6.2} ns a number", "itoa (same rounding)", t * 1e9 / 3e6);
-    let counted: Vec<u8> = (2..1_000_002u64).flat_map(|r| format!("{r},").into_bytes()).collect();
+    println!(
+        "  {:42} {:6.2} ns a number",
+        "itoa (same rounding)",
+        t * 1e9 / 3e6
+    );
+    let counted: Vec<u8> = (2..1_000_002u64)
+        .flat_map(|r| format!("{r},").into_bytes())
+        .collect();
     let t = best(|| {
         tb.clear();
         for r in 2..1_000_002u64 {
@@ -133,7 +153,11 @@ fn main() {
         }
     });
     assert!(tb.as_bytes() == counted, "the same text");
-    println!("  {:42} {:6.2} ns a row number", "map (RowWriter::u64, SWAR)", t * 1e9 / 1e6);
+    println!(
+        "  {:42} {:6.2} ns a row number",
+        "map (RowWriter::u64, SWAR)",
+        t * 1e9 / 1e6
+    );
     let t = best(|| {
         v.clear();
         let mut b = itoa::Buffer::new();
@@ -155,7 +179,11 @@ fn main() {
         }
     });
     println!("split: {rows} lines");
-    println!("  {:42} {:6.2} ns a line", "map (split_plain_record)", t * 1e9 / rows as f64);
+    println!(
+        "  {:42} {:6.2} ns a line",
+        "map (split_plain_record)",
+        t * 1e9 / rows as f64
+    );
     let mut out = vec![0u8; 4096];
     let mut ends = vec![0usize; 256];
     let t = best(|| {
@@ -173,7 +201,11 @@ fn main() {
             }
         }
     });
-    println!("  {:42} {:6.2} ns a line", "csv-core Reader::read_record", t * 1e9 / rows as f64);
+    println!(
+        "  {:42} {:6.2} ns a line",
+        "csv-core Reader::read_record",
+        t * 1e9 / rows as f64
+    );
 
     // Records with a quoted field (every id quoted, holding a comma): the byte-by-byte path.
     let mut quoted = Vec::with_capacity(body.len() * 2);
@@ -195,7 +227,11 @@ fn main() {
         }
     });
     println!("split, a quoted field in every line: {rows} lines");
-    println!("  {:42} {:6.2} ns a line", "map (next_record + split_fields)", t * 1e9 / rows as f64);
+    println!(
+        "  {:42} {:6.2} ns a line",
+        "map (next_record + split_fields)",
+        t * 1e9 / rows as f64
+    );
     let t = best(|| {
         let mut rdr = csv_core::ReaderBuilder::new()
             .terminator(csv_core::Terminator::Any(b'\n'))
@@ -211,6 +247,10 @@ fn main() {
             }
         }
     });
-    println!("  {:42} {:6.2} ns a line", "csv-core Reader::read_record", t * 1e9 / rows as f64);
+    println!(
+        "  {:42} {:6.2} ns a line",
+        "csv-core Reader::read_record",
+        t * 1e9 / rows as f64
+    );
     println!("(checksums {sum:.3e} {total})");
 }
