@@ -8,8 +8,9 @@
 //! interface (length-weighted welded fraction, segments, unbonded ends, the smallest margins),
 //! with its text and JSON renderings.
 //!
-//! Nothing here parses flags or opens files: the input is any [`std::io::Read`], the outputs
-//! any [`std::io::Write`]. The layout is described in `docs/weld-map.md`. A verdict is a
+//! Nothing here parses flags or opens files: the input is any [`std::io::Read`] (or bytes
+//! already in memory, such as a memory-mapped file: [`WeldMap::open_in_memory`]), the outputs
+//! any [`std::io::Write`]. The output's columns are a [`ColumnSelection`]. The layout is described in `docs/weld-map.md`. A verdict is a
 //! screening estimate from published relations and the window's trials, never a guarantee of a
 //! weld: pulsed power, stored energy, explosives and flying parts are dangerous; follow local
 //! codes and licensed practice.
