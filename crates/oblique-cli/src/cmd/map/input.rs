@@ -30,12 +30,18 @@ pub fn open(path: &Path, stdin: bool, name: &str) -> CmdResult<(Opened, Option<u
     let meta = f.metadata().ok();
     let is_file = meta.as_ref().is_some_and(std::fs::Metadata::is_file);
     let len = meta.map(|m| m.len());
-    if is_file && len.is_some_and(|l| l > 0) && std::env::var_os(NO_MMAP_ENV).is_none() {
+    // Unix only: the pages read are given back with madvise, which keeps the memory bounded.
+    if cfg!(unix)
+        && is_file
+        && len.is_some_and(|l| l > 0)
+        && std::env::var_os(NO_MMAP_ENV).is_none()
+    {
         // SAFETY: the mapping is read-only (shared with the page cache) and its bytes are
         // only read. A file truncated by another program while it is mapped would fault (SIGBUS):
         // documented, with `OBLIQUE_MAP_NO_MMAP` to read such a file instead.
         if let Ok(map) = unsafe { memmap2::Mmap::map(&f) } {
             // A hint only: read ahead along the file.
+            #[cfg(unix)]
             let _ = map.advise(memmap2::Advice::Sequential);
             return Ok((Opened::Mapped(map), len, is_file));
         }
@@ -60,9 +66,12 @@ pub fn weld_map<'a>(
                 // copies of those pages (they stay in the page cache and fault back in if read
                 // again), so no data can be lost; the map calls it for ranges it is done with,
                 // which keeps the resident memory bounded.
+                #[cfg(unix)]
                 let _ = unsafe {
                     map.unchecked_advise_range(memmap2::UncheckedAdvice::DontNeed, r.start, r.len())
                 };
+                #[cfg(not(unix))]
+                let _ = (map, r);
             };
             WeldMap::open_in_memory(
                 window,
