@@ -271,20 +271,22 @@ def main(argv):
     if "input" in want:
         out += [pl.col(c) for c in header]
     if "verdict" in want:
-        out.append(pl.col("_v").replace_strict([0, 1, 2], ["welded", "not-welded", "melted"], return_dtype=pl.String).alias("verdict"))
+        names = ["welded", "not-welded", "melted"]
+        out.append(pl.col("_v").replace_strict([0, 1, 2], names, return_dtype=pl.Enum(names)).alias("verdict"))
     if "binding" in want:
-        out.append(b.replace_strict(ids, [l[0] for l in limits], default=None, return_dtype=pl.String).alias("binding"))
+        names = [l[0] for l in limits]
+        out.append(b.replace_strict(ids, names, default=None, return_dtype=pl.Enum(names)).alias("binding"))
     if "binding_margin" in want:
         out.append(pl.col("_bm").alias("binding_margin"))
     if "binding_margin_unit" in want:
         units = [l[1].split("[")[1].rstrip("]") for l in limits]
-        out.append(b.replace_strict(ids, units, default=None, return_dtype=pl.String).alias("binding_margin_unit"))
+        out.append(b.replace_strict(ids, units, default=None, return_dtype=pl.Enum(sorted(set(units)))).alias("binding_margin_unit"))
     if "binding_relative_margin" in want:
         out.append(pl.col("_br").round(4).alias("binding_relative_margin"))
     if "failing_limits" in want:
         combos = list(range(1 << n))
         texts = [";".join(l[0] for k, l in enumerate(limits) if (c >> k) & 1) for c in combos]
-        out.append(code.replace_strict(combos, texts, return_dtype=pl.String).alias("failing_limits"))
+        out.append(code.replace_strict(combos, texts, return_dtype=pl.Enum(sorted(set(texts)))).alias("failing_limits"))
     if "impact_velocity" in want:
         out.append(vp.round(1).alias("impact_velocity[m/s]"))
     if "collision_velocity" in want:
