@@ -146,7 +146,8 @@ mod tests {
         ] {
             assert_eq!(parse_number(t.as_bytes()), Some(v), "{t}");
         }
-        // Past the fast path's limits (20 digits, 2^53 + 1, a long exponent): fast-float2 decides, as std would.
+        // Past the fast path's limits (20 digits, 2^53 + 1, a long exponent): fast-float2
+        // decides, as std would.
         for (t, v) in [
             ("12345678901234567890", 12345678901234567890.0),
             ("9007199254740993", 9007199254740993.0),
