@@ -240,13 +240,12 @@ pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>>
 /// # Errors
 /// The file cannot be read (exit 2, naming it).
 pub fn read_input(path: &Path) -> CmdResult<Vec<u8>> {
+    use oblique_window::files::{read_all_bounded, read_bounded, MAX_READ_BYTES};
     if path.as_os_str() == "-" {
-        let mut buf = Vec::new();
-        std::io::Read::read_to_end(&mut std::io::stdin().lock(), &mut buf)
-            .map_err(|e| Fail::input(format!("standard input: {e}")))?;
-        return Ok(buf);
+        return read_all_bounded(std::io::stdin().lock(), MAX_READ_BYTES)
+            .map_err(|e| Fail::input(format!("standard input: {e}")));
     }
-    std::fs::read(path).map_err(|e| Fail::input(format!("{}: {e}", path.display())))
+    read_bounded(path).map_err(|e| Fail::input(format!("{}: {e}", path.display())))
 }
 
 /// Where a file went, for the closing message: on standard error when the file itself went to
@@ -277,12 +276,28 @@ pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
         };
     }
     oblique_window::write::atomic_write(path, bytes, None).map_err(|e| match e {
-        WriteError::Io { source, .. } => Fail::input(format!(
+        WriteError::Io { source, .. } => Fail::other(format!(
             "{}: cannot write: {source}\n  hint: check that the folder exists and is writable",
             path.display()
         )),
-        other => Fail::other(format!("cannot write {}: {other}", path.display())),
+        other => write_fail(other),
     })
+}
+
+/// The exit code of a write that did not happen: 1 when the command was right and the machine
+/// or another process stood in the way (an IO error, another writer's lock held too long), 2
+/// when the path or the data asked for cannot be written (a folder, a read-only or library
+/// file, an existing name, a change that would leave an invalid file, a file that is no longer
+/// the one the user read: `--if-unchanged`).
+pub fn write_fail(e: oblique_window::write::WriteError) -> Fail {
+    use oblique_window::write::WriteError;
+    match e {
+        WriteError::Io { .. } | WriteError::Locked { .. } => Fail::other(e.to_string()),
+        WriteError::Conflict { .. }
+        | WriteError::Invalid(_)
+        | WriteError::Exists(_)
+        | WriteError::Structure { .. } => Fail::input(e.to_string()),
+    }
 }
 
 impl From<SetupError> for Fail {

@@ -45,10 +45,7 @@ fn method_word(m: MethodArg) -> &'static str {
 }
 
 fn write_fail(e: WriteError) -> Fail {
-    match e {
-        WriteError::Io { .. } => Fail::other(e.to_string()),
-        _ => Fail::input(e.to_string()),
-    }
+    crate::common::write_fail(e)
 }
 
 /// The user file of a pair, or an error saying that built-in pairs are read-only.

@@ -429,7 +429,7 @@ fn run_process(
 /// The sweep file's bytes and settings, checked against the report's model and pair.
 fn read_sweep(path: &Path, model: &str, pair: &str) -> CmdResult<(PathBuf, Vec<u8>, SweepFile)> {
     let shown = path.display();
-    let bytes = std::fs::read(path)
+    let bytes = oblique_window::files::read_bounded(path)
         .map_err(|e| Fail::input(format!("--from-sweep {shown}: cannot read: {e}")))?;
     let v: serde_json::Value = serde_json::from_slice(&bytes)
         .map_err(|e| Fail::input(format!("--from-sweep {shown}: not JSON: {e}")))?;
@@ -525,7 +525,7 @@ fn write_record(
 ) -> CmdResult {
     let mut curves = Vec::new();
     for f in &r.curve {
-        let bytes = std::fs::read(f)
+        let bytes = oblique_window::files::read_bounded(f)
             .map_err(|e| Fail::input(format!("--curve {}: cannot read: {e}", f.display())))?;
         files.push(FileUse {
             role: "process curve (--curve)".into(),

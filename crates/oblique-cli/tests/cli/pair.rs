@@ -567,3 +567,35 @@ fn shadowing_a_built_in_pair_warns() {
     assert_eq!(o.status.code(), Some(0));
     assert!(stderr(&o).contains("shadows"), "{}", stderr(&o));
 }
+
+/// Two files in one folder that define the same pair name make the name ambiguous: a command
+/// that asks for it is refused (exit 2) naming both files, instead of taking whichever file
+/// sorts first.
+#[test]
+fn a_pair_name_defined_twice_in_one_folder_is_refused() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    for f in ["duplicate-a.ron", "duplicate-b.ron"] {
+        std::fs::copy(repo().join("tests/broken").join(f), dir.path().join(f)).expect("copy");
+    }
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "check",
+            "--pair",
+            "twin",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stdout(&o));
+    let e = stderr(&o);
+    assert!(e.contains("duplicate pair name 'twin'"), "{e}");
+    assert!(
+        e.contains("duplicate-a.ron") && e.contains("duplicate-b.ron"),
+        "{e}"
+    );
+}

@@ -909,3 +909,188 @@ fn a_huge_cell_is_not_echoed_whole() {
     assert!(err.len() < 5_000, "{} bytes of message", err.len());
     assert!(err.contains("velocity"), "{}", &err[..err.len().min(500)]);
 }
+
+/// A user pair `p` in a fresh library folder, and an interface export beside it.
+fn pair_folder() -> tempfile::TempDir {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "pair",
+            "new",
+            "p",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    std::fs::write(
+        dir.path().join("interface.csv"),
+        "position[mm],velocity[m/s],angle[deg]\n0,400,10\n",
+    )
+    .expect("interface");
+    dir
+}
+
+/// An output that leads to a loaded library file, through a symbolic link or by its own name,
+/// is refused (exit 2) and the pair file stays as it was.
+#[cfg(unix)]
+#[test]
+fn an_output_never_replaces_a_library_file() {
+    let dir = pair_folder();
+    let d = dir.path();
+    let before = std::fs::read(d.join("p.ron")).expect("pair");
+    std::os::unix::fs::symlink(d.join("p.ron"), d.join("out.csv")).expect("link");
+    for out in ["out.csv", "p.ron"] {
+        let o = run_in(
+            d,
+            &[
+                "--library",
+                ".",
+                "map",
+                "interface.csv",
+                "--pair",
+                "p",
+                "-o",
+                out,
+            ],
+        );
+        assert_eq!(o.status.code(), Some(2), "{out}: {}", stderr(&o));
+        // By its own name the extension rule refuses it first; through the link, the library.
+        if out == "out.csv" {
+            assert!(stderr(&o).contains("library file"), "{}", stderr(&o));
+        }
+        let o = run_in(
+            d,
+            &[
+                "--library",
+                ".",
+                "plot",
+                "--pair",
+                "p",
+                "--velocity",
+                "400m/s",
+                "--angle",
+                "10deg",
+                "-o",
+                out,
+            ],
+        );
+        assert_ne!(
+            o.status.code(),
+            Some(0),
+            "{out}: plot wrote over the pair file"
+        );
+    }
+    assert_eq!(std::fs::read(d.join("p.ron")).expect("pair"), before);
+}
+
+/// A read-only output file is not silently replaced (even for root), and a read-only pair file
+/// takes no observation; both exit 2 and keep the file.
+#[cfg(unix)]
+#[test]
+fn read_only_files_are_not_replaced() {
+    use std::os::unix::fs::PermissionsExt;
+    let dir = pair_folder();
+    let d = dir.path();
+    std::fs::write(d.join("kept.csv"), "old\n").expect("write");
+    std::fs::set_permissions(d.join("kept.csv"), std::fs::Permissions::from_mode(0o444))
+        .expect("chmod");
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "map",
+            "interface.csv",
+            "--pair",
+            "p",
+            "-o",
+            "kept.csv",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("read-only"), "{}", stderr(&o));
+    assert_eq!(std::fs::read(d.join("kept.csv")).expect("read"), b"old\n");
+
+    let before = std::fs::read(d.join("p.ron")).expect("pair");
+    std::fs::set_permissions(d.join("p.ron"), std::fs::Permissions::from_mode(0o444))
+        .expect("chmod");
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            "p",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "read-only test",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("read-only"), "{}", stderr(&o));
+    assert_eq!(std::fs::read(d.join("p.ron")).expect("pair"), before);
+}
+
+/// `/dev/stdout` (a link to /proc/self/fd/1, whose pipe has no path) is written in place.
+#[cfg(target_os = "linux")]
+#[test]
+fn dev_stdout_is_an_output() {
+    let dir = pair_folder();
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "map",
+            "interface.csv",
+            "--pair",
+            "p",
+            "-o",
+            "/dev/stdout",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).starts_with("row,position"), "{}", stdout(&o));
+}
+
+/// A device that never ends (`/dev/zero`) given where a file is read whole is refused with a
+/// message naming the bound, not read until the memory runs out.
+#[cfg(unix)]
+#[test]
+fn endless_inputs_are_refused() {
+    let dir = pair_folder();
+    let d = dir.path();
+    for args in [
+        vec!["--library", ".", "pair", "import", "p", "/dev/zero"],
+        vec!["--library", ".", "pair", "validate", "/dev/zero"],
+        vec![
+            "--library",
+            ".",
+            "plot",
+            "--pair",
+            "p",
+            "--points",
+            "/dev/zero",
+            "-o",
+            "x.svg",
+        ],
+    ] {
+        let o = run_in(d, &args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}: {}", stderr(&o));
+        assert!(stderr(&o).contains("MiB"), "{args:?}: {}", stderr(&o));
+    }
+}

@@ -123,7 +123,7 @@ pub fn run_export(dirs: &[PathBuf], name: &str) -> CmdResult {
     let rec = machines.get(name).map_err(Fail::input)?;
     match &rec.origin.path {
         Some(p) => {
-            let text = std::fs::read_to_string(p)
+            let text = oblique_window::files::read_text_bounded(p)
                 .map_err(|e| Fail::other(format!("cannot read {}: {e}", p.display())))?;
             emit(&text)
         }

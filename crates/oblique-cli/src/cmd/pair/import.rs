@@ -261,7 +261,7 @@ pub(super) fn precheck_import(
     rows: &[(u64, ObservationEntry)],
     lib: &Library,
 ) -> CmdResult {
-    let Ok(text) = std::fs::read_to_string(pair_path) else {
+    let Ok(text) = oblique_window::files::read_text_bounded(pair_path) else {
         return Ok(()); // the append itself reports an unreadable file
     };
     let origin = |t: &str| Origin {
