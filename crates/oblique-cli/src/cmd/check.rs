@@ -166,6 +166,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
                             "value": v.value, "low": v.low, "high": v.high,
                         }))).collect::<serde_json::Map<_, _>>(),
                         "overridden_by_flags": fitted_note.as_ref().is_some_and(|n| n.contains("overrides")),
+                        "cautions": f.cautions(window.observations.len()),
                     }),
                 );
             }
@@ -212,6 +213,9 @@ fn fitted_note(window: &oblique_window::PairWindow, flags: &ConstantArgs) -> Opt
     }
     s.pop();
     s.push('\n');
+    for c in f.cautions(window.observations.len()) {
+        s.push_str(&format!("  caution: {c}\n"));
+    }
     Some(s)
 }
 
