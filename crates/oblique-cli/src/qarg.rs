@@ -11,6 +11,15 @@ macro_rules! parser {
     };
 }
 
+/// A one-line text (a source, a label, a provenance): no line break or control character, so
+/// that it can never pass for a line of oblique's own output where it is shown.
+pub fn one_line_text(s: &str) -> Result<String, String> {
+    match oblique_window::text::one_line_problem(s) {
+        Some(p) => Err(p),
+        None => Ok(s.to_string()),
+    }
+}
+
 parser!(velocity, QuantityKind::Velocity);
 parser!(length, QuantityKind::Length);
 parser!(capacitance, QuantityKind::Capacitance);

@@ -841,7 +841,7 @@ fn trials_text(t: &crate::trials::TrialsNear) -> String {
                 n.angle_deg,
                 n.outcome,
                 n.distance,
-                n.source
+                crate::text::one_line(&n.source)
             ));
         }
     }

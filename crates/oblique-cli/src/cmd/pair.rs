@@ -129,8 +129,8 @@ pub struct ObserveArgs {
     /// What the section or peel test showed.
     #[arg(long, value_enum, ignore_case = true)]
     pub outcome: OutcomeArg,
-    /// Report, shot log or paper the shot comes from.
-    #[arg(long, value_name = "TEXT")]
+    /// Report, shot log or paper the shot comes from (one line).
+    #[arg(long, value_name = "TEXT", value_parser = crate::qarg::one_line_text)]
     pub source: String,
     /// Free note.
     #[arg(long, value_name = "TEXT")]

@@ -328,15 +328,37 @@ fn hostile_text_stays_text_in_svg_html_and_the_terminal() {
         "--source",
         "shot \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed",
     ]);
+    // A source is one line of plain text: control characters are refused at the flag.
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("--source"), "{}", stderr(&o));
+    // Free text (the description, a note) may hold anything; it must stay text where shown.
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "hostile",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "shot 1",
+        "--note",
+        "note \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed",
+    ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let path = dir.path().join("hostile.ron");
     let text = std::fs::read_to_string(&path).expect("pair");
-    let text = text.replace(
-        "    boundaries: [\n    ],",
-        &format!(
-            "    boundaries: [\n        (label: {}, plane: \"angle-impact-velocity\", weld_side: \"right\", points: [(\"300 m/s\", \"5 deg\"), (\"300 m/s\", \"20 deg\")], provenance: \"test\"),\n    ],",
-            oblique_window::write::ron_string(evil)
-        ),
+    let at = text.find("description: ").expect("description");
+    let end = at + text[at..].find(",\n").expect("end of description");
+    let text = format!(
+        "{}description: {}{}",
+        &text[..at],
+        oblique_window::write::ron_string(evil),
+        &text[end..]
     );
     std::fs::write(&path, text).expect("write");
     for args in [
@@ -1093,4 +1115,66 @@ fn endless_inputs_are_refused() {
         assert_eq!(o.status.code(), Some(2), "{args:?}: {}", stderr(&o));
         assert!(stderr(&o).contains("MiB"), "{args:?}: {}", stderr(&o));
     }
+}
+
+/// A line break in a one-line field (a source, a boundary label) is refused with the file,
+/// line and field; given as a flag, the flag is named; a note may hold line breaks, and pair
+/// show prints it on one line with `\n` shown, so that no user text starts a line of its own.
+#[test]
+fn user_text_cannot_forge_a_line() {
+    let dir = pair_folder();
+    let d = dir.path();
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            "p",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "log 7\nverdict: INSIDE the window",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("--source"), "{}", stderr(&o));
+    assert!(stderr(&o).contains("one line"), "{}", stderr(&o));
+
+    let text = std::fs::read_to_string(d.join("p.ron")).expect("pair");
+    let forged = text.replacen(
+        "observations: [",
+        "observations: [\n        (velocity: \"400 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"log 7\\nverdict: INSIDE\"),",
+        1,
+    );
+    assert_ne!(forged, text, "the test file has no observations list");
+    std::fs::write(d.join("p.ron"), &forged).expect("write");
+    let o = run_in(d, &["--library", ".", "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("observations[0].source") && e.contains("one line"),
+        "{e}"
+    );
+
+    let noted = text.replacen(
+        "observations: [",
+        "observations: [\n        (velocity: \"400 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"log 7\", note: \"first line\\nverdict: INSIDE\"),",
+        1,
+    );
+    std::fs::write(d.join("p.ron"), &noted).expect("write");
+    let o = run_in(d, &["--library", ".", "pair", "show", "p", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = run_in(d, &["--library", ".", "pair", "show", "p"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        !stdout(&o).lines().any(|l| l.starts_with("verdict")),
+        "{}",
+        stdout(&o)
+    );
 }

@@ -171,6 +171,7 @@ fn question(input: &ReportInput<'_>, c: &Classification) -> String {
 fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
     let w = input.window;
     let word = match (c.inside, c.outside_trial_data) {
+        _ if !c.domain.inside() => "OUTSIDE THE VALIDITY DOMAIN: no verdict claimed",
         (true, false) => "INSIDE the window",
         (true, true) => "INSIDE the model limits, but OUTSIDE the trial data",
         (false, _) => "OUTSIDE the window",

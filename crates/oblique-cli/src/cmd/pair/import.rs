@@ -225,6 +225,9 @@ pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEnt
         if entry.source.is_empty() {
             problems.push(format!("{display}:{row}: field 'source' is empty"));
         }
+        if let Some(p) = oblique_window::text::one_line_problem(&entry.source) {
+            problems.push(format!("{display}:{row}: field 'source': {p}"));
+        }
         if let Ok(rad) = parse_quantity(&entry.angle, QuantityKind::Angle) {
             let d = rad.to_degrees();
             if !(d > 0.0 && d < 90.0) {
