@@ -100,9 +100,11 @@ pub struct NewArgs {
     /// What the window is for, e.g. "busbar connector, tube on rod".
     #[arg(long, value_name = "TEXT")]
     pub description: Option<String>,
-    /// Convention in which the trials' velocities are recorded.
-    #[arg(long, value_enum, default_value = "normal-to-flyer")]
-    pub convention: ConventionArg,
+    /// Convention in which the trials' velocities are recorded (default normal-to-flyer for
+    /// magnetic pulse, foil actuator and laser welding; required for the other processes, whose
+    /// records use more than one).
+    #[arg(long, value_enum)]
+    pub convention: Option<ConventionArg>,
     /// Process the window is for; sets whether the pressure limit is on by default (on for
     /// magnetic pulse, off for explosive welding: docs/theory.md §5.4).
     #[arg(long, value_enum, default_value = "magnetic-pulse")]
@@ -455,6 +457,17 @@ fn new_pair(dirs: &[PathBuf], a: NewArgs) -> CmdResult {
         maintainer,
         json,
     } = a;
+    let convention = match (convention, process) {
+        (Some(c), _) => c,
+        (None, ProcessArg::MagneticPulse | ProcessArg::FoilActuator | ProcessArg::Laser) => {
+            ConventionArg::NormalToFlyer
+        }
+        (None, _) => {
+            return Err(Fail::input(
+                "--convention: say in which convention this window's velocities are recorded: for explosive welding, gas guns and other processes the records use more than one (bisector, normal-to-flyer, normal-to-parent; docs/theory.md), and a wrong guess moves every trial\n  hint: e.g. --convention bisector",
+            ))
+        }
+    };
     let lib = load_library(dirs)?;
     let dir = dirs.first().ok_or_else(|| {
             Fail::input("pair new writes into the first --library folder, and none was given\n  hint: oblique --library ./my-windows pair new NAME ...")

@@ -236,6 +236,32 @@ fn new_writes_templates_the_library_refuses_until_filled() {
     let o = run(&["--library", lib, "pair", "validate"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(format!("{}{}", stdout(&o), stderr(&o)).contains("b1.ron"));
+    // Every value filled in but the sources and the description left as the template's: still
+    // refused, each placeholder named at its line.
+    let path = dir.path().join("machines/b1.ron");
+    let text = std::fs::read_to_string(&path).expect("bank");
+    let filled = text
+        .replacen("value: \"FILL IN\"", "value: \"300 uF\"", 1)
+        .replacen("value: \"FILL IN\"", "value: \"12 kV\"", 1)
+        .replacen("frequency: \"FILL IN\"", "frequency: \"45 kHz\"", 1)
+        .replacen("peak_ratio: \"FILL IN\"", "peak_ratio: \"3.0\"", 1)
+        .replacen("date: \"FILL IN\"", "date: \"2026-11-30\"", 1);
+    assert!(!filled.contains(": \"FILL IN\""), "{filled}");
+    std::fs::write(&path, filled).expect("write");
+    let o = run(&["--library", lib, "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2));
+    let all = format!("{}{}", stdout(&o), stderr(&o));
+    assert!(all.contains("b1.ron:8:"), "{all}");
+    let b1: Vec<&str> = all
+        .lines()
+        .filter(|l| l.contains("b1.ron:") && !l.contains("bc1.ron"))
+        .collect();
+    assert_eq!(b1.len(), 4, "{all}");
+    assert!(
+        b1.iter()
+            .all(|l| l.contains("still the template's placeholder")),
+        "{all}"
+    );
 }
 
 #[test]

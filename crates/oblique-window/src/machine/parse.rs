@@ -405,6 +405,7 @@ pub fn parse_machine_file(
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let parsed: MachineFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
+    c.check_placeholders();
     c.check_format(&parsed.format, MACHINE_FORMAT);
     c.check_name(&parsed.name, "name", "shop-bank-300uf");
     if parsed.maintainer.trim().is_empty() {

@@ -212,6 +212,27 @@ pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEnt
             source: get("source").unwrap_or_default(),
             note: get("note"),
         };
+        for (field, value, kind) in [
+            (
+                "velocity_uncertainty",
+                &entry.velocity_uncertainty,
+                QuantityKind::Velocity,
+            ),
+            (
+                "angle_uncertainty",
+                &entry.angle_uncertainty,
+                QuantityKind::Angle,
+            ),
+        ] {
+            // Checked here with every other field, so that one run lists every problem.
+            if let Some(x) = value.as_deref().and_then(|t| parse_quantity(t, kind).ok()) {
+                if x < 0.0 {
+                    problems.push(format!(
+                        "{display}:{row}: field '{field}': must not be negative (an uncertainty is a spread)"
+                    ));
+                }
+            }
+        }
         if oblique_window::Outcome::parse(&entry.outcome).is_none() {
             problems.push(format!("{display}:{row}: field 'outcome': unknown outcome '{}'\n  hint: use welded, not-welded, partial or melted", entry.outcome));
         }
