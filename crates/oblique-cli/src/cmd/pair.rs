@@ -153,7 +153,7 @@ pub struct ObserveArgs {
     #[arg(long, value_name = "DATE", value_parser = qarg::date)]
     pub date: Option<String>,
     /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
-    #[arg(long = "if-unchanged", value_name = "SHA256")]
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
     pub if_unchanged: Option<String>,
     /// Print JSON.
     #[arg(long)]
@@ -168,7 +168,7 @@ pub struct ImportArgs {
     /// CSV file.
     pub file: PathBuf,
     /// Refuse to write unless the pair file still has this SHA-256 (from `pair show --json`).
-    #[arg(long = "if-unchanged", value_name = "SHA256")]
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
     pub if_unchanged: Option<String>,
     /// Print JSON.
     #[arg(long)]
@@ -344,6 +344,16 @@ fn note_target(path: &Path) {
 /// Degrees kept to a sensible precision for a file (no binary noise such as 8.999999999).
 fn round_deg(d: f64) -> f64 {
     (d * 1e9).round() / 1e9
+}
+
+/// A velocity for the file in m/s: twelve significant digits, so that a unit conversion's last
+/// bit (0.29 km/s is 289.99999999999994 m/s in binary) is not written as if measured.
+fn round_velocity(v: f64) -> f64 {
+    if v == 0.0 || !v.is_finite() {
+        return v;
+    }
+    let scale = 10f64.powi(11 - v.abs().log10().floor() as i32);
+    (v * scale).round() / scale
 }
 
 fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdResult {
@@ -559,12 +569,12 @@ fn observe(dirs: &[PathBuf], a: ObserveArgs) -> CmdResult {
         ));
     }
     let entry = ObservationEntry {
-        velocity: format!("{velocity} m/s"),
+        velocity: format!("{} m/s", round_velocity(velocity)),
         angle: format!("{} deg", round_deg(angle.to_degrees())),
         outcome: outcome_word(outcome).into(),
         process: process.as_str().into(),
         method: method_word(method).into(),
-        velocity_uncertainty: velocity_uncertainty.map(|v| format!("{v} m/s")),
+        velocity_uncertainty: velocity_uncertainty.map(|v| format!("{} m/s", round_velocity(v))),
         angle_uncertainty: angle_uncertainty.map(|a| format!("{} deg", round_deg(a.to_degrees()))),
         date: Some(date.unwrap_or_else(today)),
         source,

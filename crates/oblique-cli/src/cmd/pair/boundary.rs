@@ -59,7 +59,7 @@ pub struct BoundaryAddArgs {
     #[arg(long, alias = "source", value_name = "TEXT", value_parser = crate::qarg::one_line_text)]
     pub provenance: String,
     /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
-    #[arg(long = "if-unchanged", value_name = "SHA256")]
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
     pub if_unchanged: Option<String>,
     /// Print JSON.
     #[arg(long)]
