@@ -694,6 +694,25 @@ pub fn parse_pair_file(
     let mut c = Collector::new(&file, text);
     c.check_format(&parsed.format, WINDOW_FORMAT);
     c.check_name(&parsed.name, "pair name", "al6061-on-cu");
+    if parsed.name.starts_with('.') {
+        c.push(
+            "name",
+            format!(
+                "pair name '{}' must not start with a dot (pair new refuses it: its file would be hidden)",
+                parsed.name
+            ),
+            None,
+        );
+    }
+    for (i, r) in parsed.revisions.iter().enumerate() {
+        if let Some(problem) = crate::diag::date_problem(&r.date) {
+            c.push(
+                &format!("revisions[{i}].date"),
+                problem,
+                Some("write it like \"2026-11-30\"".into()),
+            );
+        }
+    }
     let inline = validate_entries(
         &mut c,
         "materials",

@@ -165,7 +165,9 @@ pub struct ObserveArgs {
 pub struct ImportArgs {
     /// Pair name.
     pub name: String,
-    /// CSV file.
+    /// CSV file ('-' for standard input): a header with the unit of each quantity in brackets,
+    /// velocity[m/s],angle[deg],outcome,source (required), then any of process, method, date,
+    /// note, velocity_uncertainty[UNIT], angle_uncertainty[UNIT] (docs/window-format.md §5.1).
     pub file: PathBuf,
     /// Refuse to write unless the pair file still has this SHA-256 (from `pair show --json`).
     #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]

@@ -14,6 +14,7 @@ use std::path::{Path, PathBuf};
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub enum PlaneArg {
     /// Collision angle against impact velocity Vp.
+    #[value(alias = "angle-impact-velocity")]
     AngleVelocity,
     /// Collision angle against collision-point velocity Vc.
     AngleCollisionVelocity,
