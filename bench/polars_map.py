@@ -246,8 +246,23 @@ def main(argv):
     code = pl.sum_horizontal([(~s).cast(pl.UInt32) * (1 << k) for k, s in enumerate(sat)]) if n else pl.lit(0)
     lf = lf.with_columns(code.cast(pl.UInt32).alias("_code"))
     code = pl.col("_code")
-    # Welded when nothing fails, melted when only velocity ceilings do, else not welded.
-    verdict = pl.when(code == 0).then(0).when((code & (((1 << n) - 1) ^ ceilings)) == 0).then(2).otherwise(1)
+    # The validity domain (the window's `validity_domain`, docs/theory.md §7.1): every bound
+    # inclusive, the Mach bounds on the velocities themselves (bound x C0), as the core does.
+    quantity = {
+        "collision_angle": lambda b: deg.is_between(b["min"], b["max"]),
+        "impact_velocity": lambda b: vp.is_between(b["min"], b["max"]),
+        "parent_mach": lambda b: vc.is_between(b["min"] * hp.c0, b["max"] * hp.c0),
+        "flyer_mach": lambda b: vf.is_between(b["min"] * hf.c0, b["max"] * hf.c0),
+        "flyer_thickness": lambda b: pl.lit(b["min"] <= h <= b["max"]),
+    }
+    bounds = w.get("validity_domain", {}).get("bounds", [])
+    inside_domain = pl.all_horizontal([quantity[b["quantity"]](b) for b in bounds]) if bounds else pl.lit(True)
+    # Outside the domain no verdict is claimed; else welded when nothing fails, melted when
+    # only velocity ceilings do, else not welded.
+    verdict = (
+        pl.when(~inside_domain).then(3)
+        .when(code == 0).then(0).when((code & (((1 << n) - 1) ^ ceilings)) == 0).then(2).otherwise(1)
+    )
     lf = lf.with_columns(verdict.cast(pl.UInt8).alias("_v"))
     # The binding limit: the first with the smallest relative margin; its margin in its own
     # unit (rounded to its decimals) and its relative margin.
@@ -271,8 +286,8 @@ def main(argv):
     if "input" in want:
         out += [pl.col(c) for c in header]
     if "verdict" in want:
-        names = ["welded", "not-welded", "melted"]
-        out.append(pl.col("_v").replace_strict([0, 1, 2], names, return_dtype=pl.Enum(names)).alias("verdict"))
+        names = ["welded", "not-welded", "melted", "outside-domain"]
+        out.append(pl.col("_v").replace_strict([0, 1, 2, 3], names, return_dtype=pl.Enum(names)).alias("verdict"))
     if "binding" in want:
         names = [l[0] for l in limits]
         out.append(b.replace_strict(ids, names, default=None, return_dtype=pl.Enum(names)).alias("binding"))
@@ -311,7 +326,7 @@ def main(argv):
     pos = pl.col("_pos")
     owned = ((pos.shift(-1).fill_null(pos) - pos.shift(1).fill_null(pos)).abs() * 0.5)
     summ = lf.select(
-        *[(pl.col("_v") == k).sum().alias(f"n{k}") for k in range(3)],
+        *[(pl.col("_v") == k).sum().alias(f"n{k}") for k in range(4)],
         owned.filter(pl.col("_v") == 0).sum().alias("welded"),
         owned.sum().alias("total"),
         (pl.col("_jd").sum() if table is not None else pl.lit(0)).alias("direct"),
@@ -320,7 +335,8 @@ def main(argv):
     # One streaming run for both: polars shares the common part of the two queries.
     _, s = pl.collect_all([sink, summ], engine="streaming")
     s = s.row(0, named=True)
-    counts = {"welded": s["n0"], "not-welded": s["n1"], "melted": s["n2"]}
+    # Head-on rows (angle 0) are rejected as input here, as the map's CSV reader does.
+    counts = {"welded": s["n0"], "not-welded": s["n1"], "melted": s["n2"], "outside-domain": s["n3"], "head-on": 0}
     summary = {
         "rows_read": s["rows"],
         "rows_classified": s["rows"],

@@ -352,14 +352,32 @@ def main(argv):
         inside = np.ones(len(vp), bool)
         only_ceilings = inside
         binding = np.zeros(len(vp), np.int64)
-    verdict = np.where(inside, 0, np.where(only_ceilings, 2, 1))
+    # The validity domain (the window's `validity_domain`, docs/theory.md §7.1): every bound
+    # inclusive, the Mach bounds on the velocities themselves (bound x C0), as the core does.
+    # Outside it no verdict is claimed.
+    in_domain = np.ones(len(vp), bool)
+    for b in w.get("validity_domain", {}).get("bounds", []):
+        lo, hi, q = b["min"], b["max"], b["quantity"]
+        if q == "collision_angle":
+            in_domain &= (deg >= lo) & (deg <= hi)
+        elif q == "impact_velocity":
+            in_domain &= (vp >= lo) & (vp <= hi)
+        elif q == "parent_mach":
+            in_domain &= (vc >= lo * hp.c0) & (vc <= hi * hp.c0)
+        elif q == "flyer_mach":
+            in_domain &= (vf >= lo * hf.c0) & (vf <= hi * hf.c0)
+        elif q == "flyer_thickness":
+            in_domain &= lo <= h <= hi
+        else:
+            sys.exit(f"unknown validity-domain quantity {q}")
+    verdict = np.where(~in_domain, 3, np.where(inside, 0, np.where(only_ceilings, 2, 1)))
     names = np.array([l[0] for l in limits] or [""], dtype=object)
 
     # Output table: row, the input columns as read, then the computed columns.
     cols = {"row": pa.array(rows)}
     for c in df.columns:
         cols[c] = pa.array(df[c].to_numpy())
-    vnames = np.array(["welded", "not-welded", "melted"], dtype=object)
+    vnames = np.array(["welded", "not-welded", "melted", "outside-domain"], dtype=object)
     cols["verdict"] = pa.array(vnames[verdict])
     cols["binding"] = pa.array(names[binding])
     # The binding limit's margin in its own output unit (rounded to its decimals), and its
@@ -398,12 +416,14 @@ def main(argv):
 
     # Summary: counts; length-weighted welded length (each point owns half the distance to
     # its neighbours); welded/unwelded segments.
-    counts = np.bincount(verdict, minlength=3)
+    counts = np.bincount(verdict, minlength=4)
     summary = {
         "rows_read": rows_read,
         "rows_classified": int(len(vp)),
         "rows_rejected": rejected,
-        "verdict_counts": {"welded": int(counts[0]), "not-welded": int(counts[1]), "melted": int(counts[2])},
+        # Head-on rows (angle 0) are rejected as input here, as the map's CSV reader does.
+        "verdict_counts": {"welded": int(counts[0]), "not-welded": int(counts[1]), "melted": int(counts[2]),
+                           "outside-domain": int(counts[3]), "head-on": 0},
         "jetting_rows_solved_directly": direct_rows,
     }
     if len(pos) > 0:
