@@ -52,26 +52,42 @@ const MATERIAL_FLAGS: &str = "--flyer|--parent";
 const PAIR_FLAGS: &str = "--pair";
 
 /// The bash lines that complete material ids and pair names, wrapped around clap's function.
+/// The `--library` folders already typed on the line are passed on, so that a shop's own pairs
+/// and materials complete too.
 const BASH_DYNAMIC: &str = r#"
-# Material ids and pair names, asked of oblique itself (with your OBLIQUE_LIBRARY).
+# Material ids and pair names, asked of oblique itself (with your OBLIQUE_LIBRARY and the
+# --library folders on the line).
 _oblique_dynamic() {
-    local cur prev words cword
+    local cur prev i w
+    local -a libs=() sub=()
     cur="${COMP_WORDS[COMP_CWORD]}"
     prev="${COMP_WORDS[COMP_CWORD-1]}"
+    for ((i = 1; i < COMP_CWORD; i++)); do
+        w="${COMP_WORDS[i]}"
+        case "$w" in
+            --library) libs+=(--library "${COMP_WORDS[i+1]}"); ((i++)); continue ;;
+            --library=*) libs+=("$w"); continue ;;
+            -*) continue ;;
+        esac
+        sub+=("$w")
+    done
     case "$prev" in
         MATERIAL_FLAGS)
-            COMPREPLY=( $(compgen -W "$(oblique material list --ids 2>/dev/null)" -- "$cur") )
+            COMPREPLY=( $(compgen -W "$(oblique "${libs[@]}" material list --ids 2>/dev/null)" -- "$cur") )
             return 0 ;;
         PAIR_FLAGS)
-            COMPREPLY=( $(compgen -W "$(oblique pair list --names 2>/dev/null)" -- "$cur") )
+            COMPREPLY=( $(compgen -W "$(oblique "${libs[@]}" pair list --names 2>/dev/null)" -- "$cur") )
             return 0 ;;
     esac
-    if [[ ${COMP_CWORD} -ge 3 && "${COMP_WORDS[1]}" == "material" && "${COMP_WORDS[2]}" == "show" ]]; then
-        COMPREPLY=( $(compgen -W "$(oblique material list --ids 2>/dev/null)" -- "$cur") )
+    if [[ "$cur" != -* && ${#sub[@]} -eq 2 && "${sub[0]}" == "material" && "${sub[1]}" == "show" ]]; then
+        COMPREPLY=( $(compgen -W "$(oblique "${libs[@]}" material list --ids 2>/dev/null)" -- "$cur") )
         return 0
     fi
-    if [[ ${COMP_CWORD} -ge 3 && "${COMP_WORDS[1]}" == "pair" && "${COMP_WORDS[2]}" =~ ^(show|observe|import|agreement)$ && "$cur" != -* ]]; then
-        COMPREPLY=( $(compgen -W "$(oblique pair list --names 2>/dev/null)" -- "$cur") )
+    if [[ "$cur" != -* && "${sub[0]}" == "pair" ]] && {
+        [[ ${#sub[@]} -eq 2 && "${sub[1]}" =~ ^(show|observe|import|agreement|fit|next-shot)$ ]] ||
+        [[ ${#sub[@]} -eq 3 && "${sub[1]}" == "boundary" && "${sub[2]}" == "add" ]]
+    }; then
+        COMPREPLY=( $(compgen -W "$(oblique "${libs[@]}" pair list --names 2>/dev/null)" -- "$cur") )
         return 0
     fi
     _oblique "$@"
@@ -80,11 +96,26 @@ complete -F _oblique_dynamic -o bashdefault -o default oblique
 "#;
 
 const FISH_DYNAMIC: &str = r#"
-# Material ids and pair names, asked of oblique itself (with your OBLIQUE_LIBRARY).
-complete -c oblique -l flyer -f -a '(oblique material list --ids 2>/dev/null)'
-complete -c oblique -l parent -f -a '(oblique material list --ids 2>/dev/null)'
-complete -c oblique -l pair -f -a '(oblique pair list --names 2>/dev/null)'
-complete -c oblique -n '__fish_seen_subcommand_from material; and __fish_seen_subcommand_from show' -f -a '(oblique material list --ids 2>/dev/null)'
+# Material ids and pair names, asked of oblique itself (with your OBLIQUE_LIBRARY and the
+# --library folders on the line).
+function __oblique_ask
+    set -l toks (commandline -opc)
+    set -l libs
+    for i in (seq (count $toks))
+        if test "$toks[$i]" = --library; and test $i -lt (count $toks)
+            set -a libs --library $toks[(math $i + 1)]
+        else if string match -q -- '--library=*' $toks[$i]
+            set -a libs $toks[$i]
+        end
+    end
+    oblique $libs $argv 2>/dev/null
+end
+complete -c oblique -l flyer -f -a '(__oblique_ask material list --ids)'
+complete -c oblique -l parent -f -a '(__oblique_ask material list --ids)'
+complete -c oblique -l pair -f -a '(__oblique_ask pair list --names)'
+complete -c oblique -n '__fish_seen_subcommand_from material; and __fish_seen_subcommand_from show' -f -a '(__oblique_ask material list --ids)'
+complete -c oblique -n '__fish_seen_subcommand_from pair; and __fish_seen_subcommand_from show observe import agreement fit next-shot' -f -a '(__oblique_ask pair list --names)'
+complete -c oblique -n '__fish_seen_subcommand_from boundary; and __fish_seen_subcommand_from add' -f -a '(__oblique_ask pair list --names)'
 "#;
 
 /// The completion script for `shell`, from the top-level command `cmd`.

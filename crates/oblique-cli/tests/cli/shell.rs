@@ -49,6 +49,28 @@ fn bash_completion_completes_subcommands_material_ids_and_pairs() {
     assert!(ids.lines().any(|l| l == "cu-c11000"), "{ids}");
     let pairs = bash_complete(&script, &["oblique", "check", "--pair", "de"]);
     assert!(pairs.lines().any(|l| l == "demo-al6061-on-cu"), "{pairs}");
+    // A shop's own pair completes when its folder is on the line, for every pair subcommand
+    // that takes a name.
+    let shop = tempfile::tempdir().expect("shop");
+    let lib = shop.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library", lib, "pair", "new", "shop-al-on-cu", "--flyer", "aa6061-t6", "--parent",
+        "cu-c11000", "--flyer-thickness", "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    for words in [
+        vec!["oblique", "--library", lib, "check", "--pair", "sho"],
+        vec!["oblique", "--library", lib, "pair", "fit", "sho"],
+        vec!["oblique", "--library", lib, "pair", "next-shot", "sho"],
+        vec!["oblique", "--library", lib, "pair", "boundary", "add", "sho"],
+        vec!["oblique", "--library", lib, "pair", "show", "sho"],
+    ] {
+        let got = bash_complete(&script, &words);
+        assert!(got.lines().any(|l| l == "shop-al-on-cu"), "{words:?}: {got}");
+    }
+    // Without the folder, the shop's pair is unknown.
+    let got = bash_complete(&script, &["oblique", "pair", "fit", "sho"]);
+    assert!(!got.lines().any(|l| l == "shop-al-on-cu"), "{got}");
 }
 
 #[test]
