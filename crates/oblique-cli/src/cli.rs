@@ -30,6 +30,8 @@ pub struct Cli {
 pub enum Command {
     /// Check one process point against the classical window criteria (or a pair window).
     Check(cmd::check::CheckArgs),
+    /// Show the worked example of a check: every step from the inputs to the verdict, with the numbers.
+    Explain(cmd::explain::ExplainArgs),
     /// List and show the material library.
     #[command(subcommand)]
     Material(cmd::material::MaterialCommand),
@@ -64,6 +66,7 @@ impl Cli {
         let dirs = &self.library;
         match self.command {
             Command::Check(a) => cmd::check::run(dirs, a),
+            Command::Explain(a) => cmd::explain::run(dirs, a),
             Command::Material(c) => cmd::material::run(dirs, c),
             Command::Pair(c) => cmd::pair::run(dirs, c),
             Command::Map(a) => cmd::map::run(dirs, a),

@@ -3,6 +3,7 @@
 pub mod check;
 pub mod demo;
 pub mod estimate;
+pub mod explain;
 pub mod map;
 pub mod material;
 pub mod new;
