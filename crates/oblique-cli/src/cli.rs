@@ -32,6 +32,8 @@ pub enum Command {
     Check(cmd::check::CheckArgs),
     /// Show the worked example of a check: every step from the inputs to the verdict, with the numbers.
     Explain(cmd::explain::ExplainArgs),
+    /// Walk one control (the angle, or the impact velocity) with the other fixed: every derived quantity, the window's entry and exit.
+    Trade(cmd::trade::TradeArgs),
     /// List and show the material library.
     #[command(subcommand)]
     Material(cmd::material::MaterialCommand),
@@ -67,6 +69,7 @@ impl Cli {
         match self.command {
             Command::Check(a) => cmd::check::run(dirs, a),
             Command::Explain(a) => cmd::explain::run(dirs, a),
+            Command::Trade(a) => cmd::trade::run(dirs, a),
             Command::Material(c) => cmd::material::run(dirs, c),
             Command::Pair(c) => cmd::pair::run(dirs, c),
             Command::Map(a) => cmd::map::run(dirs, a),

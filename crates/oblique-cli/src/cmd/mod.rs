@@ -11,3 +11,4 @@ pub mod pair;
 pub mod plot;
 pub mod report;
 pub mod shell;
+pub mod trade;

@@ -2,6 +2,7 @@
 //! tutorial, running the real `oblique` binary.
 
 mod explain;
+mod trade;
 
 use std::path::Path;
 use std::process::{Command, Output};

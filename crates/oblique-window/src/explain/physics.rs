@@ -565,7 +565,8 @@ pub(super) fn jetting(window: &PairWindow, c: &Classification) -> Step {
         .and_then(|v| v.as_str().map(str::to_string))
         .unwrap_or_default();
     s.results.push(Figure::word("jetting_regime", regime));
-    s.results.push(Figure::word("jetting.inflow", j.inflow_text()));
+    s.results
+        .push(Figure::word("jetting.inflow", j.inflow_text()));
     if j.is_mixed() {
         s.notes.push(format!(
             "mixed regime: no source covers a collision supersonic in one plate only; this pair uses the {} rule (docs/theory.md §4.3)",
