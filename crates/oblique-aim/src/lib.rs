@@ -18,8 +18,12 @@
 #![deny(missing_docs)]
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 
+pub mod aim;
 pub mod error;
+pub mod measure;
 pub mod trade;
 
+pub use aim::{aim, Aim, AimRequest, Candidate};
 pub use error::{AimError, AimResult};
+pub use measure::{Room, Spread};
 pub use trade::{trade, Control, Crossing, Row, Trade, TradeRequest};

@@ -1,5 +1,6 @@
 //! One module per subcommand. Each owns its flags; none imports another.
 
+pub mod aim;
 pub mod check;
 pub mod demo;
 pub mod estimate;
