@@ -69,8 +69,8 @@ fn stretches(xs: &[f64], p: &[f64], level: f64) -> Vec<(f64, f64)> {
         xs[i] + t.clamp(0.0, 1.0) * (xs[i + 1] - xs[i])
     };
     let mut start: Option<f64> = None;
-    for i in 0..xs.len() {
-        let on = p[i] >= level;
+    for (i, pi) in p.iter().enumerate().take(xs.len()) {
+        let on = *pi >= level;
         match (on, start) {
             (true, None) => start = Some(if i == 0 { xs[0] } else { cross(i - 1) }),
             (false, Some(s)) => {
