@@ -4,6 +4,10 @@
 //! points, and the region of points that keep at least a given weld probability (the sampled
 //! probability of `oblique_confidence`, model uncertainty included unless switched off).
 //!
+//! Candidates lie inside the window and within the span of every user boundary (inside the
+//! trial data: a boundary is never extrapolated, so beyond its points the window's shape there
+//! is not known from the trials).
+//!
 //! The search: a grid over the validity domain (60 angles, 0.5 deg apart; 64 impact velocities,
 //! 6 % apart), every node classified as `check` classifies it; the measure at every node inside
 //! the window; a compass search from the three best distinct nodes (steps halved down to
@@ -12,6 +16,8 @@
 
 mod present;
 mod region;
+
+pub(crate) use present::support as present_support;
 
 use crate::error::{AimError, AimResult};
 use crate::measure::{classify_point, compare, room, room_of, Room, Spread};
@@ -133,7 +139,7 @@ fn grid(window: &PairWindow) -> (Vec<f64>, Vec<f64>) {
 }
 
 /// Run `f` over `items` on two threads, in order.
-fn par_map<T: Sync, R: Send>(items: &[T], f: impl Fn(&T) -> R + Sync) -> Vec<R> {
+pub(crate) fn par_map<T: Sync, R: Send>(items: &[T], f: impl Fn(&T) -> R + Sync) -> Vec<R> {
     let threads = std::thread::available_parallelism().map_or(2, |n| n.get().min(4));
     let per = items.len().div_ceil(threads).max(1);
     std::thread::scope(|s| {
@@ -160,7 +166,8 @@ fn objective(
     b: f64,
 ) -> Option<(Vec<f64>, Room, Classification)> {
     let c = classify_point(w, setup, w.convention, v, b).ok()?;
-    if !c.inside {
+    // Inside the window and within every user boundary's span (the trial data).
+    if !c.inside || c.outside_trial_data {
         return None;
     }
     let r = room_of(w, setup, w.convention, &c, v, b, spread).ok()?;

@@ -21,6 +21,7 @@
 pub mod aim;
 pub mod error;
 pub mod measure;
+pub mod setups;
 pub mod trade;
 
 pub use aim::{aim, Aim, AimRequest, Candidate};

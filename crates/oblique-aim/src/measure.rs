@@ -1,7 +1,7 @@
 //! The room a point keeps to every limit, measured in the user's scatter (docs/theory.md §16).
 //!
-//! For each limit j (every decisive criterion, every user boundary that spans the point and the
-//! ends of its span, every bound of the validity domain) the margin m_j at the point (positive
+//! For each limit j (every decisive criterion, every user boundary that spans the point, every
+//! bound of the validity domain) the margin m_j at the point (positive
 //! on the welding side, in the limit's own unit) is divided by its first-order standard
 //! deviation
 //!
@@ -67,9 +67,6 @@ impl Spread {
 pub enum Kind {
     /// A decisive criterion or a user boundary, as in a classification.
     Limit(LimitRef),
-    /// One end of a user boundary's span (beyond it the boundary is not extrapolated and the
-    /// point is outside the trial data): boundary index, `true` for the upper end.
-    Span(usize, bool),
     /// One end of a validity-domain bound: the quantity, `true` for its upper end.
     Domain(DomainQuantity, bool),
 }
@@ -94,7 +91,7 @@ pub struct LimitRoom {
 /// The room of a point to every limit.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Room {
-    /// Every limit's room, in order: criteria, boundaries, spans, domain bounds.
+    /// Every limit's room, in order: criteria, boundaries, domain bounds.
     pub limits: Vec<LimitRoom>,
     /// The smallest z (the nearest limit in standard deviations).
     pub z_min: f64,
@@ -184,39 +181,9 @@ fn margins(
         ));
     }
     let col = &c.evaluation.collision;
-    for (i, (b, r)) in window.boundaries.iter().zip(&c.boundaries).enumerate() {
+    for (i, r) in c.boundaries.iter().enumerate() {
         if let (Some(m), Some(l)) = (r.margin, r.limit) {
             out.push((Kind::Limit(LimitRef::Boundary(i)), m, r.unit, l));
-        }
-        let x = if b.weld_side.along_velocity() {
-            match b.plane {
-                oblique_window::boundary::Plane::AngleImpactVelocity => col.impact_velocity.si(),
-                oblique_window::boundary::Plane::AngleCollisionVelocity => {
-                    col.collision_velocity.si()
-                }
-            }
-        } else {
-            col.angle.degrees()
-        };
-        let xs: Vec<f64> = b
-            .points
-            .iter()
-            .map(|(v, a)| {
-                if b.weld_side.along_velocity() {
-                    v.si()
-                } else {
-                    a.degrees()
-                }
-            })
-            .collect();
-        let unit = if b.weld_side.along_velocity() {
-            "m/s"
-        } else {
-            "deg"
-        };
-        if let (Some(lo), Some(hi)) = (xs.first(), xs.last()) {
-            out.push((Kind::Span(i, false), x - lo, unit, *lo));
-            out.push((Kind::Span(i, true), hi - x, unit, *hi));
         }
     }
     for b in &window.domain.bounds {
@@ -260,11 +227,6 @@ fn constant_spread(window: &PairWindow, id: CriterionId) -> f64 {
 fn label(window: &PairWindow, kind: &Kind) -> String {
     match kind {
         Kind::Limit(l) => limit_label(window, l),
-        Kind::Span(i, upper) => format!(
-            "{} ({} of its span)",
-            limit_label(window, &LimitRef::Boundary(*i)),
-            if *upper { "upper end" } else { "lower end" }
-        ),
         Kind::Domain(q, upper) => format!(
             "validity domain: {} {}",
             q.label(),

@@ -19,6 +19,7 @@ parser!(inductance, QuantityKind::Inductance);
 parser!(resistance, QuantityKind::Resistance);
 parser!(energy, QuantityKind::Energy);
 parser!(frequency, QuantityKind::Frequency);
+parser!(current, QuantityKind::Current);
 
 /// The range of every velocity flag (m/s): below 1 mm/s nothing collides, above 100 km/s no
 /// launcher reaches (common practice bounds; the physics is not evaluated outside them).

@@ -8,10 +8,15 @@ use oblique_window::margin::{angle_headroom, velocity_headroom, verdict_velocity
 use oblique_window::present::{fmt_margin, sig, table, CAUTION};
 use serde_json::{json, Value};
 
-/// The measure in words, printed with every aim.
-pub const MEASURE: &str = "the smallest margin to any limit (criteria, boundaries and their spans, the validity domain's bounds), in standard deviations of the stated scatter to first order (z = margin / sd); ties broken by the next smallest; docs/theory.md §16";
+/// Helpers the set-up search prints with too.
+pub(crate) mod support {
+    pub(crate) use super::{nearest, pct, z_text, MEASURE};
+}
 
-fn pct(p: f64) -> String {
+/// The measure in words, printed with every aim.
+pub const MEASURE: &str = "the smallest margin to any limit (the criteria, the user boundaries, the validity domain's bounds), in standard deviations of the stated scatter to first order (z = margin / sd), among points inside the window and the trial data; ties broken by the next smallest; docs/theory.md §16";
+
+pub(crate) fn pct(p: f64) -> String {
     if p > 0.999 && p < 1.0 {
         format!("{:.2} %", 100.0 * p)
     } else {
@@ -19,7 +24,7 @@ fn pct(p: f64) -> String {
     }
 }
 
-fn z_text(z: f64) -> String {
+pub(crate) fn z_text(z: f64) -> String {
     if z.is_infinite() {
         if z > 0.0 {
             "inf".into()
@@ -58,7 +63,7 @@ fn verdict(c: &Candidate) -> &'static str {
     }
 }
 
-fn nearest(r: &Room) -> String {
+pub(crate) fn nearest(r: &Room) -> String {
     r.nearest().map_or("-".into(), |l| l.label.clone())
 }
 
@@ -258,7 +263,6 @@ impl Aim<'_> {
                         "kind": match &l.kind {
                             Kind::Limit(LimitRef::Criterion(_)) => "criterion",
                             Kind::Limit(LimitRef::Boundary(_)) => "boundary",
-                            Kind::Span(..) => "boundary-span",
                             Kind::Domain(..) => "validity-domain",
                         },
                         "margin": sig(l.margin),
