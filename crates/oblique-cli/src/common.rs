@@ -517,3 +517,61 @@ pub fn point_probability(
             .sampling(oblique_confidence::scatter::DEFAULT_SAMPLES),
     )?))
 }
+
+/// A window made on the spot for a process estimate (`--parent` and `--convention`, with the
+/// flyer and its thickness of the set-up), put into the catalog under its name; the name is
+/// returned for the request's pair. The same default criteria as `check` without `--pair`,
+/// for `process`.
+///
+/// # Errors
+/// [`Fail::input`] naming the missing or unknown flag.
+pub fn adhoc_pair(
+    catalog: &mut Catalog,
+    flyer: Option<&str>,
+    thickness: Option<f64>,
+    parent: &str,
+    convention: Option<ConventionArg>,
+    process: &str,
+) -> CmdResult<String> {
+    let flyer = need(
+        flyer,
+        "--flyer",
+        "the flyer's material id with --parent, e.g. aa6061-t6",
+    )?;
+    let thickness = need(
+        thickness,
+        "--flyer-thickness",
+        "the flyer's thickness with --parent, e.g. 1mm",
+    )?;
+    let convention = need(
+        convention,
+        "--convention",
+        "bisector, normal-to-flyer or normal-to-parent with --parent (the convention is never guessed)",
+    )?;
+    let w = ad_hoc_window(
+        &catalog.library,
+        flyer,
+        parent,
+        thickness,
+        None,
+        convention.into(),
+        Some(process),
+    )?;
+    let name = w.name.clone();
+    catalog.library.pairs.insert(name.clone(), w);
+    Ok(name)
+}
+
+/// The flyer id and thickness (m) a magnetic request names.
+pub fn request_flyer(p: &oblique_setup::MagneticRequest) -> (Option<&str>, Option<f64>) {
+    match p {
+        oblique_setup::MagneticRequest::Tube(t) => (
+            t.flyer.as_deref(),
+            t.flyer_thickness.map(oblique_core::units::Length::si),
+        ),
+        oblique_setup::MagneticRequest::Sheet(s) => (
+            s.flyer.as_deref(),
+            s.flyer_thickness.map(oblique_core::units::Length::si),
+        ),
+    }
+}

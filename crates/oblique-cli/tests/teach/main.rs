@@ -1,6 +1,7 @@
 //! Integration tests of the teaching and aiming commands (explain, trade, aim) and of the
 //! tutorial, running the real `oblique` binary.
 
+mod adhoc;
 mod aim;
 mod explain;
 mod trade;
