@@ -97,6 +97,8 @@ pub struct SetupSearch<'a> {
     pub seed: u64,
     /// How many set-ups to list.
     pub top: usize,
+    /// The window comes from a pair file (`--pair`), not from `--flyer`/`--parent`.
+    pub window_from_file: bool,
 }
 
 /// One set-up and what the model and the window say of it.
@@ -178,6 +180,22 @@ pub struct SetupSearchResult<'a> {
     pub max_current: Option<f64>,
     /// See `max_current`.
     pub max_energy: Option<f64>,
+    /// The efficiency is not calibrated on this workpiece (the default 1, or transferred).
+    pub uncalibrated: bool,
+    /// The flags that reproduce the family's fixed parts in `oblique estimate` (coil file or
+    /// dimensions given, leads, efficiency, window).
+    pub(crate) reproduce: Reproduce,
+}
+
+/// What `oblique estimate` needs besides the set-up's own values to give the same estimate.
+#[derive(Debug, Clone)]
+pub(crate) struct Reproduce {
+    pub(crate) coil_file: Option<String>,
+    pub(crate) bore_given: bool,
+    pub(crate) length_given: bool,
+    pub(crate) extra_inductance: Option<f64>,
+    pub(crate) efficiency: Option<f64>,
+    pub(crate) window_from_file: bool,
 }
 
 fn values(g: &Grid, steps: usize, field: &'static str) -> AimResult<Vec<f64>> {
@@ -533,6 +551,15 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
         notes,
         max_current: s.max_current,
         max_energy: s.max_energy,
+        uncalibrated: first.inputs.uncalibrated() || first.inputs.calibration_mismatch(),
+        reproduce: Reproduce {
+            coil_file: s.coils.file.clone(),
+            bore_given: s.coils.bore.is_some(),
+            length_given: s.coils.length.is_some(),
+            extra_inductance: s.coils.extra_inductance,
+            efficiency: s.efficiency,
+            window_from_file: s.window_from_file,
+        },
     })
 }
 

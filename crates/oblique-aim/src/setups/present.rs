@@ -128,7 +128,7 @@ impl SetupSearchResult<'_> {
             human::g(b.chamfer_deg)
         ));
         s.push_str(&format!(
-            "  gives Vp {:.0} m/s at {} deg: {}; nearest limit {} ({} standard deviations); binding limit {}\n",
+            "  gives Vp {:.0} m/s at {} deg: {}; nearest limit {} ({} standard deviations); binding limit (the smallest relative margin, as check names it) {}\n",
             b.velocity,
             human::g(b.chamfer_deg),
             verdict(b),
@@ -142,30 +142,60 @@ impl SetupSearchResult<'_> {
         if let Some(cmd) = self.estimate_command(b) {
             s.push_str(&format!("  the same set-up on its own: {cmd}\n"));
         }
-        s.push_str("These are screening estimates, never a guarantee: calibrate the efficiency on a measured shot (oblique calibrate) before trusting the velocities, and confirm the set-up with sectioned trial joints.\n");
+        if self.uncalibrated {
+            s.push_str("The efficiency is not calibrated on this workpiece: the velocities are upper estimates with a wide scatter; calibrate on a measured shot (oblique calibrate) before trusting them.\n");
+        }
+        s.push_str("These are screening estimates, never a guarantee: confirm the set-up with sectioned trial joints.\n");
         s.push_str(CAUTION);
         s.push('\n');
         s
     }
 
-    /// The `oblique estimate` command line of a listed set-up (when the bank is a file).
+    /// The `oblique estimate` command line of a listed set-up (when the bank is a file): the
+    /// same bank, coil (file and the dimensions searched), leads, efficiency, window, standoff,
+    /// charge and angle.
     #[must_use]
     pub fn estimate_command(&self, r: &SetupResult) -> Option<String> {
-        let bank = self
-            .bank
-            .strip_prefix("the bank given by flags")
-            .map_or(Some(&self.bank), |_| None)?;
-        Some(format!(
-            "oblique estimate mpw-tube --machine {bank} --coil-bore {}mm --coil-length {}mm --coil-inductance {}nH --pair {} --tube-outer-radius {}mm --standoff {}mm --charge-voltage {}kV --angle {}deg",
-            human::g(r.bore * 1e3),
-            human::g(r.length * 1e3),
-            human::g(self.extra_inductance * 1e9),
-            self.window.name,
+        if self.bank.starts_with("the bank given by flags") {
+            return None;
+        }
+        let p = &self.reproduce;
+        let w = self.window;
+        let mut c = format!("oblique estimate mpw-tube --machine {}", self.bank);
+        if let Some(f) = &p.coil_file {
+            c.push_str(&format!(" --coil {f}"));
+        }
+        if p.bore_given || p.coil_file.is_none() {
+            c.push_str(&format!(" --coil-bore {}mm", human::g(r.bore * 1e3)));
+        }
+        if p.length_given || p.coil_file.is_none() {
+            c.push_str(&format!(" --coil-length {}mm", human::g(r.length * 1e3)));
+        }
+        if let Some(x) = p.extra_inductance {
+            c.push_str(&format!(" --coil-inductance {}nH", human::g(x * 1e9)));
+        }
+        if let Some(e) = p.efficiency {
+            c.push_str(&format!(" --efficiency {e}"));
+        }
+        if p.window_from_file {
+            c.push_str(&format!(" --pair {}", w.name));
+        } else {
+            c.push_str(&format!(
+                " --flyer {} --flyer-thickness {}mm --parent {} --convention {}",
+                w.flyer.material.id,
+                human::g(w.flyer_thickness.si() * 1e3),
+                w.parent.material.id,
+                w.convention
+            ));
+        }
+        c.push_str(&format!(
+            " --tube-outer-radius {}mm --standoff {}mm --charge-voltage {}kV --angle {}deg",
             human::g(self.tube_outer_radius * 1e3),
             human::g(r.standoff * 1e3),
             human::g(r.voltage / 1e3),
             human::g(r.chamfer_deg),
-        ))
+        ));
+        Some(c)
     }
 
     /// The search as JSON: `best`, then `ranked`, the counts, the rating, the caution.

@@ -30,6 +30,7 @@ fn search_of(w: &PairWindow) -> SetupSearch<'_> {
         samples: Some(128),
         seed: 1,
         top: 5,
+        window_from_file: true,
     }
 }
 

@@ -144,6 +144,7 @@ pub fn run(dirs: &[PathBuf], a: &AimArgs, lib: Library, w: &PairWindow) -> CmdRe
             .seed
             .unwrap_or(oblique_confidence::scatter::DEFAULT_SEED),
         top: a.top,
+        window_from_file: a.window.pair.is_some(),
     };
     if !(1..=oblique_aim::aim::MAX_TOP).contains(&a.top) {
         return Err(Fail::input(format!(
