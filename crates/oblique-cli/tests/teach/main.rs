@@ -5,6 +5,7 @@ mod adhoc;
 mod aim;
 mod explain;
 mod trade;
+mod tutorial;
 
 use std::path::Path;
 use std::process::{Command, Output};
