@@ -26,24 +26,27 @@ fn bench(c: &mut Criterion) {
             .expect("trade")
         });
     });
-    c.bench_function("aim over the demo window (grid, refinement, ranked list, region)", |b| {
-        b.iter(|| {
-            aim(&AimRequest {
-                window: &w,
-                spread: Spread {
-                    velocity: VelocitySpread::Relative(0.03),
-                    angle_deg: 1.0,
-                    model: true,
-                },
-                top: 10,
-                level: 0.9,
-                seed: 1,
-                samples: None,
-                basis: String::new(),
-            })
-            .expect("aim")
-        });
-    });
+    c.bench_function(
+        "aim over the demo window (grid, refinement, ranked list, region)",
+        |b| {
+            b.iter(|| {
+                aim(&AimRequest {
+                    window: &w,
+                    spread: Spread {
+                        velocity: VelocitySpread::Relative(0.03),
+                        angle_deg: 1.0,
+                        model: true,
+                    },
+                    top: 10,
+                    level: 0.9,
+                    seed: 1,
+                    samples: None,
+                    basis: String::new(),
+                })
+                .expect("aim")
+            });
+        },
+    );
     let catalog = Catalog::builtin().expect("catalog");
     let mut g = c.benchmark_group("set-ups");
     g.sample_size(10);

@@ -99,6 +99,8 @@ pub struct Aim<'a> {
     pub scatter: Scatter,
     /// Where the scatter comes from.
     pub basis: String,
+    /// Draws per point of the ranked list's sampled probabilities.
+    pub rank_samples: usize,
 }
 
 impl Aim<'_> {
@@ -255,6 +257,7 @@ pub fn aim<'a>(req: &AimRequest<'a>) -> AimResult<Aim<'a>> {
             nodes_inside,
             scatter,
             basis: req.basis.clone(),
+            rank_samples: 0,
         });
     }
     // Starts: the three best nodes at least one standard deviation apart.
@@ -332,6 +335,7 @@ pub fn aim<'a>(req: &AimRequest<'a>) -> AimResult<Aim<'a>> {
         nodes_inside,
         scatter,
         basis: req.basis.clone(),
+        rank_samples: sampling.samples,
     })
 }
 

@@ -25,7 +25,7 @@
 use crate::error::{AimError, AimResult};
 use crate::measure::{compare, room, Room, Spread};
 use oblique_confidence::{Point, Sampling, Scatter, VelocitySpread};
-use oblique_core::process::{sweep, CapacitorBank};
+use oblique_core::process::sweep;
 use oblique_core::units::{Angle, Inductance, Length, Velocity, Voltage};
 use oblique_core::Convention;
 use oblique_setup::grid::Grid;
@@ -244,28 +244,25 @@ pub fn estimate_request(s: &SetupSearch<'_>, r: &SetupResult) -> EstimateRequest
     }
 }
 
-/// Search the set-ups.
-///
-/// # Errors
-/// A grid that is empty, too large or out of range (naming its flag), a set-up the files and
-/// flags do not complete, or a model failure.
-pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSearchResult<'a>> {
-    let w = s.window;
-    let setup = w.setup()?;
-    let bores: Vec<Option<f64>> = match &s.coils.bore {
-        Some(g) => values(g, s.steps, "--coil-bore")?
-            .into_iter()
-            .map(Some)
-            .collect(),
-        None => vec![None],
+/// The values of every grid of a search, checked.
+struct Grids {
+    bores: Vec<Option<f64>>,
+    lengths: Vec<Option<f64>>,
+    standoffs: Vec<f64>,
+    chamfers: Vec<f64>,
+    charges: Vec<f64>,
+    charge_field: &'static str,
+}
+
+fn grids(s: &SetupSearch<'_>) -> AimResult<Grids> {
+    let optional = |g: &Option<Grid>, field| -> AimResult<Vec<Option<f64>>> {
+        Ok(match g {
+            Some(g) => values(g, s.steps, field)?.into_iter().map(Some).collect(),
+            None => vec![None],
+        })
     };
-    let lengths: Vec<Option<f64>> = match &s.coils.length {
-        Some(g) => values(g, s.steps, "--coil-length")?
-            .into_iter()
-            .map(Some)
-            .collect(),
-        None => vec![None],
-    };
+    let bores = optional(&s.coils.bore, "--coil-bore")?;
+    let lengths = optional(&s.coils.length, "--coil-length")?;
     let standoffs = values(&s.standoffs, s.steps, "--standoff")?;
     let chamfers = values(&s.chamfers, s.steps, "--chamfer")?;
     let (charge_field, raw_charge) = match &s.charge {
@@ -280,18 +277,223 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
             format!("{total} set-ups is more than the limit of {MAX_SETUPS}: use fewer values"),
         ));
     }
+    Ok(Grids {
+        bores,
+        lengths,
+        standoffs,
+        chamfers,
+        charges,
+        charge_field,
+    })
+}
+
+/// The inductance of the coil's leads and gap at rest (H).
+fn load_inductance(setup: &oblique_core::process::PulseSetup) -> f64 {
+    match setup {
+        oblique_core::process::PulseSetup::Tube(t) => {
+            t.coil.extra_inductance.si() + t.gap_inductance().si()
+        }
+        oblique_core::process::PulseSetup::Sheet(t) => {
+            t.coil.extra_inductance.si() + t.gap_inductance().si()
+        }
+    }
+}
+
+/// The charging voltages of one coil within the bank's ratings, each with its first current
+/// peak (workpiece held still); those left out are counted.
+fn rated_voltages(
+    s: &SetupSearch<'_>,
+    g: &Grids,
+    resolved: &oblique_setup::ResolvedSetup<'_>,
+    left_out: &mut LeftOut,
+) -> AimResult<Vec<(f64, f64)>> {
+    let bank = *resolved.setup.bank();
+    let c = bank.capacitance.si();
+    let n = g.standoffs.len() * g.chamfers.len();
+    let circuit = bank
+        .circuit(Inductance::from_h(load_inductance(&resolved.setup)))
+        .map_err(oblique_setup::SetupError::from)?;
+    let mut out = Vec::new();
+    for &x in &g.charges {
+        let u = match &s.charge {
+            ChargeGrid::Voltages(_) => x,
+            ChargeGrid::Energies(_) => (2.0 * x / c).sqrt(),
+        };
+        let e = 0.5 * c * u * u;
+        if bank.max_voltage.is_some_and(|m| u > m.si() * (1.0 + 1e-12)) {
+            left_out.above_voltage += n;
+            continue;
+        }
+        if s.max_energy.is_some_and(|m| e > m * (1.0 + 1e-12)) {
+            left_out.above_energy += n;
+            continue;
+        }
+        let peak = circuit
+            .first_peak(Voltage::from_v(u))
+            .map_err(oblique_setup::SetupError::from)?
+            .1
+            .si();
+        if s.max_current.is_some_and(|m| peak > m * (1.0 + 1e-12)) {
+            left_out.above_current += n;
+        } else {
+            out.push((u, peak));
+        }
+    }
+    Ok(out)
+}
+
+/// Every setting of one resolved coil: the model over its voltages and the standoffs, each
+/// impact checked at every chamfer.
+fn coil_settings(
+    w: &PairWindow,
+    setup: &oblique_core::PairSetup,
+    g: &Grids,
+    resolved: &oblique_setup::ResolvedSetup<'_>,
+    volts: &[(f64, f64)],
+    left_out: &mut LeftOut,
+) -> AimResult<Vec<SetupResult>> {
+    for &x in &g.standoffs {
+        resolved
+            .setup
+            .with_standoff(Length::from_m(x))
+            .validate()
+            .map_err(|e| AimError::invalid("--standoff", e.to_string()))?;
+    }
+    let us: Vec<Voltage> = volts.iter().map(|(u, _)| Voltage::from_v(*u)).collect();
+    let gs: Vec<Length> = g.standoffs.iter().map(|x| Length::from_m(*x)).collect();
+    let res = sweep(
+        &resolved.setup.with_charging_voltage(us[0]),
+        &us,
+        &gs,
+        &resolved.options,
+        None,
+    )
+    .map_err(oblique_setup::SetupError::from)?;
+    let (rc, rl) = match &resolved.setup {
+        oblique_core::process::PulseSetup::Tube(t) => (t.coil.bore_radius.si(), t.coil.length.si()),
+        oblique_core::process::PulseSetup::Sheet(t) => (0.0, t.coil.length.si()),
+    };
+    let c = resolved.setup.bank().capacitance.si();
+    let mut out = Vec::new();
+    for (i, (u, peak)) in volts.iter().enumerate() {
+        for (j, gap) in g.standoffs.iter().enumerate() {
+            let Some(v) = res.impact_velocity(i, j) else {
+                left_out.no_impact += g.chamfers.len();
+                continue;
+            };
+            for &a in &g.chamfers {
+                let col = oblique_core::Collision::from_impact(
+                    Convention::NormalToFlyer,
+                    v,
+                    Angle::from_radians(a),
+                )?;
+                out.push(SetupResult {
+                    bore: rc,
+                    length: rl,
+                    voltage: *u,
+                    energy: 0.5 * c * u * u,
+                    standoff: *gap,
+                    chamfer_deg: a.to_degrees(),
+                    velocity: v.si(),
+                    peak_current: *peak,
+                    check: oblique_window::classify::classify(w, setup, &col)?,
+                    room: Room {
+                        limits: Vec::new(),
+                        z_min: f64::NEG_INFINITY,
+                        log_p1: f64::NEG_INFINITY,
+                    },
+                    probability: None,
+                });
+            }
+        }
+    }
+    Ok(out)
+}
+
+/// The listed set-ups estimated again one by one as `oblique estimate` does, checked and
+/// explained, their room measured, their weld probabilities sampled with the same draws.
+fn finish_listed(
+    catalog: &Catalog,
+    s: &SetupSearch<'_>,
+    setup: &oblique_core::PairSetup,
+    spread: &Spread,
+    listed: &mut [SetupResult],
+) -> AimResult {
+    let w = s.window;
+    for r in listed.iter_mut() {
+        let req = estimate_request(s, r);
+        let rs = resolve_estimate(catalog, &req, &mut Vec::new())?;
+        let v = rs
+            .estimate()?
+            .impact_velocity()
+            .ok_or_else(|| {
+                AimError::invalid("--standoff", "a listed set-up has no impact on its own")
+            })?
+            .si();
+        r.velocity = v;
+        let col = oblique_core::Collision::from_impact(
+            Convention::NormalToFlyer,
+            Velocity::from_m_s(v),
+            Angle::from_degrees(r.chamfer_deg),
+        )?;
+        r.check = oblique_window::classify::classify(w, setup, &col)?;
+        oblique_window::classify::explain_in(w, setup, &mut r.check, Convention::NormalToFlyer);
+        r.room = room(
+            w,
+            setup,
+            Convention::NormalToFlyer,
+            v,
+            r.chamfer_deg,
+            spread,
+        )?;
+    }
+    let scatter = Scatter {
+        velocity: Some(spread.velocity),
+        angle: Some(Angle::from_degrees(spread.angle_deg)),
+        model: spread.model,
+    };
+    let points: Vec<Point> = listed
+        .iter()
+        .map(|r| {
+            Point::impact(
+                Convention::NormalToFlyer,
+                Velocity::from_m_s(r.velocity),
+                Angle::from_degrees(r.chamfer_deg),
+            )
+        })
+        .collect();
+    let sampling = Sampling {
+        samples: s.samples.unwrap_or(SETUP_SAMPLES),
+        seed: s.seed,
+        threads: None,
+    };
+    let p = oblique_confidence::probabilities(w, &points, &scatter, &sampling)?;
+    for (r, pk) in listed.iter_mut().zip(p) {
+        r.probability = Some(pk);
+    }
+    Ok(())
+}
+
+/// Search the set-ups.
+///
+/// # Errors
+/// A grid that is empty, too large or out of range (naming its flag), a set-up the files and
+/// flags do not complete, or a model failure.
+pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSearchResult<'a>> {
+    let w = s.window;
+    let setup = w.setup()?;
+    let g = grids(s)?;
     let mut notes = Vec::new();
     let mut left_out = LeftOut::default();
     let mut all: Vec<SetupResult> = Vec::new();
     let mut first: Option<oblique_setup::ResolvedSetup<'_>> = None;
-    let mut bank_info: Option<CapacitorBank> = None;
-    for bore in &bores {
-        for length in &lengths {
-            // Resolve the coil as `estimate` would, at the first charge and standoff.
+    for bore in &g.bores {
+        for length in &g.lengths {
+            // Resolve the coil as `estimate` would, at the first standoff.
             let base = EstimateRequest {
                 process: tube_request(s, *bore, *length),
                 charge: Charge::Voltage(Voltage::from_v(1.0)),
-                standoff: Length::from_m(standoffs[0]),
+                standoff: Length::from_m(g.standoffs[0]),
                 efficiency: s.efficiency,
                 pair: None,
                 angle: None,
@@ -299,113 +501,18 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
                 history: false,
             };
             let resolved = resolve_estimate(catalog, &base, &mut notes)?;
-            let bank = *resolved.setup.bank();
-            bank_info = Some(bank);
-            let c = bank.capacitance.si();
-            let volts: Vec<f64> = match &s.charge {
-                ChargeGrid::Voltages(_) => charges.clone(),
-                ChargeGrid::Energies(_) => charges.iter().map(|e| (2.0 * e / c).sqrt()).collect(),
-            };
-            let mut kept = Vec::new();
-            for &u in &volts {
-                let e = 0.5 * c * u * u;
-                let n = standoffs.len() * chamfers.len();
-                if bank.max_voltage.is_some_and(|m| u > m.si() * (1.0 + 1e-12)) {
-                    left_out.above_voltage += n;
-                } else if s.max_energy.is_some_and(|m| e > m * (1.0 + 1e-12)) {
-                    left_out.above_energy += n;
-                } else {
-                    kept.push(u);
-                }
+            let volts = rated_voltages(s, &g, &resolved, &mut left_out)?;
+            if !volts.is_empty() {
+                all.extend(coil_settings(
+                    w,
+                    &setup,
+                    &g,
+                    &resolved,
+                    &volts,
+                    &mut left_out,
+                )?);
             }
-            let gap = match &resolved.setup {
-                oblique_core::process::PulseSetup::Tube(t) => {
-                    t.coil.extra_inductance.si() + t.gap_inductance().si()
-                }
-                oblique_core::process::PulseSetup::Sheet(t) => {
-                    t.coil.extra_inductance.si() + t.gap_inductance().si()
-                }
-            };
-            let circuit = bank
-                .circuit(Inductance::from_h(gap))
-                .map_err(oblique_setup::SetupError::from)?;
-            let mut volts_ok = Vec::new();
-            for u in kept {
-                let peak = circuit
-                    .first_peak(Voltage::from_v(u))
-                    .map_err(oblique_setup::SetupError::from)?
-                    .1
-                    .si();
-                if s.max_current.is_some_and(|m| peak > m * (1.0 + 1e-12)) {
-                    left_out.above_current += standoffs.len() * chamfers.len();
-                } else {
-                    volts_ok.push((u, peak));
-                }
-            }
-            if volts_ok.is_empty() {
-                continue;
-            }
-            for &g in &standoffs {
-                resolved
-                    .setup
-                    .with_standoff(Length::from_m(g))
-                    .validate()
-                    .map_err(|e| AimError::invalid("--standoff", e.to_string()))?;
-            }
-            let us: Vec<Voltage> = volts_ok.iter().map(|(u, _)| Voltage::from_v(*u)).collect();
-            let gs: Vec<Length> = standoffs.iter().map(|g| Length::from_m(*g)).collect();
-            let res = sweep(
-                &resolved.setup.with_charging_voltage(us[0]),
-                &us,
-                &gs,
-                &resolved.options,
-                None,
-            )
-            .map_err(oblique_setup::SetupError::from)?;
-            let (rc, rl) = match &resolved.setup {
-                oblique_core::process::PulseSetup::Tube(t) => {
-                    (t.coil.bore_radius.si(), t.coil.length.si())
-                }
-                oblique_core::process::PulseSetup::Sheet(t) => (0.0, t.coil.length.si()),
-            };
-            for (i, (u, peak)) in volts_ok.iter().enumerate() {
-                for (j, g) in standoffs.iter().enumerate() {
-                    let Some(v) = res.impact_velocity(i, j) else {
-                        left_out.no_impact += chamfers.len();
-                        continue;
-                    };
-                    for &a in &chamfers {
-                        all.push(SetupResult {
-                            bore: rc,
-                            length: rl,
-                            voltage: *u,
-                            energy: 0.5 * c * u * u,
-                            standoff: *g,
-                            chamfer_deg: a.to_degrees(),
-                            velocity: v.si(),
-                            peak_current: *peak,
-                            check: oblique_window::classify::classify(
-                                w,
-                                &setup,
-                                &oblique_core::Collision::from_impact(
-                                    Convention::NormalToFlyer,
-                                    v,
-                                    Angle::from_radians(a),
-                                )?,
-                            )?,
-                            room: Room {
-                                limits: Vec::new(),
-                                z_min: f64::NEG_INFINITY,
-                                log_p1: f64::NEG_INFINITY,
-                            },
-                            probability: None,
-                        });
-                    }
-                }
-            }
-            if first.is_none() {
-                first = Some(resolved);
-            }
+            first.get_or_insert(resolved);
         }
     }
     let evaluated = all.len();
@@ -418,12 +525,13 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
         .into_iter()
         .filter(|r| r.check.inside && !r.check.outside_trial_data)
         .collect();
-    let first = first.ok_or_else(|| {
-        AimError::invalid(
-            charge_field,
+    let first = first.ok_or_else(|| AimError::invalid(g.charge_field, "no coil to search"))?;
+    if evaluated == 0 && left_out.no_impact == 0 {
+        return Err(AimError::invalid(
+            g.charge_field,
             "every setting is above the bank's rating (voltage, energy or current): nothing left to search",
-        )
-    })?;
+        ));
+    }
     let (rel, basis) = oblique_setup::uncertainty::velocity_spread(&first.inputs);
     let (velocity, basis) = match s.velocity_sd {
         Some(v) => (v, format!("stated: --velocity-sd {}", v.text())),
@@ -452,72 +560,14 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
     inside.sort_by(|a, b| compare(&b.room.key(), &a.room.key()));
     let n_inside = inside.len();
     inside.truncate(s.top);
-    // The listed set-ups estimated again one by one, as `oblique estimate` does.
-    for r in &mut inside {
-        let req = estimate_request(s, r);
-        let rs = resolve_estimate(catalog, &req, &mut Vec::new())?;
-        let est = rs.estimate()?;
-        let v = est
-            .impact_velocity()
-            .ok_or_else(|| {
-                AimError::invalid("--standoff", "a listed set-up has no impact on its own")
-            })?
-            .si();
-        r.velocity = v;
-        r.check = oblique_window::classify::classify(
-            w,
-            &setup,
-            &oblique_core::Collision::from_impact(
-                Convention::NormalToFlyer,
-                Velocity::from_m_s(v),
-                Angle::from_degrees(r.chamfer_deg),
-            )?,
-        )?;
-        oblique_window::classify::explain_in(w, &setup, &mut r.check, Convention::NormalToFlyer);
-        r.room = room(
-            w,
-            &setup,
-            Convention::NormalToFlyer,
-            v,
-            r.chamfer_deg,
-            &spread,
-        )?;
-    }
-    let scatter = Scatter {
-        velocity: Some(spread.velocity),
-        angle: Some(Angle::from_degrees(spread.angle_deg)),
-        model: spread.model,
-    };
-    let points: Vec<Point> = inside
-        .iter()
-        .map(|r| {
-            Point::impact(
-                Convention::NormalToFlyer,
-                Velocity::from_m_s(r.velocity),
-                Angle::from_degrees(r.chamfer_deg),
-            )
-        })
-        .collect();
-    let p = oblique_confidence::probabilities(
-        w,
-        &points,
-        &scatter,
-        &Sampling {
-            samples: s.samples.unwrap_or(SETUP_SAMPLES),
-            seed: s.seed,
-            threads: None,
-        },
-    )?;
-    for (r, pk) in inside.iter_mut().zip(p) {
-        r.probability = Some(pk);
-    }
+    finish_listed(catalog, s, &setup, &spread, &mut inside)?;
     let eta = first
         .inputs
         .get("efficiency")
         .map_or((1.0, String::new()), |i| {
             (i.value.si().unwrap_or(1.0), i.from.to_string())
         });
-    let rating = bank_info.and_then(|b| b.max_voltage).map(|m| {
+    let rating = first.setup.bank().max_voltage.map(|m| {
         (
             m.si(),
             first
@@ -526,10 +576,6 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
                 .map_or_else(|| "the bank".to_string(), |i| i.from.to_string()),
         )
     });
-    let extra = match &first.setup {
-        oblique_core::process::PulseSetup::Tube(t) => t.coil.extra_inductance.si(),
-        oblique_core::process::PulseSetup::Sheet(t) => t.coil.extra_inductance.si(),
-    };
     Ok(SetupSearchResult {
         window: w,
         ranked: inside,
@@ -545,7 +591,10 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
             .clone()
             .unwrap_or_else(|| "the bank given by flags".into()),
         coil_file: s.coils.file.clone(),
-        extra_inductance: extra,
+        extra_inductance: match &first.setup {
+            oblique_core::process::PulseSetup::Tube(t) => t.coil.extra_inductance.si(),
+            oblique_core::process::PulseSetup::Sheet(t) => t.coil.extra_inductance.si(),
+        },
         tube_outer_radius: s.tube_outer_radius,
         efficiency: eta,
         notes,

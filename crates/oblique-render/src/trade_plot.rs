@@ -11,7 +11,7 @@
 use crate::error::RenderResult;
 use crate::window_plot::legend::{draw_legend, Entry, Mark, Section};
 use crate::window_plot::{criterion_colour, register_fonts, wrap_words};
-use oblique_aim::{Control, Trade};
+use oblique_aim::{Control, Row, Trade};
 use oblique_core::CriterionId;
 use oblique_window::boundary::{Plane, WeldSide};
 use oblique_window::classify::LimitRef;
@@ -46,9 +46,14 @@ fn err<E: std::fmt::Display>(e: E) -> crate::RenderError {
     crate::RenderError::Draw(e.to_string())
 }
 
-/// One line of a panel: its samples (a `None` breaks the line), colour, width, dash.
+/// What a line reads off a row.
+type Read = Box<dyn Fn(&Row) -> Option<f64>>;
+
+/// One line of a panel: its label, what it reads off each row (`None` breaks the line), colour,
+/// width, dash, and its samples once read.
 struct Line {
     label: String,
+    read: Read,
     points: Vec<(f64, Option<f64>)>,
     colour: RGBColor,
     width: u32,
@@ -56,9 +61,15 @@ struct Line {
 }
 
 impl Line {
-    fn new(label: impl Into<String>, colour: RGBColor, width: u32) -> Self {
+    fn new(
+        label: impl Into<String>,
+        colour: RGBColor,
+        width: u32,
+        read: impl Fn(&Row) -> Option<f64> + 'static,
+    ) -> Self {
         Line {
             label: label.into(),
+            read: Box::new(read),
             points: Vec::new(),
             colour,
             width,
@@ -80,205 +91,189 @@ struct Panel {
     y_max: Option<f64>,
 }
 
+impl Panel {
+    fn new(y_desc: impl Into<String>, lines: Vec<Line>) -> Self {
+        Panel {
+            y_desc: y_desc.into(),
+            lines,
+            y_floor_zero: true,
+            y_max: None,
+        }
+    }
+
+    /// The largest value of the panel's first line (the point's own).
+    fn point_max(&self) -> f64 {
+        self.lines.first().map_or(0.0, |l| {
+            l.points.iter().filter_map(|p| p.1).fold(0.0f64, f64::max)
+        })
+    }
+}
+
 fn boundary_colour(i: usize) -> RGBColor {
     BOUNDARY[i % BOUNDARY.len()]
 }
 
-/// The panels of a trade, with every line's samples taken from the rows' classifications.
+fn limit(id: CriterionId) -> impl Fn(&Row) -> Option<f64> {
+    move |r: &Row| r.check.evaluation.criterion(id).map(|c| c.limit)
+}
+
+/// The limits' lines of the angle, velocity and pressure panels, for the enabled criteria.
+fn criterion_lines(t: &Trade<'_>) -> (Vec<Line>, Vec<Line>, Vec<Line>) {
+    let cfg = &t.window.criteria;
+    let crit = criterion_colour;
+    let (mut a, mut v, mut p) = (Vec::new(), Vec::new(), Vec::new());
+    if cfg.deribas_enabled {
+        a.push(Line::new(
+            format!("Deribas minimum angle (k = {})", cfg.deribas_k),
+            crit(CriterionId::DeribasLower),
+            2,
+            limit(CriterionId::DeribasLower),
+        ));
+    }
+    if cfg.jetting_enabled {
+        a.push(Line::new(
+            "jetting critical angle",
+            crit(CriterionId::Jetting),
+            2,
+            |r: &Row| r.check.evaluation.jetting.critical_angle_deg(),
+        ));
+    }
+    if cfg.strength_enabled {
+        v.push(Line::new(
+            "strength minimum sqrt(UTS/rho)",
+            crit(CriterionId::StrengthLower),
+            2,
+            limit(CriterionId::StrengthLower),
+        ));
+    }
+    if cfg.melting_enabled {
+        v.push(Line::new(
+            format!("melting maximum (Wittman, N = {})", cfg.wittman_n),
+            crit(CriterionId::MeltingUpper),
+            2,
+            limit(CriterionId::MeltingUpper),
+        ));
+        v.push(
+            Line::new(
+                "melting maximum with Tm in degC (the scale uncertainty)",
+                crit(CriterionId::MeltingUpper),
+                1,
+                |r: &Row| {
+                    r.check
+                        .evaluation
+                        .criterion(CriterionId::MeltingUpper)
+                        .and_then(|c| c.limit_tm_celsius)
+                },
+            )
+            .dashed((4, 3)),
+        );
+    }
+    if cfg.pressure_enabled {
+        p.push(Line::new(
+            format!("required pressure {} x HEL", cfg.hel_multiple),
+            crit(CriterionId::PressureLower),
+            2,
+            |r: &Row| {
+                r.check
+                    .evaluation
+                    .criterion(CriterionId::PressureLower)
+                    .map(|c| c.limit / 1e9)
+            },
+        ));
+    }
+    (a, v, p)
+}
+
+/// The panels of a trade, every line read off the rows' classifications.
 fn panels(t: &Trade<'_>) -> Vec<Panel> {
     let w = t.window;
-    let crit = |id| criterion_colour(id);
-    let mut angle = Panel {
-        y_desc: "angle [deg]".into(),
-        lines: vec![Line::new("collision angle beta", POINT, 2)],
-        y_floor_zero: true,
-        y_max: None,
-    };
-    let mut speed = Panel {
-        y_desc: format!("Vp [m/s] ({})", w.convention),
-        lines: vec![Line::new(
+    let (c0p, c0f) = (
+        w.parent.material.hugoniot.c0.si(),
+        w.flyer.material.hugoniot.c0.si(),
+    );
+    let (la, lv, lp) = criterion_lines(t);
+    let mut angle = Panel::new(
+        "angle [deg]",
+        vec![Line::new("collision angle beta", POINT, 2, |r: &Row| {
+            Some(r.check.evaluation.collision.angle.degrees())
+        })],
+    );
+    angle.lines.extend(la);
+    let mut speed = Panel::new(
+        format!("Vp [m/s] ({})", w.convention),
+        vec![Line::new(
             format!("impact velocity Vp ({})", w.convention),
             POINT,
             2,
+            |r: &Row| Some(r.check.evaluation.collision.impact_velocity.si()),
         )],
-        y_floor_zero: true,
-        y_max: None,
-    };
-    let mut flow = Panel {
-        y_desc: "Vc, Vf [m/s]".into(),
-        lines: vec![
-            Line::new("collision-point velocity Vc", POINT, 2),
-            Line::new("flow velocity Vf (flyer inflow)", FLOW, 2),
+    );
+    speed.lines.extend(lv);
+    let mut flow = Panel::new(
+        "Vc, Vf [m/s]",
+        vec![
+            Line::new("collision-point velocity Vc", POINT, 2, |r: &Row| {
+                Some(r.check.evaluation.collision.collision_velocity.si())
+            }),
+            Line::new("flow velocity Vf (flyer inflow)", FLOW, 2, |r: &Row| {
+                Some(r.check.evaluation.collision.flow_velocity.si())
+            }),
             Line::new(
                 format!("C0 of the parent ({})", w.parent.material.id),
                 SONIC_PARENT,
                 1,
+                move |_: &Row| Some(c0p),
             )
             .dashed((6, 4)),
             Line::new(
                 format!("C0 of the flyer ({})", w.flyer.material.id),
                 SONIC_FLYER,
                 1,
+                move |_: &Row| Some(c0f),
             )
             .dashed((6, 4)),
         ],
-        y_floor_zero: true,
-        y_max: None,
-    };
-    let mut pressure = Panel {
-        y_desc: "pressure [GPa]".into(),
-        lines: vec![Line::new("impact pressure p", POINT, 2)],
-        y_floor_zero: true,
-        y_max: None,
-    };
-    let cfg = &w.criteria;
-    if cfg.deribas_enabled {
-        angle.lines.push(Line::new(
-            format!("Deribas minimum angle (k = {})", cfg.deribas_k),
-            crit(CriterionId::DeribasLower),
-            2,
-        ));
-    }
-    if cfg.jetting_enabled {
-        angle.lines.push(Line::new(
-            "jetting critical angle",
-            crit(CriterionId::Jetting),
-            2,
-        ));
-    }
-    if cfg.strength_enabled {
-        speed.lines.push(Line::new(
-            "strength minimum sqrt(UTS/rho)",
-            crit(CriterionId::StrengthLower),
-            2,
-        ));
-    }
-    if cfg.melting_enabled {
-        speed.lines.push(Line::new(
-            format!("melting maximum (Wittman, N = {})", cfg.wittman_n),
-            crit(CriterionId::MeltingUpper),
-            2,
-        ));
-        speed.lines.push(
-            Line::new(
-                "melting maximum with Tm in degC (the scale uncertainty)",
-                crit(CriterionId::MeltingUpper),
-                1,
-            )
-            .dashed((4, 3)),
-        );
-    }
-    if cfg.pressure_enabled {
-        pressure.lines.push(Line::new(
-            format!("required pressure {} x HEL", cfg.hel_multiple),
-            crit(CriterionId::PressureLower),
-            2,
-        ));
-    }
-    // Boundaries: which panel, and which line index there.
-    let mut bpos = Vec::new();
-    for (i, b) in w.boundaries.iter().enumerate() {
-        let l = Line::new(format!("B{}: {}", i + 1, b.label), boundary_colour(i), 2).dashed((8, 4));
-        let target = match (b.weld_side, b.plane) {
-            (WeldSide::Above | WeldSide::Below, _) => &mut angle,
-            (_, Plane::AngleImpactVelocity) => &mut speed,
-            (_, Plane::AngleCollisionVelocity) => &mut flow,
-        };
-        target.lines.push(l);
-        bpos.push((
-            i,
-            target.lines.len() - 1,
-            b.weld_side.along_velocity(),
-            b.plane,
-        ));
-    }
-    let (c0p, c0f) = (
-        w.parent.material.hugoniot.c0.si(),
-        w.flyer.material.hugoniot.c0.si(),
     );
-    let mut prob = Line::new("weld probability", PROBABILITY, 2);
-    for r in &t.rows {
-        let x = r.at;
-        let e = &r.check.evaluation;
-        let c = &e.collision;
-        angle.lines[0].points.push((x, Some(c.angle.degrees())));
-        speed.lines[0]
-            .points
-            .push((x, Some(c.impact_velocity.si())));
-        flow.lines[0]
-            .points
-            .push((x, Some(c.collision_velocity.si())));
-        flow.lines[1].points.push((x, Some(c.flow_velocity.si())));
-        flow.lines[2].points.push((x, Some(c0p)));
-        flow.lines[3].points.push((x, Some(c0f)));
-        pressure.lines[0]
-            .points
-            .push((x, Some(e.impact.pressure.gpa())));
-        let lim = |id| e.criterion(id).map(|r| r.limit);
-        let mut k = 1;
-        if cfg.deribas_enabled {
-            angle.lines[k]
-                .points
-                .push((x, lim(CriterionId::DeribasLower)));
-            k += 1;
+    let mut pressure = Panel::new(
+        "pressure [GPa]",
+        vec![Line::new("impact pressure p", POINT, 2, |r: &Row| {
+            Some(r.check.evaluation.impact.pressure.gpa())
+        })],
+    );
+    pressure.lines.extend(lp);
+    for (i, b) in w.boundaries.iter().enumerate() {
+        let l = Line::new(
+            format!("B{}: {}", i + 1, b.label),
+            boundary_colour(i),
+            2,
+            move |r: &Row| r.check.boundaries.get(i).and_then(|b| b.limit),
+        )
+        .dashed((8, 4));
+        match (b.weld_side, b.plane) {
+            (WeldSide::Above | WeldSide::Below, _) => angle.lines.push(l),
+            (_, Plane::AngleImpactVelocity) => speed.lines.push(l),
+            (_, Plane::AngleCollisionVelocity) => flow.lines.push(l),
         }
-        if cfg.jetting_enabled {
-            angle.lines[k]
-                .points
-                .push((x, e.jetting.critical_angle_deg()));
-        }
-        let mut k = 1;
-        if cfg.strength_enabled {
-            speed.lines[k]
-                .points
-                .push((x, lim(CriterionId::StrengthLower)));
-            k += 1;
-        }
-        if cfg.melting_enabled {
-            let m = e.criterion(CriterionId::MeltingUpper);
-            speed.lines[k].points.push((x, m.map(|r| r.limit)));
-            speed.lines[k + 1]
-                .points
-                .push((x, m.and_then(|r| r.limit_tm_celsius)));
-        }
-        if cfg.pressure_enabled {
-            pressure.lines[1]
-                .points
-                .push((x, lim(CriterionId::PressureLower).map(|p| p / 1e9)));
-        }
-        for &(i, li, _, _) in &bpos {
-            let v = r.check.boundaries.get(i).and_then(|b| b.limit);
-            let target = match (w.boundaries[i].weld_side, w.boundaries[i].plane) {
-                (WeldSide::Above | WeldSide::Below, _) => &mut angle,
-                (_, Plane::AngleImpactVelocity) => &mut speed,
-                (_, Plane::AngleCollisionVelocity) => &mut flow,
-            };
-            target.lines[li].points.push((x, v));
-        }
-        prob.points.push((x, r.probability));
     }
-    // Keep the velocity panel readable: the melting ceiling grows without bound as Vc falls.
-    let vmax = speed.lines[0]
-        .points
-        .iter()
-        .filter_map(|p| p.1)
-        .fold(0.0f64, f64::max);
-    speed.y_max = Some(2.5 * vmax);
-    let amax = angle.lines[0]
-        .points
-        .iter()
-        .filter_map(|p| p.1)
-        .fold(0.0f64, f64::max);
-    angle.y_max = Some((1.6 * amax).clamp(5.0, 90.0));
     let mut out = vec![angle, speed, flow, pressure];
     if t.probability.is_some() {
-        out.push(Panel {
-            y_desc: "P(weld)".into(),
-            lines: vec![prob],
-            y_floor_zero: true,
-            y_max: Some(1.0),
-        });
+        let mut p = Panel::new(
+            "P(weld)",
+            vec![Line::new("weld probability", PROBABILITY, 2, |r: &Row| {
+                r.probability
+            })],
+        );
+        p.y_max = Some(1.0);
+        out.push(p);
     }
+    for p in &mut out {
+        for l in &mut p.lines {
+            l.points = t.rows.iter().map(|r| (r.at, (l.read)(r))).collect();
+        }
+    }
+    // Keep the velocity panel readable: the melting ceiling grows without bound as Vc falls.
+    out[1].y_max = Some(2.5 * out[1].point_max());
+    out[0].y_max = Some((1.6 * out[0].point_max()).clamp(5.0, 90.0));
     out
 }
 

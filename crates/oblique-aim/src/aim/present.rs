@@ -95,6 +95,19 @@ impl Aim<'_> {
             s.push('\n');
             return s;
         };
+        s.push_str(&self.best_text(best));
+        s.push_str(&self.ranked_text());
+        s.push_str(&self.region_text());
+        s.push_str("These are screening estimates: the best point is where the model keeps the most room, not a guarantee of a weld; confirm it with sectioned trial joints.\n");
+        s.push_str(CAUTION);
+        s.push('\n');
+        s
+    }
+
+    /// The best point: where, its nearest limit, its probabilities, its margins.
+    fn best_text(&self, best: &Candidate) -> String {
+        let w = self.window;
+        let mut s = String::new();
         let (uv, ub) = self.unrounded.unwrap_or((best.velocity, best.angle_deg));
         s.push_str(&format!(
             "best point: Vp {:.0} m/s, collision angle {:.1} deg ({}; found at {uv:.1} m/s, {ub:.2} deg, rounded to what a set-up is set to)\n",
@@ -162,6 +175,12 @@ impl Aim<'_> {
             s.push_str(&format!("  warning: {warn}\n"));
         }
         s.push('\n');
+        s
+    }
+
+    /// The ranked list.
+    fn ranked_text(&self) -> String {
+        let mut s = String::new();
         if self.ranked.len() > 1 {
             s.push_str(&format!(
                 "ranked (each point at least {} standard deviations from those above it):\n",
@@ -203,11 +222,15 @@ impl Aim<'_> {
             }
             s.push_str(&format!(
                 "  (P1: first-order probability of keeping every limit; P(weld): sampled weld probability, the same draws for every point, {} samples)\n\n",
-                self.ranked
-                    .first()
-                    .map_or(0, |_| self.best_probability.as_ref().map_or(0, |_| super::RANK_SAMPLES))
+                self.rank_samples
             ));
         }
+        s
+    }
+
+    /// The region keeping the requested probability, row by row.
+    fn region_text(&self) -> String {
+        let mut s = String::new();
         if let Some(r) = &self.region {
             s.push_str(&format!(
                 "region keeping a weld probability of at least {} ({} x {} grid, {} draws per node, the same at every node; nodes outside the validity domain or the trial data left out):\n",
@@ -233,9 +256,6 @@ impl Aim<'_> {
             }
             s.push('\n');
         }
-        s.push_str("These are screening estimates: the best point is where the model keeps the most room, not a guarantee of a weld; confirm it with sectioned trial joints.\n");
-        s.push_str(CAUTION);
-        s.push('\n');
         s
     }
 

@@ -174,7 +174,11 @@ fn every_command_of_the_tutorial_gives_the_output_it_shows() {
     let path = super::repo().join("docs/tutorial.md");
     let md = std::fs::read_to_string(&path).expect("docs/tutorial.md");
     let steps = parse(&md);
-    assert!(steps.len() >= 12, "the tutorial runs {} commands", steps.len());
+    assert!(
+        steps.len() >= 12,
+        "the tutorial runs {} commands",
+        steps.len()
+    );
     let dir = tempfile::tempdir().expect("tmp");
     let bless = std::env::var_os("OBLIQUE_BLESS_TUTORIAL").is_some();
     let mut replace: Vec<((usize, usize), Vec<String>)> = Vec::new();
