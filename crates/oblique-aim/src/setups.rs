@@ -78,9 +78,9 @@ pub struct SetupSearch<'a> {
     pub steps: usize,
     /// Efficiency (default: a stored calibration, else 1).
     pub efficiency: Option<f64>,
-    /// The bank's current rating (A), if known.
+    /// The bank's current rating (A), if given (else the bank file's, if it has one).
     pub max_current: Option<f64>,
-    /// The bank's energy rating (J), if known.
+    /// The bank's energy rating (J), if given (else the bank file's, if it has one).
     pub max_energy: Option<f64>,
     /// Time integration.
     pub integration: Integration,
@@ -176,10 +176,8 @@ pub struct SetupSearchResult<'a> {
     pub efficiency: (f64, String),
     /// Notes for the person (from resolving the set-ups).
     pub notes: Vec<String>,
-    /// The current and energy ratings applied.
-    pub max_current: Option<f64>,
-    /// See `max_current`.
-    pub max_energy: Option<f64>,
+    /// The current and energy ratings applied, with where they come from.
+    pub ratings: Ratings,
     /// The efficiency is not calibrated on this workpiece (the default 1, or transferred).
     pub uncalibrated: bool,
     /// The flags that reproduce the family's fixed parts in `oblique estimate` (coil file or
@@ -287,6 +285,47 @@ fn grids(s: &SetupSearch<'_>) -> AimResult<Grids> {
     })
 }
 
+/// The bank's current and energy ratings (SI) with where each comes from: the flag, else the
+/// bank file.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Ratings {
+    /// Peak current (A) and its origin.
+    pub current: Option<(f64, String)>,
+    /// Stored energy (J) and its origin.
+    pub energy: Option<(f64, String)>,
+}
+
+fn ratings(catalog: &Catalog, s: &SetupSearch<'_>) -> Ratings {
+    let spec = s
+        .bank
+        .machine
+        .as_deref()
+        .and_then(|n| catalog.machines.bank(n).ok());
+    let from_file = |name: &str, source: &str| format!("{name} ({source})");
+    Ratings {
+        current: s
+            .max_current
+            .map(|x| (x, "--max-current".to_string()))
+            .or_else(|| {
+                spec.and_then(|(rec, b)| {
+                    b.max_current
+                        .as_ref()
+                        .map(|v| (v.value.si(), from_file(&rec.name, &v.source)))
+                })
+            }),
+        energy: s
+            .max_energy
+            .map(|x| (x, "--max-energy".to_string()))
+            .or_else(|| {
+                spec.and_then(|(rec, b)| {
+                    b.max_energy
+                        .as_ref()
+                        .map(|v| (v.value.si(), from_file(&rec.name, &v.source)))
+                })
+            }),
+    }
+}
+
 /// The inductance of the coil's leads and gap at rest (H).
 fn load_inductance(setup: &oblique_core::process::PulseSetup) -> f64 {
     match setup {
@@ -303,6 +342,7 @@ fn load_inductance(setup: &oblique_core::process::PulseSetup) -> f64 {
 /// peak (workpiece held still); those left out are counted.
 fn rated_voltages(
     s: &SetupSearch<'_>,
+    ratings: &Ratings,
     g: &Grids,
     resolved: &oblique_setup::ResolvedSetup<'_>,
     left_out: &mut LeftOut,
@@ -324,7 +364,11 @@ fn rated_voltages(
             left_out.above_voltage += n;
             continue;
         }
-        if s.max_energy.is_some_and(|m| e > m * (1.0 + 1e-12)) {
+        if ratings
+            .energy
+            .as_ref()
+            .is_some_and(|m| e > m.0 * (1.0 + 1e-12))
+        {
             left_out.above_energy += n;
             continue;
         }
@@ -333,7 +377,11 @@ fn rated_voltages(
             .map_err(oblique_setup::SetupError::from)?
             .1
             .si();
-        if s.max_current.is_some_and(|m| peak > m * (1.0 + 1e-12)) {
+        if ratings
+            .current
+            .as_ref()
+            .is_some_and(|m| peak > m.0 * (1.0 + 1e-12))
+        {
             left_out.above_current += n;
         } else {
             out.push((u, peak));
@@ -483,6 +531,7 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
     let w = s.window;
     let setup = w.setup()?;
     let g = grids(s)?;
+    let rated = ratings(catalog, s);
     let mut notes = Vec::new();
     let mut left_out = LeftOut::default();
     let mut all: Vec<SetupResult> = Vec::new();
@@ -501,7 +550,7 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
                 history: false,
             };
             let resolved = resolve_estimate(catalog, &base, &mut notes)?;
-            let volts = rated_voltages(s, &g, &resolved, &mut left_out)?;
+            let volts = rated_voltages(s, &rated, &g, &resolved, &mut left_out)?;
             if !volts.is_empty() {
                 all.extend(coil_settings(
                     w,
@@ -598,8 +647,7 @@ pub fn search<'a>(catalog: &Catalog, s: &SetupSearch<'a>) -> AimResult<SetupSear
         tube_outer_radius: s.tube_outer_radius,
         efficiency: eta,
         notes,
-        max_current: s.max_current,
-        max_energy: s.max_energy,
+        ratings: rated,
         uncalibrated: first.inputs.uncalibrated() || first.inputs.calibration_mismatch(),
         reproduce: Reproduce {
             coil_file: s.coils.file.clone(),

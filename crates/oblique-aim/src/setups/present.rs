@@ -40,9 +40,20 @@ impl SetupSearchResult<'_> {
                     ", rated {}, from {from}",
                     human::kv(*u)
                 )),
-            self.max_current
-                .map_or("none given".into(), |i| format!("{} kA", human::g(i / 1e3))),
-            self.max_energy.map_or("none given".into(), human::kj),
+            self.ratings
+                .current
+                .as_ref()
+                .map_or("none given".into(), |(i, from)| format!(
+                    "{} kA, from {from}",
+                    human::g(i / 1e3)
+                )),
+            self.ratings
+                .energy
+                .as_ref()
+                .map_or("none given".into(), |(e, from)| format!(
+                    "{}, from {from}",
+                    human::kj(*e)
+                )),
         ));
         s.push_str(&format!(
             "coils: {}leads {}; efficiency {} ({})\n",
@@ -234,8 +245,10 @@ impl SetupSearchResult<'_> {
             "model": "mpw-tube",
             "bank": self.bank,
             "rated_voltage_v": self.rating.as_ref().map(|r| sig(r.0)),
-            "max_current_a": self.max_current.map(sig),
-            "max_energy_j": self.max_energy.map(sig),
+            "max_current_a": self.ratings.current.as_ref().map(|x| sig(x.0)),
+            "max_current_from": self.ratings.current.as_ref().map(|x| x.1.clone()),
+            "max_energy_j": self.ratings.energy.as_ref().map(|x| sig(x.0)),
+            "max_energy_from": self.ratings.energy.as_ref().map(|x| x.1.clone()),
             "coil_file": self.coil_file,
             "coil_extra_inductance_h": sig(self.extra_inductance),
             "tube_outer_radius_m": sig(self.tube_outer_radius),

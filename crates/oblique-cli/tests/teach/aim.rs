@@ -278,3 +278,51 @@ fn bad_aim_input_exits_2_naming_the_flag() {
     );
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
 }
+
+/// A bank file's current rating is used when --max-current is not given, and said so.
+#[test]
+fn a_bank_files_current_rating_leaves_set_ups_out() {
+    let dir = tempfile::tempdir().expect("tmp");
+    let machines = dir.path().join("machines");
+    std::fs::create_dir_all(&machines).expect("mkdir");
+    let bank = std::fs::read_to_string(repo().join("windows/machines/harbourside-bank-300uf.ron"))
+        .expect("bank")
+        .replace(
+            "        ring_down: (",
+            "        max_current: (value: \"450 kA\", source: \"invented rating for a test\"),\n        ring_down: (",
+        );
+    std::fs::write(
+        machines.join("test-bank.ron"),
+        bank.replace("name: \"harbourside-bank-300uf\"", "name: \"test-bank\""),
+    )
+    .expect("write");
+    let d = dir.path().to_str().expect("utf-8");
+    let j = json(&[
+        "--library",
+        d,
+        "aim",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--machine",
+        "test-bank",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--tube-outer-radius",
+        "20mm",
+        "--charge-voltage",
+        "6kV..12kV",
+        "--standoff",
+        "1mm..3mm",
+        "--chamfer",
+        "8deg..20deg",
+        "--json",
+    ]);
+    assert_eq!(j["max_current_a"], 450e3);
+    assert!(j["max_current_from"]
+        .as_str()
+        .is_some_and(|f| f.starts_with("test-bank")));
+    assert!(num(&j["left_out"]["above_current_rating"]) > 0.0);
+    for r in j["ranked"].as_array().expect("ranked") {
+        assert!(num(&r["peak_current_held_a"]) <= 450e3);
+    }
+}
