@@ -355,7 +355,7 @@ pub struct ExplosiveSpec {
 #[derive(Debug, Clone, PartialEq)]
 pub enum MachineItem {
     /// A capacitor bank.
-    Bank(BankSpec),
+    Bank(Box<BankSpec>),
     /// A compression coil or field-shaper bore.
     CompressionCoil(CompressionCoilSpec),
     /// A flat bar coil.

@@ -446,7 +446,7 @@ pub fn parse_machine_file(
         );
     }
     let item = if let Some(b) = &parsed.bank {
-        bank_spec(&mut c, b).map(MachineItem::Bank)
+        bank_spec(&mut c, b).map(|s| MachineItem::Bank(Box::new(s)))
     } else if let Some(e) = &parsed.compression_coil {
         compression_spec(&mut c, e).map(MachineItem::CompressionCoil)
     } else if let Some(e) = &parsed.bar_coil {
