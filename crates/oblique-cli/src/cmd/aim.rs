@@ -17,10 +17,12 @@ use std::path::PathBuf;
 #[derive(Debug, Args)]
 #[command(after_help = "Examples:
   oblique aim --pair demo-al6061-on-cu
-  oblique aim --pair demo-al6061-on-cu --velocity-sd 5% --angle-sd 1.5deg --min-probability 80% --json
+  oblique aim --pair demo-al6061-on-cu --velocity-sd 5% --angle-sd 1.5deg \\
+      --min-probability 80% --json
   oblique aim --pair demo-al6061-on-cu --machine harbourside-bank-300uf --coil-bore 21mm \\
       --coil-length 20mm..60mm --coil-inductance 20nH --tube-outer-radius 20mm \\
-      --charge-voltage 6kV..12kV --standoff 1mm..3mm --chamfer 4deg..16deg --steps 5
+      --charge-voltage 6kV..12kV --standoff 1mm..3mm --chamfer 4deg..16deg --steps 5 \\
+      --max-current 500kA
 
 Without a machine: the (impact velocity, collision angle) that keeps the most room to every limit,
 measured in the stated scatter (default: 3 % and 1 deg, a measured shot, docs/theory.md §15.3):
@@ -28,7 +30,10 @@ the smallest margin in standard deviations (z), ties broken by the next smallest
 point is rounded to 1 m/s and 0.1 deg and checked there; its margins are those `check` prints.
 With a machine: every set-up of the coil family (each range spread over --steps values) is
 estimated with the tube model and ranked by the same measure, within the bank's rating; the
-collision angle is the rod's chamfer (the simple model's assumption, said in the output).
+collision angle is the rod's chamfer (the simple model's assumption, said in the output). The
+bank's rated voltage, and --max-current/--max-energy (or the bank file's max_current and
+max_energy), leave set-ups out; --steps spreads each range over 2 to 100 values (default 5), at
+most 100000 set-ups. --velocity-sd/--angle-sd are the scatter the room is measured in.
 
 Screening only, never a guarantee: lethal voltages, stored energy, explosives and flying parts are
 involved in every real shot; follow local codes and licensed practice.")]

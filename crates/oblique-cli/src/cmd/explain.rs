@@ -14,8 +14,10 @@ use std::path::PathBuf;
 #[derive(Debug, Args)]
 #[command(after_help = "Examples:
   oblique explain --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg
-  oblique explain --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --velocity 350m/s --angle 12deg --convention normal-to-flyer --json
-  oblique explain --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg --velocity-sd 5% --angle-sd 1deg
+  oblique explain --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm \\
+      --velocity 350m/s --angle 12deg --convention normal-to-flyer --json
+  oblique explain --pair demo-al6061-on-cu --velocity 450m/s --angle 10deg \\
+      --velocity-sd 5% --angle-sd 1deg
 
 Every step from the inputs to the verdict, in order: the relation in words and as a formula, the
 numbers substituted with their units, the result, and its source or mark (from memory, derived

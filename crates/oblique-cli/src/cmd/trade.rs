@@ -16,9 +16,12 @@ use std::path::PathBuf;
 #[derive(Debug, Args)]
 #[command(after_help = "Examples:
   oblique trade --pair demo-al6061-on-cu --velocity 450m/s --angle-range 2deg..30deg
-  oblique trade --pair demo-al6061-on-cu --angle 10deg --velocity-range 200m/s..800m/s --steps 25 --plot trade.svg
-  oblique trade --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm --convention normal-to-flyer --velocity 400m/s --angle-range 2deg..30deg --csv trade.csv
-  oblique trade --pair demo-al6061-on-cu --velocity 450m/s --angle-range 2deg..30deg --velocity-sd 5% --angle-sd 1deg --json
+  oblique trade --pair demo-al6061-on-cu --angle 10deg --velocity-range 200m/s..800m/s \\
+      --steps 25 --plot trade.svg
+  oblique trade --flyer aa6061-t6 --parent cu-c11000 --flyer-thickness 1mm \\
+      --convention normal-to-flyer --velocity 400m/s --angle-range 2deg..30deg --csv trade.csv
+  oblique trade --pair demo-al6061-on-cu --velocity 450m/s --angle-range 2deg..30deg \\
+      --velocity-sd 5% --angle-sd 1deg --json
 
 One control moves with the other fixed: the angle (--velocity V --angle-range A..B) or the impact
 velocity (--angle A --velocity-range V1..V2). Every row is the point `oblique check` would
