@@ -21,10 +21,11 @@ Relations (the same as the Rust crates; see physics-notes.md, sections 1-4):
 
 Usage:
   reference_map.py INPUT.csv WINDOW.json -o OUT.csv [--summary-json FILE] [--bad-rows stop|skip]
-                   [--all-columns]
+                   [--all-columns | --columns default|all|verdict-only]
 
 The map has the same columns as `oblique map`: the binding limit with its margin (in that
-limit's unit) and relative margin by default, every limit's margin with --all-columns.
+limit's unit) and relative margin by default, every limit's margin with --all-columns (or
+--columns all), the row number and the verdict alone with --columns verdict-only.
 """
 
 import argparse
@@ -225,7 +226,10 @@ def main(argv):
     ap.add_argument("--summary-json")
     ap.add_argument("--bad-rows", choices=["stop", "skip"], default="stop")
     ap.add_argument("--all-columns", action="store_true", help="also write every limit's margin")
+    ap.add_argument("--columns", choices=["default", "all", "verdict-only"], default="default")
     a = ap.parse_args(argv)
+    if a.columns == "all":
+        a.all_columns = True
     t0 = time.perf_counter()
     w = json.load(open(a.window))
     F, P = w["flyer_material"], w["parent_material"]
@@ -388,6 +392,8 @@ def main(argv):
             cols[col] = pa.array(np.round(margin * factor, dec), from_pandas=True)
     if w["boundary_list"]:
         cols["outside_trial_data"] = pa.array(outside)
+    if a.columns == "verdict-only":
+        cols = {"row": cols["row"], "verdict": cols["verdict"]}
     pacsv.write_csv(pa.table(cols), a.output, write_options=pacsv.WriteOptions(quoting_style="needed"))
 
     # Summary: counts; length-weighted welded length (each point owns half the distance to

@@ -170,11 +170,15 @@ pub fn collision(
 
 /// Read `velocity[unit],angle[unit][,label]` rows.
 pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>> {
-    let display = path.display().to_string();
+    let bytes = read_input(path)?;
+    let display = if path.as_os_str() == "-" {
+        "standard input".to_string()
+    } else {
+        path.display().to_string()
+    };
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
-        .from_path(path)
-        .map_err(|e| Fail::input(format!("{display}: {e}")))?;
+        .from_reader(&bytes[..]);
     let headers = rdr
         .headers()
         .map_err(|e| Fail::input(format!("{display}: {e}")))?
@@ -231,16 +235,69 @@ pub fn read_point_csv(path: &Path) -> CmdResult<Vec<(f64, f64, Option<String>)>>
     Ok(out)
 }
 
+/// The bytes of an input file, or of standard input for `-`.
+///
+/// # Errors
+/// The file cannot be read (exit 2, naming it).
+pub fn read_input(path: &Path) -> CmdResult<Vec<u8>> {
+    use oblique_window::files::{read_all_bounded, read_bounded, MAX_READ_BYTES};
+    if path.as_os_str() == "-" {
+        return read_all_bounded(std::io::stdin().lock(), MAX_READ_BYTES)
+            .map_err(|e| Fail::input(format!("standard input: {e}")));
+    }
+    read_bounded(path).map_err(|e| Fail::input(format!("{}: {e}", path.display())))
+}
+
+/// Where a file went, for the closing message: on standard error when the file itself went to
+/// standard output (`-`), so that the output stays clean.
+pub fn said_where(path: &Path, text: &str) -> CmdResult {
+    if path.as_os_str() == "-" {
+        eprint!("{}", crate::fail::for_terminal(text));
+        Ok(())
+    } else {
+        crate::output::emit(text)
+    }
+}
+
 /// Write a file the user asked for, atomically.
 pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
     use oblique_window::write::WriteError;
+    if path.as_os_str() == "-" {
+        // Standard output; a closed pipe is a normal end.
+        use std::io::Write;
+        let mut out = std::io::stdout().lock();
+        return match out.write_all(bytes).and_then(|()| out.flush()) {
+            Ok(()) => Ok(()),
+            Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Err(Fail {
+                message: String::new(),
+                code: 0,
+            }),
+            Err(e) => Err(Fail::other(format!("cannot write to standard output: {e}"))),
+        };
+    }
     oblique_window::write::atomic_write(path, bytes, None).map_err(|e| match e {
-        WriteError::Io { source, .. } => Fail::input(format!(
+        WriteError::Io { source, .. } => Fail::other(format!(
             "{}: cannot write: {source}\n  hint: check that the folder exists and is writable",
             path.display()
         )),
-        other => Fail::other(format!("cannot write {}: {other}", path.display())),
+        other => write_fail(other),
     })
+}
+
+/// The exit code of a write that did not happen: 1 when the command was right and the machine
+/// or another process stood in the way (an IO error, another writer's lock held too long), 2
+/// when the path or the data asked for cannot be written (a folder, a read-only or library
+/// file, an existing name, a change that would leave an invalid file, a file that is no longer
+/// the one the user read: `--if-unchanged`).
+pub fn write_fail(e: oblique_window::write::WriteError) -> Fail {
+    use oblique_window::write::WriteError;
+    match e {
+        WriteError::Io { .. } | WriteError::Locked { .. } => Fail::other(e.to_string()),
+        WriteError::Conflict { .. }
+        | WriteError::Invalid(_)
+        | WriteError::Exists(_)
+        | WriteError::Structure { .. } => Fail::input(e.to_string()),
+    }
 }
 
 impl From<SetupError> for Fail {
@@ -483,6 +540,9 @@ pub fn fitted_note(window: &PairWindow, flags: &crate::args::ConstantArgs) -> Op
     }
     s.pop();
     s.push('\n');
+    for c in f.cautions(window.observations.len()) {
+        s.push_str(&format!("  caution: {c}\n"));
+    }
     Some(s)
 }
 
@@ -574,4 +634,49 @@ pub fn request_flyer(p: &oblique_setup::MagneticRequest) -> (Option<&str>, Optio
             s.flyer_thickness.map(oblique_core::units::Length::si),
         ),
     }
+}
+
+/// The weld probability of the chosen set-up, when the scatter flags ask for it (or `always`): under the stated
+/// scatter (a process estimate: the velocity spread of its efficiency's provenance unless
+/// --velocity-sd is given; the angle 1 deg unless --angle-sd is).
+pub fn chosen_probability(
+    window: &oblique_window::PairWindow,
+    decision: &oblique_setup::decision::Decision<'_>,
+    a: &crate::args::ScatterArgs,
+    always: bool,
+) -> CmdResult<Option<oblique_render::report::Probability>> {
+    if !a.asked() && !always {
+        return Ok(None);
+    }
+    let Some(check) = &decision.chosen.check else {
+        return Ok(None);
+    };
+    let col = &check.evaluation.collision;
+    let (scatter, basis) = match &decision.chosen.produced {
+        oblique_setup::decision::Produced::Magnetic(r) => a.process().resolve(&r.setup.inputs),
+        _ => (a.scatter(), "as stated".to_string()),
+    };
+    let point = oblique_confidence::Point::impact(col.convention, col.impact_velocity, col.angle);
+    let sampling = a.sampling(oblique_setup::uncertainty::ESTIMATE_SAMPLES);
+    let p = oblique_confidence::weld_probability(window, &point, &scatter, &sampling)
+        .map_err(|e| Fail::input(e.to_string()))?;
+    let half = 1.959964 * p.standard_error; // normal 0.975 quantile (NIST handbook table)
+    let mut doubt = p.doubt.clone();
+    if let Some(first) = doubt.get(..1) {
+        doubt = first.to_uppercase() + &doubt[1..];
+    }
+    if !doubt.ends_with('.') {
+        doubt.push('.');
+    }
+    Ok(Some(oblique_render::report::Probability {
+        value: p.inside,
+        interval: Some(((p.inside - half).max(0.0), (p.inside + half).min(1.0))),
+        method: format!(
+            "Monte Carlo, {} draws, seed {}, under the stated scatter ({}; velocity spread basis: {basis}); 95 % interval of the sampling only. {} The probability is conditional on the model and these distributions (docs/theory.md, section 15), a screening estimate, never a guarantee",
+            p.samples,
+            p.seed,
+            scatter.text(),
+            doubt
+        ),
+    }))
 }

@@ -23,6 +23,19 @@ fn main() -> ExitCode {
         return fail::Fail::input(hint).report();
     }
     let args = cli::Cli::parse_from(argv);
+    // Ctrl-C or SIGTERM: the final files are never half-written (every write goes through a
+    // temporary file renamed into place); remove the temporary files of unfinished writes
+    // too. A handler that cannot be installed only means they stay behind, as after a kill.
+    let _ = ctrlc::set_handler(|| {
+        let removed = oblique_window::files::remove_temporaries();
+        let what = match removed {
+            0 => String::new(),
+            1 => "; removed the temporary file of an unfinished write".to_string(),
+            n => format!("; removed the temporary files of {n} unfinished writes"),
+        };
+        eprintln!("interrupted: nothing was left half-written{what}");
+        std::process::exit(130);
+    });
     match args.run() {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) => e.report(),

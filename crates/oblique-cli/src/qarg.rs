@@ -11,6 +11,33 @@ macro_rules! parser {
     };
 }
 
+/// A SHA-256 as 64 hexadecimal digits (as `pair show --json` prints it), in lower case.
+pub fn sha256(s: &str) -> Result<String, String> {
+    let t = s.trim();
+    if t.len() == 64 && t.chars().all(|c| c.is_ascii_hexdigit()) {
+        Ok(t.to_ascii_lowercase())
+    } else {
+        Err(format!(
+            "'{}' is not a SHA-256 (64 hexadecimal digits, as `oblique pair show NAME --json` prints in 'sha256')",
+            short_text(t)
+        ))
+    }
+}
+
+/// The text of a flag's value cut for a message.
+fn short_text(s: &str) -> String {
+    oblique_window::text::short(s.trim(), 24)
+}
+
+/// A one-line text (a source, a label, a provenance): no line break or control character, so
+/// that it can never pass for a line of oblique's own output where it is shown.
+pub fn one_line_text(s: &str) -> Result<String, String> {
+    match oblique_window::text::one_line_problem(s) {
+        Some(p) => Err(p),
+        None => Ok(s.to_string()),
+    }
+}
+
 parser!(velocity, QuantityKind::Velocity);
 parser!(length, QuantityKind::Length);
 parser!(capacitance, QuantityKind::Capacitance);
@@ -114,6 +141,14 @@ pub fn constant(s: &str, max: f64) -> Result<f64, String> {
             "{v} is above {max}, far outside the published range of this constant (docs/theory.md)"
         ));
     }
+    // A thousandth of the largest accepted is already far below every published value; below
+    // it the limits' searches lose their footing (numbers near the smallest double).
+    let min = max * 1e-3;
+    if v < min {
+        return Err(format!(
+            "{v:.3e} is below {min}, far outside the published range of this constant (docs/theory.md)"
+        ));
+    }
     Ok(v)
 }
 
@@ -182,13 +217,15 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
             format!("'{s}' is not a percentage (write it like 5%) or a velocity (20m/s)")
         })?;
         if !(v.is_finite() && v >= 0.0) {
-            return Err(format!("{v} % must be zero or above"));
+            return Err(format!("'{}' must be zero or above", short_text(p)));
         }
         if v > 100.0 * MAX_RELATIVE_VELOCITY_SD {
             return Err(format!(
-                "{v} % is above {} %: beyond it a normal scatter puts visible weight on negative velocities",
+                "{:.3e} % is above {} %: beyond it a normal scatter puts visible weight on negative velocities",
+                v,
                 100.0 * MAX_RELATIVE_VELOCITY_SD
-            ));
+            )
+            .replace(".000e", "e"));
         }
         return Ok(oblique_confidence::VelocitySpread::Relative(v / 100.0));
     }
@@ -200,7 +237,7 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
     }
     if v > MAX_ABSOLUTE_VELOCITY_SD_M_S {
         return Err(format!(
-            "{v} m/s is above {MAX_ABSOLUTE_VELOCITY_SD_M_S} m/s"
+            "{v:.3e} m/s is above {MAX_ABSOLUTE_VELOCITY_SD_M_S} m/s"
         ));
     }
     Ok(oblique_confidence::VelocitySpread::Absolute(v))

@@ -847,7 +847,7 @@ impl FitResult {
                     .map(|m| {
                         format!(
                             "#{} ({} m/s, {} deg: {}, predicted {})",
-                            m.index,
+                            m.index + 1,
                             num(m.velocity_m_s),
                             num(m.angle_deg),
                             m.observed,

@@ -50,7 +50,6 @@ pub fn probability_grid(
     scatter: &Scatter,
     sampling: &Sampling,
 ) -> ConfidenceResult<ProbabilityGrid> {
-    sampling.validate()?;
     if xs.len() * ys_deg.len() > MAX_GRID_POINTS {
         return Err(ConfidenceError::invalid(
             "grid",
@@ -61,6 +60,7 @@ pub fn probability_grid(
             ),
         ));
     }
+    sampling.validate_for(xs.len() * ys_deg.len(), "nodes of the probability grid")?;
     let probe = Point {
         convention: window.convention,
         velocity: PointVelocity::Impact(400.0),
@@ -152,7 +152,7 @@ pub fn probabilities(
     scatter: &Scatter,
     sampling: &Sampling,
 ) -> ConfidenceResult<Vec<f64>> {
-    sampling.validate()?;
+    sampling.validate_for(points.len(), "points")?;
     let Some(first) = points.first() else {
         return Ok(Vec::new());
     };

@@ -161,21 +161,39 @@ pub fn constant_distribution(
         #[allow(clippy::float_cmp)]
         if f.value == value_in_use {
             let z = crate::quantile::normal(0.5 + fit.level / 2.0);
-            let below = f.low.map_or(prior, |lo| (f.value / lo).ln() / z).max(1e-6);
-            let above = f.high.map_or(prior, |hi| (hi / f.value).ln() / z).max(1e-6);
+            // A side's spread is measured only when the interval is bounded on both sides: in a
+            // one-sided interval the value is where the trials stop (the value in use moved to
+            // the interval's end), not a best estimate, so a spread read from the distance to
+            // that end would be zero or arbitrary. Then both sides take the prior spread.
+            let two_sided = f.low.is_some() && f.high.is_some();
+            let spread = |d: f64| if two_sided && d > 0.0 { d / z } else { prior };
+            let below = f.low.map_or(prior, |lo| spread((f.value / lo).ln()));
+            let above = f.high.map_or(prior, |hi| spread((hi / f.value).ln()));
+            let mut basis = format!(
+                "fitted to {} trials on {} ({} % interval {}); {}",
+                fit.observations,
+                fit.date,
+                crate::present::num(100.0 * fit.level),
+                crate::present::interval(f.low, f.high),
+                if two_sided {
+                    "spreads from the interval"
+                } else {
+                    "a one-sided interval: the prior spread on both sides"
+                }
+            );
+            if fit.observations != window.observations.len() {
+                basis.push_str(&format!(
+                    "; the file now holds {} trials (fit again)",
+                    window.observations.len()
+                ));
+            }
             return (
                 Distribution::SplitLogNormal {
                     median: f.value,
                     below,
                     above,
                 },
-                format!(
-                    "fitted to {} trials on {} ({} % interval {}); an unbounded side takes the prior spread",
-                    fit.observations,
-                    fit.date,
-                    crate::present::num(100.0 * fit.level),
-                    crate::present::interval(f.low, f.high)
-                ),
+                basis,
             );
         }
     }
@@ -349,4 +367,61 @@ pub fn inputs(window: &PairWindow, point: &Point, scatter: &Scatter) -> Vec<Inpu
         }
     }
     out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use oblique_window::pair::{Fitted, FittedValue};
+
+    fn with_fit(k: FittedValue) -> PairWindow {
+        let lib = oblique_window::Library::load(&[]).expect("built-in library");
+        let mut w = lib.pair("demo-al6061-on-cu").expect("demo pair").clone();
+        w.criteria.deribas_k = k.value;
+        w.fitted = Some(Fitted {
+            date: "2026-12-01".into(),
+            method: "test".into(),
+            observations: w.observations.len(),
+            level: 0.95,
+            deribas_k: Some(k),
+            wittman_n: None,
+            hel_multiple: None,
+        });
+        w
+    }
+
+    /// A constant at the end of a one-sided interval keeps the prior spread on both sides (the
+    /// distance to that end, zero, is no measured spread); a two-sided interval gives its own.
+    #[test]
+    fn one_sided_fits_keep_the_prior_spread() {
+        let (prior, _) = Constant::DeribasK.prior();
+        let w = with_fit(FittedValue {
+            value: 0.68,
+            low: None,
+            high: Some(0.68),
+        });
+        let (d, basis) = constant_distribution(&w, Constant::DeribasK, 0.68);
+        assert_eq!(
+            d,
+            Distribution::SplitLogNormal {
+                median: 0.68,
+                below: prior,
+                above: prior
+            }
+        );
+        assert!(basis.contains("one-sided"), "{basis}");
+        let w = with_fit(FittedValue {
+            value: 0.8,
+            low: Some(0.7),
+            high: Some(0.9),
+        });
+        let (d, basis) = constant_distribution(&w, Constant::DeribasK, 0.8);
+        let z = crate::quantile::normal(0.975);
+        let Distribution::SplitLogNormal { below, above, .. } = d else {
+            panic!("{d:?}")
+        };
+        approx::assert_relative_eq!(below, (0.8f64 / 0.7).ln() / z, max_relative = 1e-12);
+        approx::assert_relative_eq!(above, (0.9f64 / 0.8).ln() / z, max_relative = 1e-12);
+        assert!(basis.contains("spreads from the interval"), "{basis}");
+    }
 }

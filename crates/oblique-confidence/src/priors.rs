@@ -244,10 +244,10 @@ pub const FLOOR_ANGLE_DEG: f64 = 0.25;
 /// The velocity scatter (relative standard deviation) of a process estimate whose efficiency
 /// is not calibrated: the uncalibrated lumped model is an upper estimate, and its error is
 /// expected to be several times the 11 % a published foil-actuator model reached against its
-/// measurements (Hahn et al. 2016, physics notes §6 [confirmed]); 25 % assumed here.
+/// measurements (Hahn et al. 2016, physics notes §6 (confirmed there)); 25 % assumed here.
 pub const UNCALIBRATED_VELOCITY_SPREAD: f64 = 0.25;
 /// The velocity scatter of a process estimate calibrated on a measured shot: the model error of
-/// about 11 % reported by Hahn et al. 2016 (physics notes §6 [confirmed]).
+/// about 11 % reported by Hahn et al. 2016 (physics notes §6 (confirmed there)).
 pub const CALIBRATED_VELOCITY_SPREAD: f64 = 0.11;
 /// The angle scatter assumed for a process estimate's angle when none is given (deg): the
 /// dynamic collision angle differs from the machined taper (assumed here).

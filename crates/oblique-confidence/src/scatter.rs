@@ -8,6 +8,10 @@ use std::num::NonZeroUsize;
 
 /// The most samples one evaluation may draw (about 2 s at one point on two cores).
 pub const MAX_SAMPLES: usize = 10_000_000;
+/// The most point evaluations one request may make (points times samples): 200 million, about
+/// a minute on two cores. A probability grid of 200 x 200 nodes may then draw up to 5000 samples
+/// a node; a sweep of 2000 settings up to 100 000 a setting.
+pub const MAX_EVALUATIONS: usize = 200_000_000;
 /// The largest relative velocity scatter accepted (50 %: beyond it a normal distribution puts
 /// visible weight on negative velocities).
 pub const MAX_RELATIVE_VELOCITY_SD: f64 = 0.5;
@@ -149,6 +153,27 @@ impl Sampling {
                 format!(
                     "{} is outside 1 to {MAX_SAMPLES} (10 million: about 2 s at one point on two cores)",
                     self.samples
+                ),
+            ));
+        }
+        Ok(())
+    }
+
+    /// Check the number of samples for `points` points evaluated with the same draws (a grid,
+    /// a sweep), naming `--samples` and the most it may be here.
+    ///
+    /// # Errors
+    /// As [`Self::validate`], and [`ConfidenceError::Invalid`] when points times samples is
+    /// more than [`MAX_EVALUATIONS`].
+    pub fn validate_for(&self, points: usize, what: &str) -> ConfidenceResult<()> {
+        self.validate()?;
+        if points.saturating_mul(self.samples) > MAX_EVALUATIONS {
+            return Err(ConfidenceError::invalid(
+                "--samples",
+                format!(
+                    "{} samples at each of the {points} {what} is more than {MAX_EVALUATIONS} evaluations (about a minute on two cores): give at most {}",
+                    self.samples,
+                    (MAX_EVALUATIONS / points.max(1)).max(1)
                 ),
             ));
         }

@@ -22,9 +22,7 @@ use oblique_core::hugoniot::impedance_match;
 use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime, MixedRule};
 use oblique_core::jetting_table::{JettingTable, Lookup};
 use oblique_core::units::{Angle, Velocity};
-use oblique_core::{
-    Collision, Convention, CriterionId, DomainQuantity, LimitKind, PairSetup, PhysicsError,
-};
+use oblique_core::{Collision, Convention, CriterionId, DomainQuantity, PairSetup, PhysicsError};
 use oblique_window::boundary::{interpolate, Plane, WeldSide};
 use oblique_window::classify::{limit_label, LimitRef, Prediction};
 use oblique_window::PairWindow;
@@ -191,6 +189,9 @@ pub struct Classifier {
     /// The governing (larger) pressure limit of the two plates, Pa.
     pressure: f64,
     boundaries: Vec<FastBoundary>,
+    /// The impedance match's constants, in the operations of `oblique_core::hugoniot::
+    /// impedance_match` (see [`Impedance`]).
+    impedance: Impedance,
     /// The decisive limits, in the order `classify_with_jetting` ranks them.
     pub limits: Vec<LimitInfo>,
     criteria: Vec<CriterionId>,
@@ -314,7 +315,9 @@ impl Classifier {
                 pair_exits |= 1 << k;
             }
         }
+        let impedance = Impedance::new(&setup.flyer.hugoniot, &setup.parent.hugoniot);
         Ok(Self {
+            impedance,
             domain,
             pair_exits,
             c0,
@@ -392,6 +395,10 @@ impl Classifier {
     #[inline]
     pub fn collision(&self, velocity: f64, angle_rad: f64) -> Result<Collision, PhysicsError> {
         let beta = Angle::from_radians(angle_rad);
+        let deg = beta.degrees();
+        if velocity.is_finite() && velocity > 0.0 && deg.is_finite() && deg > 0.0 && deg < 90.0 {
+            return Ok(self.collision_in_domain(velocity, beta));
+        }
         match self.kind {
             VelocityKind::Impact => {
                 Collision::from_impact(self.convention, Velocity::from_m_s(velocity), beta)
@@ -401,6 +408,31 @@ impl Classifier {
                 Velocity::from_m_s(velocity),
                 beta,
             ),
+        }
+    }
+
+    /// [`Collision::from_impact`] or [`Collision::from_collision_velocity`] for a velocity
+    /// and angle already checked to be in their domain: the same operations on the same values
+    /// (the same bits, tested), without the checks and their error values.
+    #[inline(always)]
+    fn collision_in_domain(&self, velocity: f64, beta: Angle) -> Collision {
+        // Vc / Vp and Vf / Vc as `Convention` computes them (one match, so that the sine and
+        // cosine of one angle can be one libm call, as in the core).
+        let (vc_over_vp, vf_over_vc) = match self.convention {
+            Convention::Bisector => (1.0 / (2.0 * (beta.radians() / 2.0).sin()), 1.0),
+            Convention::NormalToFlyer => (1.0 / beta.sin(), beta.cos()),
+            Convention::NormalToParent => (1.0 / beta.tan(), 1.0 / beta.cos()),
+        };
+        let (vp, vc) = match self.kind {
+            VelocityKind::Impact => (velocity, velocity * vc_over_vp),
+            VelocityKind::Collision => (velocity / vc_over_vp, velocity),
+        };
+        Collision {
+            convention: self.convention,
+            impact_velocity: Velocity::from_m_s(vp),
+            angle: beta,
+            collision_velocity: Velocity::from_m_s(vc),
+            flow_velocity: Velocity::from_m_s(vc * vf_over_vc),
         }
     }
 
@@ -520,7 +552,15 @@ impl Classifier {
         angle_rad: f64,
         margins: &mut Vec<f64>,
     ) -> Result<Point, PhysicsError> {
-        let c = self.collision(velocity, angle_rad)?;
+        let beta = Angle::from_radians(angle_rad);
+        let deg = beta.degrees();
+        // In the domain (the map's rows always are): the collision in registers, no error value
+        // to pass through memory.
+        let c = if velocity.is_finite() && velocity > 0.0 && deg > 0.0 && deg < 90.0 {
+            self.collision_in_domain(velocity, beta)
+        } else {
+            self.collision(velocity, angle_rad)?
+        };
         let (jet, direct) = self.jetting(&c)?;
         self.classify_collision(&c, jet, direct, margins)
     }
@@ -563,10 +603,18 @@ impl Classifier {
         let vp = c.impact_velocity;
         let vc = c.collision_velocity;
         let beta_deg = c.angle.degrees();
-        let impact = impedance_match(&f.hugoniot, &p.hugoniot, vp)?;
+        let pressure = self.impedance.pressure(vp.si()).ok_or_else(|| {
+            // The checked relation words the error.
+            impedance_match(&f.hugoniot, &p.hugoniot, vp)
+                .err()
+                .unwrap_or(PhysicsError::NoConvergence {
+                    what: "impedance matching",
+                    iterations: 0,
+                })
+        })?;
         let mut rank = Ranking::new();
         let at = (vp.si(), vc.si(), beta_deg);
-        self.criteria_margins(at, impact.pressure.si(), &jet, margins, &mut rank)?;
+        self.criteria_margins(at, pressure, &jet, margins, &mut rank)?;
         let outside_trial_data = self.boundary_margins(at, margins, &mut rank);
         let domain_exits = self.domain_exits(vp.si(), vc.si(), c.flow_velocity.si(), beta_deg);
         Ok(Point {
@@ -574,7 +622,7 @@ impl Classifier {
             vc: vc.si(),
             vf: c.flow_velocity.si(),
             beta_deg,
-            pressure: impact.pressure.si(),
+            pressure,
             jetting_deg: if jet.none_below_90 {
                 f64::NAN
             } else {
@@ -631,7 +679,9 @@ impl Classifier {
     }
 
     /// The margins of the enabled criteria at (Vp m/s, Vc m/s, beta deg), each taken into
-    /// `rank` in the order `classify_with_jetting` ranks them.
+    /// `rank` in the order `classify_with_jetting` ranks them (`CriterionId::ALL`): a straight
+    /// line of tests on the window's switches, each well predicted, rather than a loop with a
+    /// match on the criterion.
     #[inline(always)]
     fn criteria_margins(
         &self,
@@ -641,48 +691,10 @@ impl Classifier {
         margins: &mut [f64],
         rank: &mut Ranking,
     ) -> Result<(), PhysicsError> {
-        for (k, id) in self.criteria.iter().enumerate() {
-            let (value, limit, margin, satisfied, kind) = match id {
-                CriterionId::DeribasLower => {
-                    let limit = (self.deribas / vc).to_degrees();
-                    (
-                        beta_deg,
-                        limit,
-                        beta_deg - limit,
-                        beta_deg >= limit,
-                        LimitKind::Lower,
-                    )
-                }
-                CriterionId::StrengthLower => {
-                    let limit = self.strength;
-                    (vp, limit, vp - limit, vp >= limit, LimitKind::Lower)
-                }
-                CriterionId::PressureLower => {
-                    let limit = self.pressure;
-                    (
-                        pressure,
-                        limit,
-                        pressure - limit,
-                        pressure >= limit,
-                        LimitKind::Lower,
-                    )
-                }
-                CriterionId::MeltingUpper => {
-                    let limit = self.melting / melting_divisor(vc, self.cfg.wittman_form);
-                    (vp, limit, limit - vp, vp <= limit, LimitKind::Upper)
-                }
-                CriterionId::Jetting => {
-                    let limit = jet.critical_angle.degrees();
-                    (
-                        beta_deg,
-                        limit,
-                        beta_deg - limit,
-                        beta_deg > limit,
-                        LimitKind::Lower,
-                    )
-                }
-                CriterionId::WavyTransition => continue,
-            };
+        let cfg = &self.cfg;
+        let mut k = 0;
+        // (value, limit, margin, satisfied, a ceiling) of the next criterion, as k.
+        let mut take = |value: f64, limit: f64, margin: f64, satisfied: bool, ceiling: bool| {
             if !(value.is_finite() && limit.is_finite()) {
                 return Err(PhysicsError::NoConvergence {
                     what: "criterion evaluation (non-finite value)",
@@ -692,12 +704,29 @@ impl Classifier {
             if let Some(slot) = margins.get_mut(k) {
                 *slot = margin;
             }
-            rank.consider(
-                k,
-                relative_margin(margin, limit),
-                satisfied,
-                kind == LimitKind::Upper,
-            );
+            rank.consider(k, relative_margin(margin, limit), satisfied, ceiling);
+            k += 1;
+            Ok(())
+        };
+        if cfg.deribas_enabled {
+            let limit = (self.deribas / vc).to_degrees();
+            take(beta_deg, limit, beta_deg - limit, beta_deg >= limit, false)?;
+        }
+        if cfg.strength_enabled {
+            let limit = self.strength;
+            take(vp, limit, vp - limit, vp >= limit, false)?;
+        }
+        if cfg.pressure_enabled {
+            let limit = self.pressure;
+            take(pressure, limit, pressure - limit, pressure >= limit, false)?;
+        }
+        if cfg.melting_enabled {
+            let limit = self.melting / melting_divisor(vc, cfg.wittman_form);
+            take(vp, limit, limit - vp, vp <= limit, true)?;
+        }
+        if cfg.jetting_enabled {
+            let limit = jet.critical_angle.degrees();
+            take(beta_deg, limit, beta_deg - limit, beta_deg > limit, false)?;
         }
         Ok(())
     }
@@ -764,6 +793,63 @@ impl Classifier {
             }
         }
         outside
+    }
+}
+
+/// The constants of `oblique_core::hugoniot::impedance_match` for one pair, grouped as its
+/// operations group them (`b = r1 c1 + r2 c2 + 2 r1 s1 v` is `(r1 c1 + r2 c2) + (2 r1 s1) v`
+/// left to right), so that the pressure has the same bits (tested).
+#[derive(Debug, Clone, Copy)]
+struct Impedance {
+    r1: f64,
+    c1: f64,
+    s1: f64,
+    r2: f64,
+    c2: f64,
+    s2: f64,
+    /// r2 s2 - r1 s1.
+    a: f64,
+    /// r1 c1 + r2 c2.
+    b0: f64,
+    /// 2 r1 s1.
+    b1: f64,
+}
+
+impl Impedance {
+    fn new(
+        flyer: &oblique_core::hugoniot::Hugoniot,
+        target: &oblique_core::hugoniot::Hugoniot,
+    ) -> Self {
+        let (r1, c1, s1) = (flyer.density.si(), flyer.c0.si(), flyer.s);
+        let (r2, c2, s2) = (target.density.si(), target.c0.si(), target.s);
+        Self {
+            r1,
+            c1,
+            s1,
+            r2,
+            c2,
+            s2,
+            a: r2 * s2 - r1 * s1,
+            b0: r1 * c1 + r2 * c2,
+            b1: 2.0 * r1 * s1,
+        }
+    }
+
+    /// The impact pressure (Pa) at closing velocity `v` (m/s); `None` where
+    /// `impedance_match` fails (v not positive and finite, a negative discriminant).
+    #[inline(always)]
+    fn pressure(&self, v: f64) -> Option<f64> {
+        if !(v.is_finite() && v > 0.0) {
+            return None;
+        }
+        let b = self.b0 + self.b1 * v;
+        let c = self.r1 * (self.c1 * v + self.s1 * v * v);
+        let disc = b * b + 4.0 * self.a * c;
+        if !(disc >= 0.0) {
+            return None;
+        }
+        let u2 = 2.0 * c / (b + disc.sqrt());
+        Some(self.r2 * (self.c2 + self.s2 * u2) * u2)
     }
 }
 
@@ -967,6 +1053,53 @@ pub(crate) mod tests {
                 }
             }
         }
+    }
+
+    proptest! {
+        /// The map's kinematics and impedance match give the core's bits, in every convention
+        /// and for both velocity kinds.
+        #[test]
+        fn kinematics_and_pressure_are_the_cores(v in 1.0f64..20_000.0, beta in 0.01f64..89.99) {
+            let w = test_window();
+            for conv in [Convention::Bisector, Convention::NormalToFlyer, Convention::NormalToParent] {
+                let mut win = w.clone();
+                win.convention = conv;
+                for kind in [VelocityKind::Impact, VelocityKind::Collision] {
+                    let cl = Classifier::new(&win, kind, JettingMode::Table).unwrap();
+                    let a = Angle::from_radians(beta.to_radians());
+                    let want = match kind {
+                        VelocityKind::Impact => Collision::from_impact(conv, Velocity::from_m_s(v), a),
+                        VelocityKind::Collision => Collision::from_collision_velocity(conv, Velocity::from_m_s(v), a),
+                    }.unwrap();
+                    let got = cl.collision(v, beta.to_radians()).unwrap();
+                    prop_assert_eq!(got.impact_velocity.si().to_bits(), want.impact_velocity.si().to_bits());
+                    prop_assert_eq!(got.collision_velocity.si().to_bits(), want.collision_velocity.si().to_bits());
+                    prop_assert_eq!(got.flow_velocity.si().to_bits(), want.flow_velocity.si().to_bits());
+                    let s = win.setup().unwrap();
+                    let p = impedance_match(&s.flyer.hugoniot, &s.parent.hugoniot, want.impact_velocity).unwrap();
+                    prop_assert_eq!(cl.impedance.pressure(want.impact_velocity.si()).map(f64::to_bits), Some(p.pressure.si().to_bits()));
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn out_of_domain_points_keep_their_errors() {
+        let cl = classifier(VelocityKind::Impact);
+        let mut m = Vec::new();
+        for (v, deg) in [
+            (-1.0, 10.0),
+            (f64::NAN, 10.0),
+            (400.0, 0.0),
+            (400.0, 90.0),
+            (400.0, f64::NAN),
+        ] {
+            assert!(
+                cl.classify(v, f64::to_radians(deg), &mut m).is_err(),
+                "{v} {deg}"
+            );
+        }
+        assert!(cl.impedance.pressure(0.0).is_none());
     }
 
     #[test]

@@ -7,12 +7,23 @@ use crate::error::{MapError, Output};
 use crate::format::fmt_short;
 use crate::input::{read_header, Header, Source, Wanted};
 use crate::options::{BadRows, Format, MapOptions};
-use crate::pipeline::{self, Ctx, Slot};
+use crate::pipeline::{self, Ctx, Input, Slot};
 use crate::record::Rejected;
 use crate::summary::{LimitStat, OutOfOrder, RunInfo, Summary, EXAMPLE_CAP};
 use oblique_core::CriterionId;
 use oblique_window::{LimitRef, PairWindow};
 use std::io::{Read, Write};
+
+/// An input already in memory, such as a memory-mapped file: the map reads its chunks where
+/// they lie, with no copy, and calls `release` with each page-aligned range of `bytes` that it
+/// is done with (in order), so that a mapped file's pages can be given back
+/// (`madvise(MADV_DONTNEED)`) and the resident memory stays bounded whatever the file's size.
+pub struct InMemory<'a> {
+    /// The whole input.
+    pub bytes: &'a [u8],
+    /// Hears each range no longer needed.
+    pub release: Box<dyn Fn(std::ops::Range<usize>) + Send + Sync + 'a>,
+}
 
 /// A weld map with its header read and its classifier built, ready to run: the two steps are
 /// apart so that a caller can refuse a bad header before it creates any output.
@@ -22,6 +33,8 @@ pub struct WeldMap<'a> {
     classifier: Classifier,
     header: Header,
     source: Option<Source<'a>>,
+    /// An input in memory, and where its records start.
+    in_memory: Option<(InMemory<'a>, usize)>,
     first_line: u64,
     comment_lines: u64,
 }
@@ -39,12 +52,40 @@ impl<'a> WeldMap<'a> {
         input: impl Read + Send + 'a,
         opts: &MapOptions,
     ) -> Result<Self, MapError> {
+        Self::open_source(window, Source::new(Box::new(input)), opts)
+    }
+
+    /// As [`WeldMap::open`], for an input already in memory (a memory-mapped file): the same
+    /// map, read with no copy.
+    ///
+    /// # Errors
+    /// As [`WeldMap::open`].
+    pub fn open_in_memory(
+        window: &'a PairWindow,
+        input: InMemory<'a>,
+        opts: &MapOptions,
+    ) -> Result<Self, MapError> {
+        let mut map = Self::open_source(
+            window,
+            Source::new(Box::new(std::io::Cursor::new(input.bytes))),
+            opts,
+        )?;
+        // The records start where the header reading stopped handing out bytes.
+        let start = map.source.take().map_or(0, |s| s.consumed as usize);
+        map.in_memory = Some((input, start));
+        Ok(map)
+    }
+
+    fn open_source(
+        window: &'a PairWindow,
+        mut source: Source<'a>,
+        opts: &MapOptions,
+    ) -> Result<Self, MapError> {
         if opts.unsorted && opts.min_segment.is_some() {
             return Err(MapError::Input(
                 "--min-segment joins runs along the interface and needs sorted positions: it cannot be used with --unsorted".into(),
             ));
         }
-        let mut source = Source::new(Box::new(input));
         let c = &opts.columns;
         let wanted = Wanted {
             names: [
@@ -62,12 +103,22 @@ impl<'a> WeldMap<'a> {
         };
         let read = read_header(&mut source, opts.input_format, &opts.input_name, &wanted)?;
         let classifier = Classifier::new(window, opts.velocity_kind, opts.jetting)?;
+        let stems: Vec<String> = classifier.limits.iter().map(|l| l.column.clone()).collect();
+        let unknown = opts.selected_columns().unknown_margins(&stems).join(", ");
+        if !unknown.is_empty() {
+            return Err(MapError::Input(format!(
+                "--columns: {unknown}: not a limit of pair '{}', whose margins are {}",
+                window.name,
+                stems.join(", ")
+            )));
+        }
         Ok(Self {
             window,
             opts: opts.clone(),
             classifier,
             header: read.header,
             source: Some(source),
+            in_memory: None,
             first_line: read.first_line,
             comment_lines: read.comment_lines,
         })
@@ -91,7 +142,7 @@ impl<'a> WeldMap<'a> {
             &self.header,
             &self.classifier,
             opts.bad_rows,
-            opts.all_columns,
+            &opts.selected_columns(),
         )
     }
 
@@ -127,10 +178,18 @@ impl<'a> WeldMap<'a> {
                 "bad rows: BadRows::Save needs a writer for the rejected rows".into(),
             ));
         }
-        let source = self
-            .source
-            .take()
-            .ok_or_else(|| MapError::Misuse("the input has been mapped already".into()))?;
+        let in_memory = self.in_memory.take();
+        let input = match (self.source.take(), &in_memory) {
+            (_, Some((m, start))) => Input::Mapped {
+                bytes: m.bytes,
+                start: *start,
+                release: &*m.release,
+            },
+            (Some(source), None) => Input::Stream(source),
+            (None, None) => {
+                return Err(MapError::Misuse("the input has been mapped already".into()))
+            }
+        };
         let opts = &self.opts;
         let file_name = opts.input_name.as_str();
         let ctx = self.ctx();
@@ -154,13 +213,13 @@ impl<'a> WeldMap<'a> {
         let mut bytes_done = 0u64;
         pipeline::run(
             &ctx,
-            source,
+            input,
             self.first_line,
             opts.worker_threads(),
             |slot: &mut Slot| -> Result<(), MapError> {
                 let side = bad_rows.as_mut().map(|w| &mut **w as &mut dyn Write);
                 fold_chunk(&ctx, slot, &mut summary, output, side)?;
-                bytes_done += slot.data.len() as u64;
+                bytes_done += slot.input_len() as u64;
                 progress(bytes_done);
                 Ok(())
             },

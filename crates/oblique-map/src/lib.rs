@@ -8,8 +8,9 @@
 //! interface (length-weighted welded fraction, segments, unbonded ends, the smallest margins),
 //! with its text and JSON renderings.
 //!
-//! Nothing here parses flags or opens files: the input is any [`std::io::Read`], the outputs
-//! any [`std::io::Write`]. The layout is described in `docs/weld-map.md`. A verdict is a
+//! Nothing here parses flags or opens files: the input is any [`std::io::Read`] (or bytes
+//! already in memory, such as a memory-mapped file: [`WeldMap::open_in_memory`]), the outputs
+//! any [`std::io::Write`]. The output's columns are a [`ColumnSelection`]. The layout is described in `docs/weld-map.md`. A verdict is a
 //! screening estimate from published relations and the window's trials, never a guarantee of a
 //! weld: pulsed power, stored energy, explosives and flying parts are dangerous; follow local
 //! codes and licensed practice.
@@ -52,10 +53,12 @@ mod record;
 mod summary;
 
 pub use classifier::{Classifier, JettingMode, LimitInfo, MarginUnit, Point, VelocityKind};
-pub use engine::{classify_stream, WeldMap};
+pub use engine::{classify_stream, InMemory, WeldMap};
 pub use error::{MapError, Output};
 pub use input::{Column, Header};
-pub use options::{BadRows, ColumnNames, ConstantNote, Format, MapOptions};
+pub use options::{
+    BadRows, ColumnNames, ColumnSelection, ConstantNote, Format, MapOptions, COLUMN_NAMES,
+};
 pub use record::Rejected;
 pub use summary::{
     Histogram, LimitStat, Run, RunInfo, Sample, StripAcc, Summary, EXAMPLE_CAP, GAP_CAP, MARK_CAP,

@@ -90,11 +90,30 @@ pub fn contours(
         &overlay.scatter,
         &overlay.sampling,
     )?;
+    // No line where the relations are not claimed to hold: nodes outside the validity domain
+    // are left out of the contours (the plot shades that region and says so).
+    let setup = req.window.setup()?;
+    let nx = grid.xs.len();
+    let masked: Vec<f64> = grid
+        .values
+        .iter()
+        .enumerate()
+        .map(|(k, p)| {
+            let (x, y) = (grid.xs[k % nx], grid.ys_deg[k / nx]);
+            let inside = crate::window_plot::collision_at(req.window, req.plane, x, y)
+                .is_some_and(|c| req.window.domain.margin(&setup, &c) >= 0.0);
+            if inside {
+                *p
+            } else {
+                f64::NAN
+            }
+        })
+        .collect();
     let lines = overlay
         .levels
         .iter()
         .map(|level| {
-            let shifted: Vec<f64> = grid.values.iter().map(|p| p - level).collect();
+            let shifted: Vec<f64> = masked.iter().map(|p| p - level).collect();
             let probe = |x: f64, y: f64| bilinear(&grid.xs, &grid.ys_deg, &shifted, x, y);
             (
                 *level,

@@ -32,6 +32,9 @@ pub struct CalibrationRequest {
     pub standoff: Length,
     /// The measured impact velocity.
     pub measured_velocity: Velocity,
+    /// The measurement's standard uncertainty relative to it (0.03 for 3 %), if known: stored
+    /// with the calibration, it is the velocity spread of later estimates that use it.
+    pub velocity_uncertainty: Option<f64>,
     /// Where the measurement comes from (record, logbook page).
     pub source: String,
     /// Date of the shot, YYYY-MM-DD.
@@ -65,6 +68,8 @@ pub struct CalibrationFit<'a> {
     pub standoff: f64,
     /// Measured velocity (m/s).
     pub measured_velocity: f64,
+    /// The measurement's relative standard uncertainty, if given.
+    pub velocity_uncertainty: Option<f64>,
     /// Where the measurement comes from.
     pub source: String,
     /// Date of the shot.
@@ -140,6 +145,7 @@ pub fn calibrate<'a>(
         voltage: u.si(),
         standoff: g,
         measured_velocity: req.measured_velocity.si(),
+        velocity_uncertainty: req.velocity_uncertainty,
         source: req.source.clone(),
         date: req.date.clone(),
         fit,
@@ -199,6 +205,9 @@ impl CalibrationFit<'_> {
             flyer: Some(self.flyer.clone()),
             flyer_thickness: Some(format!("{} mm", round12(self.thickness * 1e3))),
             settings,
+            velocity_uncertainty: self
+                .velocity_uncertainty
+                .map(|u| format!("{} %", round12(100.0 * u))),
             source: self.source.clone(),
         }
     }

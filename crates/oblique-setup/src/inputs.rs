@@ -61,6 +61,8 @@ pub struct StoredCalibration {
     pub standoff: f64,
     /// Source of the measurement.
     pub source: String,
+    /// The measured velocity's relative standard uncertainty, if the calibration records it.
+    pub velocity_uncertainty: Option<f64>,
     /// Set when the shot was on another workpiece.
     pub mismatch: Option<WorkpieceMismatch>,
 }
@@ -337,6 +339,7 @@ mod tests {
             charge_voltage: 8e3,
             standoff: 2.5e-3,
             source: "record 12".into(),
+            velocity_uncertainty: None,
             mismatch: Some(WorkpieceMismatch {
                 calibrated_flyer: Some("aa6061-t6".into()),
                 calibrated_thickness: None,

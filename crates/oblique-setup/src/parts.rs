@@ -306,6 +306,7 @@ impl ResolvedParts<'_> {
                     charge_voltage: c.charge_voltage.si(),
                     standoff: c.standoff.si(),
                     source: c.source.clone(),
+                    velocity_uncertainty: c.velocity_uncertainty,
                     mismatch,
                 }),
             )

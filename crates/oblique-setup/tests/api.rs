@@ -219,6 +219,7 @@ fn a_calibration_is_stored_in_a_user_bank_and_used_by_the_next_estimate() {
         charge: Charge::Voltage(Voltage::from_v(8e3)),
         standoff: Length::from_m(2.5e-3),
         measured_velocity: v07,
+        velocity_uncertainty: Some(0.03),
         source: "constructed in a test (invented)".into(),
         date: "2026-12-01".into(),
         save: true,
@@ -239,6 +240,10 @@ fn a_calibration_is_stored_in_a_user_bank_and_used_by_the_next_estimate() {
         s.inputs.get("efficiency").expect("eta").from,
         Provenance::Calibration(_)
     ));
+    // The calibration shot's own spread (3 %) is the velocity spread of estimates that use it.
+    let (spread, basis) = oblique_setup::uncertainty::velocity_spread(&s.inputs);
+    assert!((spread - 0.03).abs() < 1e-12, "{spread} {basis}");
+    assert!(basis.contains("its calibration shot"), "{basis}");
     // A built-in bank is read-only, refused before the fit.
     let e = calibrate(
         &Catalog::builtin().expect("built-in library"),

@@ -146,6 +146,9 @@ pub struct Classification {
     pub inside_stretch: Option<InsideStretch>,
     /// The validity domain along the two controls; filled by [`explain`].
     pub domain_span: Option<DomainSpan>,
+    /// What the pair's trials say near the point (filled by [`explain`]; `None` without trials):
+    /// whether it lies beyond the region they cover, and the nearest ones.
+    pub trials: Option<crate::trials::TrialsNear>,
     /// What the physics does not know at this point, and inputs no practitioner would type:
     /// the mixed jetting case, supersonic inflow, an unsourced form, the melting limit's scale,
     /// implausible magnitudes (each threshold documented in docs/theory.md §7.2); filled by
@@ -275,6 +278,7 @@ pub fn classify_with_jetting(
         inside_stretch: None,
         domain_span: None,
         warnings: Vec::new(),
+        trials: None,
     };
     Ok(c)
 }
@@ -783,6 +787,13 @@ pub fn explain_in(
             (l, h)
         })
         .collect();
+    let col = c.evaluation.collision.with_convention(convention);
+    c.trials = crate::trials::trials_near(
+        window,
+        col.impact_velocity.si(),
+        col.angle.degrees(),
+        convention,
+    );
     c.warnings = warnings(window, setup, c);
     c.reason = reason(window, c);
 }

@@ -145,6 +145,34 @@ impl<'a> Collector<'a> {
         }
     }
 
+    /// Record a problem for every string of the file that still starts with a template's
+    /// placeholder `"FILL IN:` (a source, a description), at its own line and column. A value
+    /// or date left as `"FILL IN"` fails its own parse, with its field named.
+    pub fn check_placeholders(&mut self) {
+        const MARK: &str = "\"FILL IN:";
+        for (at, _) in self.text.match_indices(MARK) {
+            let before = &self.text[..at];
+            let line_start = before.rfind('\n').map_or(0, |i| i + 1);
+            // A placeholder inside a comment is the template's explanation, not a value.
+            if before[line_start..].contains("//") {
+                continue;
+            }
+            let line = before.matches('\n').count() + 1;
+            let col = before[line_start..].chars().count() + 1;
+            self.problems.push(Diagnostic {
+                file: self.file.to_string(),
+                line,
+                col,
+                field: String::new(),
+                message: "still the template's placeholder \"FILL IN\"".into(),
+                hint: Some(
+                    "replace it with the value, date or source from your own nameplate, drawing or record"
+                        .into(),
+                ),
+            });
+        }
+    }
+
     pub fn finish(self) -> Result<(), Diagnostics> {
         if self.problems.is_empty() {
             Ok(())

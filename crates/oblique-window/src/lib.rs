@@ -36,6 +36,7 @@ pub mod boundary;
 pub mod classify;
 pub mod diag;
 pub mod explain;
+pub mod files;
 pub mod library;
 pub mod machine;
 pub mod margin;
@@ -45,6 +46,7 @@ pub mod present;
 pub mod references;
 pub mod ronpath;
 pub mod text;
+pub mod trials;
 pub mod write;
 
 pub use agreement::{agreement, Agreement};

@@ -196,8 +196,9 @@ fn user_files(dir: &Path, problems: &mut Vec<Diagnostic>) -> (Option<Source>, Ve
             continue;
         }
         let display = p.display().to_string();
-        match std::fs::read_to_string(&p) {
+        match crate::files::read_text_bounded(&p) {
             Ok(text) => {
+                crate::files::protect(&p);
                 let s = Source {
                     display,
                     path: Some(p.clone()),
@@ -346,6 +347,9 @@ impl Library {
                                     hint: Some("give each pair file its own name".into()),
                                 },
                             );
+                            // Neither file is used: which one a command took would depend on
+                            // the order of the file names, which is no choice at all.
+                            lib.pairs.remove(&w.name);
                             continue;
                         }
                         lib.warnings.push(format!(

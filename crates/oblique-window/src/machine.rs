@@ -178,6 +178,10 @@ pub struct CalibrationEntry {
     /// Every other setting of the shot, in words.
     #[serde(default)]
     pub settings: String,
+    /// The measured velocity's standard uncertainty, relative (`"3 %"`) or with a unit
+    /// (`"12 m/s"`): the calibration shot's own spread, carried into later estimates.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub velocity_uncertainty: Option<String>,
     /// Where the measurement comes from (e.g. a velocimetry record).
     pub source: String,
 }
@@ -401,6 +405,8 @@ pub struct Calibration {
     pub flyer_thickness: Option<Length>,
     /// Other settings in words.
     pub settings: String,
+    /// The measured velocity's standard uncertainty relative to it (0.03 for 3 %), if recorded.
+    pub velocity_uncertainty: Option<f64>,
     /// Source of the measurement.
     pub source: String,
 }

@@ -324,6 +324,20 @@ pub struct Fitted {
     pub hel_multiple: Option<FittedValue>,
 }
 
+/// Four significant digits, trailing zeros dropped (as the fit's table prints constants).
+fn four_digits(x: f64) -> String {
+    if x == 0.0 || !x.is_finite() {
+        return format!("{x}");
+    }
+    let digits = (3 - x.abs().log10().floor() as i32).clamp(0, 9) as usize;
+    let s = format!("{x:.digits$}");
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s
+    }
+}
+
 fn default_level() -> f64 {
     0.95
 }
@@ -374,6 +388,46 @@ impl Fitted {
     /// "fitted to N trials on DATE", for outputs.
     pub fn summary(&self) -> String {
         format!("fitted to {} trials on {}", self.observations, self.date)
+    }
+
+    /// What a user of the fitted constants must know, one sentence each: the file now holds
+    /// another number of trials than the fit used (`observations_now`); a constant sits at the
+    /// end of a one-sided interval (the trials bound it on that side only, so its spread there
+    /// is not measured); a Deribas k outside 0.6 to 1.2, the published range (from memory,
+    /// docs/theory.md).
+    #[must_use]
+    pub fn cautions(&self, observations_now: usize) -> Vec<String> {
+        let mut out = Vec::new();
+        if observations_now != self.observations {
+            out.push(format!(
+                "the constants were fitted to {} trials, the file now holds {observations_now}: run `oblique pair fit NAME --save` again",
+                self.observations
+            ));
+        }
+        for (key, v) in self.constants() {
+            let at =
+                |end: Option<f64>| end.is_some_and(|e| (e - v.value).abs() <= 1e-3 * v.value.abs());
+            let side = match (v.low, v.high) {
+                (None, Some(_)) if at(v.high) => Some("upper"),
+                (Some(_), None) if at(v.low) => Some("lower"),
+                _ => None,
+            };
+            if let Some(side) = side {
+                out.push(format!(
+                    "{key} {} is the {side} end of a one-sided interval: the trials bound it on that side only, so the value is where the trials stop, not a best estimate (the weld probability takes the prior spread on both sides)",
+                    four_digits(v.value)
+                ));
+            }
+        }
+        if let Some(k) = &self.deribas_k {
+            if !(0.6..=1.2).contains(&k.value) {
+                out.push(format!(
+                    "fitted deribas_k {} is outside 0.6 (carefully cleaned surfaces) to 1.2, the published range (from memory, docs/theory.md): read the fit with suspicion (few trials, another process, or a limit that is not the Deribas one)",
+                    four_digits(k.value)
+                ));
+            }
+        }
+        out
     }
 }
 
@@ -792,5 +846,37 @@ mod tests {
         ] {
             assert!(!is_iso_date(bad), "{bad}");
         }
+    }
+
+    #[test]
+    fn fit_cautions() {
+        use super::{Fitted, FittedValue};
+        let f = Fitted {
+            date: "2026-12-01".into(),
+            method: "test".into(),
+            observations: 10,
+            level: 0.95,
+            deribas_k: Some(FittedValue {
+                value: 1.5,
+                low: None,
+                high: Some(1.5),
+            }),
+            wittman_n: Some(FittedValue {
+                value: 0.1,
+                low: Some(0.07),
+                high: Some(0.15),
+            }),
+            hel_multiple: None,
+        };
+        assert!(f.cautions(10).iter().all(|c| !c.contains("now holds")));
+        let c = f.cautions(12);
+        assert!(c
+            .iter()
+            .any(|c| c.contains("fitted to 10 trials, the file now holds 12")));
+        assert!(c
+            .iter()
+            .any(|c| c.contains("deribas_k 1.5 is the upper end")));
+        assert!(c.iter().any(|c| c.contains("outside 0.6")));
+        assert!(c.iter().all(|c| !c.starts_with("wittman_n")));
     }
 }

@@ -327,6 +327,24 @@ pub fn classification_json(window: &PairWindow, c: &Classification) -> Value {
         })),
     );
     o.insert("outside_trial_data".into(), json!(c.outside_trial_data));
+    if let Some(t) = &c.trials {
+        o.insert("beyond_trials".into(), json!(t.beyond_trials));
+        o.insert(
+            "nearest_trials".into(),
+            json!(t
+                .nearest
+                .iter()
+                .map(|n| json!({
+                    "shot": n.index + 1,
+                    "velocity_m_s": sig(n.velocity_m_s),
+                    "angle_deg": sig(n.angle_deg),
+                    "outcome": n.outcome,
+                    "distance": sig(n.distance),
+                    "source": n.source,
+                }))
+                .collect::<Vec<_>>()),
+        );
+    }
     o.insert("prediction".into(), json!(c.prediction.as_str()));
     o.insert("domain".into(), domain_json(window, c));
     o.insert("process".into(), json!(window.process));
@@ -719,7 +737,8 @@ fn limits_text(window: &PairWindow, c: &Classification) -> String {
 #[must_use]
 pub fn verdict_text(window: &PairWindow, c: &Classification) -> String {
     let mut s = String::new();
-    let verdict = match (c.domain.inside(), c.inside, c.outside_trial_data) {
+    let beyond = c.trials.as_ref().is_some_and(|t| t.beyond_trials);
+    let verdict = match (c.domain.inside(), c.inside, c.outside_trial_data || beyond) {
         (false, ..) => "OUTSIDE THE VALIDITY DOMAIN (no verdict claimed)",
         (true, true, false) => "INSIDE the window",
         (true, true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
@@ -777,6 +796,9 @@ pub fn verdict_text(window: &PairWindow, c: &Classification) -> String {
     if c.outside_trial_data {
         s.push_str("note: the point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated\n");
     }
+    if let Some(t) = &c.trials {
+        s.push_str(&trials_text(t));
+    }
     if window.criteria.pressure_enabled && window.process.as_deref() != Some("magnetic-pulse") {
         s.push_str(&format!(
             "note: pressure-lower {}\n",
@@ -794,4 +816,37 @@ pub fn verdict_text(window: &PairWindow, c: &Classification) -> String {
 /// A bound's source cut to its first clause, for one-line text.
 fn short_source(source: &str) -> &str {
     source.split(':').next().unwrap_or(source)
+}
+
+/// The trials near a point, in words: whether the point lies beyond the region they cover and
+/// the nearest ones with their outcomes and scaled distances.
+fn trials_text(t: &crate::trials::TrialsNear) -> String {
+    let mut s = String::new();
+    if t.beyond_trials {
+        s.push_str(&format!(
+            "note: outside the trial data: no trial was fired at a velocity and angle like this point (the trials, widened by their uncertainties, cover {:.0}-{:.0} m/s and {:.1}-{:.1} deg, but not every combination); here the window rests on the model and the boundaries alone\n",
+            t.velocity_range_m_s.0,
+            t.velocity_range_m_s.1,
+            t.angle_range_deg.0,
+            t.angle_range_deg.1
+        ));
+    }
+    if !t.nearest.is_empty() {
+        s.push_str(&format!(
+            "nearest trials (distance in units of {:.0} m/s and {:.1} deg, the trials' typical uncertainties):\n",
+            t.scales.velocity_m_s, t.scales.angle_deg
+        ));
+        for n in &t.nearest {
+            s.push_str(&format!(
+                "  shot #{} {:.0} m/s, {:.2} deg: {} (distance {:.1}; {})\n",
+                n.index + 1,
+                n.velocity_m_s,
+                n.angle_deg,
+                n.outcome,
+                n.distance,
+                crate::text::one_line(&n.source)
+            ));
+        }
+    }
+    s
 }

@@ -12,6 +12,43 @@ pub fn short(s: &str, max: usize) -> String {
     format!("{head}... ({} more characters)", n - max)
 }
 
+/// `s` on one line: line breaks and other control characters shown as `\n`, `\r`, `\t` or
+/// `\u{..}`, so that a user's text (a source, a label, a note) can never start a line of its
+/// own in a table or a message and pass for oblique's output.
+#[must_use]
+pub fn one_line(s: &str) -> std::borrow::Cow<'_, str> {
+    if !s.chars().any(char::is_control) {
+        return std::borrow::Cow::Borrowed(s);
+    }
+    let mut out = String::with_capacity(s.len() + 8);
+    for c in s.chars() {
+        match c {
+            '\n' => out.push_str("\\n"),
+            '\r' => out.push_str("\\r"),
+            '\t' => out.push_str("\\t"),
+            c if c.is_control() => out.push_str(&format!("\\u{{{:x}}}", c as u32)),
+            c => out.push(c),
+        }
+    }
+    std::borrow::Cow::Owned(out)
+}
+
+/// Why `s` is not a one-line text (a line break or another control character, with the
+/// character's position), or `None`.
+#[must_use]
+pub fn one_line_problem(s: &str) -> Option<String> {
+    let (i, c) = s.chars().enumerate().find(|(_, c)| c.is_control())?;
+    let what = match c {
+        '\n' | '\r' => "a line break".to_string(),
+        '\t' => "a tab".to_string(),
+        c => format!("the control character U+{:04X}", c as u32),
+    };
+    Some(format!(
+        "must be one line of text: {what} at character {}",
+        i + 1
+    ))
+}
+
 /// `s` made safe for a terminal: control characters other than newline and tab (escape
 /// sequences, carriage returns, form feeds, bells) are shown as `\u{..}` escapes instead of
 /// acting on the terminal.
@@ -52,4 +89,25 @@ pub fn xml_safe(s: &str) -> std::borrow::Cow<'_, str> {
             })
             .collect(),
     )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn one_line_escapes_every_control_character() {
+        assert_eq!(one_line("plain"), "plain");
+        assert_eq!(one_line("a\nverdict: INSIDE"), "a\\nverdict: INSIDE");
+        assert_eq!(one_line("x\r\t\u{1b}[2J"), "x\\r\\t\\u{1b}[2J");
+        assert!(!one_line("a\nb\u{85}c").chars().any(char::is_control));
+    }
+
+    #[test]
+    fn one_line_problem_names_the_character() {
+        assert_eq!(one_line_problem("fine text"), None);
+        let p = one_line_problem("log 7\nverdict").expect("problem");
+        assert!(p.contains("a line break at character 6"), "{p}");
+        assert!(one_line_problem("a\u{7}").expect("bell").contains("U+0007"));
+    }
 }

@@ -186,6 +186,9 @@ pub fn resolve_target(path: &Path) -> Result<Target, WriteError> {
     let (real, via_link) = if meta.file_type().is_symlink() {
         match std::fs::canonicalize(path) {
             Ok(r) => (r, true),
+            // `/dev/stdout` and `/dev/fd/N` lead to `/proc/self/fd/N`, whose target (a pipe)
+            // has no path: what the link opens is still a pipe or a terminal.
+            Err(_) if is_stream(path) => return Ok(Target::InPlace(path.to_path_buf())),
             Err(_) => {
                 let to = std::fs::read_link(path)
                     .map_or_else(|_| "?".into(), |p| p.display().to_string());
@@ -241,6 +244,65 @@ pub fn resolve_target(path: &Path) -> Result<Target, WriteError> {
     })
 }
 
+/// Whether `path`, links followed, is a pipe or a character device.
+fn is_stream(path: &Path) -> bool {
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::FileTypeExt;
+        std::fs::metadata(path).is_ok_and(|m| {
+            let ft = m.file_type();
+            ft.is_fifo() || ft.is_char_device()
+        })
+    }
+    #[cfg(not(unix))]
+    {
+        let _ = path;
+        false
+    }
+}
+
+/// Refuse to replace a file the user cannot write (a read-only pair file, a file of another
+/// user in a shared folder): renaming over it would succeed where an editor would not.
+fn check_writable(path: &Path) -> Result<(), WriteError> {
+    // A file with no write permission for anyone is read-only on purpose, even for root.
+    if std::fs::metadata(path).is_ok_and(|m| m.permissions().readonly()) {
+        return Err(WriteError::Structure {
+            path: path.to_path_buf(),
+            message: "is read-only; change its permissions if it is meant to be replaced".into(),
+        });
+    }
+    match std::fs::OpenOptions::new().write(true).open(path) {
+        Ok(_) => Ok(()),
+        Err(e) if e.kind() == std::io::ErrorKind::PermissionDenied => Err(WriteError::Structure {
+            path: path.to_path_buf(),
+            message: "is not writable for this user (read-only, or another user's file); \
+                      change its permissions if it is meant to be replaced"
+                .into(),
+        }),
+        Err(e) => Err(io(path)(e)),
+    }
+}
+
+/// Refuse an output whose final file is a loaded library file (see [`crate::files::protect`]).
+fn check_not_library(target: &Target, asked: &Path) -> Result<(), WriteError> {
+    if let Target::Regular { path, via_link } = target {
+        if crate::files::is_protected(path) {
+            let how = if *via_link {
+                format!(" (through the link {})", asked.display())
+            } else {
+                String::new()
+            };
+            return Err(WriteError::Structure {
+                path: path.to_path_buf(),
+                message: format!(
+                    "is a library file this run loaded{how}; an output never replaces one: choose another name"
+                ),
+            });
+        }
+    }
+    Ok(())
+}
+
 /// A temporary file beside `target`, created new (never one that exists).
 fn create_temp(dir: &Path, name: &str) -> Result<(PathBuf, std::fs::File), WriteError> {
     use std::sync::atomic::{AtomicU64, Ordering};
@@ -262,7 +324,10 @@ fn create_temp(dir: &Path, name: &str) -> Result<(PathBuf, std::fs::File), Write
             .create_new(true)
             .open(&tmp)
         {
-            Ok(f) => return Ok((tmp, f)),
+            Ok(f) => {
+                crate::files::register_temporary(&tmp);
+                return Ok((tmp, f));
+            }
             Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => last_err = Some(e),
             Err(e) => return Err(io(&tmp)(e)),
         }
@@ -330,6 +395,12 @@ pub fn write_target(
         }
         Target::New(p) | Target::Regular { path: p, .. } => p.as_path(),
     };
+    if matches!(target, Target::Regular { .. }) {
+        if expected_sha256.is_none() {
+            check_not_library(target, path)?;
+        }
+        check_writable(path)?;
+    }
     let dir = path
         .parent()
         .filter(|d| !d.as_os_str().is_empty())
@@ -369,6 +440,7 @@ pub fn write_target(
     if result.is_err() {
         let _ = std::fs::remove_file(&tmp);
     }
+    crate::files::forget_temporary(&tmp);
     result
 }
 
@@ -404,6 +476,10 @@ impl StagedFile {
                 })
             }
             Target::New(p) | Target::Regular { path: p, .. } => {
+                if matches!(target, Target::Regular { .. }) {
+                    check_not_library(&target, path)?;
+                    check_writable(p)?;
+                }
                 let dir = p
                     .parent()
                     .filter(|d| !d.as_os_str().is_empty())
@@ -457,6 +533,7 @@ impl StagedFile {
         if result.is_err() {
             let _ = std::fs::remove_file(&tmp);
         }
+        crate::files::forget_temporary(&tmp);
         result
     }
 }
@@ -495,6 +572,7 @@ impl Drop for StagedFile {
         if self.file.take().is_some() {
             if let Some(tmp) = &self.tmp {
                 let _ = std::fs::remove_file(tmp);
+                crate::files::forget_temporary(tmp);
             }
         }
     }
@@ -664,7 +742,7 @@ pub fn update_file<T>(
         .unwrap_or(Path::new("."));
     // Held across read, check, write and rename: another writer waits for it.
     let _lock = lock_folder(dir)?;
-    let bytes = std::fs::read(&real).map_err(io(path))?;
+    let bytes = crate::files::read_bounded(&real).map_err(io(path))?;
     let read_sha = sha256_hex(&bytes);
     if let Some(expected) = expected_sha256 {
         if expected != read_sha {
@@ -877,6 +955,7 @@ pub fn create_new(path: &Path, text: &str) -> Result<(), WriteError> {
         }
     })();
     let _ = std::fs::remove_file(&tmp);
+    crate::files::forget_temporary(&tmp);
     if result.is_ok() {
         if let Ok(d) = std::fs::File::open(dir) {
             let _ = d.sync_all();

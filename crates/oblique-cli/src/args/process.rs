@@ -21,60 +21,87 @@ fn positive(v: f64, what: &str, unit: &str) -> Result<f64, String> {
     }
 }
 
-/// Value parsers for the flags of this module: units required, sign checked.
+/// Value parsers for the flags of this module: units required, sign checked, and each quantity
+/// within the range oblique computes with. The ranges are wide bounds around every pulsed-power
+/// and explosive set-up in use (common practice), there so that a slip of the prefix
+/// (`1e-300kV`, `300F`) is an error, never a number that overflows into NaN.
 pub mod parse {
     use super::{positive, qarg};
 
-    /// A capacitance above zero.
+    /// `v` within `lo..=hi` (SI), or a message with the range in words.
+    fn within(
+        v: f64,
+        lo: f64,
+        hi: f64,
+        what: &str,
+        unit: &str,
+        words: &str,
+    ) -> Result<f64, String> {
+        if v < lo || v > hi {
+            Err(format!(
+                "{what} {v:.3e} {unit} is outside the range oblique computes with ({words})"
+            ))
+        } else {
+            Ok(v)
+        }
+    }
+
+    /// A capacitance above zero: 1 nF to 1 F.
     pub fn capacitance(s: &str) -> Result<f64, String> {
-        positive(qarg::capacitance(s)?, "capacitance", "F")
+        let v = positive(qarg::capacitance(s)?, "capacitance", "F")?;
+        within(v, 1e-9, 1.0, "capacitance", "F", "1 nF to 1 F")
     }
-    /// A voltage above zero.
+    /// A voltage above zero: 1 V to 1 MV.
     pub fn voltage(s: &str) -> Result<f64, String> {
-        positive(qarg::voltage(s)?, "voltage", "V")
+        let v = positive(qarg::voltage(s)?, "voltage", "V")?;
+        within(v, 1.0, 1e6, "voltage", "V", "1 V to 1 MV")
     }
-    /// An inductance above zero.
+    /// An inductance above zero: 1 pH to 1 H.
     pub fn inductance(s: &str) -> Result<f64, String> {
-        positive(qarg::inductance(s)?, "inductance", "H")
+        let v = positive(qarg::inductance(s)?, "inductance", "H")?;
+        within(v, 1e-12, 1.0, "inductance", "H", "1 pH to 1 H")
     }
-    /// An inductance, zero allowed.
+    /// An inductance, zero allowed: up to 1 H.
     pub fn inductance_or_zero(s: &str) -> Result<f64, String> {
         let v = qarg::inductance(s)?;
         if v >= 0.0 {
-            Ok(v)
+            within(v, 0.0, 1.0, "inductance", "H", "0 to 1 H")
         } else {
             Err(format!("inductance must not be negative, got {v} H"))
         }
     }
-    /// A resistance, zero allowed.
+    /// A resistance, zero allowed: up to 1 kohm.
     pub fn resistance(s: &str) -> Result<f64, String> {
         let v = qarg::resistance(s)?;
         if v >= 0.0 {
-            Ok(v)
+            within(v, 0.0, 1e3, "resistance", "ohm", "0 to 1 kohm")
         } else {
             Err(format!("resistance must not be negative, got {v} ohm"))
         }
     }
-    /// A length above zero.
+    /// A length above zero: 1 nm to 100 m.
     pub fn length(s: &str) -> Result<f64, String> {
-        positive(qarg::length(s)?, "length", "m")
+        let v = positive(qarg::length(s)?, "length", "m")?;
+        within(v, 1e-9, 100.0, "length", "m", "1 nm to 100 m")
     }
-    /// A length, zero allowed.
+    /// A length, zero allowed: up to 100 m.
     pub fn length_or_zero(s: &str) -> Result<f64, String> {
         let v = qarg::length(s)?;
         if v >= 0.0 {
-            Ok(v)
+            within(v, 0.0, 100.0, "length", "m", "0 to 100 m")
         } else {
             Err(format!("length must not be negative, got {v} m"))
         }
     }
-    /// An energy above zero.
+    /// An energy above zero: 1 mJ to 100 MJ.
     pub fn energy(s: &str) -> Result<f64, String> {
-        positive(qarg::energy(s)?, "energy", "J")
+        let v = positive(qarg::energy(s)?, "energy", "J")?;
+        within(v, 1e-3, 1e8, "energy", "J", "1 mJ to 100 MJ")
     }
-    /// A frequency above zero.
+    /// A frequency above zero: 1 Hz to 1 GHz.
     pub fn frequency(s: &str) -> Result<f64, String> {
-        positive(qarg::frequency(s)?, "frequency", "Hz")
+        let v = positive(qarg::frequency(s)?, "frequency", "Hz")?;
+        within(v, 1.0, 1e9, "frequency", "Hz", "1 Hz to 1 GHz")
     }
     /// A velocity above zero.
     pub fn velocity(s: &str) -> Result<f64, String> {

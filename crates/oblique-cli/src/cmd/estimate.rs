@@ -291,6 +291,10 @@ pub struct CalibrateCommon {
     /// The measured impact velocity, e.g. 410m/s (velocimetry, high-speed imaging).
     #[arg(long = "measured-velocity", value_name = "SPEED", value_parser = parse::velocity, allow_hyphen_values = true)]
     pub measured_velocity: f64,
+    /// The measurement's standard uncertainty, relative (3%) or absolute (12m/s); stored with a
+    /// saved calibration, it becomes the velocity spread of the estimates that use it.
+    #[arg(long = "measured-velocity-sd", value_name = "SD", value_parser = crate::qarg::velocity_sd, allow_hyphen_values = true)]
+    pub measured_velocity_sd: Option<oblique_confidence::VelocitySpread>,
     /// Where the measurement comes from (record, logbook page).
     #[arg(long, value_name = "TEXT")]
     pub source: String,

@@ -4,6 +4,7 @@
 //! `oblique_render::weld_map`; this module turns the flags into `MapOptions`, opens the files,
 //! shows the progress bar and prints. Layout and policies: `docs/weld-map.md`.
 
+mod input;
 mod outputs;
 
 use crate::args::ConstantArgs;
@@ -13,8 +14,8 @@ use crate::output::CAUTION;
 use clap::{Args, ValueEnum};
 use oblique_core::units::Length;
 use oblique_map::{
-    BadRows, ColumnNames, ConstantNote, Format, JettingMode, MapError, MapOptions, Output, Summary,
-    VelocityKind, WeldMap,
+    BadRows, ColumnNames, ColumnSelection, ConstantNote, Format, JettingMode, MapError, MapOptions,
+    Output, Summary, VelocityKind, WeldMap,
 };
 use oblique_window::PairWindow;
 use outputs::{write_file, AtomicFile, Out};
@@ -36,7 +37,8 @@ but then computes no lengths or segments.
 Output: one row per classified input row: row (line number), the input fields as written, then
 verdict, binding limit, its margin (in that limit's unit, positive = on the welding side) and
 relative margin (over the limit's own value), every failing limit, Vc, Vf and impact pressure;
---all-columns adds Vp, the jetting critical angle and the margin of every decisive limit.
+--all-columns adds Vp, the jetting critical angle and the margin of every decisive limit;
+--columns picks the columns (--columns verdict-only: the row number and the verdict).
 Verdicts: welded, not-welded, melted, head-on (angle 0: not welded, no collision point sweeps
 the interface) and outside-domain (outside the validity domain of docs/theory.md §7.1: no
 verdict claimed). The summary accounts for the whole interface (welded, melted, unbonded,
@@ -142,9 +144,18 @@ pub struct MapArgs {
     /// Solve the jetting test directly for every row instead of using the table (slow).
     #[arg(long = "exact-jetting")]
     pub exact_jetting: bool,
-    /// Add Vp, the jetting critical angle and the margin of every limit to the output.
-    #[arg(long = "all-columns")]
+    /// Add Vp, the jetting critical angle and the margin of every limit to the output (the
+    /// same as --columns all).
+    #[arg(long = "all-columns", conflicts_with = "columns")]
     pub all_columns: bool,
+    /// The map's columns: a comma-separated list of column names and sets, written in the
+    /// map's own order: default, all, verdict-only (row,verdict); row, input (every input
+    /// column), verdict, binding, binding_margin, binding_margin_unit, binding_relative_margin,
+    /// failing_limits, impact_velocity, collision_velocity, flow_velocity, impact_pressure,
+    /// jetting_critical_angle, margins (every limit's), margin_<limit> (e.g. margin_jetting),
+    /// outside_trial_data.
+    #[arg(long, value_name = "LIST", value_parser = parse_columns)]
+    pub columns: Option<ColumnSelection>,
     /// Never show a progress bar.
     #[arg(long = "no-progress")]
     pub no_progress: bool,
@@ -161,6 +172,10 @@ pub enum BadRowsArg {
     Skip,
     /// Write to a side file with the reason.
     Save(PathBuf),
+}
+
+fn parse_columns(s: &str) -> Result<ColumnSelection, String> {
+    ColumnSelection::parse(s)
 }
 
 fn parse_policy(s: &str) -> Result<BadRowsArg, String> {
@@ -233,17 +248,8 @@ pub fn run(dirs: &[PathBuf], a: MapArgs) -> CmdResult {
     let opts = map_options(&a, &window, &window_criteria, stdin);
 
     // The input and its header, then the classifier.
-    let (reader, total_len, is_file): (Box<dyn std::io::Read + Send>, Option<u64>, bool) = if stdin
-    {
-        (Box::new(std::io::stdin()), None, false)
-    } else {
-        let f = std::fs::File::open(&a.input)
-            .map_err(|e| Fail::input(format!("{}: cannot open: {e}", opts.input_name)))?;
-        let meta = f.metadata().ok();
-        let is_file = meta.as_ref().is_some_and(std::fs::Metadata::is_file);
-        (Box::new(f), meta.map(|m| m.len()), is_file)
-    };
-    let mut map = WeldMap::open(&window, reader, &opts).map_err(input_fail)?;
+    let (mut opened, total_len, is_file) = input::open(&a.input, stdin, &opts.input_name)?;
+    let mut map = input::weld_map(&window, &mut opened, &opts).map_err(input_fail)?;
 
     // Outputs.
     let mut out = match &a.output {
@@ -441,6 +447,7 @@ fn map_options(
         },
         bad_rows: a.bad_rows.policy(),
         all_columns: a.all_columns,
+        output_columns: a.columns.clone(),
         unsorted: a.unsorted,
         min_segment: a.min_segment.map(Length::from_m),
         collect_strip: a.strip_svg.is_some(),

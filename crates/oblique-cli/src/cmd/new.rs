@@ -71,7 +71,7 @@ pub fn run(dirs: &[PathBuf], a: NewArgs) -> CmdResult {
     std::fs::create_dir_all(&folder)
         .map_err(|e| Fail::input(format!("cannot create {}: {e}", folder.display())))?;
     let path = folder.join(format!("{}.ron", a.name));
-    oblique_window::write::create_new(&path, &text).map_err(|e| Fail::input(e.to_string()))?;
+    oblique_window::write::create_new(&path, &text).map_err(crate::common::write_fail)?;
     if a.json {
         return emit_json(&json!({"file": path.display().to_string(), "name": a.name}));
     }

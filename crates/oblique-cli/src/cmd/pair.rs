@@ -45,10 +45,7 @@ fn method_word(m: MethodArg) -> &'static str {
 }
 
 fn write_fail(e: WriteError) -> Fail {
-    match e {
-        WriteError::Io { .. } => Fail::other(e.to_string()),
-        _ => Fail::input(e.to_string()),
-    }
+    crate::common::write_fail(e)
 }
 
 /// The user file of a pair, or an error saying that built-in pairs are read-only.
@@ -103,9 +100,11 @@ pub struct NewArgs {
     /// What the window is for, e.g. "busbar connector, tube on rod".
     #[arg(long, value_name = "TEXT")]
     pub description: Option<String>,
-    /// Convention in which the trials' velocities are recorded.
-    #[arg(long, value_enum, default_value = "normal-to-flyer")]
-    pub convention: ConventionArg,
+    /// Convention in which the trials' velocities are recorded (default normal-to-flyer for
+    /// magnetic pulse, foil actuator and laser welding; required for the other processes, whose
+    /// records use more than one).
+    #[arg(long, value_enum)]
+    pub convention: Option<ConventionArg>,
     /// Process the window is for; sets whether the pressure limit is on by default (on for
     /// magnetic pulse, off for explosive welding: docs/theory.md §5.4).
     #[arg(long, value_enum, default_value = "magnetic-pulse")]
@@ -132,8 +131,8 @@ pub struct ObserveArgs {
     /// What the section or peel test showed.
     #[arg(long, value_enum, ignore_case = true)]
     pub outcome: OutcomeArg,
-    /// Report, shot log or paper the shot comes from.
-    #[arg(long, value_name = "TEXT")]
+    /// Report, shot log or paper the shot comes from (one line).
+    #[arg(long, value_name = "TEXT", value_parser = crate::qarg::one_line_text)]
     pub source: String,
     /// Free note.
     #[arg(long, value_name = "TEXT")]
@@ -154,7 +153,7 @@ pub struct ObserveArgs {
     #[arg(long, value_name = "DATE", value_parser = qarg::date)]
     pub date: Option<String>,
     /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
-    #[arg(long = "if-unchanged", value_name = "SHA256")]
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
     pub if_unchanged: Option<String>,
     /// Print JSON.
     #[arg(long)]
@@ -169,7 +168,7 @@ pub struct ImportArgs {
     /// CSV file.
     pub file: PathBuf,
     /// Refuse to write unless the pair file still has this SHA-256 (from `pair show --json`).
-    #[arg(long = "if-unchanged", value_name = "SHA256")]
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
     pub if_unchanged: Option<String>,
     /// Print JSON.
     #[arg(long)]
@@ -347,6 +346,16 @@ fn round_deg(d: f64) -> f64 {
     (d * 1e9).round() / 1e9
 }
 
+/// A velocity for the file in m/s: twelve significant digits, so that a unit conversion's last
+/// bit (0.29 km/s is 289.99999999999994 m/s in binary) is not written as if measured.
+fn round_velocity(v: f64) -> f64 {
+    if v == 0.0 || !v.is_finite() {
+        return v;
+    }
+    let scale = 10f64.powi(11 - v.abs().log10().floor() as i32);
+    (v * scale).round() / scale
+}
+
 fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdResult {
     let verdicts = new_shot_verdicts(w, added);
     if json {
@@ -375,7 +384,7 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
         text.push_str(&v.line());
     }
     if verdicts.iter().any(|v| !v.agrees) {
-        text.push_str("  (a disagreement is evidence against the window's constants or boundaries where the shot lies; `oblique pair agreement` shows every trial)\n");
+        text.push_str(&format!("  (a disagreement is evidence against the window's constants or boundaries where the shot lies: `oblique pair fit {}` fits the Deribas and Wittman constants to every trial, with intervals; `oblique pair agreement` shows every trial)\n", w.name));
     }
     emit(&text)
 }
@@ -458,6 +467,17 @@ fn new_pair(dirs: &[PathBuf], a: NewArgs) -> CmdResult {
         maintainer,
         json,
     } = a;
+    let convention = match (convention, process) {
+        (Some(c), _) => c,
+        (None, ProcessArg::MagneticPulse | ProcessArg::FoilActuator | ProcessArg::Laser) => {
+            ConventionArg::NormalToFlyer
+        }
+        (None, _) => {
+            return Err(Fail::input(
+                "--convention: say in which convention this window's velocities are recorded: for explosive welding, gas guns and other processes the records use more than one (bisector, normal-to-flyer, normal-to-parent; docs/theory.md), and a wrong guess moves every trial\n  hint: e.g. --convention bisector",
+            ))
+        }
+    };
     let lib = load_library(dirs)?;
     let dir = dirs.first().ok_or_else(|| {
             Fail::input("pair new writes into the first --library folder, and none was given\n  hint: oblique --library ./my-windows pair new NAME ...")
@@ -549,12 +569,12 @@ fn observe(dirs: &[PathBuf], a: ObserveArgs) -> CmdResult {
         ));
     }
     let entry = ObservationEntry {
-        velocity: format!("{velocity} m/s"),
+        velocity: format!("{} m/s", round_velocity(velocity)),
         angle: format!("{} deg", round_deg(angle.to_degrees())),
         outcome: outcome_word(outcome).into(),
         process: process.as_str().into(),
         method: method_word(method).into(),
-        velocity_uncertainty: velocity_uncertainty.map(|v| format!("{v} m/s")),
+        velocity_uncertainty: velocity_uncertainty.map(|v| format!("{} m/s", round_velocity(v))),
         angle_uncertainty: angle_uncertainty.map(|a| format!("{} deg", round_deg(a.to_degrees()))),
         date: Some(date.unwrap_or_else(today)),
         source,

@@ -116,7 +116,12 @@ pub fn window_from(
 }
 
 pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
-    let format = output_format("-o", &a.output, &[FileFormat::Svg, FileFormat::Png], None)?;
+    let format = output_format(
+        "-o",
+        &a.output,
+        &[FileFormat::Svg, FileFormat::Png],
+        Some(FileFormat::Svg),
+    )?;
     let mut inputs: Vec<(&str, &Path)> = a
         .curve
         .iter()
@@ -200,5 +205,5 @@ pub fn run(dirs: &[PathBuf], a: PlotArgs) -> CmdResult {
         render_svg(&request)?.into_bytes()
     };
     write_output(&a.output, &bytes)?;
-    crate::output::emit(&format!("wrote {}\n", a.output.display()))
+    crate::common::said_where(&a.output, &format!("wrote {}\n", a.output.display()))
 }

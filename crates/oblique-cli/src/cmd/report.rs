@@ -12,7 +12,7 @@ use crate::common::{
     collision, load_catalog, output_format, print_notes, read_point_csv, write_output, FileFormat,
 };
 use crate::fail::{CmdResult, Fail};
-use crate::output::{emit, emit_json};
+use crate::output::emit_json;
 use crate::qarg;
 use clap::{Args, Subcommand};
 use oblique_core::units::{Angle, Energy, Length, Velocity, Voltage};
@@ -188,50 +188,6 @@ pub struct RecordArgs {
     pub scatter: crate::args::ScatterArgs,
 }
 
-/// The weld probability of the chosen set-up, when the scatter flags ask for it: under the stated
-/// scatter (a process estimate: the velocity spread of its efficiency's provenance unless
-/// --velocity-sd is given; the angle 1 deg unless --angle-sd is).
-fn chosen_probability(
-    window: &oblique_window::PairWindow,
-    decision: &Decision<'_>,
-    a: &crate::args::ScatterArgs,
-) -> CmdResult<Option<oblique_render::report::Probability>> {
-    if !a.asked() {
-        return Ok(None);
-    }
-    let Some(check) = &decision.chosen.check else {
-        return Ok(None);
-    };
-    let col = &check.evaluation.collision;
-    let (scatter, basis) = match &decision.chosen.produced {
-        oblique_setup::decision::Produced::Magnetic(r) => a.process().resolve(&r.setup.inputs),
-        _ => (a.scatter(), "as stated".to_string()),
-    };
-    let point = oblique_confidence::Point::impact(col.convention, col.impact_velocity, col.angle);
-    let sampling = a.sampling(oblique_setup::uncertainty::ESTIMATE_SAMPLES);
-    let p = oblique_confidence::weld_probability(window, &point, &scatter, &sampling)
-        .map_err(|e| Fail::input(e.to_string()))?;
-    let half = 1.959964 * p.standard_error; // normal 0.975 quantile (NIST handbook table)
-    let mut doubt = p.doubt.clone();
-    if let Some(first) = doubt.get(..1) {
-        doubt = first.to_uppercase() + &doubt[1..];
-    }
-    if !doubt.ends_with('.') {
-        doubt.push('.');
-    }
-    Ok(Some(oblique_render::report::Probability {
-        value: p.inside,
-        interval: Some(((p.inside - half).max(0.0), (p.inside + half).min(1.0))),
-        method: format!(
-            "Monte Carlo, {} draws, seed {}, under the stated scatter ({}; velocity spread basis: {basis}); 95 % interval of the sampling only. {} The probability is conditional on the model and these distributions (docs/theory.md, section 15), a screening estimate, never a guarantee",
-            p.samples,
-            p.seed,
-            scatter.text(),
-            doubt
-        ),
-    }))
-}
-
 /// `oblique report`.
 pub fn run(dirs: &[PathBuf], a: ReportArgs) -> CmdResult {
     match a.process {
@@ -309,7 +265,12 @@ fn preflight(r: &RecordArgs) -> CmdResult<(PathBuf, FileFormat)> {
         inputs.push(("the input of --from-sweep", f.as_path()));
     }
     crate::common::distinct_outputs(&inputs, &[("-o", out.as_path())])?;
-    let format = output_format("-o", &out, &[FileFormat::Html, FileFormat::Json], None)?;
+    let format = output_format(
+        "-o",
+        &out,
+        &[FileFormat::Html, FileFormat::Json],
+        Some(FileFormat::Html),
+    )?;
     Ok((out, format))
 }
 
@@ -468,7 +429,7 @@ fn run_process(
 /// The sweep file's bytes and settings, checked against the report's model and pair.
 fn read_sweep(path: &Path, model: &str, pair: &str) -> CmdResult<(PathBuf, Vec<u8>, SweepFile)> {
     let shown = path.display();
-    let bytes = std::fs::read(path)
+    let bytes = oblique_window::files::read_bounded(path)
         .map_err(|e| Fail::input(format!("--from-sweep {shown}: cannot read: {e}")))?;
     let v: serde_json::Value = serde_json::from_slice(&bytes)
         .map_err(|e| Fail::input(format!("--from-sweep {shown}: not JSON: {e}")))?;
@@ -564,7 +525,7 @@ fn write_record(
 ) -> CmdResult {
     let mut curves = Vec::new();
     for f in &r.curve {
-        let bytes = std::fs::read(f)
+        let bytes = oblique_window::files::read_bounded(f)
             .map_err(|e| Fail::input(format!("--curve {}: cannot read: {e}", f.display())))?;
         files.push(FileUse {
             role: "process curve (--curve)".into(),
@@ -583,7 +544,7 @@ fn write_record(
     let provenance =
         crate::common::record_provenance(files, r.prepared_by.clone(), r.checked_by.clone())?;
     let agreement = oblique_window::agreement(window)?;
-    let probability = chosen_probability(window, decision, &r.scatter)?;
+    let probability = crate::common::chosen_probability(window, decision, &r.scatter, false)?;
     let references = References::builtin().map_err(Fail::other)?;
     let input = ReportInput {
         window,
@@ -606,12 +567,15 @@ fn write_record(
     if r.json {
         return emit_json(&json(&input));
     }
-    emit(&format!(
-        "wrote {} ({}: {}; {} alternative(s))\n{}\n",
-        out.display(),
-        decision.chosen.label,
-        decision.chosen.verdict(window),
-        decision.alternatives.len(),
-        crate::output::CAUTION
-    ))
+    crate::common::said_where(
+        &out,
+        &format!(
+            "wrote {} ({}: {}; {} alternative(s))\n{}\n",
+            out.display(),
+            decision.chosen.label,
+            decision.chosen.verdict(window),
+            decision.alternatives.len(),
+            crate::output::CAUTION
+        ),
+    )
 }

@@ -723,3 +723,106 @@ mod edges {
         assert!(s.contains("bisects the normals"), "{s}");
     }
 }
+
+/// A probability grid whose nodes times samples would run for hours is refused before any
+/// work, naming --samples and the most it may be there.
+#[test]
+fn probability_requests_of_hours_are_refused() {
+    fails_with(
+        &[
+            "plot",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--probability",
+            "--velocity-sd",
+            "5%",
+            "--samples",
+            "1000000",
+            "-o",
+            "never.svg",
+        ],
+        &["--samples", "40000 nodes", "give at most 5000"],
+    );
+    assert!(!std::path::Path::new("never.svg").exists());
+}
+
+/// Values far outside any real set-up are refused at their flag instead of overflowing into
+/// NaN or a search that never converges; a hash is 64 hex digits; SOURCE_DATE_EPOCH is a
+/// non-negative whole number.
+#[test]
+fn absurd_flag_values_are_refused_at_the_flag() {
+    let point = [
+        "check",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+    ];
+    let with = |extra: &[&'static str]| -> Vec<&'static str> {
+        point.iter().copied().chain(extra.iter().copied()).collect()
+    };
+    fails_with(
+        &with(&["--wittman-n", "1e-308"]),
+        &["--wittman-n", "below 0.01"],
+    );
+    fails_with(&with(&["--deribas-k", "1e-9"]), &["--deribas-k", "below"]);
+    let sd = run(&with(&["--velocity-sd", "1e308%"]));
+    assert_eq!(sd.status.code(), Some(2));
+    assert!(stderr(&sd).len() < 400, "{}", stderr(&sd));
+    fails_with(
+        &[
+            "estimate",
+            "mpw-tube",
+            "--coil",
+            "harbourside-coil-42mm",
+            "--flyer",
+            "aa6061-t6",
+            "--flyer-thickness",
+            "1mm",
+            "--tube-outer-radius",
+            "20mm",
+            "--standoff",
+            "2mm",
+            "--charge-voltage",
+            "1e-300kV",
+            "--machine",
+            "harbourside-bank-300uf",
+        ],
+        &["--charge-voltage", "1 V to 1 MV"],
+    );
+    fails_with(
+        &[
+            "pair",
+            "observe",
+            "demo-al6061-on-cu",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "x",
+            "--if-unchanged",
+            "abc",
+        ],
+        &["--if-unchanged", "64 hexadecimal digits"],
+    );
+    let o = std::process::Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args([
+            "report",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--velocity",
+            "400m/s",
+        ])
+        .args(["--angle", "10deg", "-o", "-"])
+        .env("SOURCE_DATE_EPOCH", "-5")
+        .output()
+        .expect("run");
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("SOURCE_DATE_EPOCH"), "{}", stderr(&o));
+    assert!(o.stdout.is_empty());
+}

@@ -236,6 +236,32 @@ fn new_writes_templates_the_library_refuses_until_filled() {
     let o = run(&["--library", lib, "pair", "validate"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(format!("{}{}", stdout(&o), stderr(&o)).contains("b1.ron"));
+    // Every value filled in but the sources and the description left as the template's: still
+    // refused, each placeholder named at its line.
+    let path = dir.path().join("machines/b1.ron");
+    let text = std::fs::read_to_string(&path).expect("bank");
+    let filled = text
+        .replacen("value: \"FILL IN\"", "value: \"300 uF\"", 1)
+        .replacen("value: \"FILL IN\"", "value: \"12 kV\"", 1)
+        .replacen("frequency: \"FILL IN\"", "frequency: \"45 kHz\"", 1)
+        .replacen("peak_ratio: \"FILL IN\"", "peak_ratio: \"3.0\"", 1)
+        .replacen("date: \"FILL IN\"", "date: \"2026-11-30\"", 1);
+    assert!(!filled.contains(": \"FILL IN\""), "{filled}");
+    std::fs::write(&path, filled).expect("write");
+    let o = run(&["--library", lib, "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2));
+    let all = format!("{}{}", stdout(&o), stderr(&o));
+    assert!(all.contains("b1.ron:8:"), "{all}");
+    let b1: Vec<&str> = all
+        .lines()
+        .filter(|l| l.contains("b1.ron:") && !l.contains("bc1.ron"))
+        .collect();
+    assert_eq!(b1.len(), 4, "{all}");
+    assert!(
+        b1.iter()
+            .all(|l| l.contains("still the template's placeholder")),
+        "{all}"
+    );
 }
 
 #[test]
@@ -400,4 +426,149 @@ fn a_boundary_is_added_from_the_command_line_and_every_new_shot_says_if_the_wind
         ],
         &["at least two points"],
     );
+}
+
+#[test]
+fn check_names_the_nearest_trials_and_a_point_beyond_them_is_outside_the_trial_data() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "narrow",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    // Every trial between 7 and 14 deg.
+    for (v, a) in [
+        ("420m/s", "7deg"),
+        ("450m/s", "10deg"),
+        ("480m/s", "14deg"),
+        ("500m/s", "12deg"),
+    ] {
+        let o = run(&[
+            "--library",
+            lib,
+            "pair",
+            "observe",
+            "narrow",
+            "--velocity",
+            v,
+            "--angle",
+            a,
+            "--outcome",
+            "welded",
+            "--source",
+            "s",
+        ]);
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    }
+    let check = |angle: &str| {
+        run(&[
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "narrow",
+            "--velocity",
+            "460m/s",
+            "--angle",
+            angle,
+            "--json",
+        ])
+    };
+    let v: serde_json::Value = serde_json::from_str(&stdout(&check("25deg"))).expect("JSON");
+    assert_eq!(v["beyond_trials"], true, "{v}");
+    let v: serde_json::Value = serde_json::from_str(&stdout(&check("11deg"))).expect("JSON");
+    assert_eq!(v["beyond_trials"], false, "{v}");
+    let near = v["nearest_trials"].as_array().expect("nearest");
+    assert_eq!(near.len(), 3);
+    assert_eq!(near[0]["shot"], 2, "{v}");
+    let text = stdout(&run(&[
+        "--library",
+        lib,
+        "check",
+        "--pair",
+        "narrow",
+        "--velocity",
+        "460m/s",
+        "--angle",
+        "25deg",
+    ]));
+    assert!(
+        text.contains("OUTSIDE the trial data") || text.contains("outside the trial data"),
+        "{text}"
+    );
+    assert!(text.contains("nearest trials"), "{text}");
+}
+
+#[test]
+fn a_dash_is_standard_input_or_output() {
+    // Plot and report to standard output (the format by default: SVG, HTML).
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--point",
+        "450m/s,10deg",
+        "-o",
+        "-",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).starts_with("<svg"), "{}", &stdout(&o)[..60]);
+    let o = run(&[
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "-o",
+        "-",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).starts_with("<!DOCTYPE html>"));
+    // Shots from standard input.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "stdin",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args(["--library", lib, "pair", "import", "stdin", "-"])
+        .stdin(std::process::Stdio::piped())
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("spawn");
+    {
+        use std::io::Write;
+        let mut input = child.stdin.take().expect("stdin");
+        input
+            .write_all(b"velocity[m/s],angle[deg],outcome,source\n405,10,welded,piped\n")
+            .expect("write");
+    }
+    let o = child.wait_with_output().expect("runs");
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(dir.path().join("stdin.ron")).expect("pair");
+    assert!(text.contains("\"piped\""), "{text}");
 }

@@ -272,3 +272,87 @@ fn next_shot_bad_input_names_the_flag() {
         &["--seed"],
     );
 }
+
+/// A saved fit whose constant sits at the end of a one-sided interval says so when saved and in
+/// check; a trial added after the fit makes check say the fit is stale; the weld probability of
+/// a one-sided constant takes the prior spread (its basis says so), never a spread of zero.
+#[test]
+fn saved_fits_carry_their_cautions() {
+    let (dir, _path) = shop();
+    let lib = dir.path().to_str().expect("path");
+    let v = json_of(&run(&[
+        "--library",
+        lib,
+        "pair",
+        "fit",
+        "shop-al-on-cu",
+        "--constants",
+        "deribas-k,wittman-n,hel-multiple",
+        "--save",
+        "--json",
+    ]));
+    let m = &v["constants"]["hel_multiple"];
+    assert_eq!(m["bounded"], false, "{v}");
+    let cautions = v["saved_cautions"].as_array().expect("cautions");
+    let one_sided = |list: &[Value]| {
+        list.iter()
+            .any(|c| c.as_str().unwrap_or("").contains("one-sided interval"))
+    };
+    // hel_multiple is bounded on one side; when the value in use lay beyond that side it was
+    // moved onto the end, and the caution is there.
+    let at_end = [m["low"].as_f64(), m["high"].as_f64()]
+        .iter()
+        .flatten()
+        .any(|e| (e - m["value"].as_f64().expect("value")).abs() < 1e-3 * e.abs());
+    assert_eq!(one_sided(cautions), at_end, "{v}");
+
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "shop-al-on-cu",
+        "--velocity",
+        "420m/s",
+        "--angle",
+        "11deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "stale-fit test (invented)",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let args = [
+        "--library",
+        lib,
+        "check",
+        "--pair",
+        "shop-al-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+        "--velocity-sd",
+        "5%",
+        "--model-uncertainty",
+        "on",
+    ];
+    let human = run(&args);
+    let out = stdout(&human);
+    assert!(out.contains("the file now holds 17"), "{out}");
+    let mut j = args.to_vec();
+    j.push("--json");
+    let c = json_of(&run(&j));
+    let cautions = c["fitted"]["cautions"].as_array().expect("cautions");
+    assert!(
+        cautions
+            .iter()
+            .any(|c| c.as_str().unwrap_or("").contains("now holds 17")),
+        "{c}"
+    );
+    let text = c.to_string();
+    assert!(
+        !text.contains("\"above\":1e-6") && !text.contains("\"below\":1e-6"),
+        "{text}"
+    );
+}

@@ -227,3 +227,66 @@ fn every_write_path_survives_a_kill_before_the_rename() {
         kill_mid_write(d, args);
     }
 }
+
+/// SIGTERM (what Ctrl-C's SIGINT and a service manager's stop send) mid-write: the target is
+/// as before, exit 130, and the temporary file of the unfinished write is gone.
+#[cfg(unix)]
+#[test]
+fn a_terminated_write_removes_its_temporary_file() {
+    let dir = library();
+    let d = dir.path();
+    let before = snapshot(d);
+    let child = Command::new(env!("CARGO_BIN_EXE_oblique"))
+        .args([
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            "k",
+            "--velocity",
+            "380m/s",
+        ])
+        .args([
+            "--angle",
+            "9deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "sigterm test",
+        ])
+        .current_dir(d)
+        .env("OBLIQUE_FAULT_PAUSE_BEFORE_RENAME_MS", "20000")
+        .env_remove("OBLIQUE_LIBRARY")
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("spawn");
+    let mut seen = false;
+    for _ in 0..800 {
+        if temp_files(d) > 0 {
+            seen = true;
+            break;
+        }
+        std::thread::sleep(std::time::Duration::from_millis(25));
+    }
+    assert!(seen, "the temporary file never appeared");
+    let k = Command::new("kill")
+        .args(["-TERM", &child.id().to_string()])
+        .status()
+        .expect("kill");
+    assert!(k.success());
+    let out = child.wait_with_output().expect("wait");
+    assert_eq!(
+        out.status.code(),
+        Some(130),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(String::from_utf8_lossy(&out.stderr).contains("interrupted"));
+    assert_eq!(temp_files(d), 0, "the temporary file was left behind");
+    assert_eq!(
+        snapshot(d),
+        before,
+        "a file changed although the write was stopped"
+    );
+}

@@ -101,6 +101,26 @@ fn new_user_workflow_create_record_import_agree_check() {
     let text = std::fs::read_to_string(p.join("al-on-cu.ron")).unwrap();
     assert!(text.contains("process: \"magnetic-pulse\""), "{text}");
     assert!(text.contains("mixed: \"supersonic-side-polar\""), "{text}");
+    // An explosive window needs its convention said (records use more than one).
+    let o = in_lib(
+        p,
+        &[
+            "pair",
+            "new",
+            "cu-on-steel",
+            "--flyer",
+            "cu-c11000",
+            "--parent",
+            "steel-1018",
+            "--flyer-thickness",
+            "3mm",
+            "--process",
+            "explosive",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("--convention"), "{}", stderr(&o));
+    assert!(!p.join("cu-on-steel.ron").exists());
     // An explosive window starts with the pressure limit off, and loads without a reason.
     let o = in_lib(
         p,
@@ -566,4 +586,81 @@ fn shadowing_a_built_in_pair_warns() {
     let o = in_lib(p, &["pair", "list"]);
     assert_eq!(o.status.code(), Some(0));
     assert!(stderr(&o).contains("shadows"), "{}", stderr(&o));
+}
+
+/// Two files in one folder that define the same pair name make the name ambiguous: a command
+/// that asks for it is refused (exit 2) naming both files, instead of taking whichever file
+/// sorts first.
+#[test]
+fn a_pair_name_defined_twice_in_one_folder_is_refused() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    for f in ["duplicate-a.ron", "duplicate-b.ron"] {
+        std::fs::copy(repo().join("tests/broken").join(f), dir.path().join(f)).expect("copy");
+    }
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "check",
+            "--pair",
+            "twin",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stdout(&o));
+    let e = stderr(&o);
+    assert!(e.contains("duplicate pair name 'twin'"), "{e}");
+    assert!(
+        e.contains("duplicate-a.ron") && e.contains("duplicate-b.ron"),
+        "{e}"
+    );
+}
+
+/// pair import lists every problem of every row in one run: a negative uncertainty beside an
+/// unknown outcome is named too, and nothing is written.
+#[test]
+fn import_names_negative_uncertainties_with_the_other_problems() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let d = dir.path();
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "new",
+            "p",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let before = std::fs::read(d.join("p.ron")).expect("pair");
+    std::fs::write(
+        d.join("s.csv"),
+        "velocity[m/s],angle[deg],outcome,source,velocity_uncertainty[m/s],angle_uncertainty[deg]\n400,10,weldd,a,-5,1\n410,11,welded,b,5,-0.5\n",
+    )
+    .expect("csv");
+    let o = run_in(d, &["--library", ".", "pair", "import", "p", "s.csv"]);
+    assert_eq!(o.status.code(), Some(2));
+    let e = stderr(&o);
+    assert!(
+        e.contains("s.csv:2: field 'velocity_uncertainty': must not be negative"),
+        "{e}"
+    );
+    assert!(
+        e.contains("s.csv:3: field 'angle_uncertainty': must not be negative"),
+        "{e}"
+    );
+    assert!(e.contains("s.csv:2: field 'outcome'"), "{e}");
+    assert!(e.contains("3 problem(s)"), "{e}");
+    assert_eq!(std::fs::read(d.join("p.ron")).expect("pair"), before);
 }

@@ -328,15 +328,37 @@ fn hostile_text_stays_text_in_svg_html_and_the_terminal() {
         "--source",
         "shot \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed",
     ]);
+    // A source is one line of plain text: control characters are refused at the flag.
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("--source"), "{}", stderr(&o));
+    // Free text (the description, a note) may hold anything; it must stay text where shown.
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "observe",
+        "hostile",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "10deg",
+        "--outcome",
+        "welded",
+        "--source",
+        "shot 1",
+        "--note",
+        "note \u{1b}]0;pwned\u{7} \u{1b}[2J form\u{c}feed",
+    ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let path = dir.path().join("hostile.ron");
     let text = std::fs::read_to_string(&path).expect("pair");
-    let text = text.replace(
-        "    boundaries: [\n    ],",
-        &format!(
-            "    boundaries: [\n        (label: {}, plane: \"angle-impact-velocity\", weld_side: \"right\", points: [(\"300 m/s\", \"5 deg\"), (\"300 m/s\", \"20 deg\")], provenance: \"test\"),\n    ],",
-            oblique_window::write::ron_string(evil)
-        ),
+    let at = text.find("description: ").expect("description");
+    let end = at + text[at..].find(",\n").expect("end of description");
+    let text = format!(
+        "{}description: {}{}",
+        &text[..at],
+        oblique_window::write::ron_string(evil),
+        &text[end..]
     );
     std::fs::write(&path, text).expect("write");
     for args in [
@@ -908,4 +930,251 @@ fn a_huge_cell_is_not_echoed_whole() {
     let err = stderr(&o);
     assert!(err.len() < 5_000, "{} bytes of message", err.len());
     assert!(err.contains("velocity"), "{}", &err[..err.len().min(500)]);
+}
+
+/// A user pair `p` in a fresh library folder, and an interface export beside it.
+fn pair_folder() -> tempfile::TempDir {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "pair",
+            "new",
+            "p",
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    std::fs::write(
+        dir.path().join("interface.csv"),
+        "position[mm],velocity[m/s],angle[deg]\n0,400,10\n",
+    )
+    .expect("interface");
+    dir
+}
+
+/// An output that leads to a loaded library file, through a symbolic link or by its own name,
+/// is refused (exit 2) and the pair file stays as it was.
+#[cfg(unix)]
+#[test]
+fn an_output_never_replaces_a_library_file() {
+    let dir = pair_folder();
+    let d = dir.path();
+    let before = std::fs::read(d.join("p.ron")).expect("pair");
+    std::os::unix::fs::symlink(d.join("p.ron"), d.join("out.csv")).expect("link");
+    for out in ["out.csv", "p.ron"] {
+        let o = run_in(
+            d,
+            &[
+                "--library",
+                ".",
+                "map",
+                "interface.csv",
+                "--pair",
+                "p",
+                "-o",
+                out,
+            ],
+        );
+        assert_eq!(o.status.code(), Some(2), "{out}: {}", stderr(&o));
+        // By its own name the extension rule refuses it first; through the link, the library.
+        if out == "out.csv" {
+            assert!(stderr(&o).contains("library file"), "{}", stderr(&o));
+        }
+        let o = run_in(
+            d,
+            &[
+                "--library",
+                ".",
+                "plot",
+                "--pair",
+                "p",
+                "--velocity",
+                "400m/s",
+                "--angle",
+                "10deg",
+                "-o",
+                out,
+            ],
+        );
+        assert_ne!(
+            o.status.code(),
+            Some(0),
+            "{out}: plot wrote over the pair file"
+        );
+    }
+    assert_eq!(std::fs::read(d.join("p.ron")).expect("pair"), before);
+}
+
+/// A read-only output file is not silently replaced (even for root), and a read-only pair file
+/// takes no observation; both exit 2 and keep the file.
+#[cfg(unix)]
+#[test]
+fn read_only_files_are_not_replaced() {
+    use std::os::unix::fs::PermissionsExt;
+    let dir = pair_folder();
+    let d = dir.path();
+    std::fs::write(d.join("kept.csv"), "old\n").expect("write");
+    std::fs::set_permissions(d.join("kept.csv"), std::fs::Permissions::from_mode(0o444))
+        .expect("chmod");
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "map",
+            "interface.csv",
+            "--pair",
+            "p",
+            "-o",
+            "kept.csv",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("read-only"), "{}", stderr(&o));
+    assert_eq!(std::fs::read(d.join("kept.csv")).expect("read"), b"old\n");
+
+    let before = std::fs::read(d.join("p.ron")).expect("pair");
+    std::fs::set_permissions(d.join("p.ron"), std::fs::Permissions::from_mode(0o444))
+        .expect("chmod");
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            "p",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "read-only test",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("read-only"), "{}", stderr(&o));
+    assert_eq!(std::fs::read(d.join("p.ron")).expect("pair"), before);
+}
+
+/// `/dev/stdout` (a link to /proc/self/fd/1, whose pipe has no path) is written in place.
+#[cfg(target_os = "linux")]
+#[test]
+fn dev_stdout_is_an_output() {
+    let dir = pair_folder();
+    let o = run_in(
+        dir.path(),
+        &[
+            "--library",
+            ".",
+            "map",
+            "interface.csv",
+            "--pair",
+            "p",
+            "-o",
+            "/dev/stdout",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).starts_with("row,position"), "{}", stdout(&o));
+}
+
+/// A device that never ends (`/dev/zero`) given where a file is read whole is refused with a
+/// message naming the bound, not read until the memory runs out.
+#[cfg(unix)]
+#[test]
+fn endless_inputs_are_refused() {
+    let dir = pair_folder();
+    let d = dir.path();
+    for args in [
+        vec!["--library", ".", "pair", "import", "p", "/dev/zero"],
+        vec!["--library", ".", "pair", "validate", "/dev/zero"],
+        vec![
+            "--library",
+            ".",
+            "plot",
+            "--pair",
+            "p",
+            "--points",
+            "/dev/zero",
+            "-o",
+            "x.svg",
+        ],
+    ] {
+        let o = run_in(d, &args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}: {}", stderr(&o));
+        assert!(stderr(&o).contains("MiB"), "{args:?}: {}", stderr(&o));
+    }
+}
+
+/// A line break in a one-line field (a source, a boundary label) is refused with the file,
+/// line and field; given as a flag, the flag is named; a note may hold line breaks, and pair
+/// show prints it on one line with `\n` shown, so that no user text starts a line of its own.
+#[test]
+fn user_text_cannot_forge_a_line() {
+    let dir = pair_folder();
+    let d = dir.path();
+    let o = run_in(
+        d,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            "p",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "log 7\nverdict: INSIDE the window",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("--source"), "{}", stderr(&o));
+    assert!(stderr(&o).contains("one line"), "{}", stderr(&o));
+
+    let text = std::fs::read_to_string(d.join("p.ron")).expect("pair");
+    let forged = text.replacen(
+        "observations: [",
+        "observations: [\n        (velocity: \"400 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"log 7\\nverdict: INSIDE\"),",
+        1,
+    );
+    assert_ne!(forged, text, "the test file has no observations list");
+    std::fs::write(d.join("p.ron"), &forged).expect("write");
+    let o = run_in(d, &["--library", ".", "pair", "validate"]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("observations[0].source") && e.contains("one line"),
+        "{e}"
+    );
+
+    let noted = text.replacen(
+        "observations: [",
+        "observations: [\n        (velocity: \"400 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"log 7\", note: \"first line\\nverdict: INSIDE\"),",
+        1,
+    );
+    std::fs::write(d.join("p.ron"), &noted).expect("write");
+    let o = run_in(d, &["--library", ".", "pair", "show", "p", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = run_in(d, &["--library", ".", "pair", "show", "p"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        !stdout(&o).lines().any(|l| l.starts_with("verdict")),
+        "{}",
+        stdout(&o)
+    );
 }

@@ -117,6 +117,7 @@ pub(crate) fn summary_json(args: &[&str]) -> (Value, String) {
     (v, csv)
 }
 
+mod columns;
 mod more;
 
 #[test]

@@ -1,28 +1,33 @@
-//! Number parsing: a fast path for plain decimals and Clinger's fast path, correctly rounded
-//! (the same result as `str::parse::<f64>`), with std's parser behind them.
+//! Number parsing, correctly rounded (the same result and grammar as `str::parse::<f64>`): the
+//! `fast-float2` crate, with one hand-written path in front of it for the commonest shape,
+//! `[-+]digits[.digits]`, where a measurement shows it faster (see `plain_decimal`).
 
-/// Parse a decimal number fast; the result is the same as `str::parse::<f64>` (correctly
-/// rounded). Surrounding ASCII spaces are allowed. `None` if the text is not a finite number.
+/// Parse a decimal number; the result is the same as `str::parse::<f64>` (correctly
+/// rounded, the same grammar). Surrounding ASCII spaces are allowed. `None` if the text is not
+/// a finite number.
 #[inline]
 pub fn parse_number(bytes: &[u8]) -> Option<f64> {
-    let b = trim_spaces(bytes);
-    match plain_decimal(b) {
+    // A field with spaces around it is no plain decimal: the slow path trims it.
+    match plain_decimal(bytes) {
         Some(v) => Some(v),
-        None => parse_number_slow(b),
+        None => parse_number_slow(bytes),
     }
 }
 
-/// Everything but the plain shape: exponents, long mantissas, and what is not a number.
+/// Everything but the plain shape: spaces around the number, exponents, long mantissas, and
+/// what is not a number.
 #[cold]
 #[inline(never)]
-fn parse_number_slow(b: &[u8]) -> Option<f64> {
-    if let Some(v) = fast_decimal(b) {
+fn parse_number_slow(bytes: &[u8]) -> Option<f64> {
+    let b = trim_spaces(bytes);
+    if let Some(v) = plain_decimal(b) {
         return Some(v);
     }
-    let s = std::str::from_utf8(b).ok()?;
-    // std accepts "inf", "nan", "infinity": refuse anything not finite.
-    let v: f64 = s.parse().ok()?;
-    v.is_finite().then_some(v)
+    match fast_float2::parse::<f64, _>(b) {
+        // fast-float2 (like std) also reads "inf", "infinity" and "nan": refuse them.
+        Ok(v) if v.is_finite() => Some(v),
+        _ => None,
+    }
 }
 
 /// Why a field is not a number, for the message about its row: empty, a unit written in
@@ -72,122 +77,53 @@ const EXACT_POW10: [f64; 23] = [
 
 /// The commonest shape, `[-+]digits[.digits]`, in one pass over the bytes with no index
 /// bookkeeping: each byte is a digit, the first point, or the end of this path (an exponent or
-/// anything else goes on to [`fast_decimal`] and std). Same limits and the same correctly
-/// rounded result as `fast_decimal`.
-#[inline]
+/// anything else goes on to `fast-float2`). Clinger's fast path: at most 19 digits forming an
+/// integer of at most 2^53 and at most 22 decimals make one exact integer divided by one exact
+/// power of ten, so one correctly rounded division gives the correctly rounded result.
+///
+/// Kept by measurement: every number field of the 2 000 000-row benchmark file
+/// (`bench/gen_interface.py`), parsed in a loop on one core, best of 15 passes (2026-12-04,
+/// the 2-core VM of `docs/performance.md`, other builds running): `parse_number` (this path)
+/// 4.0 ns a field, `fast-float2` 0.2.4 5.5 ns, `lexical-core` 1.0 6.1 ns, std 11.0 ns (`cd bench/micro && cargo run --release`).
+#[inline(always)]
 fn plain_decimal(b: &[u8]) -> Option<f64> {
     let (neg, rest) = match b.split_first() {
         Some((b'-', r)) => (true, r),
         Some((b'+', r)) => (false, r),
         _ => (false, b),
     };
+    // The integer digits, then (after a point) the fraction's: each loop tests one range per
+    // byte, and the digit counts come from where the loops stop.
     let mut mant: u64 = 0;
-    let mut digits = 0usize;
-    let mut point: Option<usize> = None;
-    for &c in rest {
-        let d = c.wrapping_sub(b'0');
-        if d <= 9 {
-            mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
-            digits += 1;
-        } else if c == b'.' && point.is_none() {
-            point = Some(digits);
-        } else {
-            return None;
-        }
-    }
-    let frac = point.map_or(0, |p| digits - p);
-    if digits == 0 || digits > 19 || mant > (1u64 << 53) || frac > 22 {
-        return None;
-    }
-    let v = mant as f64 / EXACT_POW10[frac];
-    Some(if neg { -v } else { v })
-}
-
-/// Clinger's fast path: a decimal whose digits (leading zeros included, at most 19 so the
-/// integer cannot overflow) form an integer of at most 2^53, with a power of ten within +-22,
-/// is one exact integer times or divided by one exact power of ten, so one correctly rounded
-/// operation gives the correctly rounded result. Anything else: `None` (std's parser).
-///
-/// The digit loops test one range per byte and nothing else, so the common plain decimal
-/// costs about one multiply-add per digit.
-#[inline]
-fn fast_decimal(b: &[u8]) -> Option<f64> {
-    let (neg, mut i) = match b.first() {
-        Some(b'-') => (true, 1),
-        Some(b'+') => (false, 1),
-        _ => (false, 0),
-    };
-    let start = i;
-    let mut mant: u64 = 0;
-    while let Some(&c) = b.get(i) {
+    let mut int = rest;
+    while let Some((&c, tail)) = int.split_first() {
         let d = c.wrapping_sub(b'0');
         if d > 9 {
             break;
         }
         mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
-        i += 1;
+        int = tail;
     }
-    let int_digits = i - start;
-    let mut frac = 0usize;
-    if b.get(i) == Some(&b'.') {
-        i += 1;
-        let fs = i;
-        while let Some(&c) = b.get(i) {
-            let d = c.wrapping_sub(b'0');
-            if d > 9 {
-                break;
+    let int_digits = rest.len() - int.len();
+    let frac = match int.split_first() {
+        None => 0,
+        Some((b'.', fraction)) => {
+            for &c in fraction {
+                let d = c.wrapping_sub(b'0');
+                if d > 9 {
+                    return None;
+                }
+                mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
             }
-            mant = mant.wrapping_mul(10).wrapping_add(u64::from(d));
-            i += 1;
+            fraction.len()
         }
-        frac = i - fs;
-    }
-    let digits = int_digits + frac;
-    if digits == 0 || digits > 19 || mant > (1u64 << 53) {
-        return None;
-    }
-    let mut exp = -(frac as i64);
-    if i < b.len() {
-        if b[i] != b'e' && b[i] != b'E' {
-            return None;
-        }
-        i += 1;
-        let eneg = match b.get(i) {
-            Some(b'-') => {
-                i += 1;
-                true
-            }
-            Some(b'+') => {
-                i += 1;
-                false
-            }
-            _ => false,
-        };
-        let es = i;
-        let mut e: i64 = 0;
-        while let Some(&c) = b.get(i) {
-            let d = c.wrapping_sub(b'0');
-            if d > 9 || e > 10_000 {
-                break;
-            }
-            e = e * 10 + i64::from(d);
-            i += 1;
-        }
-        if i == es || i != b.len() {
-            return None;
-        }
-        exp += if eneg { -e } else { e };
-    }
-    let m = mant as f64;
-    let v = if mant == 0 {
-        0.0
-    } else if (0..=22).contains(&exp) {
-        m * EXACT_POW10[exp as usize]
-    } else if (-22..0).contains(&exp) {
-        m / EXACT_POW10[(-exp) as usize]
-    } else {
-        return None;
+        Some(_) => return None,
     };
+    let digits = int_digits + frac;
+    if digits == 0 || digits > 19 || mant > (1u64 << 53) || frac > 22 {
+        return None;
+    }
+    let v = mant as f64 / EXACT_POW10[frac];
     Some(if neg { -v } else { v })
 }
 
@@ -210,7 +146,8 @@ mod tests {
         ] {
             assert_eq!(parse_number(t.as_bytes()), Some(v), "{t}");
         }
-        // Past the fast path's limits (20 digits, 2^53 + 1, a long exponent): std decides.
+        // Past the fast path's limits (20 digits, 2^53 + 1, a long exponent): fast-float2
+        // decides, as std would.
         for (t, v) in [
             ("12345678901234567890", 12345678901234567890.0),
             ("9007199254740993", 9007199254740993.0),
@@ -228,7 +165,7 @@ mod tests {
     }
 
     proptest! {
-        /// The fast path gives exactly what std's parser gives.
+        /// Both paths give exactly what std's parser gives.
         #[test]
         fn fast_parse_matches_std(m in 0u64..10_000_000_000_000_000, e in -30i32..30, neg in any::<bool>(), dot in 0usize..20) {
             let mut digits = m.to_string();

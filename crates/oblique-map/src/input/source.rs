@@ -135,36 +135,15 @@ impl<'r> Source<'r> {
                 r?;
                 continue;
             }
-            let has_quote = quotes && memchr::memchr(b'"', buf).is_some();
-            let cut = if has_quote {
-                match nth_break_outside_quotes(buf, max_lines) {
-                    Some(c) => Some(c),
-                    None if self.eof => (!buf.is_empty()).then_some(buf.len()),
-                    None => last_break_outside_quotes(buf),
-                }
-                .map(|c| (c, memchr::memchr_iter(b'\n', &buf[..c]).count()))
-            } else {
-                let breaks = memchr::memchr_iter(b'\n', buf).count();
-                if max_lines > 0 && breaks >= max_lines {
-                    memchr::memchr_iter(b'\n', buf)
-                        .nth(max_lines - 1)
-                        .map(|p| (p + 1, max_lines))
-                } else if self.eof {
-                    (!buf.is_empty()).then_some((buf.len(), breaks))
-                } else {
-                    memchr::memrchr(b'\n', buf).map(|p| (p + 1, breaks))
-                }
-            };
+            let cut = cut_chunk(buf, self.eof, max_lines, quotes);
             match cut {
-                Some((c, lines)) => {
+                Some(info) => {
+                    let c = info.len;
                     self.pending.clear();
                     self.pending.extend_from_slice(&buf[c..]);
                     buf.truncate(c);
                     self.consumed += c as u64;
-                    return Ok(Some(ChunkInfo {
-                        lines: lines as u64,
-                        has_quote,
-                    }));
+                    return Ok(Some(info));
                 }
                 None if self.eof => return Ok(None),
                 None => {
@@ -184,9 +163,43 @@ impl<'r> Source<'r> {
     }
 }
 
-/// What a chunk from [`Source::next_chunk`] holds.
+/// Where a chunk of whole records starting at the front of `buf` ends: after the `max_lines`-th
+/// record break, or after the last one; at the end of the input (`at_end`) everything left. The
+/// line breaks and quotes are found with one vectorised pass each (memchr). `None` when `buf`
+/// holds no record break (and is not the end of the input), or is empty.
+pub fn cut_chunk(buf: &[u8], at_end: bool, max_lines: usize, quotes: bool) -> Option<ChunkInfo> {
+    let has_quote = quotes && memchr::memchr(b'"', buf).is_some();
+    let cut = if has_quote {
+        match nth_break_outside_quotes(buf, max_lines) {
+            Some(c) => Some(c),
+            None if at_end => (!buf.is_empty()).then_some(buf.len()),
+            None => last_break_outside_quotes(buf),
+        }
+        .map(|c| (c, memchr::memchr_iter(b'\n', &buf[..c]).count()))
+    } else {
+        let breaks = memchr::memchr_iter(b'\n', buf).count();
+        if max_lines > 0 && breaks >= max_lines {
+            memchr::memchr_iter(b'\n', buf)
+                .nth(max_lines - 1)
+                .map(|p| (p + 1, max_lines))
+        } else if at_end {
+            (!buf.is_empty()).then_some((buf.len(), breaks))
+        } else {
+            memchr::memrchr(b'\n', buf).map(|p| (p + 1, breaks))
+        }
+    };
+    cut.map(|(len, lines)| ChunkInfo {
+        len,
+        lines: lines as u64,
+        has_quote,
+    })
+}
+
+/// What a chunk from [`Source::next_chunk`] or [`cut_chunk`] holds.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct ChunkInfo {
+    /// Its length in bytes.
+    pub len: usize,
     /// Line breaks in it (inside quotes too: they advance the line numbers).
     pub lines: u64,
     /// Whether it holds a double quote anywhere (else every record is one plain line).

@@ -6,58 +6,76 @@ use crate::classifier::{MarginUnit, Point};
 use crate::format::{RowWriter, TextBuf};
 use oblique_window::classify::Prediction;
 
-/// The computed CSV columns of a row, each number with the decimals fixed for its column.
+/// The computed CSV columns of a row, each with its leading comma and each number with the
+/// decimals fixed for its column.
 #[inline(always)]
 pub(super) fn computed_csv(ctx: &Ctx<'_>, margins: &[f64], out: &mut RowWriter<'_>, p: &Point) {
     // Decimals fixed per column, so each conversion is inlined for its count.
     let plan = &ctx.csv_plan;
-    let v = p.verdict.index();
-    match ctx.verdict_words.get(v) {
-        Some(w) => out.word(w),
-        None => {
-            out.push(b',');
-            out.extend(p.verdict.as_str().as_bytes());
-            out.push(b',');
+    if plan.verdict {
+        let v = p.verdict.index();
+        match ctx.verdict_words.get(v) {
+            Some(w) => out.word(w),
+            None => {
+                out.push(b',');
+                out.extend(p.verdict.as_str().as_bytes());
+            }
         }
     }
-    // The verdict word ends in the binding column's comma.
-    if let Some(b) = p.binding {
-        match ctx.binding_words.as_ref().and_then(|w| w.get(b)) {
-            Some(w) => out.word(w),
-            None => out.extend(&ctx.binding_csv[b]),
-        }
+    let unit = p.binding.and_then(|b| ctx.margin_units.get(b));
+    if plan.binding {
         out.push(b',');
-        let m = margins.get(b).copied().unwrap_or(f64::NAN);
-        let unit = ctx.margin_units.get(b);
-        match unit {
-            Some(MarginUnit::MetresPerSecond) => out.fixed_n::<1>(m),
-            Some(MarginUnit::Degrees) => out.fixed_n::<3>(m),
-            Some(MarginUnit::Gigapascals) => out.fixed_n::<3>(m * 1e-9),
-            None => {}
+        if let Some(b) = p.binding {
+            match ctx.binding_words.as_ref().and_then(|w| w.get(b)) {
+                Some(w) => out.word(w),
+                None => out.extend(&ctx.binding_csv[b]),
+            }
         }
+    }
+    if plan.binding_margin {
+        out.push(b',');
+        if let Some(b) = p.binding {
+            let m = margins.get(b).copied().unwrap_or(f64::NAN);
+            match unit {
+                Some(MarginUnit::MetresPerSecond) => out.fixed_n::<1>(m),
+                Some(MarginUnit::Degrees) => out.fixed_n::<3>(m),
+                Some(MarginUnit::Gigapascals) => out.fixed_n::<3>(m * 1e-9),
+                None => {}
+            }
+        }
+    }
+    if plan.binding_unit {
         match unit.and_then(|u| ctx.unit_words.get(*u as usize)) {
             Some(w) => out.word(w),
             None => out.push(b','),
         }
-    } else {
-        out.extend(b",,");
     }
-    out.push(b',');
-    out.fixed_n::<4>(p.binding_relative);
-    out.push(b',');
-    if p.verdict != Prediction::Welded {
-        failing_csv(ctx, margins, out, p);
+    if plan.binding_relative {
+        out.push(b',');
+        out.fixed_n::<4>(p.binding_relative);
+    }
+    if plan.failing {
+        out.push(b',');
+        if p.verdict != Prediction::Welded {
+            failing_csv(ctx, margins, out, p);
+        }
     }
     if plan.vp {
         out.push(b',');
         out.fixed_n::<1>(p.vp);
     }
-    out.push(b',');
-    out.fixed_n::<1>(p.vc);
-    out.push(b',');
-    out.fixed_n::<1>(p.vf);
-    out.push(b',');
-    out.fixed_n::<3>(p.pressure * 1e-9);
+    if plan.vc {
+        out.push(b',');
+        out.fixed_n::<1>(p.vc);
+    }
+    if plan.vf {
+        out.push(b',');
+        out.fixed_n::<1>(p.vf);
+    }
+    if plan.pressure {
+        out.push(b',');
+        out.fixed_n::<3>(p.pressure * 1e-9);
+    }
     if plan.jetting {
         out.push(b',');
         out.fixed_n::<3>(p.jetting_deg);
@@ -113,9 +131,18 @@ fn failing_csv(ctx: &Ctx<'_>, margins: &[f64], out: &mut RowWriter<'_>, p: &Poin
     }
 }
 
-pub(super) fn computed_json(ctx: &Ctx<'_>, margins: &[f64], out: &mut TextBuf, p: &Point) {
+/// The computed JSON members of a row; `comma`: whether a member comes before them.
+pub(super) fn computed_json(
+    ctx: &Ctx<'_>,
+    margins: &[f64],
+    out: &mut TextBuf,
+    p: &Point,
+    mut comma: bool,
+) {
     for (col, key) in ctx.cols.iter().zip(&ctx.computed_keys) {
-        out.push(b',');
+        if std::mem::replace(&mut comma, true) {
+            out.push(b',');
+        }
         out.extend(key);
         match *col {
             Col::Verdict => {

@@ -4,7 +4,7 @@
 use crate::classifier::{Classifier, LimitInfo, MarginUnit, VelocityKind};
 use crate::format::{push_csv_field, push_json_string, Word, NUMBER_MAX, WORD};
 use crate::input::Header;
-use crate::options::{BadRows, Format};
+use crate::options::{BadRows, ColumnSelection, Format};
 use oblique_window::classify::Prediction;
 
 /// Everything the workers share.
@@ -21,6 +21,10 @@ pub struct Ctx<'a> {
     pub classifier: &'a Classifier,
     /// Bad-row policy.
     pub policy: BadRows,
+    /// Whether the map has the row number.
+    pub row: bool,
+    /// Whether the map has the input cells.
+    pub input: bool,
     /// Output names of the input cells (renamed when they clash with computed columns).
     pub out_cells: Vec<String>,
     /// JSON keys of the input cells, `"name":` ready to copy.
@@ -49,7 +53,7 @@ pub struct Ctx<'a> {
     /// For a window of at most eight limits, the `failing_limits` text of every failing set,
     /// indexed by its bit mask (`Point::failing`); empty otherwise.
     pub failing_texts: Vec<Vec<u8>>,
-    /// `,verdict,` for each verdict (in `Prediction::ALL` order), padded.
+    /// `,verdict` for each verdict (in `Prediction::ALL` order), padded.
     pub verdict_words: Vec<Word>,
     /// Binding limit ids as CSV fields, padded (`None` if one is too long to pad).
     pub binding_words: Option<Vec<Word>>,
@@ -88,65 +92,82 @@ pub enum Col {
     Outside,
 }
 
-/// The computed columns every row starts with, in order: the verdict and the binding limit's
-/// group (the CSV writer's straight line writes them first).
-const LEADING: [(&str, Col); 6] = [
-    ("verdict", Col::Verdict),
-    ("binding", Col::Binding),
-    ("binding_margin", Col::BindingMargin),
-    ("binding_margin_unit", Col::BindingUnit),
-    ("binding_relative_margin", Col::BindingRelative),
-    ("failing_limits", Col::Failing),
-];
-
 /// The output unit of each limit's margin.
 pub fn margin_units(c: &Classifier) -> Vec<MarginUnit> {
     c.limits.iter().map(LimitInfo::margin_unit).collect()
 }
 
-/// The computed columns for a classifier: names (with units) and kinds. Every row has the
-/// verdict, the binding limit with its margin (in that limit's unit) and relative margin, Vc,
-/// Vf and the impact pressure; `all` adds Vp (always there for collision-velocity input), the
-/// jetting critical angle and the margin of every limit.
-pub fn computed_columns(c: &Classifier, all: bool) -> (Vec<String>, Vec<Col>) {
-    let mut names: Vec<String> = LEADING.iter().map(|(n, _)| n.to_string()).collect();
-    let mut cols: Vec<Col> = LEADING.iter().map(|(_, c)| *c).collect();
-    if all || c.kind() == VelocityKind::Collision {
-        names.push("impact_velocity[m/s]".into());
-        cols.push(Col::ImpactVelocity);
-    }
-    for (n, k) in [
-        ("collision_velocity[m/s]", Col::CollisionVelocity),
-        ("flow_velocity[m/s]", Col::FlowVelocity),
-        ("impact_pressure[GPa]", Col::Pressure),
-    ] {
-        names.push(n.into());
-        cols.push(k);
-    }
-    if all && c.jetting_enabled() {
-        names.push("jetting_critical_angle[deg]".into());
-        cols.push(Col::JettingAngle);
-    }
-    if all {
-        for (k, (l, mu)) in c.limits.iter().zip(margin_units(c)).enumerate() {
-            names.push(l.map_column());
-            cols.push(Col::Margin(k, mu));
+/// The computed columns for a classifier and a column selection, in the map's order: names
+/// (with units) and kinds. The default set has the verdict, the binding limit with its margin
+/// (in that limit's unit), unit and relative margin, every failing limit, Vc, Vf and the impact
+/// pressure (and Vp for collision-velocity input); every set has the jetting critical angle only
+/// when jetting is on and `outside_trial_data` only when the window has boundaries.
+pub fn computed_columns(c: &Classifier, sel: &ColumnSelection) -> (Vec<String>, Vec<Col>) {
+    let mut out: Vec<(String, Col)> = Vec::new();
+    let mut push = |on: bool, name: &str, col: Col| {
+        if on {
+            out.push((name.to_string(), col));
         }
+    };
+    push(sel.verdict(), "verdict", Col::Verdict);
+    push(sel.binding(), "binding", Col::Binding);
+    push(sel.binding_margin(), "binding_margin", Col::BindingMargin);
+    push(
+        sel.binding_margin_unit(),
+        "binding_margin_unit",
+        Col::BindingUnit,
+    );
+    push(
+        sel.binding_relative_margin(),
+        "binding_relative_margin",
+        Col::BindingRelative,
+    );
+    push(sel.failing_limits(), "failing_limits", Col::Failing);
+    push(
+        sel.impact_velocity(c.kind() == VelocityKind::Collision),
+        "impact_velocity[m/s]",
+        Col::ImpactVelocity,
+    );
+    push(
+        sel.collision_velocity(),
+        "collision_velocity[m/s]",
+        Col::CollisionVelocity,
+    );
+    push(sel.flow_velocity(), "flow_velocity[m/s]", Col::FlowVelocity);
+    push(sel.impact_pressure(), "impact_pressure[GPa]", Col::Pressure);
+    push(
+        sel.jetting_critical_angle() && c.jetting_enabled(),
+        "jetting_critical_angle[deg]",
+        Col::JettingAngle,
+    );
+    for (k, (l, mu)) in c.limits.iter().zip(margin_units(c)).enumerate() {
+        push(sel.margin(&l.column), &l.map_column(), Col::Margin(k, mu));
     }
-    if c.has_boundaries() {
-        names.push("outside_trial_data".into());
-        cols.push(Col::Outside);
-    }
-    (names, cols)
+    push(
+        sel.outside_trial_data() && c.has_boundaries(),
+        "outside_trial_data",
+        Col::Outside,
+    );
+    out.into_iter().unzip()
 }
 
-/// The computed CSV columns as a straight line of writes, in the order [`computed_columns`]
-/// lays them out. (A loop over the columns with a match lets the compiler hoist and run every
-/// number conversion any column might need, on every row, needed or not.)
+/// The computed CSV columns as a straight line of writes, each behind its own (well
+/// predicted) test, in the order [`computed_columns`] lays them out. (A loop over the columns
+/// with a match lets the compiler hoist and run every number conversion any column might need,
+/// on every row, needed or not.)
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct CsvPlan {
+    pub(crate) verdict: bool,
+    pub(crate) binding: bool,
+    pub(crate) binding_margin: bool,
+    pub(crate) binding_unit: bool,
+    pub(crate) binding_relative: bool,
+    pub(crate) failing: bool,
     /// Write Vp.
     pub(crate) vp: bool,
+    pub(crate) vc: bool,
+    pub(crate) vf: bool,
+    pub(crate) pressure: bool,
     /// Write the jetting critical angle.
     pub(crate) jetting: bool,
     /// Write these limits' margins, in these units.
@@ -160,13 +181,19 @@ impl CsvPlan {
         let mut plan = Self::default();
         for c in cols {
             match *c {
+                Col::Verdict => plan.verdict = true,
+                Col::Binding => plan.binding = true,
+                Col::BindingMargin => plan.binding_margin = true,
+                Col::BindingUnit => plan.binding_unit = true,
+                Col::BindingRelative => plan.binding_relative = true,
+                Col::Failing => plan.failing = true,
                 Col::ImpactVelocity => plan.vp = true,
+                Col::CollisionVelocity => plan.vc = true,
+                Col::FlowVelocity => plan.vf = true,
+                Col::Pressure => plan.pressure = true,
                 Col::JettingAngle => plan.jetting = true,
                 Col::Margin(k, u) => plan.margins.push((k, u)),
                 Col::Outside => plan.outside = true,
-                Col::Verdict | Col::Binding | Col::BindingMargin | Col::BindingUnit => {}
-                Col::BindingRelative | Col::Failing => {}
-                Col::CollisionVelocity | Col::FlowVelocity | Col::Pressure => {}
             }
         }
         plan
@@ -174,13 +201,23 @@ impl CsvPlan {
 
     /// The columns this plan writes, in its order (checked against `computed_columns`).
     fn columns(&self) -> Vec<Col> {
-        let mut v: Vec<Col> = LEADING.iter().map(|(_, c)| *c).collect();
-        if self.vp {
-            v.push(Col::ImpactVelocity);
-        }
-        v.extend([Col::CollisionVelocity, Col::FlowVelocity, Col::Pressure]);
-        if self.jetting {
-            v.push(Col::JettingAngle);
+        let mut v = Vec::new();
+        for (on, c) in [
+            (self.verdict, Col::Verdict),
+            (self.binding, Col::Binding),
+            (self.binding_margin, Col::BindingMargin),
+            (self.binding_unit, Col::BindingUnit),
+            (self.binding_relative, Col::BindingRelative),
+            (self.failing, Col::Failing),
+            (self.vp, Col::ImpactVelocity),
+            (self.vc, Col::CollisionVelocity),
+            (self.vf, Col::FlowVelocity),
+            (self.pressure, Col::Pressure),
+            (self.jetting, Col::JettingAngle),
+        ] {
+            if on {
+                v.push(c);
+            }
         }
         v.extend(self.margins.iter().map(|&(k, u)| Col::Margin(k, u)));
         if self.outside {
@@ -199,9 +236,9 @@ impl<'a> Ctx<'a> {
         header: &'a Header,
         classifier: &'a Classifier,
         policy: BadRows,
-        all_columns: bool,
+        sel: &ColumnSelection,
     ) -> Self {
-        let (computed, cols) = computed_columns(classifier, all_columns);
+        let (computed, cols) = computed_columns(classifier, sel);
         let taken: Vec<&str> = std::iter::once("row")
             .chain(computed.iter().map(String::as_str))
             .collect();
@@ -254,7 +291,7 @@ impl<'a> Ctx<'a> {
         // Short constants: they always fit a word.
         let verdict_words: Vec<Word> = Prediction::ALL
             .iter()
-            .filter_map(|v| Word::new(format!(",{},", v.as_str()).as_bytes()))
+            .filter_map(|v| Word::new(format!(",{}", v.as_str()).as_bytes()))
             .collect();
         let outside_words: Vec<Word> = [b",true".as_slice(), b",false"]
             .iter()
@@ -310,6 +347,8 @@ impl<'a> Ctx<'a> {
             .collect(),
             verdict_words,
             binding_words,
+            row: sel.row(),
+            input: sel.input(),
             outside_words,
             csv_plan,
             row_bound,
@@ -330,12 +369,42 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Line breaks per chunk: [`super::CHUNK_LINES`], or fewer when the output's rows are wide,
+    /// so that a chunk's output stays about [`super::CHUNK_OUTPUT`] (an estimate per row: an
+    /// input line of 64 bytes where it is passed through, 16 bytes a computed value, the keys
+    /// of JSON lines).
+    pub fn chunk_lines(&self) -> usize {
+        let values = self.cols.len() + usize::from(self.row);
+        let mut row = 16 * values + 2;
+        if self.input {
+            row += 64;
+        }
+        if self.out_format == Format::Jsonl {
+            row += self.computed_keys.iter().map(Vec::len).sum::<usize>() + 8;
+            if self.input {
+                row += self
+                    .json_cell_keys
+                    .iter()
+                    .map(|k| k.len() + 16)
+                    .sum::<usize>();
+            }
+        }
+        (super::CHUNK_OUTPUT / row).clamp(256, super::CHUNK_LINES)
+    }
+
     /// The output header line (CSV only; JSON lines have none).
     pub fn csv_header(&self) -> Vec<u8> {
         let mut v = Vec::new();
-        v.extend_from_slice(b"row");
-        for c in self.out_cells.iter().chain(&self.computed) {
-            v.push(b',');
+        let row = self.row.then_some("row");
+        let cells = self.out_cells.iter().filter(|_| self.input);
+        for (i, c) in row
+            .into_iter()
+            .chain(cells.chain(&self.computed).map(String::as_str))
+            .enumerate()
+        {
+            if i > 0 {
+                v.push(b',');
+            }
             push_csv_field(&mut v, c.as_bytes());
         }
         v.push(b'\n');

@@ -41,8 +41,10 @@ pub struct Slot {
     pub seq: u64,
     /// Line number of the first record.
     pub first_line: u64,
-    /// Input bytes.
+    /// Input bytes (read from a stream).
     pub data: Vec<u8>,
+    /// Where the chunk lies in a mapped input (then `data` is unused).
+    pub range: Option<(usize, usize)>,
     /// Whether `data` holds a double quote (else every record is one plain line).
     pub has_quote: bool,
     /// Output text.
@@ -60,6 +62,14 @@ pub struct Slot {
 }
 
 impl Slot {
+    /// Input bytes in the chunk.
+    pub fn input_len(&self) -> usize {
+        match self.range {
+            Some((s, e)) => e - s,
+            None => self.data.len(),
+        }
+    }
+
     /// Empty the slot for the next chunk (its buffers keep their capacity).
     pub(super) fn reset(&mut self) {
         self.data.clear();

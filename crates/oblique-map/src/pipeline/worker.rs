@@ -16,11 +16,11 @@ use super::layout::Ctx;
 use super::slot::Slot;
 use crate::classifier::{Point, VelocityKind};
 use crate::format::{
-    fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, Counter, TextBuf,
+    fmt_g, fmt_short, is_json_number, push_csv_field, push_json_string, push_u64, TextBuf,
 };
 use crate::input::{
     json_object, json_reason, next_record, number_reason, parse_number, scan_plain, split_cell,
-    split_fields, split_plain_line, trim_spaces, Column, Fields,
+    split_fields, split_plain_record, trim_spaces, Column, Fields,
 };
 use crate::options::{BadRows, Format};
 use crate::record::{Lite, Rejected};
@@ -39,8 +39,6 @@ enum Cells<'r> {
 }
 
 pub(super) struct Worker {
-    /// The current row number as text.
-    row_text: Counter,
     fields: Fields,
     margins: Vec<f64>,
 }
@@ -59,7 +57,6 @@ impl Worker {
     /// A worker with empty scratch.
     pub(super) fn new() -> Self {
         Self {
-            row_text: Counter::default(),
             fields: Fields::default(),
             margins: Vec::new(),
         }
@@ -209,11 +206,17 @@ impl Worker {
     }
 
     /// Parse, classify and write every record of the slot's chunk.
-    pub(super) fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot) {
+    pub(super) fn process(&mut self, ctx: &Ctx<'_>, slot: &mut Slot, mapped: Option<&[u8]>) {
         let n_limits = ctx.classifier.limits.len();
         slot.stats.welded_min = vec![None; n_limits];
         slot.stats.unwelded_binding = vec![[0; 2]; n_limits];
-        let data = std::mem::take(&mut slot.data);
+        // A stream's chunk is taken out of the slot while its rows go in; a mapped one is read
+        // where it lies.
+        let owned = std::mem::take(&mut slot.data);
+        let data: &[u8] = match (slot.range, mapped) {
+            (Some((s, e)), Some(m)) => m.get(s..e).unwrap_or(&[]),
+            _ => &owned,
+        };
         let mut pos = 0;
         let mut line_no = slot.first_line;
         while pos < data.len() {
@@ -221,22 +224,18 @@ impl Worker {
             let (end, next, inside_nl, quoted) = match ctx.in_format {
                 Format::Csv if !slot.has_quote => {
                     // No quote in the whole chunk: every record is one line.
+                    // The fields and the line break in one pass (a `\r` before it is cut
+                    // from the last field below).
                     plain = true;
-                    let end = memchr::memchr(b'\n', &data[pos..]).map_or(data.len(), |p| pos + p);
-                    let content = if end > pos && data[end - 1] == b'\r' {
-                        end - 1
-                    } else {
-                        end
-                    };
-                    split_plain_line(&data[pos..content], &mut self.fields);
+                    let end = split_plain_record(data, pos, &mut self.fields);
                     (end, (end + 1).min(data.len()), 0, false)
                 }
-                Format::Csv => match scan_plain(&data, pos, &mut self.fields) {
+                Format::Csv => match scan_plain(data, pos, &mut self.fields) {
                     Some((end, next)) => {
                         plain = true;
                         (end, next, 0, false)
                     }
-                    None => next_record(&data, pos),
+                    None => next_record(data, pos),
                 },
                 Format::Jsonl => {
                     let nl = memchr::memchr(b'\n', &data[pos..]);
@@ -279,7 +278,7 @@ impl Worker {
                 }
             }
         }
-        slot.data = data;
+        slot.data = owned;
     }
 
     /// Classify one record and write its output row; the row's fault otherwise.
@@ -324,7 +323,7 @@ impl Worker {
         let out = &mut slot.out;
         let out_start = out.len();
         match ctx.out_format {
-            Format::Csv => csv_row(&mut self.row_text, ctx, &self.margins, out, row, &cells, &p),
+            Format::Csv => csv_row(ctx, &self.margins, out, row, &cells, &p),
             Format::Jsonl => {
                 slot.stats.non_utf8_cells += json_row(ctx, &self.margins, out, row, &cells, &p);
             }
@@ -400,10 +399,9 @@ fn json_cells(ctx: &Ctx<'_>, rec: &[u8]) -> Result<Map<String, Value>, Bad> {
 }
 
 /// One CSV output row: the row number, the input cells as written (a CSV line is copied
-/// whole), the computed columns.
+/// whole), the computed columns; each as the column selection has it.
 #[inline(always)]
 fn csv_row(
-    row_text: &mut Counter,
     ctx: &Ctx<'_>,
     margins: &[f64],
     out: &mut TextBuf,
@@ -412,46 +410,56 @@ fn csv_row(
     p: &Point,
 ) {
     let line_len = match cells {
-        Cells::Csv { line, .. } => line.len(),
-        Cells::Json { .. } => 0,
+        Cells::Csv { line, .. } if ctx.input => line.len(),
+        _ => 0,
     };
+    // The computed columns each start with a comma: a row without the row number and the
+    // input drops the first one.
+    let lead = ctx.row || ctx.input;
     let mut w = out.writer(ctx.row_bound + line_len);
-    w.word(row_text.get(row));
-    w.push(b',');
-    if let Cells::Csv { line, .. } = cells {
-        w.extend(line);
-        computed_csv(ctx, margins, &mut w, p);
-        w.push(b'\n');
-        let n = w.written();
-        out.commit(n);
-    } else {
-        let n = w.written();
-        out.commit(n);
+    if ctx.row {
+        w.u64(row);
     }
     match cells {
-        Cells::Csv { .. } => {}
-        Cells::Json { obj } => {
-            for (i, c) in ctx.header.cells.iter().enumerate() {
-                if i > 0 {
-                    out.push(b',');
+        Cells::Csv { line, .. } => {
+            if ctx.input {
+                if ctx.row {
+                    w.push(b',');
                 }
-                match obj.get(c) {
-                    None | Some(Value::Null) => {}
-                    Some(Value::String(s)) => out.csv_field(s.as_bytes()),
-                    Some(other) => out.csv_field(other.to_string().as_bytes()),
+                w.extend(line);
+            }
+            computed_csv(ctx, margins, &mut w, p);
+            w.push(b'\n');
+            let n = w.written();
+            out.commit_from(usize::from(!lead), n);
+        }
+        Cells::Json { obj } => {
+            let n = w.written();
+            out.commit(n);
+            if ctx.input {
+                for (i, c) in ctx.header.cells.iter().enumerate() {
+                    if i > 0 || ctx.row {
+                        out.push(b',');
+                    }
+                    match obj.get(c) {
+                        None | Some(Value::Null) => {}
+                        Some(Value::String(s)) => out.csv_field(s.as_bytes()),
+                        Some(other) => out.csv_field(other.to_string().as_bytes()),
+                    }
                 }
             }
             let mut w = out.writer(ctx.row_bound);
             computed_csv(ctx, margins, &mut w, p);
             w.push(b'\n');
             let n = w.written();
-            out.commit(n);
+            out.commit_from(usize::from(!lead), n);
         }
     }
 }
 
 /// One JSON-lines output row: the row number, the input cells (numbers of the mapped columns
-/// as numbers, other CSV cells as strings, JSON values as they were), the computed columns.
+/// as numbers, other CSV cells as strings, JSON values as they were), the computed columns;
+/// each as the column selection has it.
 #[inline(always)]
 fn json_row(
     ctx: &Ctx<'_>,
@@ -463,41 +471,51 @@ fn json_row(
 ) -> u64 {
     // Pass-through cells that are not UTF-8: JSON text cannot carry them (replaced, counted).
     let mut non_utf8 = 0;
-    out.extend(b"{\"row\":");
-    out.u64(row);
-    match cells {
-        Cells::Csv { line, fields } => {
-            for i in 0..ctx.header.cells.len() {
-                out.push(b',');
-                out.extend(&ctx.json_cell_keys[i]);
-                let text = fields.get(line, i).unwrap_or(b"");
-                if ctx.cell_role[i].is_some() {
-                    let t = trim_spaces(text);
-                    if is_json_number(t) {
-                        out.extend(t);
-                    } else {
-                        // Parsed before, so it is a finite number.
-                        let x = parse_number(t).unwrap_or(f64::NAN);
-                        out.extend(fmt_g(x).as_bytes());
+    out.push(b'{');
+    if ctx.row {
+        out.extend(b"\"row\":");
+        out.u64(row);
+    }
+    let mut comma = ctx.row;
+    if ctx.input {
+        match cells {
+            Cells::Csv { line, fields } => {
+                for i in 0..ctx.header.cells.len() {
+                    if std::mem::replace(&mut comma, true) {
+                        out.push(b',');
                     }
-                } else {
-                    non_utf8 += u64::from(std::str::from_utf8(text).is_err());
-                    out.json_string(text);
+                    out.extend(&ctx.json_cell_keys[i]);
+                    let text = fields.get(line, i).unwrap_or(b"");
+                    if ctx.cell_role[i].is_some() {
+                        let t = trim_spaces(text);
+                        if is_json_number(t) {
+                            out.extend(t);
+                        } else {
+                            // Parsed before, so it is a finite number.
+                            let x = parse_number(t).unwrap_or(f64::NAN);
+                            out.extend(fmt_g(x).as_bytes());
+                        }
+                    } else {
+                        non_utf8 += u64::from(std::str::from_utf8(text).is_err());
+                        out.json_string(text);
+                    }
                 }
             }
-        }
-        Cells::Json { obj } => {
-            for (i, c) in ctx.header.cells.iter().enumerate() {
-                out.push(b',');
-                out.extend(&ctx.json_cell_keys[i]);
-                match obj.get(c) {
-                    Some(v) => out.extend(v.to_string().as_bytes()),
-                    None => out.extend(b"null"),
+            Cells::Json { obj } => {
+                for (i, c) in ctx.header.cells.iter().enumerate() {
+                    if std::mem::replace(&mut comma, true) {
+                        out.push(b',');
+                    }
+                    out.extend(&ctx.json_cell_keys[i]);
+                    match obj.get(c) {
+                        Some(v) => out.extend(v.to_string().as_bytes()),
+                        None => out.extend(b"null"),
+                    }
                 }
             }
         }
     }
-    computed_json(ctx, margins, out, p);
+    computed_json(ctx, margins, out, p, comma);
     out.extend(b"}\n");
     non_utf8
 }

@@ -171,6 +171,7 @@ fn question(input: &ReportInput<'_>, c: &Classification) -> String {
 fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
     let w = input.window;
     let word = match (c.inside, c.outside_trial_data) {
+        _ if !c.domain.inside() => "OUTSIDE THE VALIDITY DOMAIN: no verdict claimed",
         (true, false) => "INSIDE the window",
         (true, true) => "INSIDE the model limits, but OUTSIDE the trial data",
         (false, _) => "OUTSIDE the window",
@@ -207,7 +208,7 @@ fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
                 esc(&p.method)
             );
         }
-        None => h.push_str("<p class=\"probability small\">No weld probability is given: this version screens against limits and trials; it does not estimate a probability.</p>\n"),
+        None => h.push_str("<p class=\"probability small\">No weld probability was asked for: give the scatter of the set-up (--velocity-sd, --angle-sd) to have one stated here.</p>\n"),
     }
     let _ = writeln!(
         h,

@@ -179,9 +179,18 @@ pub fn command_line() -> String {
 pub fn record_time(source_date_epoch: Option<&str>, now: i64) -> Result<(String, bool), String> {
     let (secs, fixed) = match source_date_epoch {
         Some(s) => (
-            s.trim().parse::<i64>().map_err(|_| {
-                format!("SOURCE_DATE_EPOCH='{s}' is not a whole number of seconds since 1970-01-01")
-            })?,
+            // The reproducible-builds convention: a non-negative whole number of seconds; a
+            // year past 9999 would not print as a date either.
+            s.trim()
+                .parse::<i64>()
+                .ok()
+                .filter(|v| (0..=253_402_300_799).contains(v))
+                .ok_or_else(|| {
+                    format!(
+                        "SOURCE_DATE_EPOCH='{}' is not a whole number of seconds from 1970-01-01 to 9999-12-31",
+                        oblique_window::text::short(s, 40)
+                    )
+                })?,
             true,
         ),
         None => (now, false),

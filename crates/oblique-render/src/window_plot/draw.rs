@@ -202,7 +202,7 @@ fn draw_probability(
     let s = &c.grid.scatter;
     section.push(Entry::new(
         format!(
-            "under the stated scatter: {}; {} draws per node, seed {}; conditional on the model (docs/theory.md, section 15)",
+            "under the stated scatter: {}; {} draws per node, seed {}; drawn inside the validity domain only; conditional on the model (docs/theory.md, section 15)",
             s.text(),
             c.grid.samples,
             c.grid.seed
@@ -770,7 +770,10 @@ fn role_index(r: PointRole) -> usize {
 fn point_text(w: &PairWindow, p: &ProposedPoint) -> String {
     let verdict = classify_point(w, p.velocity_m_s, p.angle_rad)
         .map(|c| {
-            if c.inside {
+            if !c.domain.inside() {
+                // No limit's word is claimed where the relations are not claimed to hold.
+                "outside the validity domain".to_string()
+            } else if c.inside {
                 "inside".to_string()
             } else {
                 format!("outside: {}", binding_text(w, &c))

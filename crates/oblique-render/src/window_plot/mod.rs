@@ -152,7 +152,12 @@ fn x_of(window: &PairWindow, plane: Plane, vp: f64, beta: f64) -> Option<f64> {
     }
 }
 
-fn collision_at(window: &PairWindow, plane: Plane, x: f64, beta_deg: f64) -> Option<Collision> {
+pub(crate) fn collision_at(
+    window: &PairWindow,
+    plane: Plane,
+    x: f64,
+    beta_deg: f64,
+) -> Option<Collision> {
     let beta = Angle::from_degrees(beta_deg);
     match plane {
         Plane::AngleImpactVelocity => {

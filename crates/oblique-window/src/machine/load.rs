@@ -51,8 +51,11 @@ fn user_machine_files(
             continue;
         }
         let display = p.display().to_string();
-        match std::fs::read_to_string(&p) {
-            Ok(text) => out.push((display, p.clone(), text)),
+        match crate::files::read_text_bounded(&p) {
+            Ok(text) => {
+                crate::files::protect(&p);
+                out.push((display, p.clone(), text));
+            }
             Err(e) => problems.push(Diagnostic {
                 file: display,
                 line: 1,
@@ -315,6 +318,9 @@ pub fn render_calibration(e: &CalibrationEntry) -> String {
         field("flyer_thickness", t);
     }
     field("settings", &e.settings);
+    if let Some(u) = &e.velocity_uncertainty {
+        field("velocity_uncertainty", u);
+    }
     field("source", &e.source);
     s.push_str("        ),\n");
     s

@@ -374,6 +374,26 @@ fn calibration(c: &mut Collector<'_>, i: usize, e: &CalibrationEntry) -> Option<
         Some(t) => Some(c.quantity(&format!("{p}.flyer_thickness"), t, QuantityKind::Length)?),
         None => None,
     };
+    let vu = e.velocity_uncertainty.as_deref().and_then(|t| {
+        let field = format!("{p}.velocity_uncertainty");
+        let rel = match t.trim().strip_suffix('%') {
+            Some(pct) => pct.trim().parse::<f64>().ok().map(|x| x / 100.0),
+            None => c
+                .quantity(&field, t, QuantityKind::Velocity)
+                .and_then(|a| v.map(|v| a / v)),
+        };
+        match rel {
+            Some(r) if (0.0..=1.0).contains(&r) => Some(r),
+            _ => {
+                c.push(
+                    &field,
+                    format!("'{t}' is not a velocity uncertainty between 0 and the velocity"),
+                    Some("write it like \"3 %\" or \"12 m/s\"".into()),
+                );
+                None
+            }
+        }
+    });
     let eta = eta.filter(|x| *x > 0.0 && *x <= 1.0)?;
     Some(Calibration {
         index: i,
@@ -387,6 +407,7 @@ fn calibration(c: &mut Collector<'_>, i: usize, e: &CalibrationEntry) -> Option<
         flyer: e.flyer.clone(),
         flyer_thickness: h.map(Length::from_m),
         settings: e.settings.clone(),
+        velocity_uncertainty: vu,
         source: e.source.clone(),
     })
 }
@@ -404,6 +425,7 @@ pub fn parse_machine_file(
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let parsed: MachineFile = parse_ron(&file, text)?;
     let mut c = Collector::new(&file, text);
+    c.check_placeholders();
     c.check_format(&parsed.format, MACHINE_FORMAT);
     c.check_name(&parsed.name, "name", "shop-bank-300uf");
     if parsed.maintainer.trim().is_empty() {

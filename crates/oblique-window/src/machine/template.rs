@@ -187,6 +187,10 @@ mod tests {
                 assert!(filled.contains(from), "{kind:?}: {from}");
                 filled = filled.replace(from, to);
             }
+            // Values filled, sources and description still the template's: refused.
+            let err = parse_machine_file(origin(), &filled).expect_err("placeholders left");
+            assert!(err.to_string().contains("placeholder"), "{kind:?}: {err}");
+            let filled = filled.replace("\"FILL IN: ", "\"shop record: ");
             parse_machine_file(origin(), &filled)
                 .unwrap_or_else(|e| panic!("{kind:?} filled in:\n{e}\n{filled}"));
         }

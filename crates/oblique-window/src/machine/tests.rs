@@ -84,6 +84,7 @@ fn calibration_append_keeps_the_file_and_validates() {
         flyer: Some("aa6061-t6".into()),
         flyer_thickness: Some("1 mm".into()),
         settings: "test".into(),
+        velocity_uncertainty: Some("12 m/s".into()),
         source: "record \"7\"".into(),
     };
     let once = append_calibration_text(Path::new("b.ron"), BANK, &entry).unwrap();

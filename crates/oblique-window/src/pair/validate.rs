@@ -184,6 +184,11 @@ pub(super) fn boundaries(c: &mut Collector, parsed: &PairFile) -> Vec<Boundary> 
         if b.label.trim().is_empty() {
             c.push(&format!("{base}.label"), "a boundary needs a label", None);
         }
+        for (field, value) in [("label", &b.label), ("provenance", &b.provenance)] {
+            if let Some(p) = crate::text::one_line_problem(value) {
+                c.push(&format!("{base}.{field}"), p, None);
+            }
+        }
         if b.provenance.trim().is_empty() {
             c.push(
                 &format!("{base}.provenance"),
@@ -351,6 +356,9 @@ pub(super) fn observations(c: &mut Collector, parsed: &PairFile) -> Vec<Observat
                 "an observation needs its source (report, shot log, paper)",
                 None,
             );
+        }
+        if let Some(p) = crate::text::one_line_problem(&o.source) {
+            c.push(&format!("{base}.source"), p, Some("a source is one line: a report number, a shot log, a paper; put the rest in `note`".into()));
         }
         let vu = o.velocity_uncertainty.as_ref().and_then(|t| {
             c.quantity(

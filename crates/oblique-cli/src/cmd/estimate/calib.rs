@@ -40,6 +40,10 @@ fn fit(
         charge,
         standoff: Length::from_m(standoff),
         measured_velocity: Velocity::from_m_s(c.measured_velocity),
+        velocity_uncertainty: c.measured_velocity_sd.map(|s| match s {
+            oblique_confidence::VelocitySpread::Relative(r) => r,
+            oblique_confidence::VelocitySpread::Absolute(a) => a / c.measured_velocity,
+        }),
         source: c.source.clone(),
         date: c.date.clone().unwrap_or_else(today),
         save: c.save,
@@ -119,7 +123,7 @@ pub fn run_export(dirs: &[PathBuf], name: &str) -> CmdResult {
     let rec = machines.get(name).map_err(Fail::input)?;
     match &rec.origin.path {
         Some(p) => {
-            let text = std::fs::read_to_string(p)
+            let text = oblique_window::files::read_text_bounded(p)
                 .map_err(|e| Fail::other(format!("cannot read {}: {e}", p.display())))?;
             emit(&text)
         }

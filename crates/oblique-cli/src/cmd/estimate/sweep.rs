@@ -27,7 +27,7 @@ fn run(dirs: &[PathBuf], process: MagneticRequest, c: &SweepCommon) -> CmdResult
             "--plot",
             p,
             &[FileFormat::Svg, FileFormat::Png],
-            None,
+            Some(FileFormat::Svg),
         )?),
         None => None,
     };

@@ -18,7 +18,7 @@ impl AtomicFile {
     /// Create the file for `dest`; `flag` names it in messages.
     pub fn create(dest: &Path, flag: &str) -> CmdResult<Self> {
         let file = oblique_window::write::StagedFile::create(dest)
-            .map_err(|e| Fail::input(format!("{flag}: cannot create {}: {e}", dest.display())))?;
+            .map_err(|e| flagged(flag, "create", dest, e))?;
         if let Some(n) = file.target().note(dest) {
             eprintln!("note: {n}");
         }
@@ -105,8 +105,15 @@ impl Write for Out {
 
 /// Write a whole file (the summary JSON, the plots) safely (`oblique_window::write::
 /// atomic_write`: atomic for regular files, in place for pipes and devices, links followed);
-/// a failure is the user's path (exit 2).
+/// a failure exits as [`crate::common::write_fail`] says (2 for the user's path, 1 for IO).
 pub fn write_file(path: &Path, flag: &str, bytes: &[u8]) -> CmdResult {
     oblique_window::write::atomic_write(path, bytes, None)
-        .map_err(|e| Fail::input(format!("{flag}: cannot write {}: {e}", path.display())))
+        .map_err(|e| flagged(flag, "write", path, e))
+}
+
+/// A failed write naming the flag, with the exit code of [`crate::common::write_fail`].
+fn flagged(flag: &str, what: &str, path: &Path, e: oblique_window::write::WriteError) -> Fail {
+    let message = format!("{flag}: cannot {what} {}: {e}", path.display());
+    let code = crate::common::write_fail(e).code;
+    Fail { message, code }
 }

@@ -44,7 +44,7 @@ pub struct BoundaryAddArgs {
     /// Pair name.
     pub name: String,
     /// What the line is, e.g. "lowest welding velocity (series S-11)".
-    #[arg(long, value_name = "TEXT")]
+    #[arg(long, value_name = "TEXT", value_parser = crate::qarg::one_line_text)]
     pub label: String,
     /// The plane the points are in.
     #[arg(long, value_enum, ignore_case = true)]
@@ -56,10 +56,10 @@ pub struct BoundaryAddArgs {
     #[arg(long = "weld-side", alias = "welds", value_enum, ignore_case = true)]
     pub weld_side: SideArg,
     /// Who drew the line, from which trials or paper.
-    #[arg(long, alias = "source", value_name = "TEXT")]
+    #[arg(long, alias = "source", value_name = "TEXT", value_parser = crate::qarg::one_line_text)]
     pub provenance: String,
     /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
-    #[arg(long = "if-unchanged", value_name = "SHA256")]
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
     pub if_unchanged: Option<String>,
     /// Print JSON.
     #[arg(long)]

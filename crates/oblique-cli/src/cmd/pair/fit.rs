@@ -100,25 +100,31 @@ pub fn run_fit(dirs: &[PathBuf], a: FitArgs) -> CmdResult {
         }
         oblique_window::write::save_fitted(&path, &fitted, &lib.materials, Some(&w.origin.sha256))
             .map_err(write_fail)?;
-        saved = Some(path);
+        saved = Some((path, fitted.cautions(w.observations.len())));
     }
     if a.json {
         let mut v = r.json();
         if let Some(o) = v.as_object_mut() {
             o.insert(
                 "saved_to".into(),
-                serde_json::json!(saved.as_ref().map(|p| p.display().to_string())),
+                serde_json::json!(saved.as_ref().map(|(p, _)| p.display().to_string())),
             );
+            if let Some((_, cautions)) = &saved {
+                o.insert("saved_cautions".into(), serde_json::json!(cautions));
+            }
         }
         return emit_json(&v);
     }
     let mut text = r.text();
-    if let Some(p) = saved {
+    if let Some((p, cautions)) = saved {
         text.push_str(&format!(
             "saved the fitted constants into {} (section `fitted`); `oblique check --pair {}` now uses them\n",
             p.display(),
             w.name
         ));
+        for c in cautions {
+            text.push_str(&format!("  caution: {c}\n"));
+        }
     }
     emit(&text)
 }

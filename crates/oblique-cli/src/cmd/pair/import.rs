@@ -104,7 +104,7 @@ pub(super) fn line_of(bytes: &[u8], offset: u64) -> u64 {
 
 pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEntry)>> {
     let display = file.display().to_string();
-    let bytes = std::fs::read(file).map_err(|e| Fail::input(format!("{display}: {e}")))?;
+    let bytes = crate::common::read_input(file)?;
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
         .from_reader(&bytes[..]);
@@ -212,6 +212,27 @@ pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEnt
             source: get("source").unwrap_or_default(),
             note: get("note"),
         };
+        for (field, value, kind) in [
+            (
+                "velocity_uncertainty",
+                &entry.velocity_uncertainty,
+                QuantityKind::Velocity,
+            ),
+            (
+                "angle_uncertainty",
+                &entry.angle_uncertainty,
+                QuantityKind::Angle,
+            ),
+        ] {
+            // Checked here with every other field, so that one run lists every problem.
+            if let Some(x) = value.as_deref().and_then(|t| parse_quantity(t, kind).ok()) {
+                if x < 0.0 {
+                    problems.push(format!(
+                        "{display}:{row}: field '{field}': must not be negative (an uncertainty is a spread)"
+                    ));
+                }
+            }
+        }
         if oblique_window::Outcome::parse(&entry.outcome).is_none() {
             problems.push(format!("{display}:{row}: field 'outcome': unknown outcome '{}'\n  hint: use welded, not-welded, partial or melted", entry.outcome));
         }
@@ -224,6 +245,9 @@ pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEnt
         }
         if entry.source.is_empty() {
             problems.push(format!("{display}:{row}: field 'source' is empty"));
+        }
+        if let Some(p) = oblique_window::text::one_line_problem(&entry.source) {
+            problems.push(format!("{display}:{row}: field 'source': {p}"));
         }
         if let Ok(rad) = parse_quantity(&entry.angle, QuantityKind::Angle) {
             let d = rad.to_degrees();
@@ -261,7 +285,7 @@ pub(super) fn precheck_import(
     rows: &[(u64, ObservationEntry)],
     lib: &Library,
 ) -> CmdResult {
-    let Ok(text) = std::fs::read_to_string(pair_path) else {
+    let Ok(text) = oblique_window::files::read_text_bounded(pair_path) else {
         return Ok(()); // the append itself reports an unreadable file
     };
     let origin = |t: &str| Origin {

@@ -23,7 +23,7 @@ pub(super) fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdRe
         for f in files {
             let display = f.display().to_string();
             checked.push(display.clone());
-            let text = match std::fs::read_to_string(f) {
+            let text = match oblique_window::files::read_text_bounded(f) {
                 Ok(t) => t,
                 Err(e) => {
                     problems.push(oblique_window::Diagnostic {

@@ -1,6 +1,7 @@
 //! What `pair list`, `pair show` and `pair agreement` print: tables, text and JSON.
 
 use super::*;
+use oblique_window::text::one_line;
 
 pub(super) fn pair_summary_json(w: &PairWindow) -> Value {
     json!({
@@ -111,10 +112,12 @@ pub(super) fn show_human(w: &PairWindow) -> String {
     }
     s.push_str(&format!(
         "file: {} (sha256 {})\nmaintainer: {}\n",
-        w.origin.display, w.origin.sha256, w.maintainer
+        w.origin.display,
+        w.origin.sha256,
+        one_line(&w.maintainer)
     ));
     for r in &w.revisions {
-        s.push_str(&format!("  {}  {}\n", r.date, r.note));
+        s.push_str(&format!("  {}  {}\n", one_line(&r.date), one_line(&r.note)));
     }
     let c = &w.criteria;
     s.push_str("\ncriteria:\n");
@@ -171,11 +174,11 @@ pub(super) fn show_human(w: &PairWindow) -> String {
             .collect();
         s.push_str(&format!(
             "  \"{}\" [{}], welds {}: {}\n    provenance: {}\n",
-            b.label,
+            one_line(&b.label),
             b.plane.as_str(),
             b.weld_side.as_str(),
             pts.join(" "),
-            b.provenance
+            one_line(&b.provenance)
         ));
     }
     s.push_str(&format!("\nobservations: {}\n", w.observations.len()));
@@ -190,8 +193,8 @@ pub(super) fn show_human(w: &PairWindow) -> String {
                 o.outcome.as_str().into(),
                 o.process.clone(),
                 o.method.clone(),
-                o.date.clone().unwrap_or_default(),
-                o.source.clone(),
+                one_line(o.date.as_deref().unwrap_or_default()).into_owned(),
+                one_line(&o.source).into_owned(),
             ]
         })
         .collect();
@@ -259,6 +262,10 @@ pub(super) fn agreement_human(w: &PairWindow, a: &oblique_window::Agreement) -> 
                 d.source
             ));
         }
+        s.push_str(&format!(
+            "what constants would fit: `oblique pair fit {}` fits the Deribas and Wittman constants to every trial (maximum likelihood, with intervals; --save stores them)\n",
+            w.name
+        ));
     }
     if !a.outside_domain.is_empty() {
         s.push_str("\noutside the validity domain (no verdict claimed there; neither agreement nor disagreement):\n");
