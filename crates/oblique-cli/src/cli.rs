@@ -30,6 +30,12 @@ pub struct Cli {
 pub enum Command {
     /// Check one process point against the classical window criteria (or a pair window).
     Check(cmd::check::CheckArgs),
+    /// Show the worked example of a check: every step from the inputs to the verdict, with the numbers.
+    Explain(cmd::explain::ExplainArgs),
+    /// Walk one control (the angle, or the impact velocity) with the other fixed: every derived quantity, the window's entry and exit.
+    Trade(cmd::trade::TradeArgs),
+    /// Find the point (or the set-up of a machine and coil family) that keeps the most room to every limit in your scatter.
+    Aim(cmd::aim::AimArgs),
     /// List and show the material library.
     #[command(subcommand)]
     Material(cmd::material::MaterialCommand),
@@ -64,6 +70,9 @@ impl Cli {
         let dirs = &self.library;
         match self.command {
             Command::Check(a) => cmd::check::run(dirs, a),
+            Command::Explain(a) => cmd::explain::run(dirs, a),
+            Command::Trade(a) => cmd::trade::run(dirs, a),
+            Command::Aim(a) => cmd::aim::run(dirs, a),
             Command::Material(c) => cmd::material::run(dirs, c),
             Command::Pair(c) => cmd::pair::run(dirs, c),
             Command::Map(a) => cmd::map::run(dirs, a),

@@ -468,6 +468,174 @@ pub fn record_provenance(
     })
 }
 
+/// The window of `a`: the pair window (with `--parent-thickness` and the constant flags
+/// applied), or one made on the spot from `--flyer`, `--parent`, `--flyer-thickness`,
+/// `--convention` and `--process`; refused when a constant flag empties it. With it, the note
+/// on constants fitted to the pair's trials (and which flags override them), if any.
+///
+/// # Errors
+/// [`Fail::input`] naming the flag: an unknown pair or material, a missing flag, a constant
+/// that empties the window.
+pub fn window_from(
+    lib: &Library,
+    a: &crate::args::WindowArgs,
+) -> CmdResult<(PairWindow, Option<String>)> {
+    let mut window = match &a.pair {
+        Some(name) => lib
+            .pair(name)
+            .map_err(|m| Fail::input(format!("--pair: {m}")))?
+            .clone(),
+        None => {
+            let convention = need(
+                a.convention,
+                "--convention",
+                "bisector, normal-to-flyer or normal-to-parent (the convention is never guessed)",
+            )?;
+            ad_hoc_window(
+                lib,
+                &need(a.flyer.clone(), "--flyer", "a material id")?,
+                &need(a.parent.clone(), "--parent", "a material id")?,
+                need(
+                    a.flyer_thickness,
+                    "--flyer-thickness",
+                    "a length such as 1mm",
+                )?,
+                a.parent_thickness,
+                convention.into(),
+                a.process.map(crate::args::ProcessArg::as_str),
+            )?
+        }
+    };
+    if let Some(t) = a.parent_thickness {
+        window.parent_thickness = Some(Length::from_m(t));
+    }
+    let note = fitted_note(&window, &a.constants);
+    window.criteria = a.constants.apply(window.criteria.clone());
+    refuse_empty_window(&window, &a.constants)?;
+    Ok((window, note))
+}
+
+/// "constants fitted to N trials ...", with each fitted constant and its interval, and a word
+/// when a flag overrides one.
+pub fn fitted_note(window: &PairWindow, flags: &crate::args::ConstantArgs) -> Option<String> {
+    let f = window.fitted.as_ref()?;
+    let mut s = format!("constants {}:", f.summary());
+    for (key, v) in f.constants() {
+        s.push_str(&format!(
+            " {key} {} ({} % interval {})",
+            oblique_confidence::present::num(v.value),
+            oblique_confidence::present::num(100.0 * f.level),
+            oblique_confidence::present::interval(v.low, v.high)
+        ));
+        let overridden = match key {
+            "deribas_k" => flags.deribas_k.is_some(),
+            "wittman_n" => flags.wittman_n.is_some(),
+            "hel_multiple" => flags.hel_multiple.is_some(),
+            _ => false,
+        };
+        if overridden {
+            s.push_str(" [the flag overrides it]");
+        }
+        s.push(';');
+    }
+    s.pop();
+    s.push('\n');
+    for c in f.cautions(window.observations.len()) {
+        s.push_str(&format!("  caution: {c}\n"));
+    }
+    Some(s)
+}
+
+/// The weld probability of the point the user gave (`--velocity-sd`, `--angle-sd`, ...), when
+/// any scatter flag asks for it: the velocity scattered as given (Vp or Vc, in the convention
+/// given).
+///
+/// # Errors
+/// A scatter setting out of range, naming its flag.
+pub fn point_probability(
+    window: &PairWindow,
+    point: &Collision,
+    a: &crate::args::PointArgs,
+) -> CmdResult<Option<oblique_confidence::WeldProbability>> {
+    if !a.scatter.asked() {
+        return Ok(None);
+    }
+    let p = oblique_confidence::Point {
+        convention: point.convention,
+        velocity: match (a.velocity.velocity, a.velocity.collision_velocity) {
+            (Some(v), _) => oblique_confidence::PointVelocity::Impact(v),
+            (None, Some(v)) => oblique_confidence::PointVelocity::Collision(v),
+            (None, None) => oblique_confidence::PointVelocity::Impact(point.impact_velocity.si()),
+        },
+        angle_rad: a.angle,
+    };
+    Ok(Some(oblique_confidence::weld_probability(
+        window,
+        &p,
+        &a.scatter.scatter(),
+        &a.scatter
+            .sampling(oblique_confidence::scatter::DEFAULT_SAMPLES),
+    )?))
+}
+
+/// A window made on the spot for a process estimate (`--parent` and `--convention`, with the
+/// flyer and its thickness of the set-up), put into the catalog under its name; the name is
+/// returned for the request's pair. The same default criteria as `check` without `--pair`,
+/// for `process`.
+///
+/// # Errors
+/// [`Fail::input`] naming the missing or unknown flag.
+pub fn adhoc_pair(
+    catalog: &mut Catalog,
+    flyer: Option<&str>,
+    thickness: Option<f64>,
+    parent: &str,
+    convention: Option<ConventionArg>,
+    process: &str,
+) -> CmdResult<String> {
+    let flyer = need(
+        flyer,
+        "--flyer",
+        "the flyer's material id with --parent, e.g. aa6061-t6",
+    )?;
+    let thickness = need(
+        thickness,
+        "--flyer-thickness",
+        "the flyer's thickness with --parent, e.g. 1mm",
+    )?;
+    let convention = need(
+        convention,
+        "--convention",
+        "bisector, normal-to-flyer or normal-to-parent with --parent (the convention is never guessed)",
+    )?;
+    let w = ad_hoc_window(
+        &catalog.library,
+        flyer,
+        parent,
+        thickness,
+        None,
+        convention.into(),
+        Some(process),
+    )?;
+    let name = w.name.clone();
+    catalog.library.pairs.insert(name.clone(), w);
+    Ok(name)
+}
+
+/// The flyer id and thickness (m) a magnetic request names.
+pub fn request_flyer(p: &oblique_setup::MagneticRequest) -> (Option<&str>, Option<f64>) {
+    match p {
+        oblique_setup::MagneticRequest::Tube(t) => (
+            t.flyer.as_deref(),
+            t.flyer_thickness.map(oblique_core::units::Length::si),
+        ),
+        oblique_setup::MagneticRequest::Sheet(s) => (
+            s.flyer.as_deref(),
+            s.flyer_thickness.map(oblique_core::units::Length::si),
+        ),
+    }
+}
+
 /// The weld probability of the chosen set-up, when the scatter flags ask for it (or `always`): under the stated
 /// scatter (a process estimate: the velocity spread of its efficiency's provenance unless
 /// --velocity-sd is given; the angle 1 deg unless --angle-sd is).

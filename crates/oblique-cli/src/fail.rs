@@ -86,3 +86,13 @@ impl From<oblique_confidence::ConfidenceError> for Fail {
         }
     }
 }
+
+impl From<oblique_aim::AimError> for Fail {
+    fn from(e: oblique_aim::AimError) -> Self {
+        if e.is_input() {
+            Fail::input(e.to_string())
+        } else {
+            Fail::other(e.to_string())
+        }
+    }
+}

@@ -46,6 +46,7 @@ parser!(inductance, QuantityKind::Inductance);
 parser!(resistance, QuantityKind::Resistance);
 parser!(energy, QuantityKind::Energy);
 parser!(frequency, QuantityKind::Frequency);
+parser!(current, QuantityKind::Current);
 
 /// The range of every velocity flag (m/s): below 1 mm/s nothing collides, above 100 km/s no
 /// launcher reaches (common practice bounds; the physics is not evaluated outside them).
@@ -297,23 +298,97 @@ pub fn level(s: &str) -> Result<f64, String> {
     Ok(v / 100.0)
 }
 
-fn range(s: &str, one: fn(&str) -> Result<f64, String>) -> Result<(f64, f64), String> {
-    let (a, b) = s
-        .split_once("..")
-        .ok_or_else(|| format!("'{s}' is not LOW..HIGH (for example 300m/s..700m/s)"))?;
-    let (a, b) = (one(a)?, one(b)?);
-    if !(a < b) {
-        return Err(format!("'{s}': the low end must be below the high end"));
+/// The kind of quantity `s` reads as, for a message about a range that mixes kinds.
+fn kind_of(s: &str) -> Option<QuantityKind> {
+    [
+        QuantityKind::Velocity,
+        QuantityKind::Angle,
+        QuantityKind::Length,
+        QuantityKind::Voltage,
+        QuantityKind::Energy,
+        QuantityKind::Pressure,
+        QuantityKind::Current,
+        QuantityKind::Capacitance,
+        QuantityKind::Inductance,
+        QuantityKind::Time,
+        QuantityKind::Frequency,
+        QuantityKind::Temperature,
+        QuantityKind::Density,
+    ]
+    .into_iter()
+    .find(|k| parse_quantity(s, *k).is_ok())
+}
+
+/// A range `A..B` of one kind of quantity (SI), the smaller end first, both with their units.
+/// A bare number, an end of another kind (`2deg..800m/s`), an empty or reversed range are
+/// refused with a message that says which.
+pub fn range(s: &str, kind: QuantityKind) -> Result<(f64, f64), String> {
+    let Some((a, b)) = s.split_once("..") else {
+        return Err(format!(
+            "expected a range A..B, e.g. {}..{} ({} with its unit at both ends)",
+            kind.example(),
+            kind.example(),
+            kind.describe()
+        ));
+    };
+    let end = |t: &str, which: &str| -> Result<f64, String> {
+        parse_quantity(t, kind).map_err(|e| match kind_of(t) {
+            Some(other) if other != kind => format!(
+                "the range mixes kinds of quantity: its {which} end '{}' is {}, not {} (both ends need the same kind, e.g. {})",
+                t.trim(),
+                other.describe(),
+                kind.describe(),
+                kind.example()
+            ),
+            _ => format!("the range's {which} end: {e}"),
+        })
+    };
+    let (x, y) = (end(a, "lower")?, end(b, "upper")?);
+    if x == y {
+        return Err(format!(
+            "the range '{s}' is empty: give two different ends, the smaller first"
+        ));
+    }
+    if x > y {
+        return Err(format!(
+            "the range '{s}' is reversed: give the smaller end first"
+        ));
+    }
+    Ok((x, y))
+}
+
+/// A range of collision angles, each strictly between 0 and 90 deg, e.g. `2deg..30deg`.
+pub fn angle_range(s: &str) -> Result<(f64, f64), String> {
+    let (a, b) = range(s, QuantityKind::Angle)?;
+    if !(a > 0.0 && b < std::f64::consts::FRAC_PI_2) {
+        return Err(format!(
+            "{:.3} to {:.3} deg leaves (0, 90) deg: every angle must be an oblique collision",
+            a.to_degrees(),
+            b.to_degrees()
+        ));
     }
     Ok((a, b))
 }
 
-/// A velocity range LOW..HIGH, both ends with units.
+/// A range of velocities above zero within [`VELOCITY_RANGE_M_S`], e.g. `200m/s..800m/s`.
 pub fn velocity_range(s: &str) -> Result<(f64, f64), String> {
-    range(s, positive_velocity)
-}
-
-/// An angle range LOW..HIGH inside (0, 90) deg, both ends with units (radians inside).
-pub fn angle_range(s: &str) -> Result<(f64, f64), String> {
-    range(s, angle)
+    let (a, b) = range(s, QuantityKind::Velocity)?;
+    if !(a > 0.0) {
+        return Err("velocities must be above zero".into());
+    }
+    within(
+        b,
+        VELOCITY_RANGE_M_S,
+        "velocity",
+        "m/s",
+        "1 mm/s to 100 km/s",
+    )?;
+    within(
+        a,
+        VELOCITY_RANGE_M_S,
+        "velocity",
+        "m/s",
+        "1 mm/s to 100 km/s",
+    )?;
+    Ok((a, b))
 }

@@ -146,7 +146,7 @@ pub struct Input {
 
 /// The constant's value in use and its distribution: fitted (from the pair file's `fitted`
 /// section) or the prior around the value in use.
-pub(crate) fn constant_distribution(
+pub fn constant_distribution(
     window: &PairWindow,
     constant: Constant,
     value_in_use: f64,
@@ -207,7 +207,7 @@ pub(crate) fn constant_distribution(
 }
 
 /// The value in use of a constant in a window's configuration.
-pub(crate) fn constant_in_use(window: &PairWindow, constant: Constant) -> f64 {
+pub fn constant_in_use(window: &PairWindow, constant: Constant) -> f64 {
     match constant {
         Constant::DeribasK => window.criteria.deribas_k,
         Constant::WittmanN => window.criteria.wittman_n,

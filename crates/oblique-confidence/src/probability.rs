@@ -313,6 +313,37 @@ impl WeldProbability {
         })
     }
 
+    /// The probability as a step of a worked example (`oblique explain` with scatter flags):
+    /// the same lines `check` prints under its table, the probability and its standard error as
+    /// results.
+    #[must_use]
+    pub fn explain_step(&self) -> oblique_window::explain::Step {
+        oblique_window::explain::Step {
+            key: "weld-probability".into(),
+            title: "Weld probability under the stated scatter".into(),
+            relation: "draw the velocity and the angle from their stated scatter, and (model uncertainty on) the criterion constants and the material values from their documented distributions; the probability is the share of draws inside the window".into(),
+            formula: vec![
+                "P(weld) = n_inside / n,  standard error sqrt(P (1 - P) / n)".into(),
+            ],
+            numbers: self.text().lines().map(|l| l.trim_start().to_string()).collect(),
+            results: vec![
+                oblique_window::explain::Figure {
+                    key: "probability.inside".into(),
+                    value: Some(self.inside),
+                    text: percent(self.inside),
+                },
+                oblique_window::explain::Figure {
+                    key: "probability.standard_error".into(),
+                    value: Some(self.standard_error),
+                    text: percent(self.standard_error),
+                },
+            ],
+            source: "docs/theory.md §15 (sampling, the distribution and basis of every input)".into(),
+            mark: "conditional on the model and the stated distributions".into(),
+            ..oblique_window::explain::Step::default()
+        }
+    }
+
     /// The human text (a block under the check's table).
     pub fn text(&self) -> String {
         let mut s = String::new();

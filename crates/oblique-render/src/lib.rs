@@ -28,6 +28,7 @@ pub mod png;
 pub mod probability;
 pub mod report;
 pub mod sweep_plot;
+pub mod trade_plot;
 pub mod weld_map;
 pub mod window_plot;
 

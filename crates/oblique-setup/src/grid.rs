@@ -44,6 +44,24 @@ impl Grid {
     }
 }
 
+/// The kind `t` reads as when it is not `kind` (for a range whose ends are of two kinds).
+fn other_kind(t: &str, kind: QuantityKind) -> Option<QuantityKind> {
+    [
+        QuantityKind::Velocity,
+        QuantityKind::Angle,
+        QuantityKind::Length,
+        QuantityKind::Voltage,
+        QuantityKind::Energy,
+        QuantityKind::Current,
+        QuantityKind::Inductance,
+        QuantityKind::Capacitance,
+        QuantityKind::Pressure,
+    ]
+    .into_iter()
+    .filter(|k| *k != kind)
+    .find(|k| parse_quantity(t, *k).is_ok())
+}
+
 fn grid(s: &str, kind: QuantityKind, allow_zero: bool) -> Result<Grid, String> {
     let one = |t: &str| -> Result<f64, String> {
         let v = parse_quantity(t, kind).map_err(|e| e.to_string())?;
@@ -59,11 +77,27 @@ fn grid(s: &str, kind: QuantityKind, allow_zero: bool) -> Result<Grid, String> {
         }
     };
     if let Some((a, b)) = s.split_once("..") {
-        let a = one(a).map_err(|m| format!("the range's lower end: {m}"))?;
-        let b = one(b).map_err(|m| format!("the range's upper end: {m}"))?;
+        let mixed = |t: &str| {
+            other_kind(t, kind).map(|o| {
+                format!(
+                    "the range mixes kinds of quantity: '{}' is {}, not {} (both ends need the same kind, e.g. {})",
+                    t.trim(),
+                    o.describe(),
+                    kind.describe(),
+                    kind.example()
+                )
+            })
+        };
+        let a = one(a).map_err(|m| mixed(a).unwrap_or(format!("the range's lower end: {m}")))?;
+        let b = one(b).map_err(|m| mixed(b).unwrap_or(format!("the range's upper end: {m}")))?;
+        if a == b {
+            return Err(format!(
+                "range '{s}' is empty: give two different ends, the smaller first (or one value)"
+            ));
+        }
         if !(b > a) {
             return Err(format!(
-                "range '{s}' must go from the smaller to the larger value"
+                "range '{s}' is reversed: it must go from the smaller to the larger value"
             ));
         }
         return Ok(Grid::Range(a, b));
@@ -136,7 +170,11 @@ mod tests {
         assert!(r.values(1, "--steps").is_err());
         let e = r.values(4_294_967_297, "--steps").unwrap_err();
         assert!(e.contains("more than the limit of 10000"), "{e}");
-        assert!(voltage_grid("12kV..6kV").is_err());
+        assert!(voltage_grid("12kV..6kV").unwrap_err().contains("reversed"));
+        assert!(voltage_grid("6kV..6kV").unwrap_err().contains("empty"));
+        assert!(angle_grid("4deg..16mm")
+            .unwrap_err()
+            .contains("mixes kinds"));
         assert!(length_grid("0mm,1mm").is_err());
         assert!(length_grid("1,2").is_err(), "bare numbers need a unit");
         assert!(angle_grid("6deg,95deg").is_err());

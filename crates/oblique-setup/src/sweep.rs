@@ -268,7 +268,7 @@ fn grid_values(
         (None, Some(_)) => {
             return Err(SetupError::Invalid {
                 field: field::ANGLE,
-                message: "--angle needs --pair: the angle is only used to check the settings against a pair window".into(),
+                message: "--angle needs --pair (or --parent with --convention): the angle is only used to check the settings against a window".into(),
             })
         }
         _ => {}

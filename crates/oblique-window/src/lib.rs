@@ -35,6 +35,7 @@ pub mod agreement;
 pub mod boundary;
 pub mod classify;
 pub mod diag;
+pub mod explain;
 pub mod files;
 pub mod library;
 pub mod machine;

@@ -99,6 +99,13 @@ pub struct BankEntry {
     /// A ring-down record of the bank with its output shorted.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub ring_down: Option<RingDownEntry>,
+    /// The peak current rating, if the datasheet gives one (`oblique aim` leaves out set-ups
+    /// whose first current peak exceeds it).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub max_current: Option<SourcedEntry>,
+    /// The stored energy rating, if the datasheet gives one apart from the voltage rating.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub max_energy: Option<SourcedEntry>,
 }
 
 /// A single-turn compression coil (or field-shaper bore) as written.
@@ -273,6 +280,10 @@ pub struct BankSpec {
     pub resistance: Valued<Resistance>,
     /// The ring-down record, if any.
     pub ring_down: Option<RingDown>,
+    /// The peak current rating, if given.
+    pub max_current: Option<Valued<oblique_core::units::Current>>,
+    /// The stored energy rating, if given.
+    pub max_energy: Option<Valued<oblique_core::units::Energy>>,
 }
 
 impl BankSpec {
@@ -348,7 +359,7 @@ pub struct ExplosiveSpec {
 #[derive(Debug, Clone, PartialEq)]
 pub enum MachineItem {
     /// A capacitor bank.
-    Bank(BankSpec),
+    Bank(Box<BankSpec>),
     /// A compression coil or field-shaper bore.
     CompressionCoil(CompressionCoilSpec),
     /// A flat bar coil.

@@ -613,7 +613,8 @@ fn quantities_text(window: &PairWindow, c: &Classification, is_pair: bool) -> St
 }
 
 /// The jetting row's note: which streams are supersonic and which rule decided.
-fn jetting_note(j: &oblique_core::jetting::JettingAssessment) -> String {
+#[must_use]
+pub fn jetting_note(j: &oblique_core::jetting::JettingAssessment) -> String {
     use oblique_core::jetting::JettingRegime;
     match (j.regime, j.mixed_rule) {
         (_, Some(oblique_core::MixedRule::SupersonicSidePolar)) => format!(
@@ -731,8 +732,10 @@ fn limits_text(window: &PairWindow, c: &Classification) -> String {
     s
 }
 
-/// The verdict, the binding and failing limits with their advice, and the caution.
-fn verdict_text(window: &PairWindow, c: &Classification) -> String {
+/// The verdict, the binding and failing limits with their advice, and the caution, as `check`
+/// prints them.
+#[must_use]
+pub fn verdict_text(window: &PairWindow, c: &Classification) -> String {
     let mut s = String::new();
     let beyond = c.trials.as_ref().is_some_and(|t| t.beyond_trials);
     let verdict = match (c.domain.inside(), c.inside, c.outside_trial_data || beyond) {

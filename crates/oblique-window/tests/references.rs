@@ -22,6 +22,8 @@ const NOT_KEYS: &[&str] = &[
     "inline",
     "mph",
     "kA",
+    "kV",
+    "kJ",
     "MPa",
     "GPa",
     "derived",

@@ -1,7 +1,10 @@
 //! Argument groups shared by several subcommands (the velocity convention, the point's
 //! velocity, criterion constant overrides). No subcommand module is imported from here.
 
+pub mod point;
 pub mod process;
+
+pub use point::{PointArgs, WindowArgs};
 
 use crate::qarg;
 use clap::{Args, ValueEnum};

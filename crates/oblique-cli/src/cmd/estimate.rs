@@ -44,6 +44,7 @@ pub enum EstimateModel {
 
 const EXAMPLES_TUBE: &str = "Examples (the built-in bank and coil are INVENTED demo files):
   oblique estimate mpw-tube --machine harbourside-bank-300uf --coil harbourside-coil-42mm --flyer aa6061-t6 --flyer-thickness 1mm --tube-outer-radius 20mm --standoff 2.5mm --charge-voltage 8kV
+  oblique estimate mpw-tube --machine harbourside-bank-300uf --coil harbourside-coil-42mm --flyer aa6061-t6 --flyer-thickness 1mm --parent cu-c11000 --convention normal-to-flyer --tube-outer-radius 20mm --standoff 2mm --charge-voltage 8kV --angle 10deg
   oblique estimate mpw-tube --capacitance 300uF --rated-voltage 12kV --bank-inductance 40nH --bank-resistance 4mohm --coil-bore 21mm --coil-length 20mm --coil-inductance 20nH --pair demo-al6061-on-cu --tube-outer-radius 20mm --standoff 2.5mm --charge-voltage 8kV --angle 8deg --json
 Models and assumptions: docs/process-models.md. A screening estimate, never a guarantee: the
 bank stores lethal energy and parts fly; follow local codes and licensed practice.";
@@ -94,12 +95,14 @@ pub struct EstimateCommon {
     /// Efficiency factor eta in (0, 1] (default: the machine's stored calibration, else 1).
     #[arg(long, value_name = "ETA", value_parser = parse::efficiency)]
     pub efficiency: Option<f64>,
-    /// Collision angle from your geometry (taper, chamfer), e.g. 8deg; checks the result against --pair.
-    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle, requires = "pair")]
+    /// Collision angle from your geometry (taper, chamfer), e.g. 8deg; checks the result against --pair (or --parent).
+    #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
     pub angle: Option<f64>,
     /// Pair window to check against (also the default flyer material and thickness).
-    #[arg(long, value_name = "NAME")]
+    #[arg(long, value_name = "NAME", conflicts_with = "parent")]
     pub pair: Option<String>,
+    #[command(flatten)]
+    pub adhoc: AdHocWindow,
     /// Write the time histories to a CSV file.
     #[arg(long, value_name = "FILE.csv")]
     pub history: Option<PathBuf>,
@@ -112,14 +115,36 @@ pub struct EstimateCommon {
     pub json: bool,
 }
 
+/// A window made on the spot instead of a pair file, as `check` makes it: the parent plate and
+/// the convention (the flyer and its thickness come from `--flyer` and `--flyer-thickness`).
+#[derive(Debug, Args)]
+pub struct AdHocWindow {
+    /// Parent (stationary plate or rod) material id, e.g. cu-c11000: check against a window made
+    /// from --flyer, --flyer-thickness, --parent and --convention instead of a pair file.
+    #[arg(long, value_name = "ID")]
+    pub parent: Option<String>,
+    /// How Vp relates to Vc for the window made with --parent: bisector, normal-to-flyer or
+    /// normal-to-parent (never guessed).
+    #[arg(long, value_enum, value_name = "CONVENTION", requires = "parent")]
+    pub convention: Option<crate::args::ConventionArg>,
+}
+
 /// `oblique estimate explosive`.
 #[derive(Debug, Args)]
 pub struct ExplosiveArgs {
     #[command(flatten)]
     pub explosive: ExplosiveFlags,
     /// Pair window to check the resulting point against.
-    #[arg(long, value_name = "NAME")]
+    #[arg(long, value_name = "NAME", conflicts_with = "parent")]
     pub pair: Option<String>,
+    /// Flyer material id for a window made with --parent, e.g. aa6061-t6.
+    #[arg(long, value_name = "ID", requires = "parent")]
+    pub flyer: Option<String>,
+    /// Flyer thickness for a window made with --parent, e.g. 3mm.
+    #[arg(long = "flyer-thickness", value_name = "LENGTH", value_parser = parse::length, allow_hyphen_values = true, requires = "parent")]
+    pub flyer_thickness: Option<f64>,
+    #[command(flatten)]
+    pub adhoc: AdHocWindow,
     /// Print JSON.
     #[arg(long)]
     pub json: bool,
@@ -173,16 +198,18 @@ pub struct SweepCommon {
     #[arg(long = "angle-per-standoff", value_name = "LIST|A..B", value_parser = grid::angle_grid)]
     pub angle_per_standoff: Option<Grid>,
     /// Pair window to check every setting against (also the default flyer).
-    #[arg(long, value_name = "NAME")]
+    #[arg(long, value_name = "NAME", conflicts_with = "parent")]
     pub pair: Option<String>,
+    #[command(flatten)]
+    pub adhoc: AdHocWindow,
     /// Efficiency factor eta in (0, 1] (default: the machine's stored calibration, else 1).
     #[arg(long, value_name = "ETA", value_parser = parse::efficiency)]
     pub efficiency: Option<f64>,
     /// How many inside settings to list (all are in --json).
     #[arg(long, value_name = "N", default_value_t = 10)]
     pub top: usize,
-    /// Write the window plot with one process curve per standoff (.svg or .png: the extension picks the format).
-    #[arg(long, value_name = "OUT.svg|OUT.png", requires = "pair")]
+    /// Write the window plot with one process curve per standoff (.svg or .png: the extension picks the format; needs --pair or --parent).
+    #[arg(long, value_name = "OUT.svg|OUT.png")]
     pub plot: Option<PathBuf>,
     // The help text names the CSV columns with their units in brackets (not doc links).
     #[allow(rustdoc::broken_intra_doc_links)]

@@ -10,7 +10,7 @@ use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 /// How an entry is shown.
 #[derive(Debug, Clone, Copy)]
-pub(super) enum Mark {
+pub(crate) enum Mark {
     /// A filled swatch.
     Fill(RGBColor),
     /// A line, solid or dashed (dash, gap).
@@ -29,13 +29,13 @@ pub(super) enum Mark {
 
 /// One legend entry.
 #[derive(Debug, Clone)]
-pub(super) struct Entry {
+pub(crate) struct Entry {
     text: String,
     mark: Mark,
 }
 
 impl Entry {
-    pub(super) fn new(text: impl Into<String>, mark: Mark) -> Self {
+    pub(crate) fn new(text: impl Into<String>, mark: Mark) -> Self {
         Entry {
             text: text.into(),
             mark,
@@ -45,24 +45,24 @@ impl Entry {
 
 /// A titled group of entries.
 #[derive(Debug, Clone)]
-pub(super) struct Section {
+pub(crate) struct Section {
     title: String,
     entries: Vec<Entry>,
 }
 
 impl Section {
-    pub(super) fn new(title: &str) -> Self {
+    pub(crate) fn new(title: &str) -> Self {
         Section {
             title: title.into(),
             entries: Vec::new(),
         }
     }
 
-    pub(super) fn push(&mut self, e: Entry) {
+    pub(crate) fn push(&mut self, e: Entry) {
         self.entries.push(e);
     }
 
-    pub(super) fn is_empty(&self) -> bool {
+    pub(crate) fn is_empty(&self) -> bool {
         self.entries.is_empty()
     }
 }
@@ -70,7 +70,7 @@ impl Section {
 type Area<'b> = DrawingArea<SVGBackend<'b>, Shift>;
 
 /// Draw the legend; entries that do not fit say how many were left out.
-pub(super) fn draw_legend(area: &Area<'_>, sections: &[Section]) -> RenderResult {
+pub(crate) fn draw_legend(area: &Area<'_>, sections: &[Section]) -> RenderResult {
     let font = TextStyle::from(("sans-serif", 12).into_font());
     let bottom = HEIGHT as i32 - 50;
     let mut y = 16;

@@ -9,7 +9,7 @@
 
 mod draw;
 pub mod field;
-mod legend;
+pub(crate) mod legend;
 pub mod place;
 
 use crate::error::{RenderError, RenderResult};
@@ -112,7 +112,7 @@ const WIDTH: u32 = 1100;
 const HEIGHT: u32 = 680;
 const LEGEND_W: u32 = 300;
 
-fn criterion_colour(id: CriterionId) -> RGBColor {
+pub(crate) fn criterion_colour(id: CriterionId) -> RGBColor {
     match id {
         CriterionId::DeribasLower => RGBColor(27, 120, 55),
         CriterionId::StrengthLower => RGBColor(118, 42, 131),

@@ -168,7 +168,27 @@ fn bank_spec(c: &mut Collector<'_>, b: &BankEntry) -> Option<BankSpec> {
             None
         }
     };
+    let max_current = b.max_current.as_ref().and_then(|e| {
+        sourced(
+            c,
+            "bank.max_current",
+            e,
+            QuantityKind::Current,
+            Domain::Positive,
+        )
+    });
+    let max_energy = b.max_energy.as_ref().and_then(|e| {
+        sourced(
+            c,
+            "bank.max_energy",
+            e,
+            QuantityKind::Energy,
+            Domain::Positive,
+        )
+    });
     Some(BankSpec {
+        max_current: max_current.map(|v| map(v, oblique_core::units::Current::from_a)),
+        max_energy: max_energy.map(|v| map(v, oblique_core::units::Energy::from_j)),
         capacitance: map(cap?, Capacitance::from_f),
         max_voltage: map(umax?, Voltage::from_v),
         inductance: inductance?,
@@ -448,7 +468,7 @@ pub fn parse_machine_file(
         );
     }
     let item = if let Some(b) = &parsed.bank {
-        bank_spec(&mut c, b).map(MachineItem::Bank)
+        bank_spec(&mut c, b).map(|s| MachineItem::Bank(Box::new(s)))
     } else if let Some(e) = &parsed.compression_coil {
         compression_spec(&mut c, e).map(MachineItem::CompressionCoil)
     } else if let Some(e) = &parsed.bar_coil {

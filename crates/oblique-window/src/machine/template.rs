@@ -34,6 +34,9 @@ pub fn template(kind: TemplateKind, name: &str, maintainer: &str, date: &str) ->
         // ... or a ring-down record with the output shorted, from which both follow:
         ring_down: (frequency: "FILL IN", peak_ratio: "FILL IN", load: "output shorted at the coil terminals",
                     date: "FILL IN", source: "FILL IN: record number"),      // e.g. "45 kHz", "3.0" (I1/I2)
+        // Optional ratings from the datasheet (`oblique aim` leaves out set-ups beyond them):
+        // max_current: (value: "500 kA", source: "..."),   // first current peak
+        // max_energy: (value: "20 kJ", source: "..."),     // stored energy
     ),
     calibrations: [
     ],

@@ -42,13 +42,32 @@ fn run_pulse(
             Some(crate::common::FileFormat::Csv),
         )?;
     }
-    let catalog = load_catalog(dirs)?;
+    let mut catalog = load_catalog(dirs)?;
+    let pair = match &common.adhoc.parent {
+        Some(parent) => {
+            let (flyer, h) = crate::common::request_flyer(&process);
+            Some(crate::common::adhoc_pair(
+                &mut catalog,
+                flyer,
+                h,
+                parent,
+                common.adhoc.convention,
+                "magnetic-pulse",
+            )?)
+        }
+        None => common.pair.clone(),
+    };
+    if common.angle.is_some() && pair.is_none() {
+        return Err(Fail::input(
+            "--angle needs --pair (or --parent with --convention): the angle is only used to check the estimate against a window",
+        ));
+    }
     let request = EstimateRequest {
         process,
         charge,
         standoff: Length::from_m(standoff),
         efficiency: common.efficiency,
-        pair: common.pair.clone(),
+        pair,
         angle: common.angle.map(Angle::from_radians),
         integration: common.integration.integration(),
         history: common.history.is_some(),
@@ -81,8 +100,19 @@ fn run_pulse(
 
 /// `oblique estimate explosive`.
 pub fn run_explosive(dirs: &[PathBuf], a: ExplosiveArgs) -> CmdResult {
-    let catalog = load_catalog(dirs)?;
-    let request = a.explosive.request(a.pair);
+    let mut catalog = load_catalog(dirs)?;
+    let pair = match &a.adhoc.parent {
+        Some(parent) => Some(crate::common::adhoc_pair(
+            &mut catalog,
+            a.flyer.as_deref(),
+            a.flyer_thickness,
+            parent,
+            a.adhoc.convention,
+            "explosive",
+        )?),
+        None => a.pair,
+    };
+    let request = a.explosive.request(pair);
     let report = estimate_explosive(&catalog, &request)?;
     if a.json {
         emit_json(&explosive_json(&report))

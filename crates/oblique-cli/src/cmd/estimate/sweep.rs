@@ -31,7 +31,26 @@ fn run(dirs: &[PathBuf], process: MagneticRequest, c: &SweepCommon) -> CmdResult
         )?),
         None => None,
     };
-    let catalog = load_catalog(dirs)?;
+    let mut catalog = load_catalog(dirs)?;
+    let pair = match &c.adhoc.parent {
+        Some(parent) => {
+            let (flyer, h) = crate::common::request_flyer(&process);
+            Some(crate::common::adhoc_pair(
+                &mut catalog,
+                flyer,
+                h,
+                parent,
+                c.adhoc.convention,
+                "magnetic-pulse",
+            )?)
+        }
+        None => c.pair.clone(),
+    };
+    if c.plot.is_some() && pair.is_none() {
+        return Err(Fail::input(
+            "--plot needs --pair (or --parent with --convention): the plot is the window with the process curves",
+        ));
+    }
     let request = SweepRequest {
         process,
         charge: c.charge_grid()?,
@@ -39,7 +58,7 @@ fn run(dirs: &[PathBuf], process: MagneticRequest, c: &SweepCommon) -> CmdResult
         standoffs: c.standoff.clone(),
         standoff_steps: c.standoff_steps,
         angles: c.angle_grid(),
-        pair: c.pair.clone(),
+        pair,
         efficiency: c.efficiency,
         integration: c.integration.integration(),
         threads: c.threads,
