@@ -54,19 +54,39 @@ fn bash_completion_completes_subcommands_material_ids_and_pairs() {
     let shop = tempfile::tempdir().expect("shop");
     let lib = shop.path().to_str().expect("utf-8");
     let o = run(&[
-        "--library", lib, "pair", "new", "shop-al-on-cu", "--flyer", "aa6061-t6", "--parent",
-        "cu-c11000", "--flyer-thickness", "1mm",
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "shop-al-on-cu",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     for words in [
         vec!["oblique", "--library", lib, "check", "--pair", "sho"],
         vec!["oblique", "--library", lib, "pair", "fit", "sho"],
         vec!["oblique", "--library", lib, "pair", "next-shot", "sho"],
-        vec!["oblique", "--library", lib, "pair", "boundary", "add", "sho"],
+        vec![
+            "oblique",
+            "--library",
+            lib,
+            "pair",
+            "boundary",
+            "add",
+            "sho",
+        ],
         vec!["oblique", "--library", lib, "pair", "show", "sho"],
     ] {
         let got = bash_complete(&script, &words);
-        assert!(got.lines().any(|l| l == "shop-al-on-cu"), "{words:?}: {got}");
+        assert!(
+            got.lines().any(|l| l == "shop-al-on-cu"),
+            "{words:?}: {got}"
+        );
     }
     // Without the folder, the shop's pair is unknown.
     let got = bash_complete(&script, &["oblique", "pair", "fit", "sho"]);
