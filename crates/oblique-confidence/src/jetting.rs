@@ -341,10 +341,13 @@ mod tests {
         #![proptest_config(ProptestConfig::with_cases(200))]
         /// Within 0.05 deg plus 1 % of the angle of the direct solve, for sampled Hugoniots up
         /// to 3 sd of the default spreads (C0 2 %, density 1 %, s 5 %) at supersonic inflows of
-        /// both streams up to 12 km/s.
+        /// both streams inside the validity domain (Vf up to 2 C0 of the flyer, 10.7 km/s; Vc
+        /// up to 2 C0 of the parent, 7.88 km/s: docs/theory.md §7.1). Beyond it no verdict is
+        /// claimed, and the approximation was seen 0.23 deg off at Vf 11.1 km/s, Vc 10.0 km/s
+        /// with every spread at 2-3 sd.
         #[test]
         fn close_to_the_direct_solve(
-            vf in 5500.0f64..12000.0, vc in 4100.0f64..12000.0,
+            vf in 5500.0f64..10700.0, vc in 4100.0f64..7880.0,
             zf in -3.0f64..3.0, zp in -3.0f64..3.0, zrf in -3.0f64..3.0, zrp in -3.0f64..3.0,
             zsf in -3.0f64..3.0, zsp in -3.0f64..3.0,
         ) {
