@@ -21,10 +21,10 @@ pub fn user_dirs(cli_dirs: &[PathBuf]) -> Vec<PathBuf> {
 pub fn load_library(cli_dirs: &[PathBuf]) -> CmdResult<Library> {
     let lib = Library::load(&user_dirs(cli_dirs))?;
     for w in &lib.warnings {
-        eprintln!("warning: {}", crate::fail::for_terminal(w));
+        errln!("warning: {}", crate::fail::for_terminal(w));
     }
     for p in &lib.problems {
-        eprintln!("warning: {}", crate::fail::for_terminal(&p.summary()));
+        errln!("warning: {}", crate::fail::for_terminal(&p.summary()));
     }
     Ok(lib)
 }
@@ -33,10 +33,10 @@ pub fn load_library(cli_dirs: &[PathBuf]) -> CmdResult<Library> {
 pub fn load_machines(cli_dirs: &[PathBuf]) -> CmdResult<Machines> {
     let machines = Machines::load(&user_dirs(cli_dirs))?;
     for w in &machines.warnings {
-        eprintln!("warning: {}", crate::fail::for_terminal(w));
+        errln!("warning: {}", crate::fail::for_terminal(w));
     }
     for p in &machines.problems {
-        eprintln!("warning: {}", crate::fail::for_terminal(&p.summary()));
+        errln!("warning: {}", crate::fail::for_terminal(&p.summary()));
     }
     Ok(machines)
 }
@@ -51,7 +51,7 @@ pub fn load_catalog(cli_dirs: &[PathBuf]) -> CmdResult<Catalog> {
 /// Print warnings gathered for the person on stderr.
 pub fn print_notes(notes: &[String]) {
     for n in notes {
-        eprintln!("warning: {n}");
+        errln!("warning: {n}");
     }
 }
 
@@ -252,7 +252,7 @@ pub fn read_input(path: &Path) -> CmdResult<Vec<u8>> {
 /// standard output (`-`), so that the output stays clean.
 pub fn said_where(path: &Path, text: &str) -> CmdResult {
     if path.as_os_str() == "-" {
-        eprint!("{}", crate::fail::for_terminal(text));
+        err_text!("{}", crate::fail::for_terminal(text));
         Ok(())
     } else {
         crate::output::emit(text)

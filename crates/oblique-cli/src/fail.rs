@@ -34,7 +34,7 @@ impl Fail {
             return ExitCode::SUCCESS;
         }
         if !self.message.is_empty() {
-            eprintln!("error: {}", for_terminal(&self.message));
+            errln!("error: {}", for_terminal(&self.message));
         }
         ExitCode::from(self.code)
     }

@@ -6,6 +6,24 @@
 // Negated comparisons such as `!(x > 0.0)` are deliberate: they reject NaN together with
 // out-of-range values, which the suggested rewrite would let through.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
+
+/// `eprintln!` that never panics: when standard error is a pipe that has closed (`2>&1 | head`),
+/// the line is lost, not the exit code (std's `eprintln!` panics, exit 101).
+macro_rules! errln {
+    ($($arg:tt)*) => {{
+        use std::io::Write as _;
+        let _ = writeln!(std::io::stderr().lock(), $($arg)*);
+    }};
+}
+
+/// `eprint!` that never panics (see `errln!`).
+macro_rules! err_text {
+    ($($arg:tt)*) => {{
+        use std::io::Write as _;
+        let _ = write!(std::io::stderr().lock(), $($arg)*);
+    }};
+}
+
 mod args;
 mod cli;
 mod cmd;
@@ -33,7 +51,7 @@ fn main() -> ExitCode {
             1 => "; removed the temporary file of an unfinished write".to_string(),
             n => format!("; removed the temporary files of {n} unfinished writes"),
         };
-        eprintln!("interrupted: nothing was left half-written{what}");
+        errln!("interrupted: nothing was left half-written{what}");
         std::process::exit(130);
     });
     match args.run() {

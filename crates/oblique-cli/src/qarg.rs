@@ -216,16 +216,21 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
         let v: f64 = p.trim().parse().map_err(|_| {
             format!("'{s}' is not a percentage (write it like 5%) or a velocity (20m/s)")
         })?;
-        if !(v.is_finite() && v >= 0.0) {
+        if !v.is_finite() {
+            return Err(format!(
+                "'{}' is not a finite percentage: write it like 5%",
+                short_text(p)
+            ));
+        }
+        if v < 0.0 {
             return Err(format!("'{}' must be zero or above", short_text(p)));
         }
         if v > 100.0 * MAX_RELATIVE_VELOCITY_SD {
             return Err(format!(
-                "{:.3e} % is above {} %: beyond it a normal scatter puts visible weight on negative velocities",
-                v,
+                "{} % is above {} %: beyond it a normal scatter puts visible weight on negative velocities",
+                short_text(p.trim()),
                 100.0 * MAX_RELATIVE_VELOCITY_SD
-            )
-            .replace(".000e", "e"));
+            ));
         }
         return Ok(oblique_confidence::VelocitySpread::Relative(v / 100.0));
     }
@@ -280,6 +285,17 @@ pub fn samples(s: &str) -> Result<usize, String> {
         ));
     }
     Ok(n)
+}
+
+/// A seed of the random streams: a whole number from 0 to 2^64 - 1.
+pub fn seed(s: &str) -> Result<u64, String> {
+    s.trim().replace('_', "").parse().map_err(|_| {
+        format!(
+            "'{}' is not a seed: a whole number from 0 to {}, e.g. 7",
+            short_text(s),
+            u64::MAX
+        )
+    })
 }
 
 /// A confidence level as a percentage, strictly between 0 and 100 % (e.g. 95%).

@@ -96,6 +96,8 @@ pub struct ConstantFit {
 pub struct Misjudged {
     /// Index in the file's observation list.
     pub index: usize,
+    /// The shot's number as every view shows it (`index` + 1).
+    pub shot: usize,
     /// Observed outcome.
     pub observed: &'static str,
     /// Predicted outcome.
@@ -746,6 +748,7 @@ fn misjudged(window: &PairWindow) -> ConfidenceResult<Vec<Misjudged>> {
         .iter()
         .map(|d| Misjudged {
             index: d.index,
+            shot: d.index + 1,
             observed: d.observed.as_str(),
             predicted: d.predicted.as_str(),
             velocity_m_s: d.velocity_m_s,

@@ -205,11 +205,24 @@ fn doubt_sentence(
 ) -> String {
     let Some(top) = dominant.first() else {
         return if tally.inside == tally.n || tally.inside == 0 || engine.inputs.is_empty() {
-            "the verdict does not change over the samples: no input carries doubt".into()
+            format!(
+                "the verdict does not change over the {} samples: no sampled input moved the point across a limit",
+                tally.n
+            )
         } else {
             "the verdict changes in too few samples to share the doubt among the inputs".into()
         };
     };
+    if top.share < 0.05 {
+        // The first-order shares do not tell the inputs apart: inputs acting only together, or
+        // a verdict that changes so rarely (in both tails of an input, say) that the binned
+        // estimate of the shares is lost in its noise. Say so rather than name a leader.
+        return format!(
+            "the first-order shares do not single out an input (the largest, {}, {:.0} %): the verdict changes only in combinations of inputs or too rarely for the shares to be estimated; the failure probability per limit above says which limits are at stake",
+            top.label,
+            100.0 * top.share
+        );
+    }
     let amount = if top.share >= 0.5 {
         "most of the doubt".to_string()
     } else {
@@ -354,6 +367,16 @@ impl WeldProbability {
             self.samples,
             self.seed
         ));
+        if self.samples > 0 && (self.inside == 0.0 || self.inside == 1.0) {
+            // Every sample on one side: the binomial standard error is zero, which says nothing
+            // of how rare the other side may be. The rule of three bounds it (Hanley and
+            // Lippman-Hand 1983, JAMA 249:1743, cited from memory: p < 3/n at 95 % when 0 of n
+            // occur).
+            s.push_str(&format!(
+                "  every sample fell on one side: the other side's probability is below {} (95 %, rule of three: 3 / samples)\n",
+                percent((3.0 / self.samples as f64).min(1.0))
+            ));
+        }
         s.push_str(&format!("  scatter: {}\n", self.scatter.text()));
         if let Some(f) = &self.fitted {
             s.push_str(&format!("  constants {f}\n"));

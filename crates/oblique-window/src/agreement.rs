@@ -21,6 +21,8 @@ pub const PARTIAL_EDGE_BAND: f64 = 0.10;
 pub struct Disagreement {
     /// Index in the file's observation list.
     pub index: usize,
+    /// The shot's number as every view shows it (`index` + 1).
+    pub shot: usize,
     /// Impact velocity, m/s.
     pub velocity_m_s: f64,
     /// Collision angle, deg.
@@ -42,6 +44,8 @@ pub struct Disagreement {
 pub struct OutsideDomainTrial {
     /// Index in the file's observation list.
     pub index: usize,
+    /// The shot's number as every view shows it (`index` + 1).
+    pub shot: usize,
     /// Impact velocity, m/s.
     pub velocity_m_s: f64,
     /// Collision angle, deg.
@@ -100,6 +104,7 @@ pub fn agreement(window: &PairWindow) -> Result<Agreement, PhysicsError> {
         if c.prediction == Prediction::OutsideDomain {
             outside_domain.push(OutsideDomainTrial {
                 index: obs.index,
+                shot: obs.index + 1,
                 velocity_m_s: obs.velocity.si(),
                 angle_deg: obs.angle.degrees(),
                 observed: obs.outcome,
@@ -152,6 +157,7 @@ pub fn agreement(window: &PairWindow) -> Result<Agreement, PhysicsError> {
         };
         disagreements.push(Disagreement {
             index: obs.index,
+            shot: obs.index + 1,
             velocity_m_s: obs.velocity.si(),
             angle_deg: obs.angle.degrees(),
             observed: obs.outcome,

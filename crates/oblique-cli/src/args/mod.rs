@@ -135,11 +135,16 @@ pub struct ScatterArgs {
     pub samples: Option<usize>,
     /// Seed of the random streams (a whole number; default 1): the same seed gives the same
     /// numbers.
-    #[arg(long, value_name = "S")]
+    #[arg(long, value_name = "S", allow_hyphen_values = true, value_parser = qarg::seed)]
     pub seed: Option<u64>,
     /// Sample the criterion constants and the material properties too (docs/theory.md §15);
     /// default on.
-    #[arg(long = "model-uncertainty", value_enum, value_name = "ON|OFF")]
+    #[arg(
+        long = "model-uncertainty",
+        value_enum,
+        ignore_case = true,
+        value_name = "ON|OFF"
+    )]
     pub model_uncertainty: Option<OnOff>,
 }
 

@@ -25,11 +25,17 @@ pub struct WindowArgs {
     #[arg(long = "parent-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length)]
     pub parent_thickness: Option<f64>,
     /// How Vp relates to Vc: bisector, normal-to-flyer or normal-to-parent (required unless --pair gives it).
-    #[arg(long, value_enum, value_name = "CONVENTION")]
+    #[arg(long, value_enum, ignore_case = true, value_name = "CONVENTION")]
     pub convention: Option<ConventionArg>,
     /// The welding process, for a window without --pair: sets whether the pressure limit is on
     /// (off for explosive welding; default: on, its source states it for magnetic pulse welding).
-    #[arg(long, value_enum, value_name = "PROCESS", conflicts_with = "pair")]
+    #[arg(
+        long,
+        value_enum,
+        ignore_case = true,
+        value_name = "PROCESS",
+        conflicts_with = "pair"
+    )]
     pub process: Option<ProcessArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,

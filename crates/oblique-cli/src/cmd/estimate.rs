@@ -125,7 +125,13 @@ pub struct AdHocWindow {
     pub parent: Option<String>,
     /// How Vp relates to Vc for the window made with --parent: bisector, normal-to-flyer or
     /// normal-to-parent (never guessed).
-    #[arg(long, value_enum, value_name = "CONVENTION", requires = "parent")]
+    #[arg(
+        long,
+        value_enum,
+        ignore_case = true,
+        value_name = "CONVENTION",
+        requires = "parent"
+    )]
     pub convention: Option<crate::args::ConventionArg>,
 }
 

@@ -87,13 +87,23 @@ pub struct MapArgs {
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: Option<PathBuf>,
     /// Input layout (default: jsonl for .jsonl/.ndjson files, else csv).
-    #[arg(long, value_enum, value_name = "FORMAT")]
+    #[arg(long, value_enum, ignore_case = true, value_name = "FORMAT")]
     pub format: Option<FormatArg>,
     /// Output layout (default: jsonl when -o ends in .jsonl/.ndjson, else csv).
-    #[arg(long = "output-format", value_enum, value_name = "FORMAT")]
+    #[arg(
+        long = "output-format",
+        value_enum,
+        ignore_case = true,
+        value_name = "FORMAT"
+    )]
     pub output_format: Option<FormatArg>,
     /// What the velocity column holds: impact = Vp in the window's convention; collision = Vc.
-    #[arg(long = "velocity-kind", value_enum, default_value = "impact")]
+    #[arg(
+        long = "velocity-kind",
+        value_enum,
+        ignore_case = true,
+        default_value = "impact"
+    )]
     pub velocity_kind: VelocityKindArg,
     /// Name of the position column (its unit in brackets in the header).
     #[arg(

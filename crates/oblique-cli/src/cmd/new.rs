@@ -31,7 +31,7 @@ pub enum KindArg {
 The template is refused by the library until every \"FILL IN\" holds your own value and source.")]
 pub struct NewArgs {
     /// What the file describes.
-    #[arg(value_enum)]
+    #[arg(value_enum, ignore_case = true)]
     pub kind: KindArg,
     /// Its name (also the file name NAME.ron; used with --machine or --coil).
     pub name: String,

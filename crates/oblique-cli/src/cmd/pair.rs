@@ -103,11 +103,11 @@ pub struct NewArgs {
     /// Convention in which the trials' velocities are recorded (default normal-to-flyer for
     /// magnetic pulse, foil actuator and laser welding; required for the other processes, whose
     /// records use more than one).
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     pub convention: Option<ConventionArg>,
     /// Process the window is for; sets whether the pressure limit is on by default (on for
     /// magnetic pulse, off for explosive welding: docs/theory.md §5.4).
-    #[arg(long, value_enum, default_value = "magnetic-pulse")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "magnetic-pulse")]
     pub process: ProcessArg,
     /// Who maintains the file (default: $USER).
     #[arg(long, value_name = "TEXT")]
@@ -215,7 +215,7 @@ The first four columns are required; the others are optional."
     Import(ImportArgs),
     /// Validate pair window files (default: the whole library); every problem at once, exit 2 if any.
     Validate {
-        /// Files to validate.
+        /// Files to validate, or pair names (the file of that pair in the library).
         files: Vec<PathBuf>,
         /// Print JSON.
         #[arg(long)]
@@ -338,7 +338,7 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
 fn note_target(path: &Path) {
     if let Ok(t) = oblique_window::write::resolve_target(path) {
         if let Some(n) = t.note(path) {
-            eprintln!("note: {n}");
+            errln!("note: {n}");
         }
     }
 }
@@ -369,9 +369,11 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
             "sha256": w.origin.sha256,
             "new_shots": verdicts.iter().map(|v| json!({
                 "index": v.index,
+                "shot": v.index + 1,
                 "observed": v.observed,
                 "predicted": v.predicted,
                 "agrees": v.agrees,
+                "outside_domain": v.outside_domain,
                 "misjudged_by": v.misjudged_by,
             })).collect::<Vec<_>>(),
         }));
@@ -385,7 +387,7 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
     for v in &verdicts {
         text.push_str(&v.line());
     }
-    if verdicts.iter().any(|v| !v.agrees) {
+    if verdicts.iter().any(|v| v.agrees == Some(false)) {
         text.push_str(&format!("  (a disagreement is evidence against the window's constants or boundaries where the shot lies: `oblique pair fit {}` fits the Deribas and Wittman constants to every trial, with intervals; `oblique pair agreement` shows every trial)\n", w.name));
     }
     emit(&text)
@@ -398,13 +400,23 @@ struct ShotVerdict {
     angle_deg: f64,
     observed: &'static str,
     predicted: &'static str,
-    agrees: bool,
+    /// `None` outside the validity domain, where the window claims no verdict.
+    agrees: Option<bool>,
+    outside_domain: bool,
     misjudged_by: Vec<String>,
 }
 
 impl ShotVerdict {
     fn line(&self) -> String {
-        if self.agrees {
+        if self.outside_domain {
+            format!(
+                "  shot #{} ({:.0} m/s, {:.2} deg, {}): outside the window's validity domain: no verdict claimed, so neither agreement nor disagreement (counted apart by `pair agreement`)\n",
+                self.index + 1,
+                self.velocity,
+                self.angle_deg,
+                self.observed,
+            )
+        } else if self.agrees == Some(true) {
             format!(
                 "  shot #{} ({:.0} m/s, {:.2} deg, {}): the window agrees (predicted {})\n",
                 self.index + 1,
@@ -449,7 +461,9 @@ fn new_shot_verdicts(w: &PairWindow, added: usize) -> Vec<ShotVerdict> {
                 angle_deg: o.angle.degrees(),
                 observed: o.outcome.as_str(),
                 predicted: c.prediction.as_str(),
-                agrees: dis.is_none(),
+                agrees: (c.prediction != oblique_window::Prediction::OutsideDomain)
+                    .then_some(dis.is_none()),
+                outside_domain: c.prediction == oblique_window::Prediction::OutsideDomain,
                 misjudged_by: dis.map(|d| d.misjudged_by.clone()).unwrap_or_default(),
             })
         })
@@ -498,7 +512,7 @@ fn new_pair(dirs: &[PathBuf], a: NewArgs) -> CmdResult {
                 existing.origin.display
             )));
         }
-        eprintln!("warning: the new pair '{name}' will shadow the built-in pair of that name");
+        errln!("warning: the new pair '{name}' will shadow the built-in pair of that name");
     }
     lib.material(&flyer)
         .map_err(|m| Fail::input(format!("--flyer: {m}")))?;

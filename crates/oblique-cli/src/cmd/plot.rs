@@ -57,10 +57,10 @@ pub struct PlotArgs {
     #[arg(long = "flyer-thickness", value_name = "LENGTH", allow_hyphen_values = true, value_parser = qarg::positive_length, required_unless_present = "pair")]
     pub flyer_thickness: Option<f64>,
     /// Convention (required without --pair).
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     pub convention: Option<ConventionArg>,
     /// Which plane to draw.
-    #[arg(long, value_enum, default_value = "angle-velocity")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "angle-velocity")]
     pub plane: PlaneArg,
     /// A proposed point VELOCITY,ANGLE, e.g. 320m/s,9deg (repeatable).
     #[arg(long = "point", value_name = "V,ANGLE", allow_hyphen_values = true, value_parser = qarg::point)]

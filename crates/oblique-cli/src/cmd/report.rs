@@ -58,7 +58,7 @@ pub struct ReportArgs {
     #[arg(long, value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle, required = true)]
     pub angle: Option<f64>,
     /// Convention of --velocity (default: the pair's).
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     pub convention: Option<ConventionArg>,
     #[command(flatten)]
     pub constants: ConstantArgs,
@@ -505,7 +505,7 @@ fn sweep_candidates<'a>(
         });
         if let (Some(a), Some(b)) = (st.velocity, now) {
             if (a - b).abs() > 0.5 + 1e-3 * a {
-                eprintln!(
+                errln!(
                     "warning: --from-sweep setting {label}: the file says Vp {a:.0} m/s, recomputed here {b:.0} m/s: was the sweep made with other machine files or another efficiency?"
                 );
             }

@@ -31,7 +31,7 @@ and `oblique pair list --names` when you press TAB, with your OBLIQUE_LIBRARY)."
 )]
 pub struct CompletionsArgs {
     /// The shell.
-    #[arg(value_enum)]
+    #[arg(value_enum, ignore_case = true)]
     pub shell: ShellArg,
 }
 

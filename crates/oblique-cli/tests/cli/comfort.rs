@@ -142,6 +142,51 @@ fn outcome_process_and_method_words_match_in_any_case_and_are_stored_canonically
     assert!(text.contains("outcome: \"not-welded\""), "{text}");
     assert!(text.contains("process: \"explosive\""), "{text}");
     assert!(!text.contains("Welded") && !text.contains("NOT"), "{text}");
+    // Every word flag takes any case (pair new's process, the convention, on/off, the shell).
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "v",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+        "--process",
+        "Magnetic-Pulse",
+        "--convention",
+        "Normal-To-Flyer",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(dir.path().join("v.ron")).expect("pair");
+    assert!(text.contains("\"magnetic-pulse\""), "{text}");
+    let o = run(&[
+        "check",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+        "--convention",
+        "Bisector",
+        "--velocity",
+        "400m/s",
+        "--angle",
+        "12deg",
+        "--velocity-sd",
+        "5%",
+        "--samples",
+        "200",
+        "--model-uncertainty",
+        "ON",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = run(&["completions", "PowerShell"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
 }
 
 #[test]
@@ -404,6 +449,39 @@ fn a_boundary_is_added_from_the_command_line_and_every_new_shot_says_if_the_wind
         "{}",
         stdout(&o)
     );
+    // Outside the validity domain (Vp above 2000 m/s) the window claims no verdict: the shot
+    // neither agrees nor disagrees, as in `pair agreement`.
+    let o = observe("3000m/s", "welded");
+    let out = stdout(&o);
+    assert!(
+        out.contains("outside the window's validity domain: no verdict claimed"),
+        "{out}"
+    );
+    assert!(!out.contains("agrees (predicted"), "{out}");
+    // A second boundary with the same label is refused: outputs name each boundary by it.
+    fails_with(
+        &[
+            "--library",
+            lib,
+            "pair",
+            "boundary",
+            "add",
+            "bd",
+            "--label",
+            "lowest welding velocity",
+            "--plane",
+            "angle-impact-velocity",
+            "--point",
+            "340m/s,5deg",
+            "--point",
+            "320m/s,15deg",
+            "--weld-side",
+            "right",
+            "--provenance",
+            "p",
+        ],
+        &["already boundaries[0]'s"],
+    );
     // Fewer than two points is refused.
     fails_with(
         &[
@@ -571,4 +649,16 @@ fn a_dash_is_standard_input_or_output() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let text = std::fs::read_to_string(dir.path().join("stdin.ron")).expect("pair");
     assert!(text.contains("\"piped\""), "{text}");
+}
+
+#[test]
+fn pair_validate_takes_a_pair_name_for_its_file() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    std::fs::write(dir.path().join("broken.ron"), "(name: \"broken\",").expect("write");
+    let o = run(&["--library", lib, "pair", "validate", "broken"]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(stderr(&o).contains("broken.ron:1:"), "{}", stderr(&o));
+    let o = run(&["--library", lib, "pair", "validate", "demo-al6061-on-cu"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
 }

@@ -40,6 +40,16 @@ fn fit_json_has_the_contract_keys() {
     }
     assert!(v["misclassified_before"].is_array());
     assert!(v["misclassified_after"].is_array());
+    // Each misjudged shot carries the number every human view shows (#1 is the first).
+    let before = v["misclassified_before"].as_array().expect("list");
+    assert!(!before.is_empty(), "{v}");
+    for m in before {
+        assert_eq!(
+            m["shot"].as_u64(),
+            m["index"].as_u64().map(|i| i + 1),
+            "{m}"
+        );
+    }
     assert!(v["warnings"].is_array());
     assert!(v["caution"]
         .as_str()

@@ -1178,3 +1178,47 @@ fn user_text_cannot_forge_a_line() {
         stdout(&o)
     );
 }
+
+/// Standard error (and output) on a pipe whose reader has gone (`oblique ... 2>&1 | head -1`):
+/// the lines are lost, the exit code is the command's own, never a panic (101).
+#[test]
+fn a_closed_standard_error_keeps_the_exit_code() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    // A library with a broken pair file: every command warns, pair validate fails.
+    std::fs::write(dir.path().join("broken.ron"), "(name: \"broken\",").expect("write");
+    let lib = dir.path().to_str().expect("utf-8 path");
+    let cases: [(&[&str], i32); 4] = [
+        (&["--library", lib, "material", "list"], 0),
+        (&["--library", lib, "pair", "validate"], 2),
+        (
+            &[
+                "check",
+                "--pair",
+                "no-such-pair",
+                "--velocity",
+                "450m/s",
+                "--angle",
+                "10deg",
+            ],
+            2,
+        ),
+        (&["check", "--velocity", "450", "--angle", "10deg"], 2),
+    ];
+    for (args, code) in cases {
+        for _ in 0..3 {
+            let (reader, writer) = std::io::pipe().expect("pipe");
+            drop(reader);
+            let (out_reader, out_writer) = std::io::pipe().expect("pipe");
+            drop(out_reader);
+            let status = Command::new(env!("CARGO_BIN_EXE_oblique"))
+                .args(args)
+                .current_dir(dir.path())
+                .env_remove("OBLIQUE_LIBRARY")
+                .stdout(out_writer)
+                .stderr(writer)
+                .status()
+                .expect("the binary runs");
+            assert_eq!(status.code(), Some(code), "{args:?}");
+        }
+    }
+}

@@ -183,6 +183,19 @@ pub(super) fn boundaries(c: &mut Collector, parsed: &PairFile) -> Vec<Boundary> 
         }
         if b.label.trim().is_empty() {
             c.push(&format!("{base}.label"), "a boundary needs a label", None);
+        } else if let Some(j) = parsed.boundaries[..i]
+            .iter()
+            .position(|o| o.label.trim() == b.label.trim())
+        {
+            // Margins, failure probabilities and the map's columns are named by the label.
+            c.push(
+                &format!("{base}.label"),
+                format!(
+                    "the label '{}' is already boundaries[{j}]'s: every boundary needs its own label (outputs name each boundary by it)",
+                    crate::text::one_line(b.label.trim())
+                ),
+                Some("give this boundary another label".into()),
+            );
         }
         for (field, value) in [("label", &b.label), ("provenance", &b.provenance)] {
             if let Some(p) = crate::text::one_line_problem(value) {

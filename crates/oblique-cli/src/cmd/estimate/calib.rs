@@ -96,7 +96,7 @@ fn save_bank(
     };
     let machines = crate::common::load_machines(dirs)?;
     if let Some(w) = new_bank_conflict(&machines, name)? {
-        eprintln!("warning: {w}");
+        errln!("warning: {w}");
     }
     let (Some(rating), Some(source)) = (a.rated_voltage, &a.source) else {
         return Err(Fail::input("--save-as needs --rated-voltage and --source"));

@@ -20,7 +20,7 @@ impl AtomicFile {
         let file = oblique_window::write::StagedFile::create(dest)
             .map_err(|e| flagged(flag, "create", dest, e))?;
         if let Some(n) = file.target().note(dest) {
-            eprintln!("note: {n}");
+            errln!("note: {n}");
         }
         Ok(Self {
             dest: dest.to_path_buf(),

@@ -43,7 +43,13 @@ pub struct FitArgs {
     pub level: Option<f64>,
     /// Constants to fit, comma separated (default: deribas-k,wittman-n; hel-multiple on request:
     /// at small angles it is rarely told apart from Deribas k).
-    #[arg(long, value_enum, value_delimiter = ',', value_name = "LIST")]
+    #[arg(
+        long,
+        value_enum,
+        ignore_case = true,
+        value_delimiter = ',',
+        value_name = "LIST"
+    )]
     pub constants: Vec<ConstantArg>,
     /// Write the fitted constants into the pair file (section `fitted`, with date, method,
     /// number of trials and intervals); observations and every other byte are kept. `check
@@ -72,7 +78,7 @@ pub struct NextShotArgs {
     #[arg(long = "angle-range", value_name = "LOW..HIGH", value_parser = qarg::angle_range)]
     pub angle_range: Option<(f64, f64)>,
     /// Seed of the draws of the constants (a whole number; default 1).
-    #[arg(long, value_name = "S")]
+    #[arg(long, value_name = "S", allow_hyphen_values = true, value_parser = qarg::seed)]
     pub seed: Option<u64>,
     /// Print JSON.
     #[arg(long)]

@@ -21,6 +21,18 @@ pub(super) fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdRe
         let lib = Library::load(&user_dirs(dirs))?;
         let mut names: std::collections::HashMap<String, String> = std::collections::HashMap::new();
         for f in files {
+            // A pair name where no such file exists: that pair's file (`pair validate shop1`).
+            let by_name = (!f.exists()).then(|| pair_file_of(&lib, f)).flatten();
+            let f = match by_name {
+                Some(PairFileOf::Path(p)) => p,
+                Some(PairFileOf::BuiltIn(display)) => {
+                    // Built into the binary and loaded with it: nothing can be wrong with it.
+                    checked.push(display);
+                    continue;
+                }
+                None => f.clone(),
+            };
+            let f = &f;
             let display = f.display().to_string();
             checked.push(display.clone());
             let text = match oblique_window::files::read_text_bounded(f) {
@@ -76,8 +88,8 @@ pub(super) fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdRe
         emit(&format!("{} file(s) valid\n", checked.len()))?;
     } else {
         let text: Vec<String> = problems.iter().map(ToString::to_string).collect();
-        eprintln!("{}", text.join("\n"));
-        eprintln!("{} problem(s)", problems.len());
+        errln!("{}", text.join("\n"));
+        errln!("{} problem(s)", problems.len());
     }
     if problems.is_empty() {
         Ok(())
@@ -87,4 +99,28 @@ pub(super) fn validate(dirs: &[PathBuf], files: &[PathBuf], json: bool) -> CmdRe
             code: 2,
         })
     }
+}
+
+/// Where a pair named on the command line lives.
+enum PairFileOf {
+    Path(PathBuf),
+    BuiltIn(String),
+}
+
+/// The file of the pair named `arg` (a bare name: no folder, no extension), loaded or broken.
+fn pair_file_of(lib: &Library, arg: &std::path::Path) -> Option<PairFileOf> {
+    let name = arg.to_str()?;
+    if arg.components().count() != 1 || arg.extension().is_some() {
+        return None;
+    }
+    if let Some(w) = lib.pairs.get(name) {
+        return Some(match &w.origin.path {
+            Some(p) => PairFileOf::Path(p.clone()),
+            None => PairFileOf::BuiltIn(w.origin.display.clone()),
+        });
+    }
+    lib.problems
+        .iter()
+        .find(|p| p.pair_name.as_deref() == Some(name))
+        .map(|p| PairFileOf::Path(PathBuf::from(&p.display)))
 }

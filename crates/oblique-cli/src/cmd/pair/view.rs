@@ -75,6 +75,7 @@ pub(super) fn pair_json(w: &PairWindow) -> Value {
             .iter()
             .map(|ob| json!({
                 "index": ob.index,
+                "shot": ob.index + 1,
                 "velocity_m_s": sig(ob.velocity.si()),
                 "angle_deg": sig(ob.angle.degrees()),
                 "outcome": ob.outcome.as_str(),
