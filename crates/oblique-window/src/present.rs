@@ -738,11 +738,14 @@ fn limits_text(window: &PairWindow, c: &Classification) -> String {
 pub fn verdict_text(window: &PairWindow, c: &Classification) -> String {
     let mut s = String::new();
     let beyond = c.trials.as_ref().is_some_and(|t| t.beyond_trials);
-    let verdict = match (c.domain.inside(), c.inside, c.outside_trial_data || beyond) {
+    let verdict = match (c.domain.inside(), c.inside, c.outside_trial_data, beyond) {
         (false, ..) => "OUTSIDE THE VALIDITY DOMAIN (no verdict claimed)",
-        (true, true, false) => "INSIDE the window",
-        (true, true, true) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
-        (true, false, _) => "OUTSIDE the window",
+        (true, true, false, false) => "INSIDE the window",
+        // A user boundary does not reach the point (JSON outside_trial_data).
+        (true, true, true, _) => "INSIDE the model limits and the boundaries that span this point, but OUTSIDE the trial data",
+        // Every boundary reaches it, but no trial was fired near it (JSON beyond_trials).
+        (true, true, false, true) => "INSIDE the window, but OUTSIDE the trial data (beyond the region the trials cover)",
+        (true, false, ..) => "OUTSIDE the window",
     };
     s.push_str(&format!("verdict: {verdict}\n"));
     if !c.domain.inside() {

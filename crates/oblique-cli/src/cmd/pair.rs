@@ -52,10 +52,41 @@ fn write_fail(e: WriteError) -> Fail {
 fn user_file(w: &PairWindow) -> CmdResult<PathBuf> {
     w.origin.path.clone().ok_or_else(|| {
         Fail::input(format!(
-            "pair '{}' is built in and read-only\n  hint: create your own with `oblique --library DIR pair new ...`, or copy {} into a library folder",
-            w.name, w.origin.display
+            "pair '{}' is built in and read-only\n  hint: create your own with `oblique --library DIR pair new ...`, or copy it into a library folder: `oblique pair export {} > DIR/{}.ron`, then `oblique --library DIR ...`",
+            w.name, w.name, w.name
         ))
     })
+}
+
+/// `pair export`: the pair's file as it was loaded (a user file is read again; a built-in one
+/// is the text built into the binary).
+fn export(dirs: &[PathBuf], name: &str) -> CmdResult {
+    let lib = load_library(dirs)?;
+    let w = lib.pair(name).map_err(Fail::input)?;
+    match &w.origin.path {
+        Some(p) => {
+            let text = oblique_window::files::read_text_bounded(p)
+                .map_err(|e| Fail::other(format!("cannot read {}: {e}", p.display())))?;
+            emit(&text)
+        }
+        None => {
+            let rel = w
+                .origin
+                .display
+                .strip_prefix("built-in:windows/")
+                .unwrap_or(&w.origin.display);
+            match oblique_window::library::BUILTIN_FILES
+                .iter()
+                .find(|(r, _)| *r == rel)
+            {
+                Some((_, text)) => emit(text),
+                None => Err(Fail::other(format!(
+                    "the built-in file of pair '{name}' ({}) is not in this binary",
+                    w.origin.display
+                ))),
+            }
+        }
+    }
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -221,6 +252,15 @@ The first four columns are required; the others are optional."
         #[arg(long)]
         json: bool,
     },
+    /// Print a pair's file (built-in or user) so that it can be copied into a library folder and
+    /// changed there (trials recorded, constants fitted and saved).
+    #[command(
+        after_help = "Example (a user copy of the INVENTED demo pair, which then shadows the built-in one, with a warning):\n  mkdir -p shop && oblique pair export demo-al6061-on-cu > shop/demo-al6061-on-cu.ron\n  oblique --library ./shop pair fit demo-al6061-on-cu --save"
+    )]
+    Export {
+        /// Pair name.
+        name: String,
+    },
     /// User boundaries: lines drawn through trials.
     #[command(subcommand)]
     Boundary(BoundaryCommand),
@@ -316,6 +356,7 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
         PairCommand::Import(a) => import(dirs, a),
         PairCommand::Validate { files, json } => validate(dirs, &files, json),
         PairCommand::Boundary(c) => run_boundary(dirs, c),
+        PairCommand::Export { name } => export(dirs, &name),
         PairCommand::Fit(a) => fit::run_fit(dirs, a),
         PairCommand::NextShot(a) => fit::run_next_shot(dirs, a),
         PairCommand::Agreement { name, json } => {

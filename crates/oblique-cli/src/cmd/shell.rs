@@ -84,7 +84,7 @@ _oblique_dynamic() {
         return 0
     fi
     if [[ "$cur" != -* && "${sub[0]}" == "pair" ]] && {
-        [[ ${#sub[@]} -eq 2 && "${sub[1]}" =~ ^(show|observe|import|agreement|fit|next-shot)$ ]] ||
+        [[ ${#sub[@]} -eq 2 && "${sub[1]}" =~ ^(show|observe|import|agreement|fit|next-shot|export|validate)$ ]] ||
         [[ ${#sub[@]} -eq 3 && "${sub[1]}" == "boundary" && "${sub[2]}" == "add" ]]
     }; then
         COMPREPLY=( $(compgen -W "$(oblique "${libs[@]}" pair list --names 2>/dev/null)" -- "$cur") )
@@ -114,7 +114,7 @@ complete -c oblique -l flyer -f -a '(__oblique_ask material list --ids)'
 complete -c oblique -l parent -f -a '(__oblique_ask material list --ids)'
 complete -c oblique -l pair -f -a '(__oblique_ask pair list --names)'
 complete -c oblique -n '__fish_seen_subcommand_from material; and __fish_seen_subcommand_from show' -f -a '(__oblique_ask material list --ids)'
-complete -c oblique -n '__fish_seen_subcommand_from pair; and __fish_seen_subcommand_from show observe import agreement fit next-shot' -f -a '(__oblique_ask pair list --names)'
+complete -c oblique -n '__fish_seen_subcommand_from pair; and __fish_seen_subcommand_from show observe import agreement fit next-shot export validate' -f -a '(__oblique_ask pair list --names)'
 complete -c oblique -n '__fish_seen_subcommand_from boundary; and __fish_seen_subcommand_from add' -f -a '(__oblique_ask pair list --names)'
 "#;
 

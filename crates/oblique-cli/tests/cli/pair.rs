@@ -664,3 +664,38 @@ fn import_names_negative_uncertainties_with_the_other_problems() {
     assert!(e.contains("3 problem(s)"), "{e}");
     assert_eq!(std::fs::read(d.join("p.ron")).expect("pair"), before);
 }
+
+#[test]
+fn pair_export_prints_the_file_so_a_built_in_pair_can_be_copied_and_changed() {
+    let o = run(&["pair", "export", "demo-al6061-on-cu"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let builtin = std::fs::read(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("../../windows/demo-al6061-on-cu.ron"),
+    )
+    .expect("the built-in file");
+    assert_eq!(o.stdout, builtin, "export is the file byte for byte");
+    // The copy in a user folder shadows the built-in pair and takes a saved fit.
+    let dir = tempfile::tempdir().expect("temp dir");
+    std::fs::write(dir.path().join("demo-al6061-on-cu.ron"), &o.stdout).expect("copy");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "fit",
+        "demo-al6061-on-cu",
+        "--save",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = run(&["--library", lib, "pair", "export", "demo-al6061-on-cu"]);
+    assert!(stdout(&o).contains("fitted"), "{}", stdout(&o));
+    // The read-only message names the command.
+    let o = run(&["pair", "fit", "demo-al6061-on-cu", "--save"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("oblique pair export demo-al6061-on-cu"),
+        "{}",
+        stderr(&o)
+    );
+    fails_with(&["pair", "export", "no-such-pair"], &["unknown pair"]);
+}

@@ -65,6 +65,7 @@ fn point_json(r: &SweepRanking<'_>, s: &Setting) -> Value {
     match (&s.check, r.window) {
         (Some(k), Some(w)) => {
             p.insert("inside".into(), json!(k.inside));
+            p.insert("outside_trial_data".into(), json!(outside_trials(k)));
             p.insert("prediction".into(), json!(k.prediction.as_str()));
             p.insert(
                 "binding".into(),
@@ -206,6 +207,7 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
                 }) => {
                     let check = r.setting(i, j).check.as_ref();
                     let mark = match check {
+                        Some(k) if k.inside && outside_trials(k) => " in?",
                         Some(k) if k.inside => " in",
                         Some(k) if !k.domain.inside() => " dom",
                         Some(_) => " out",
@@ -233,7 +235,7 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
         "impact velocity Vp [m/s] by charging voltage (rows) and standoff (columns)\n",
     );
     out.push_str(&table(&hdr, &trows));
-    out.push_str("  (in/out: inside or outside the pair window at the angle shown; dom: outside the validity domain, no verdict claimed (docs/theory.md §7.1); ~ jetting in the mixed regime, one plate supersonic, which no source covers (docs/theory.md §4.3); * impact after the first current zero)\n\n");
+    out.push_str("  (in/out: inside or outside the pair window at the angle shown; in?: inside the model limits and the boundaries that reach it, but outside the trial data (a user boundary does not span it, or no trial was fired near it: `oblique check` says which); dom: outside the validity domain, no verdict claimed (docs/theory.md §7.1); ~ jetting in the mixed regime, one plate supersonic, which no source covers (docs/theory.md §4.3); * impact after the first current zero)\n\n");
     out
 }
 
@@ -258,6 +260,15 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
         r.settings.len(),
         w.name
     );
+    let beyond = r
+        .inside_ranked()
+        .filter(|s| s.check.as_ref().is_some_and(outside_trials))
+        .count();
+    if beyond > 0 {
+        out.push_str(&format!(
+            " ({beyond} of them outside the trial data: in? above)"
+        ));
+    }
     if r.ranked.is_empty() {
         out.push_str(".\n");
         return out;
@@ -397,4 +408,10 @@ pub fn curve_csvs(r: &SweepRanking<'_>) -> Vec<(String, String)> {
         files.push((format!("standoff-{}mm.csv", human::g(g * 1e3)), s));
     }
     files
+}
+
+/// Inside the model limits but outside the trial data: a user boundary does not span the point,
+/// or it lies beyond the region the trials cover (as `check` words it).
+fn outside_trials(k: &oblique_window::Classification) -> bool {
+    k.outside_trial_data || k.trials.as_ref().is_some_and(|t| t.beyond_trials)
 }
