@@ -699,3 +699,40 @@ fn pair_export_prints_the_file_so_a_built_in_pair_can_be_copied_and_changed() {
     );
     fails_with(&["pair", "export", "no-such-pair"], &["unknown pair"]);
 }
+
+#[test]
+fn importing_the_same_file_twice_warns_of_each_repeated_shot_and_keeps_both() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "new",
+        "t",
+        "--flyer",
+        "aa6061-t6",
+        "--parent",
+        "cu-c11000",
+        "--flyer-thickness",
+        "1mm",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let csv = dir.path().join("s.csv");
+    std::fs::write(
+        &csv,
+        "velocity[m/s],angle[deg],outcome,source\n400,10,welded,log 1\n380,9,not-welded,log 2\n",
+    )
+    .expect("csv");
+    let csv = csv.to_str().expect("utf-8");
+    let o = run(&["--library", lib, "pair", "import", "t", csv]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!stderr(&o).contains("repeats"), "{}", stderr(&o));
+    let o = run(&["--library", lib, "pair", "import", "t", csv]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let err = stderr(&o);
+    assert!(err.contains("s.csv:2: shot #3 repeats shot #1"), "{err}");
+    assert!(err.contains("s.csv:3: shot #4 repeats shot #2"), "{err}");
+    let text = std::fs::read_to_string(dir.path().join("t.ron")).expect("pair");
+    assert_eq!(text.matches("source:").count(), 4, "both kept");
+}

@@ -75,9 +75,14 @@ pub(super) fn run_boundary(dirs: &[PathBuf], c: BoundaryCommand) -> CmdResult {
     if a.points.len() < 2 {
         return Err(Fail::input("--point: a boundary needs at least two points"));
     }
-    if a.label.trim().is_empty() || a.provenance.trim().is_empty() {
+    if a.label.trim().is_empty() {
         return Err(Fail::input(
-            "--label and --provenance must say what the line is and where it comes from",
+            "--label is empty: say what the line is, e.g. --label \"lowest welding velocity (series S-11)\"",
+        ));
+    }
+    if a.provenance.trim().is_empty() {
+        return Err(Fail::input(
+            "--provenance is empty: say where the line comes from (who drew it, from which trials)",
         ));
     }
     let entry = oblique_window::pair::BoundaryEntry {

@@ -348,9 +348,37 @@ pub(super) fn import(dirs: &[PathBuf], a: ImportArgs) -> CmdResult {
         return Err(Fail::input(format!("{}: no data rows", file.display())));
     }
     precheck_import(&path, &file, &rows, &lib)?;
+    let lines: Vec<u64> = rows.iter().map(|(l, _)| *l).collect();
     let entries: Vec<ObservationEntry> = rows.into_iter().map(|(_, e)| e).collect();
     note_target(&path);
     let updated = append_observations(&path, &entries, &lib.materials, if_unchanged.as_deref())
         .map_err(write_fail)?;
+    warn_repeats(&updated, &file, &lines);
     finish_append(&updated, &path, entries.len(), json)
+}
+
+/// A warning for every imported shot equal to one recorded before it (velocity, angle, outcome
+/// and source): the same file imported twice, or a row repeated. Both are kept (a shot is never
+/// dropped); the warning says where to look.
+fn warn_repeats(w: &PairWindow, csv: &Path, lines: &[u64]) {
+    let obs = &w.observations;
+    let first = obs.len().saturating_sub(lines.len());
+    for (k, o) in obs.iter().enumerate().skip(first) {
+        let same = obs[..k].iter().find(|e| {
+            e.velocity.si() == o.velocity.si()
+                && e.angle.degrees() == o.angle.degrees()
+                && e.outcome == o.outcome
+                && e.source == o.source
+        });
+        if let Some(e) = same {
+            errln!(
+                "warning: {}:{}: shot #{} repeats shot #{} (same velocity, angle, outcome and source): was this file imported before? Both are kept; `oblique pair show {}` lists the shots",
+                csv.display(),
+                lines.get(k - first).copied().unwrap_or(0),
+                o.index + 1,
+                e.index + 1,
+                w.name
+            );
+        }
+    }
 }
