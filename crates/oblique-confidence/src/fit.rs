@@ -698,6 +698,23 @@ pub fn fit(window: &PairWindow, settings: &FitSettings) -> ConfidenceResult<FitR
             "{partial} partial weld(s) count as half a weld and half a failure: they pull the window's edge through themselves"
         ));
     }
+    // Trials outside the validity domain enter the likelihood through the limits' extrapolation
+    // there (`pair agreement` counts them apart, claiming no verdict): say which.
+    let outside: Vec<String> = oblique_window::agreement(window)
+        .map(|a| {
+            a.outside_domain
+                .iter()
+                .map(|t| format!("#{}", t.index + 1))
+                .collect()
+        })
+        .unwrap_or_default();
+    if !outside.is_empty() {
+        warnings.push(format!(
+            "{} trial(s) lie outside the validity domain ({}): they enter the fit through the limits' extrapolation there, where `pair agreement` claims no verdict; if the fit moves much without them, trust it less",
+            outside.len(),
+            outside.join(", ")
+        ));
+    }
     Ok(FitResult {
         pair: window.name.clone(),
         observations: window.observations.len(),

@@ -51,6 +51,13 @@ fn fit_json_has_the_contract_keys() {
         );
     }
     assert!(v["warnings"].is_array());
+    // Shot #10 of the demo lies outside the validity domain: the fit says it used it anyway.
+    assert!(
+        v["warnings"].as_array().expect("warnings").iter().any(|w| w
+            .as_str()
+            .is_some_and(|w| w.contains("outside the validity domain (#10)"))),
+        "{v}"
+    );
     assert!(v["caution"]
         .as_str()
         .expect("caution")
