@@ -23,7 +23,7 @@ use oblique_core::jetting::{critical_angle, JettingAssessment, JettingRegime, Mi
 use oblique_core::jetting_table::{JettingTable, Lookup};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{Collision, Convention, CriterionId, DomainQuantity, PairSetup, PhysicsError};
-use oblique_window::boundary::{interpolate, Plane, WeldSide};
+use oblique_window::boundary::{Plane, WeldSide};
 use oblique_window::classify::{limit_label, LimitRef, Prediction};
 use oblique_window::PairWindow;
 use std::sync::OnceLock;
@@ -436,7 +436,11 @@ impl Classifier {
         }
     }
 
-    #[inline]
+    /// The jetting assessment of a collision, and whether it was solved directly. Inlined into
+    /// the row so that the assessment stays in registers (returned through memory it was
+    /// written field by field and read back whole, a store-forwarding stall); the direct solve
+    /// and the mixed case are out of line.
+    #[inline(always)]
     fn jetting(&self, c: &Collision) -> Result<(JettingAssessment, bool), PhysicsError> {
         let vf = c.flow_velocity;
         let vc = c.collision_velocity;
@@ -484,11 +488,18 @@ impl Classifier {
                 Lookup::Mixed(..) | Lookup::OutsideDomain => {}
             }
         }
+        self.jetting_direct(c)
+    }
+
+    /// The critical angle solved directly (near the limit, outside the table, or without one).
+    #[cold]
+    #[inline(never)]
+    fn jetting_direct(&self, c: &Collision) -> Result<(JettingAssessment, bool), PhysicsError> {
         let direct = critical_angle(
             &self.setup.flyer.hugoniot,
             &self.setup.parent.hugoniot,
-            vf,
-            vc,
+            c.flow_velocity,
+            c.collision_velocity,
             self.cfg.mixed_jetting,
         )?;
         Ok((direct, true))
@@ -497,6 +508,7 @@ impl Classifier {
     /// The mixed case under the conservative polar rule: the supersonic stream's own polar,
     /// from the table's one-dimensional part, re-solved directly near the limit.
     #[cold]
+    #[inline(never)]
     fn mixed_jetting(&self, c: &Collision) -> Result<(JettingAssessment, bool), PhysicsError> {
         let (vf, vc) = (c.flow_velocity, c.collision_velocity);
         if let Some(t) = self.table_for_supersonic() {
@@ -516,14 +528,7 @@ impl Classifier {
                 }
             }
         }
-        let direct = critical_angle(
-            &self.setup.flyer.hugoniot,
-            &self.setup.parent.hugoniot,
-            vf,
-            vc,
-            self.cfg.mixed_jetting,
-        )?;
-        Ok((direct, true))
+        self.jetting_direct(c)
     }
 
     /// The bounds of the validity domain the point (Vp, Vc, Vf m/s, beta deg) misses, as bits
@@ -562,7 +567,7 @@ impl Classifier {
             self.collision(velocity, angle_rad)?
         };
         let (jet, direct) = self.jetting(&c)?;
-        self.classify_collision(&c, jet, direct, margins)
+        self.classify_collision_inline(&c, jet, direct, margins)
     }
 
     /// Classify a point given by its impact velocity Vp (m/s, window convention) whatever the
@@ -597,8 +602,24 @@ impl Classifier {
         jetting_direct: bool,
         margins: &mut Vec<f64>,
     ) -> Result<Point, PhysicsError> {
-        // One slot per limit, written by index (sized once, then reused row after row).
-        margins.resize(self.limits.len(), f64::NAN);
+        self.classify_collision_inline(c, jet, jetting_direct, margins)
+    }
+
+    /// [`Self::classify_collision`] in line (the map's rows): the assessment and the point stay
+    /// in registers rather than passing through memory.
+    #[inline(always)]
+    fn classify_collision_inline(
+        &self,
+        c: &Collision,
+        jet: JettingAssessment,
+        jetting_direct: bool,
+        margins: &mut Vec<f64>,
+    ) -> Result<Point, PhysicsError> {
+        // One slot per limit, written by index (sized once, then reused row after row: the
+        // resize, out of line, only when the length differs).
+        if margins.len() != self.limits.len() {
+            margins.resize(self.limits.len(), f64::NAN);
+        }
         let (f, p) = (&self.setup.flyer, &self.setup.parent);
         let vp = c.impact_velocity;
         let vc = c.collision_velocity;
@@ -748,7 +769,7 @@ impl Classifier {
                 Plane::AngleCollisionVelocity => vc,
             };
             let (limit, margin) = if b.side.along_velocity() {
-                let lim = interpolate(&b.points, v);
+                let lim = interpolate_sorted(&b.points, v);
                 (
                     lim,
                     lim.map(|l| {
@@ -760,7 +781,7 @@ impl Classifier {
                     }),
                 )
             } else {
-                let lim = interpolate(&b.points, deg);
+                let lim = interpolate_sorted(&b.points, deg);
                 (
                     lim,
                     lim.map(|l| {
@@ -794,6 +815,29 @@ impl Classifier {
         }
         outside
     }
+}
+
+/// `oblique_window::boundary::interpolate` for the points of a loaded boundary, which run
+/// strictly upwards along x (the pair's validation refuses any other order, and reverses a
+/// line given downwards): there the partition point is the count of points below x, taken
+/// here by a plain loop that stays in line (the slice's binary search was called out of line
+/// per row). The same index, the same operations, the same bits (tested against
+/// `interpolate`).
+#[inline(always)]
+fn interpolate_sorted(points: &[(f64, f64)], x: f64) -> Option<f64> {
+    let first = points.first()?;
+    let last = points.last()?;
+    if !(x >= first.0 && x <= last.0) {
+        return None;
+    }
+    let below = points.iter().take_while(|p| p.0 < x).count();
+    let k = below.max(1).min(points.len() - 1);
+    let (x0, y0) = points[k - 1];
+    let (x1, y1) = points[k];
+    if x1 == x0 {
+        return Some(y0);
+    }
+    Some(y0 + (y1 - y0) * (x - x0) / (x1 - x0))
 }
 
 /// The constants of `oblique_core::hugoniot::impedance_match` for one pair, grouped as its
@@ -1079,6 +1123,35 @@ pub(crate) mod tests {
                     let p = impedance_match(&s.flyer.hugoniot, &s.parent.hugoniot, want.impact_velocity).unwrap();
                     prop_assert_eq!(cl.impedance.pressure(want.impact_velocity.si()).map(f64::to_bits), Some(p.pressure.si().to_bits()));
                 }
+            }
+        }
+    }
+
+    proptest! {
+        /// The in-line interpolation gives `interpolate`'s bits on strictly increasing points
+        /// (as every loaded boundary has them), inside, at and outside the span.
+        #[test]
+        fn interpolate_sorted_is_interpolate(
+            start in -50.0f64..50.0,
+            steps in prop::collection::vec((0.001f64..20.0, -100.0f64..100.0), 1..8),
+            y0 in -100.0f64..100.0,
+            t in -0.2f64..1.2,
+            at_node in 0usize..10,
+        ) {
+            let mut points = vec![(start, y0)];
+            for (dx, y) in &steps {
+                let x = points[points.len() - 1].0 + dx;
+                points.push((x, *y));
+            }
+            prop_assume!(points.windows(2).all(|w| w[1].0 > w[0].0));
+            let (a, b) = (points[0].0, points[points.len() - 1].0);
+            let node = points[at_node % points.len()].0;
+            for x in [a + t * (b - a), node, a, b, f64::NAN] {
+                prop_assert_eq!(
+                    interpolate_sorted(&points, x).map(f64::to_bits),
+                    oblique_window::boundary::interpolate(&points, x).map(f64::to_bits),
+                    "{}", x
+                );
             }
         }
     }
