@@ -340,6 +340,9 @@ fn kind_of(s: &str) -> Option<QuantityKind> {
 /// refused with a message that says which.
 pub fn range(s: &str, kind: QuantityKind) -> Result<(f64, f64), String> {
     let Some((a, b)) = s.split_once("..") else {
+        if let Some(h) = oblique_setup::grid::dash_range_hint(s, kind) {
+            return Err(format!("'{}' is not a range: {h}", short_text(s)));
+        }
         return Err(format!(
             "expected a range A..B, e.g. {}..{} ({} with its unit at both ends)",
             kind.example(),

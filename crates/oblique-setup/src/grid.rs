@@ -102,8 +102,31 @@ fn grid(s: &str, kind: QuantityKind, allow_zero: bool) -> Result<Grid, String> {
         }
         return Ok(Grid::Range(a, b));
     }
-    let v: Vec<f64> = s.split(',').map(one).collect::<Result<_, _>>()?;
+    let v: Vec<f64> = s
+        .split(',')
+        .map(one)
+        .collect::<Result<_, _>>()
+        .map_err(|e| match dash_range_hint(s, kind) {
+            Some(h) => format!("{e}; {h}"),
+            None => e,
+        })?;
     Ok(Grid::List(v))
+}
+
+/// "write a range with two dots: 6kV..10kV" when `s` is two quantities of `kind` joined by a
+/// dash (`6kV-10kV`, as ranges are often written on paper); `None` otherwise.
+#[must_use]
+pub fn dash_range_hint(s: &str, kind: QuantityKind) -> Option<String> {
+    let t = s.trim();
+    t.char_indices()
+        .filter(|&(i, c)| {
+            c == '-' && i > 0 && !matches!(t[..i].chars().last(), Some('e' | 'E' | '-'))
+        })
+        .find_map(|(i, _)| {
+            let (a, b) = (t[..i].trim(), t[i + 1..].trim());
+            (parse_quantity(a, kind).is_ok() && parse_quantity(b, kind).is_ok())
+                .then(|| format!("write a range with two dots: {a}..{b}"))
+        })
 }
 
 /// Charging voltages, e.g. `6kV..12kV` or `6kV,8kV`.
@@ -156,6 +179,18 @@ pub fn angle_grid(s: &str) -> Result<Grid, String> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_range_written_with_a_dash_gets_the_two_dot_hint() {
+        let e = voltage_grid("6kV-10kV").expect_err("a dash is not a range");
+        assert!(e.ends_with("write a range with two dots: 6kV..10kV"), "{e}");
+        assert_eq!(
+            dash_range_hint("1e-3kV-2kV", QuantityKind::Voltage).as_deref(),
+            Some("write a range with two dots: 1e-3kV..2kV")
+        );
+        assert_eq!(dash_range_hint("-5kV", QuantityKind::Voltage), None);
+        assert_eq!(dash_range_hint("6kV-10mm", QuantityKind::Voltage), None);
+    }
 
     #[test]
     fn lists_and_ranges() {
