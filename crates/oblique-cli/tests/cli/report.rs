@@ -80,6 +80,12 @@ fn report_is_well_formed_self_contained_and_escapes_user_text() {
         assert!(html.contains(section), "missing section {section}");
     }
     assert_eq!(html.matches("<svg").count(), 2);
+    // The default label is the role's own word: the heading does not repeat it.
+    assert!(
+        html.contains("<h2 id=\"chosen\">The chosen set-up</h2>"),
+        "the chosen set-up's heading"
+    );
+    assert!(!html.contains("The chosen set-up: chosen"));
 }
 
 #[test]
