@@ -380,10 +380,11 @@ fn run_chromium(browser: &str, profile: &std::path::Path, args: &[&str]) -> Stri
 }
 
 /// The demo's decision record laid out by headless Chromium at 1000 px (and 1300 px, and 700 px,
-/// narrower than the printable width of A4 and Letter): no table overflows its container or the
-/// window, and no word is broken across lines except after a hyphen or a slash (checked on every
-/// text node by tests/data/layout-check.js, injected into a copy of the page; the result is read
-/// from the DOM --dump-dom prints). Then printed to PDF on Letter and A4: every section is in the
+/// narrower than the printable width of A4 and Letter), and with its print rules at the printable
+/// widths of Letter and A4: no table or figure overflows its container or the window, and no
+/// word is broken across lines except after a hyphen or a slash (checked on every text node by
+/// tests/data/layout-check.js, injected into a copy of the page; the result is read from the DOM
+/// --dump-dom prints). Then printed to PDF on Letter and A4: every section is in the
 /// PDF's text (pdftotext, poppler-utils, where installed).
 #[test]
 fn record_layout_on_screen_and_on_paper() {
@@ -405,7 +406,23 @@ fn record_layout_on_screen_and_on_paper() {
         html.replace("</body>", &format!("<script>{script}</script></body>")),
     )
     .unwrap();
-    for width in [1000, 1300, 700] {
+    // The print rules laid out on screen at the printable width of Letter (8.5 in less the
+    // 12 mm side margins of the record's @page: 725 px) and of A4 (210 mm less 24 mm: 703 px).
+    let print = d.path().join("check-print.html");
+    std::fs::write(
+        &print,
+        std::fs::read_to_string(&check)
+            .unwrap()
+            .replace("@media print", "@media all"),
+    )
+    .unwrap();
+    for (width, page) in [
+        (1000, &check),
+        (1300, &check),
+        (700, &check),
+        (725, &print),
+        (703, &print),
+    ] {
         let profile = d.path().join(format!("profile-{width}"));
         let dom = run_chromium(
             browser,
@@ -413,7 +430,7 @@ fn record_layout_on_screen_and_on_paper() {
             &[
                 &format!("--window-size={width},900"),
                 "--dump-dom",
-                &format!("file://{}", check.display()),
+                &format!("file://{}", page.display()),
             ],
         );
         // The last one: the script's own comment names the element too.
@@ -430,6 +447,7 @@ fn record_layout_on_screen_and_on_paper() {
         let v: serde_json::Value = serde_json::from_str(&json).expect("the check's JSON");
         assert!(v["tables"].as_u64().unwrap() >= 10, "{v}");
         assert!(v["words"].as_u64().unwrap() >= 1000, "{v}");
+        assert!(v["figures"].as_u64().unwrap() >= 2, "{v}");
         assert_eq!(
             v["overflow"].as_array().unwrap().len(),
             0,
