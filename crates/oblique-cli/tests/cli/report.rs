@@ -200,6 +200,130 @@ fn plots_are_well_formed_deterministic_and_escaped() {
     );
 }
 
+/// The number in `attr="..."` of an SVG element's line.
+fn svg_attr(line: &str, attr: &str) -> f64 {
+    let at = line.find(&format!(" {attr}=\"")).expect(attr) + attr.len() + 3;
+    line[at..].split('"').next().unwrap().parse().expect(attr)
+}
+
+/// The distance in pixels from the box (x0, y0, x1, y1) to the segment a-b (0 when they meet;
+/// sampled along the segment, to a tenth of its length).
+fn box_to_segment(b: (f64, f64, f64, f64), a: (f64, f64), c: (f64, f64)) -> f64 {
+    (0..=10)
+        .map(|k| {
+            let t = f64::from(k) / 10.0;
+            let p = (a.0 + t * (c.0 - a.0), a.1 + t * (c.1 - a.1));
+            let dx = (b.0 - p.0).max(0.0).max(p.0 - b.2);
+            let dy = (b.1 - p.1).max(0.0).max(p.1 - b.3);
+            dx.hypot(dy)
+        })
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// The probability plot with a proposed point (the demo pair, invented data): the legend makes
+/// room for every entry (the picture grows below it) instead of leaving one out; each user
+/// boundary's label sits beside its own line (its halo within 24 px of the line through the
+/// boundary's points); and the two boundaries are drawn, and shown in the legend, with
+/// different dashes (the first solid: one piece in the legend; the second dashed: several).
+#[test]
+fn the_probability_plot_shows_every_legend_entry_and_labels_each_boundary_at_its_line() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("p.svg");
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--probability",
+        "--velocity-sd",
+        "5%",
+        "--angle-sd",
+        "1deg",
+        "--point",
+        "450m/s,10deg",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).unwrap();
+    parse_xml(&svg);
+    assert!(!svg.contains("more entries not shown"), "an entry left out");
+    for entry in [
+        "proposed point",
+        "weld probability 90 %",
+        "melted",
+        "Points",
+    ] {
+        assert!(svg.contains(entry), "missing legend entry '{entry}'");
+    }
+    let head = svg.lines().find(|l| l.starts_with("<svg")).unwrap();
+    let height = svg_attr(head, "height");
+    assert!(height > 680.0, "the picture did not grow: {head}");
+    assert!(svg.contains(&format!("viewBox=\"0 0 1100 {height}\"")));
+    // The caution line is inside the picture.
+    let lines: Vec<&str> = svg.lines().collect();
+    let caution = lines
+        .iter()
+        .position(|l| l.starts_with("Screening estimate from published relations"))
+        .unwrap();
+    assert!(svg_attr(lines[caution - 1], "y") < height);
+    // The boundaries' points (black dots of radius 3), in the order of the pair file.
+    let dots: Vec<(f64, f64)> = lines
+        .iter()
+        .filter(|l| {
+            l.starts_with("<circle") && l.contains(" r=\"3\"") && l.contains("fill=\"#000000\"")
+        })
+        .map(|l| (svg_attr(l, "cx"), svg_attr(l, "cy")))
+        .collect();
+    assert_eq!(dots.len(), 7, "4 + 3 boundary points");
+    for (label, own) in [
+        ("lowest welding velocity seen (HBW-2026)", &dots[..4]),
+        ("tip bounce-back angle (HBW-2026)", &dots[4..]),
+    ] {
+        let at = lines.iter().position(|l| *l == label).expect(label);
+        // The halo drawn just before the text.
+        let halo = lines[at - 2];
+        assert!(halo.starts_with("<rect"), "{halo}");
+        let (x, y) = (svg_attr(halo, "x"), svg_attr(halo, "y"));
+        let b = (
+            x,
+            y,
+            x + svg_attr(halo, "width"),
+            y + svg_attr(halo, "height"),
+        );
+        let gap = own
+            .windows(2)
+            .map(|s| box_to_segment(b, s[0], s[1]))
+            .fold(f64::INFINITY, f64::min);
+        assert!(gap <= 24.0, "'{label}' is {gap:.0} px from its line");
+    }
+    // The legend's boundary samples (black, 3 px, right of the plot): a solid and a dashed one.
+    let mut pieces: std::collections::BTreeMap<i64, usize> = std::collections::BTreeMap::new();
+    for l in &lines {
+        if l.starts_with("<polyline") && l.contains("stroke=\"#000000\" stroke-width=\"3\"") {
+            let pts: Vec<(f64, f64)> = l
+                .split("points=\"")
+                .nth(1)
+                .unwrap()
+                .split('"')
+                .next()
+                .unwrap()
+                .split_whitespace()
+                .map(|p| {
+                    let (a, b) = p.split_once(',').unwrap();
+                    (a.parse().unwrap(), b.parse().unwrap())
+                })
+                .collect();
+            if pts.iter().all(|p| p.0 >= 800.0) {
+                *pieces.entry(pts[0].1 as i64).or_default() += 1;
+            }
+        }
+    }
+    let counts: Vec<usize> = pieces.values().copied().collect();
+    assert_eq!(counts.len(), 2, "{pieces:?}");
+    assert_eq!(counts[0], 1, "the first boundary is solid: {pieces:?}");
+    assert!(counts[1] > 1, "the second boundary is dashed: {pieces:?}");
+}
+
 #[test]
 fn many_points_are_binned_and_the_plot_says_so() {
     let d = tempfile::tempdir().unwrap();

@@ -109,7 +109,10 @@ pub const MAX_MARKED_POINTS: usize = 400;
 pub const MAX_LABELLED_POINTS: usize = 12;
 
 const WIDTH: u32 = 1100;
+/// The height of the plot, and of the whole picture unless the legend needs more.
 const HEIGHT: u32 = 680;
+/// The canvas drawn on: the picture is cut to `HEIGHT`, or below the legend when it runs lower.
+const CANVAS_HEIGHT: u32 = 2000;
 const LEGEND_W: u32 = 300;
 
 pub(crate) fn criterion_colour(id: CriterionId) -> RGBColor {
@@ -260,13 +263,19 @@ pub(crate) fn render_svg_overlay(
     let (x_max, y_max) = plot_ranges(req);
     let field = field::Field::evaluate(req.window, req.plane, x_max, y_max)?;
     let mut svg = String::new();
-    draw::draw(
-        SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area(),
+    let height = draw::draw(
+        SVGBackend::with_string(&mut svg, (WIDTH, CANVAS_HEIGHT)).into_drawing_area(),
         req,
         &field,
         (x_max, y_max),
         overlay,
     )?;
+    // The picture is cut below the legend (or at the plot's height).
+    let svg = svg.replacen(
+        &format!("height=\"{CANVAS_HEIGHT}\" viewBox=\"0 0 {WIDTH} {CANVAS_HEIGHT}\""),
+        &format!("height=\"{height}\" viewBox=\"0 0 {WIDTH} {height}\""),
+        1,
+    );
     // User text (labels, names) may hold characters XML forbids: keep the SVG well-formed.
     Ok(oblique_window::present::xml_safe(&svg).into_owned())
 }
