@@ -394,7 +394,8 @@ fn draw(root: &Area<'_>, t: &Trade<'_>, panels: &[Panel], height: u32) -> Render
         y0 += h;
         draw_panel(&area, t, p, (lo, hi), k + 1 == n, k == 0)?;
     }
-    draw_legend(&legend, &legend_sections(t, panels)).map_err(err)?;
+    // As low as it has always gone (the legend reaches 630 px below the title at most).
+    draw_legend(&legend, &legend_sections(t, panels), 630).map_err(err)?;
     footer
         .draw(&Text::new(
             "Screening estimate from published relations, not a guarantee of a weld. Lethal voltages, stored energy, explosives and flying parts: follow local codes and licensed practice.",

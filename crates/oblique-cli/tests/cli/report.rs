@@ -80,6 +80,12 @@ fn report_is_well_formed_self_contained_and_escapes_user_text() {
         assert!(html.contains(section), "missing section {section}");
     }
     assert_eq!(html.matches("<svg").count(), 2);
+    // The default label is the role's own word: the heading does not repeat it.
+    assert!(
+        html.contains("<h2 id=\"chosen\">The chosen set-up</h2>"),
+        "the chosen set-up's heading"
+    );
+    assert!(!html.contains("The chosen set-up: chosen"));
 }
 
 #[test]
@@ -192,6 +198,130 @@ fn plots_are_well_formed_deterministic_and_escaped() {
         ],
         &["--point", "has no unit"],
     );
+}
+
+/// The number in `attr="..."` of an SVG element's line.
+fn svg_attr(line: &str, attr: &str) -> f64 {
+    let at = line.find(&format!(" {attr}=\"")).expect(attr) + attr.len() + 3;
+    line[at..].split('"').next().unwrap().parse().expect(attr)
+}
+
+/// The distance in pixels from the box (x0, y0, x1, y1) to the segment a-b (0 when they meet;
+/// sampled along the segment, to a tenth of its length).
+fn box_to_segment(b: (f64, f64, f64, f64), a: (f64, f64), c: (f64, f64)) -> f64 {
+    (0..=10)
+        .map(|k| {
+            let t = f64::from(k) / 10.0;
+            let p = (a.0 + t * (c.0 - a.0), a.1 + t * (c.1 - a.1));
+            let dx = (b.0 - p.0).max(0.0).max(p.0 - b.2);
+            let dy = (b.1 - p.1).max(0.0).max(p.1 - b.3);
+            dx.hypot(dy)
+        })
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// The probability plot with a proposed point (the demo pair, invented data): the legend makes
+/// room for every entry (the picture grows below it) instead of leaving one out; each user
+/// boundary's label sits beside its own line (its halo within 24 px of the line through the
+/// boundary's points); and the two boundaries are drawn, and shown in the legend, with
+/// different dashes (the first solid: one piece in the legend; the second dashed: several).
+#[test]
+fn the_probability_plot_shows_every_legend_entry_and_labels_each_boundary_at_its_line() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("p.svg");
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--probability",
+        "--velocity-sd",
+        "5%",
+        "--angle-sd",
+        "1deg",
+        "--point",
+        "450m/s,10deg",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).unwrap();
+    parse_xml(&svg);
+    assert!(!svg.contains("more entries not shown"), "an entry left out");
+    for entry in [
+        "proposed point",
+        "weld probability 90 %",
+        "melted",
+        "Points",
+    ] {
+        assert!(svg.contains(entry), "missing legend entry '{entry}'");
+    }
+    let head = svg.lines().find(|l| l.starts_with("<svg")).unwrap();
+    let height = svg_attr(head, "height");
+    assert!(height > 680.0, "the picture did not grow: {head}");
+    assert!(svg.contains(&format!("viewBox=\"0 0 1100 {height}\"")));
+    // The caution line is inside the picture.
+    let lines: Vec<&str> = svg.lines().collect();
+    let caution = lines
+        .iter()
+        .position(|l| l.starts_with("Screening estimate from published relations"))
+        .unwrap();
+    assert!(svg_attr(lines[caution - 1], "y") < height);
+    // The boundaries' points (black dots of radius 3), in the order of the pair file.
+    let dots: Vec<(f64, f64)> = lines
+        .iter()
+        .filter(|l| {
+            l.starts_with("<circle") && l.contains(" r=\"3\"") && l.contains("fill=\"#000000\"")
+        })
+        .map(|l| (svg_attr(l, "cx"), svg_attr(l, "cy")))
+        .collect();
+    assert_eq!(dots.len(), 7, "4 + 3 boundary points");
+    for (label, own) in [
+        ("lowest welding velocity seen (HBW-2026)", &dots[..4]),
+        ("tip bounce-back angle (HBW-2026)", &dots[4..]),
+    ] {
+        let at = lines.iter().position(|l| *l == label).expect(label);
+        // The halo drawn just before the text.
+        let halo = lines[at - 2];
+        assert!(halo.starts_with("<rect"), "{halo}");
+        let (x, y) = (svg_attr(halo, "x"), svg_attr(halo, "y"));
+        let b = (
+            x,
+            y,
+            x + svg_attr(halo, "width"),
+            y + svg_attr(halo, "height"),
+        );
+        let gap = own
+            .windows(2)
+            .map(|s| box_to_segment(b, s[0], s[1]))
+            .fold(f64::INFINITY, f64::min);
+        assert!(gap <= 24.0, "'{label}' is {gap:.0} px from its line");
+    }
+    // The legend's boundary samples (black, 3 px, right of the plot): a solid and a dashed one.
+    let mut pieces: std::collections::BTreeMap<i64, usize> = std::collections::BTreeMap::new();
+    for l in &lines {
+        if l.starts_with("<polyline") && l.contains("stroke=\"#000000\" stroke-width=\"3\"") {
+            let pts: Vec<(f64, f64)> = l
+                .split("points=\"")
+                .nth(1)
+                .unwrap()
+                .split('"')
+                .next()
+                .unwrap()
+                .split_whitespace()
+                .map(|p| {
+                    let (a, b) = p.split_once(',').unwrap();
+                    (a.parse().unwrap(), b.parse().unwrap())
+                })
+                .collect();
+            if pts.iter().all(|p| p.0 >= 800.0) {
+                *pieces.entry(pts[0].1 as i64).or_default() += 1;
+            }
+        }
+    }
+    let counts: Vec<usize> = pieces.values().copied().collect();
+    assert_eq!(counts.len(), 2, "{pieces:?}");
+    assert_eq!(counts[0], 1, "the first boundary is solid: {pieces:?}");
+    assert!(counts[1] > 1, "the second boundary is dashed: {pieces:?}");
 }
 
 #[test]
@@ -374,10 +504,11 @@ fn run_chromium(browser: &str, profile: &std::path::Path, args: &[&str]) -> Stri
 }
 
 /// The demo's decision record laid out by headless Chromium at 1000 px (and 1300 px, and 700 px,
-/// narrower than the printable width of A4 and Letter): no table overflows its container or the
-/// window, and no word is broken across lines except after a hyphen or a slash (checked on every
-/// text node by tests/data/layout-check.js, injected into a copy of the page; the result is read
-/// from the DOM --dump-dom prints). Then printed to PDF on Letter and A4: every section is in the
+/// narrower than the printable width of A4 and Letter), and with its print rules at the printable
+/// widths of Letter and A4: no table or figure overflows its container or the window, and no
+/// word is broken across lines except after a hyphen or a slash (checked on every text node by
+/// tests/data/layout-check.js, injected into a copy of the page; the result is read from the DOM
+/// --dump-dom prints). Then printed to PDF on Letter and A4: every section is in the
 /// PDF's text (pdftotext, poppler-utils, where installed).
 #[test]
 fn record_layout_on_screen_and_on_paper() {
@@ -399,7 +530,23 @@ fn record_layout_on_screen_and_on_paper() {
         html.replace("</body>", &format!("<script>{script}</script></body>")),
     )
     .unwrap();
-    for width in [1000, 1300, 700] {
+    // The print rules laid out on screen at the printable width of Letter (8.5 in less the
+    // 12 mm side margins of the record's @page: 725 px) and of A4 (210 mm less 24 mm: 703 px).
+    let print = d.path().join("check-print.html");
+    std::fs::write(
+        &print,
+        std::fs::read_to_string(&check)
+            .unwrap()
+            .replace("@media print", "@media all"),
+    )
+    .unwrap();
+    for (width, page) in [
+        (1000, &check),
+        (1300, &check),
+        (700, &check),
+        (725, &print),
+        (703, &print),
+    ] {
         let profile = d.path().join(format!("profile-{width}"));
         let dom = run_chromium(
             browser,
@@ -407,7 +554,7 @@ fn record_layout_on_screen_and_on_paper() {
             &[
                 &format!("--window-size={width},900"),
                 "--dump-dom",
-                &format!("file://{}", check.display()),
+                &format!("file://{}", page.display()),
             ],
         );
         // The last one: the script's own comment names the element too.
@@ -424,6 +571,7 @@ fn record_layout_on_screen_and_on_paper() {
         let v: serde_json::Value = serde_json::from_str(&json).expect("the check's JSON");
         assert!(v["tables"].as_u64().unwrap() >= 10, "{v}");
         assert!(v["words"].as_u64().unwrap() >= 1000, "{v}");
+        assert!(v["figures"].as_u64().unwrap() >= 2, "{v}");
         assert_eq!(
             v["overflow"].as_array().unwrap().len(),
             0,

@@ -1,7 +1,8 @@
 // Layout check of the decision record, run by the browser test (crates/oblique-cli/tests/cli/
-// report.rs) in a copy of the page: every table must fit its container and the window, and no
-// word of the text may be broken across lines except after a hyphen or a slash. The result goes
-// into <pre id="layout-check"> as JSON, read back from the DOM that --dump-dom prints.
+// report.rs) in a copy of the page: every table and every figure must fit its container and the
+// window, and no word of the text may be broken across lines except after a hyphen or a slash.
+// The result goes into <pre id="layout-check"> as JSON, read back from the DOM that --dump-dom
+// prints.
 (function () {
   var out = { width: document.documentElement.clientWidth, tables: 0, words: 0, overflow: [], broken: [] };
   var W = document.documentElement.clientWidth;
@@ -12,6 +13,15 @@
     if (t.scrollWidth > t.clientWidth + 1 || r.right > p.right + 1 || r.right > W + 1) {
       var head = (t.querySelector('th') || t).textContent.slice(0, 50);
       out.overflow.push(head + ': ' + Math.round(r.width) + ' px in ' + Math.round(p.width) + ' px');
+    }
+  });
+  out.figures = 0;
+  document.querySelectorAll('figure svg, img, object').forEach(function (f) {
+    out.figures += 1;
+    var r = f.getBoundingClientRect();
+    var p = f.parentElement.getBoundingClientRect();
+    if (r.right > p.right + 1 || r.right > W + 1 || r.left < p.left - 1) {
+      out.overflow.push('figure ' + out.figures + ': ' + Math.round(r.width) + ' px in ' + Math.round(p.width) + ' px');
     }
   });
   var walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);

@@ -218,13 +218,34 @@ fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
     h
 }
 
+/// The heading of the chosen set-up's section: "The chosen set-up", followed by its label when
+/// the label says more than the role does (the default label is "chosen", which would read
+/// "The chosen set-up: chosen").
+fn chosen_heading(label: &str) -> String {
+    let l = label.trim();
+    let bare = l.to_lowercase().replace(['-', '_'], " ");
+    if l.is_empty()
+        || [
+            "chosen",
+            "chosen set up",
+            "chosen setup",
+            "the chosen set up",
+        ]
+        .contains(&bare.as_str())
+    {
+        "The chosen set-up".to_string()
+    } else {
+        format!("The chosen set-up: {l}")
+    }
+}
+
 /// The chosen set-up: its settings and, for a process, every input with its provenance and
 /// the estimate's main results.
 fn chosen_setup(input: &ReportInput<'_>) -> String {
     let ch = &input.decision.chosen;
     let mut h = format!(
-        "<h2 id=\"chosen\">The chosen set-up: {}</h2>\n<p>Settings: {}. {}</p>\n",
-        esc(&ch.label),
+        "<h2 id=\"chosen\">{}</h2>\n<p>Settings: {}. {}</p>\n",
+        esc(&chosen_heading(&ch.label)),
         settings_html(ch),
         esc(&capitalise(input.decision.rule.text()))
     );
@@ -845,4 +866,29 @@ fn part_provenance(input: &ReportInput<'_>) -> String {
     }
     h.push_str("</tbody></table>\n<footer>Screening estimate, not a guarantee; follow local codes and licensed practice.</footer>\n</div>\n");
     h
+}
+
+#[cfg(test)]
+mod tests {
+    use super::chosen_heading;
+
+    /// A label that only names the role is not repeated after it; any other label is shown.
+    #[test]
+    fn the_chosen_heading_does_not_repeat_the_role() {
+        for l in [
+            "chosen",
+            "Chosen",
+            " chosen ",
+            "chosen set-up",
+            "chosen_setup",
+            "",
+        ] {
+            assert_eq!(chosen_heading(l), "The chosen set-up", "{l:?}");
+        }
+        assert_eq!(chosen_heading("A"), "The chosen set-up: A");
+        assert_eq!(
+            chosen_heading("chosen one"),
+            "The chosen set-up: chosen one"
+        );
+    }
 }

@@ -1,6 +1,7 @@
 //! The report's style sheet: readable on screen from 1000 px wide (no word broken inside; long
 //! paths break only after a slash), and printed on A4 or Letter with each part on a new page,
-//! table rows and figures never split, table headers repeated.
+//! table rows and figures never split, table headers repeated; every figure fits the width it is
+//! given, border included.
 
 /// The CSS, inlined in the page.
 pub const CSS: &str = r#"
@@ -34,7 +35,7 @@ code.hash { font-size: 0.74em; background: none; white-space: nowrap; }
 .chosen td { background: #f2f7fc; }
 .small { font-size: 0.86em; }
 figure { margin: 0.6em 0 1em 0; break-inside: avoid; page-break-inside: avoid; }
-figure svg { width: 100%; height: auto; border: 1px solid #e0e0e0; }
+figure svg { box-sizing: border-box; width: 100%; max-width: 100%; height: auto; border: 1px solid #e0e0e0; }
 figcaption { font-size: 0.86em; color: #333; }
 footer { margin-top: 2em; font-size: 0.85em; color: #444; border-top: 1px solid #ccc; padding-top: 0.6em; }
 @media print {
@@ -43,5 +44,6 @@ footer { margin-top: 2em; font-size: 0.85em; color: #444; border-top: 1px solid 
   .part.first { break-before: auto; page-break-before: auto; }
   h2 { margin-top: 0.6em; }
   table { font-size: 0.84em; }
+  img, svg, object { box-sizing: border-box; max-width: 100% !important; height: auto !important; }
 }
 "#;

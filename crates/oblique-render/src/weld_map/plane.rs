@@ -164,7 +164,11 @@ fn draw_regions(chart: &mut Chart<'_, '_>, r: &Regions, c: &Classifier) -> Rende
             verdict_at(c, x, y, &mut margins.borrow_mut())
                 .map(|v| if v == code { 1.0 } else { -1.0 })
         };
-        let outlines = crate::window_plot::field::trace_field(&r.xs, &r.ys, &values, &probe, true);
+        // One polygon per verdict with its holes cut out (a region around an island of
+        // another verdict would otherwise cover the island).
+        let outlines = crate::window_plot::field::fill_polygons(
+            crate::window_plot::field::trace_field(&r.xs, &r.ys, &values, &probe, true),
+        );
         chart
             .draw_series(
                 outlines

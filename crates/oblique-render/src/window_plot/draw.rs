@@ -4,10 +4,10 @@
 
 use super::field::{Field, P};
 use super::legend::{draw_legend, Entry, Mark, Section};
-use super::place::{Need, Placer, Rect};
+use super::place::{Need, Placer, Rect, NEAR_RINGS};
 use super::{
     binding_text, classify_point, criterion_colour, criterion_label, inside_count, plot_err, x_of,
-    PlotRequest, PointRole, ProposedPoint, HEIGHT, LEGEND_W, MAX_LABELLED_POINTS,
+    PlotRequest, PointRole, ProposedPoint, CANVAS_HEIGHT, HEIGHT, LEGEND_W, MAX_LABELLED_POINTS,
     MAX_MARKED_POINTS, WIDTH,
 };
 use crate::error::RenderResult;
@@ -59,10 +59,25 @@ pub(super) fn curve_style(k: usize) -> (RGBColor, (u32, u32)) {
     )
 }
 
+/// The dash of user boundary `k` (solid, long dashes, short dashes, long-short): each boundary
+/// has its own, on the plot and in the legend alike.
+pub(super) fn boundary_dash(k: usize) -> Option<(u32, u32)> {
+    [
+        None,
+        Some((14, 6)),
+        Some((5, 4)),
+        Some((22, 5)),
+        Some((2, 3)),
+    ][k % 5]
+}
+
 /// A label waiting for its place.
 struct Label {
     text: String,
     anchor: (f64, f64),
+    /// Other points the label may go beside instead (a line's other points); empty for one
+    /// anchor.
+    along: Vec<(f64, f64)>,
     radius: f64,
     size: u32,
     colour: RGBColor,
@@ -89,11 +104,18 @@ pub(super) fn draw(
     field: &Field<'_>,
     (x_max, y_max): (f64, f64),
     overlay: Option<&crate::probability::Contours>,
-) -> RenderResult {
+) -> RenderResult<u32> {
     let w = req.window;
     root.fill(&WHITE).map_err(plot_err)?;
-    let (main, bottom) = root.split_vertically(HEIGHT - FOOTER);
-    let (chart_area, legend_area) = main.split_horizontally(WIDTH - LEGEND_W);
+    // The chart keeps its size; the legend beside it may run lower than the chart (the canvas,
+    // `CANVAS_HEIGHT` tall, is then cut below the legend instead of at `HEIGHT`).
+    let (chart_area, _) = root
+        .clone()
+        .shrink((0, 0), (WIDTH, HEIGHT - FOOTER))
+        .split_horizontally(WIDTH - LEGEND_W);
+    let legend_area = root
+        .clone()
+        .shrink((WIDTH - LEGEND_W, 0), (LEGEND_W, CANVAS_HEIGHT - FOOTER));
     let mut chart = frame(&chart_area, req, x_max, y_max)?;
     let (a, b) = (px(&chart, (0.0, y_max)), px(&chart, (x_max, 0.0)));
     let mut layers = Layers {
@@ -124,7 +146,10 @@ pub(super) fn draw(
         draw_points(&mut chart, req, &mut layers)?;
     }
     place_labels(&root, layers.placer, layers.labels)?;
-    draw_legend(&legend_area, &layers.sections)?;
+    let reach = draw_legend(&legend_area, &layers.sections, (CANVAS_HEIGHT - 50) as i32)?;
+    // As many pixels under the legend as under the chart.
+    let height = HEIGHT.max(u32::try_from(reach).unwrap_or(0) + 50);
+    let bottom = root.clone().shrink((0, height - FOOTER), (WIDTH, FOOTER));
     bottom
         .draw(&Text::new(
             "Screening estimate from published relations and the trials shown, not a guarantee of a weld. Lethal voltages, stored energy, explosives and flying parts: follow local codes and licensed practice.",
@@ -143,7 +168,7 @@ pub(super) fn draw(
             .map_err(plot_err)?;
     }
     root.present().map_err(plot_err)?;
-    Ok(())
+    Ok(height)
 }
 
 const C_PROBABILITY: RGBColor = RGBColor(0, 110, 110);
@@ -184,6 +209,7 @@ fn draw_probability(
             layers.labels.push(Label {
                 text: format!("{:.0} %", 100.0 * level),
                 anchor: px(chart, longest[longest.len() / 2]),
+                along: Vec::new(),
                 radius: 3.0,
                 size: 13,
                 colour: C_PROBABILITY,
@@ -467,7 +493,7 @@ fn draw_boundaries(
     layers: &mut Layers<'_>,
 ) -> RenderResult {
     let w = req.window;
-    for b in &w.boundaries {
+    for (k, b) in w.boundaries.iter().enumerate() {
         let pts: Vec<P> = b
             .points
             .iter()
@@ -484,9 +510,13 @@ fn draw_boundaries(
                 Some((x_of(w, req.plane, vp, a.radians())?, a.degrees()))
             })
             .collect();
-        chart
-            .draw_series(LineSeries::new(pts.clone(), BLACK.stroke_width(3)))
-            .map_err(plot_err)?;
+        let dash = boundary_dash(k);
+        let style = BLACK.stroke_width(3);
+        match dash {
+            None => chart.draw_series(LineSeries::new(pts.clone(), style)),
+            Some((d, g)) => chart.draw_series(DashedLineSeries::new(pts.clone(), d, g, style)),
+        }
+        .map_err(plot_err)?;
         chart
             .draw_series(pts.iter().map(|p| Circle::new(*p, 3, BLACK.filled())))
             .map_err(plot_err)?;
@@ -496,9 +526,19 @@ fn draw_boundaries(
             layers.placer.add_marker(Rect::around(p.0, p.1, 3.0));
         }
         if let Some(last) = pix.last() {
+            // Beside its own line: the last point first, then the first, then the rest of the
+            // line (whichever has room nearest).
+            let mut along = vec![*last];
+            along.extend(pix.first().filter(|_| pix.len() > 1));
+            along.extend(pix.iter().skip(1).take(pix.len().saturating_sub(2)));
+            along.extend(
+                pix.windows(2)
+                    .map(|s| (0.5 * (s[0].0 + s[1].0), 0.5 * (s[0].1 + s[1].1))),
+            );
             layers.labels.push(Label {
                 text: b.label.clone(),
                 anchor: *last,
+                along,
                 radius: 3.0,
                 size: 12,
                 colour: C_LABEL,
@@ -514,7 +554,7 @@ fn draw_boundaries(
             Mark::Line {
                 colour: BLACK,
                 width: 3,
-                dash: None,
+                dash,
             },
         ));
     }
@@ -572,6 +612,7 @@ fn draw_curves(
                 let label = Label {
                     text: l.clone(),
                     anchor: q,
+                    along: Vec::new(),
                     radius: 4.0,
                     size: 11,
                     colour,
@@ -644,6 +685,7 @@ fn draw_trials(
             shots.push(Label {
                 text: format!("{}", o.index + 1),
                 anchor: q,
+                along: Vec::new(),
                 radius: 6.0,
                 size: 10,
                 colour: C_SHOT,
@@ -724,6 +766,7 @@ fn draw_points(
                     point_text(w, p)
                 },
                 anchor: q,
+                along: Vec::new(),
                 radius: r,
                 size: 12,
                 colour: C_LABEL,
@@ -789,7 +832,12 @@ fn place_labels(root: &Root<'_>, mut placer: Placer, labels: Vec<Label>) -> Rend
         let font = TextStyle::from(("sans-serif", l.size).into_font());
         let (tw, th) = root.estimate_text_size(&l.text, &font).map_err(plot_err)?;
         let size = (f64::from(tw) + 2.0, f64::from(th) + 2.0);
-        if let Some(at) = placer.place(l.anchor, l.radius, size, l.need) {
+        let at = if l.along.is_empty() {
+            placer.place(l.anchor, l.radius, size, l.need)
+        } else {
+            placer.place_near(&l.along, l.radius, size, l.need, &NEAR_RINGS)
+        };
+        if let Some(at) = at {
             let pos = (at.0.round() as i32 + 1, at.1.round() as i32 + 1);
             // A white halo keeps the text readable over lines and tints.
             root.draw(&Rectangle::new(

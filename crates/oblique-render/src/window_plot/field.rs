@@ -163,7 +163,7 @@ impl<'a> Field<'a> {
     /// The regions outside the validity domain, as closed polygons.
     pub(super) fn outside_domain_outlines(&self) -> Vec<Vec<P>> {
         let values: Vec<f64> = self.domain.iter().map(|d| -d).collect();
-        self.trace(&values, Probe::OutsideDomain, true)
+        fill_polygons(self.trace(&values, Probe::OutsideDomain, true))
     }
 
     /// The validity domain's edge, as lines.
@@ -248,7 +248,7 @@ impl<'a> Field<'a> {
             })
             .collect();
         let probe = if tried { Probe::Tried } else { Probe::Region };
-        self.trace(&values, probe, true)
+        fill_polygons(self.trace(&values, probe, true))
     }
 
     /// Zero lines of a node field, each crossing bisected on `probe` (see [`trace_field`]).
@@ -351,6 +351,81 @@ pub(crate) fn trace_field(
         }
     }
     chain(segs)
+}
+
+/// The closed outlines of a region, as traced (outer edges and the edges of its holes, in no
+/// particular order or orientation), joined into one polygon that fills the region itself under
+/// the non-zero fill rule (SVG's default): each outline is turned counter-clockwise when it lies
+/// inside an even number of the others (an outer edge) and clockwise when inside an odd number
+/// (the edge of a hole), and each is reached from the first along a cut travelled there and
+/// back, which adds nothing to any point's winding number. Drawn one by one, the outlines of a
+/// ring (the region outside an island, as the validity domain is in the collision-velocity
+/// plane) would each be filled whole and cover the island too. Outlines without area are
+/// dropped.
+pub(crate) fn fill_polygons(loops: Vec<Vec<P>>) -> Vec<Vec<P>> {
+    let mut loops: Vec<Vec<P>> = loops
+        .into_iter()
+        .filter(|l| l.len() >= 3 && signed_area(l).abs() > 0.0)
+        .collect();
+    if loops.is_empty() {
+        return loops;
+    }
+    let depths: Vec<usize> = (0..loops.len())
+        .map(|i| {
+            let at = loops[i][0];
+            (0..loops.len())
+                .filter(|&j| j != i && contains(&loops[j], at))
+                .count()
+        })
+        .collect();
+    for (l, d) in loops.iter_mut().zip(&depths) {
+        if (signed_area(l) > 0.0) != (d % 2 == 0) {
+            l.reverse();
+        }
+    }
+    let mut loops = loops.into_iter();
+    let mut out = loops.next().unwrap_or_default();
+    let hub = out[0];
+    close(&mut out);
+    for l in loops {
+        out.extend_from_slice(&l);
+        out.push(l[0]);
+        out.push(hub);
+    }
+    vec![out]
+}
+
+/// Make a polyline end where it starts.
+fn close(l: &mut Vec<P>) {
+    if let (Some(a), Some(b)) = (l.first().copied(), l.last().copied()) {
+        if a != b {
+            l.push(a);
+        }
+    }
+}
+
+/// The signed area of a polygon (positive counter-clockwise, y up).
+fn signed_area(l: &[P]) -> f64 {
+    let n = l.len();
+    0.5 * (0..n)
+        .map(|i| {
+            let (a, b) = (l[i], l[(i + 1) % n]);
+            a.0 * b.1 - b.0 * a.1
+        })
+        .sum::<f64>()
+}
+
+/// Whether `p` lies inside the polygon `l` (even-odd ray test).
+fn contains(l: &[P], p: P) -> bool {
+    let n = l.len();
+    let mut inside = false;
+    for i in 0..n {
+        let (a, b) = (l[i], l[(i + 1) % n]);
+        if (a.1 > p.1) != (b.1 > p.1) && p.0 < a.0 + (p.1 - a.1) * (b.0 - a.0) / (b.1 - a.1) {
+            inside = !inside;
+        }
+    }
+    inside
 }
 
 /// The sign change of `probe` between `a` (sign `a_pos`) and `b`, by bisection.

@@ -2,7 +2,7 @@
 //! section without entries), each entry a sample of its mark and its text wrapped to the panel.
 
 use super::draw::{C_MELTED, C_NOT, C_PARTIAL, C_WELDED};
-use super::{plot_err, wrap_words, HEIGHT};
+use super::{plot_err, wrap_words};
 use crate::error::RenderResult;
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -69,10 +69,11 @@ impl Section {
 
 type Area<'b> = DrawingArea<SVGBackend<'b>, Shift>;
 
-/// Draw the legend; entries that do not fit say how many were left out.
-pub(crate) fn draw_legend(area: &Area<'_>, sections: &[Section]) -> RenderResult {
+/// Draw the legend, its entries no lower than `bottom` (px from the top of `area`); entries that
+/// do not fit say how many were left out. Returns how low the entries drawn reach.
+pub(crate) fn draw_legend(area: &Area<'_>, sections: &[Section], bottom: i32) -> RenderResult<i32> {
     let font = TextStyle::from(("sans-serif", 12).into_font());
-    let bottom = HEIGHT as i32 - 50;
+    let mut reach = 0;
     let mut y = 16;
     let total: usize = sections.iter().map(|s| s.entries.len()).sum();
     let mut shown = 0;
@@ -92,6 +93,7 @@ pub(crate) fn draw_legend(area: &Area<'_>, sections: &[Section]) -> RenderResult
             if y + 15 * lines.len() as i32 > bottom {
                 break 'outer;
             }
+            reach = y + 15 * lines.len() as i32;
             draw_mark(area, e.mark, y)?;
             for l in lines {
                 area.draw(&Text::new(
@@ -114,8 +116,9 @@ pub(crate) fn draw_legend(area: &Area<'_>, sections: &[Section]) -> RenderResult
             font.clone().pos(Pos::new(HPos::Left, VPos::Center)),
         ))
         .map_err(plot_err)?;
+        reach = y + 8;
     }
-    Ok(())
+    Ok(reach)
 }
 
 fn draw_mark(area: &Area<'_>, mark: Mark, y: i32) -> RenderResult {

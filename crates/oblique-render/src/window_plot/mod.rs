@@ -109,7 +109,10 @@ pub const MAX_MARKED_POINTS: usize = 400;
 pub const MAX_LABELLED_POINTS: usize = 12;
 
 const WIDTH: u32 = 1100;
+/// The height of the plot, and of the whole picture unless the legend needs more.
 const HEIGHT: u32 = 680;
+/// The canvas drawn on: the picture is cut to `HEIGHT`, or below the legend when it runs lower.
+const CANVAS_HEIGHT: u32 = 2000;
 const LEGEND_W: u32 = 300;
 
 pub(crate) fn criterion_colour(id: CriterionId) -> RGBColor {
@@ -260,13 +263,19 @@ pub(crate) fn render_svg_overlay(
     let (x_max, y_max) = plot_ranges(req);
     let field = field::Field::evaluate(req.window, req.plane, x_max, y_max)?;
     let mut svg = String::new();
-    draw::draw(
-        SVGBackend::with_string(&mut svg, (WIDTH, HEIGHT)).into_drawing_area(),
+    let height = draw::draw(
+        SVGBackend::with_string(&mut svg, (WIDTH, CANVAS_HEIGHT)).into_drawing_area(),
         req,
         &field,
         (x_max, y_max),
         overlay,
     )?;
+    // The picture is cut below the legend (or at the plot's height).
+    let svg = svg.replacen(
+        &format!("height=\"{CANVAS_HEIGHT}\" viewBox=\"0 0 {WIDTH} {CANVAS_HEIGHT}\""),
+        &format!("height=\"{height}\" viewBox=\"0 0 {WIDTH} {height}\""),
+        1,
+    );
     // User text (labels, names) may hold characters XML forbids: keep the SVG well-formed.
     Ok(oblique_window::present::xml_safe(&svg).into_owned())
 }
@@ -396,6 +405,115 @@ mod tests {
         assert_eq!(colours.len(), 3);
         for c in &colours {
             assert!(svg.contains(c.as_str()), "{c}");
+        }
+    }
+
+    /// The polygons of one fill colour in an SVG, in pixels.
+    fn polygons(svg: &str, fill: &str) -> Vec<Vec<(f64, f64)>> {
+        svg.lines()
+            .filter(|l| l.contains("<polygon") && l.contains(&format!("fill=\"{fill}\"")))
+            .filter_map(|l| {
+                let pts = l.split("points=\"").nth(1)?.split('"').next()?;
+                Some(
+                    pts.split_whitespace()
+                        .filter_map(|p| {
+                            let (x, y) = p.split_once(',')?;
+                            Some((x.parse().ok()?, y.parse().ok()?))
+                        })
+                        .collect(),
+                )
+            })
+            .collect()
+    }
+
+    /// The non-zero winding number of a closed polygon about `p` (SVG's default fill rule fills
+    /// `p` when it is not zero).
+    fn winding(poly: &[(f64, f64)], p: (f64, f64)) -> i32 {
+        let mut w = 0;
+        for i in 0..poly.len() {
+            let (a, b) = (poly[i], poly[(i + 1) % poly.len()]);
+            let cross = (b.0 - a.0) * (p.1 - a.1) - (p.0 - a.0) * (b.1 - a.1);
+            if a.1 <= p.1 && b.1 > p.1 && cross > 0.0 {
+                w += 1;
+            } else if a.1 > p.1 && b.1 <= p.1 && cross < 0.0 {
+                w -= 1;
+            }
+        }
+        w
+    }
+
+    /// In the collision-velocity plane the validity domain is an island: the grey fill of what
+    /// lies outside it leaves the island clear, so that the weldable region shows. A point well
+    /// inside the domain and inside the window (Vc 2500 m/s, beta 12 deg on the demo pair) is
+    /// covered by the weldable tint and not by the grey; a point far outside the domain (Vc 9000
+    /// m/s, beta 33 deg) is grey. The same holds in the impact-velocity plane. Each point is
+    /// located in the SVG by a proposed-point diamond drawn on it.
+    #[test]
+    fn the_grey_outside_the_validity_domain_leaves_the_domain_clear() {
+        let l = lib();
+        let w = l
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair (invented data)");
+        let vp_of = |vc: f64, beta_deg: f64| {
+            Collision::from_collision_velocity(
+                w.convention,
+                Velocity::from_m_s(vc),
+                Angle::from_degrees(beta_deg),
+            )
+            .expect("kinematics")
+            .impact_velocity
+            .si()
+        };
+        let inside = (vp_of(2500.0, 12.0), 12f64.to_radians());
+        let c = classify_point(w, inside.0, inside.1).expect("classify");
+        assert!(
+            c.inside && c.domain.inside(),
+            "the probe point is in the window"
+        );
+        let outside = (vp_of(9000.0, 33.0), 33f64.to_radians());
+        let c = classify_point(w, outside.0, outside.1).expect("classify");
+        assert!(!c.domain.inside(), "the far point is outside the domain");
+        for plane in [Plane::AngleCollisionVelocity, Plane::AngleImpactVelocity] {
+            let mut req = PlotRequest::new(w, plane);
+            req.points
+                .push(ProposedPoint::new("in", inside.0, inside.1));
+            if plane == Plane::AngleCollisionVelocity {
+                req.points
+                    .push(ProposedPoint::new("far", outside.0, outside.1));
+            }
+            let svg = render_svg(&req).expect("plot");
+            let grey = polygons(&svg, "#D4D4D4");
+            assert!(!grey.is_empty(), "{plane:?}: no grey drawn");
+            let weldable = polygons(&svg, "#D6E5F4");
+            // The black diamonds, in the order of the points (the legend's come after).
+            let centres: Vec<(f64, f64)> = polygons(&svg, "#000000")
+                .iter()
+                .filter(|p| p.len() == 4)
+                .map(|p| {
+                    let n = p.len() as f64;
+                    (
+                        p.iter().map(|q| q.0).sum::<f64>() / n,
+                        p.iter().map(|q| q.1).sum::<f64>() / n,
+                    )
+                })
+                .take(req.points.len())
+                .collect();
+            assert_eq!(centres.len(), req.points.len(), "{plane:?}");
+            let covered = |polys: &[Vec<(f64, f64)>], p| polys.iter().any(|g| winding(g, p) != 0);
+            assert!(
+                !covered(&grey, centres[0]),
+                "{plane:?}: grey over a point inside the domain"
+            );
+            assert!(
+                covered(&weldable, centres[0]),
+                "{plane:?}: the weldable tint misses a point inside the window"
+            );
+            if let Some(far) = centres.get(1) {
+                assert!(
+                    covered(&grey, *far),
+                    "{plane:?}: no grey outside the domain"
+                );
+            }
         }
     }
 }

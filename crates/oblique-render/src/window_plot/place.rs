@@ -79,6 +79,12 @@ impl Rect {
     }
 }
 
+/// The gaps (px beyond the marker) of the rings of positions tried around an anchor.
+pub const RINGS: [f64; 5] = [3.0, 9.0, 18.0, 30.0, 45.0];
+/// The rings for a label that goes along a line of its own (a user boundary): near the line
+/// only, crossing another line under its halo rather than floating away from its own.
+pub const NEAR_RINGS: [f64; 3] = [3.0, 9.0, 18.0];
+
 /// How crowded a label position is: (outside the area, labels hit, markers hit, lines crossed).
 type Score = (usize, usize, usize, usize);
 
@@ -135,23 +141,43 @@ impl Placer {
         size: (f64, f64),
         need: Need,
     ) -> Option<(f64, f64)> {
+        self.place_near(&[anchor], r, size, need, &RINGS)
+    }
+
+    /// As [`Placer::place`], beside any of `anchors` (points of one thing, e.g. the vertices of a
+    /// line, in order of preference) at the gaps `rings` (px beyond `r`): nearer positions come
+    /// first whichever anchor they are beside, so that the label stays close to its own thing
+    /// rather than far from the first anchor. The markers of radius `r` at the anchors
+    /// themselves do not count as obstacles.
+    pub fn place_near(
+        &mut self,
+        anchors: &[(f64, f64)],
+        r: f64,
+        size: (f64, f64),
+        need: Need,
+        rings: &[f64],
+    ) -> Option<(f64, f64)> {
         let (w, h) = size;
-        let (x, y) = anchor;
-        let mut candidates = Vec::with_capacity(40);
-        for d in [3.0, 9.0, 18.0, 30.0, 45.0] {
+        let mut candidates = Vec::with_capacity(8 * rings.len() * anchors.len());
+        for &d in rings {
             let g = r + d;
-            candidates.extend([
-                (x + g, y - h / 2.0),
-                (x + g * 0.7, y - g * 0.7 - h),
-                (x + g * 0.7, y + g * 0.7),
-                (x - g - w, y - h / 2.0),
-                (x - g * 0.7 - w, y - g * 0.7 - h),
-                (x - g * 0.7 - w, y + g * 0.7),
-                (x - w / 2.0, y - g - h),
-                (x - w / 2.0, y + g),
-            ]);
+            for &(x, y) in anchors {
+                candidates.extend([
+                    (x + g, y - h / 2.0),
+                    (x + g * 0.7, y - g * 0.7 - h),
+                    (x + g * 0.7, y + g * 0.7),
+                    (x - g - w, y - h / 2.0),
+                    (x - g * 0.7 - w, y - g * 0.7 - h),
+                    (x - g * 0.7 - w, y + g * 0.7),
+                    (x - w / 2.0, y - g - h),
+                    (x - w / 2.0, y + g),
+                ]);
+            }
         }
-        let own = Rect::around(x, y, r);
+        let own: Vec<Rect> = anchors
+            .iter()
+            .map(|&(x, y)| Rect::around(x, y, r))
+            .collect();
         // Score: outside the area, then over another label, then over a marker, then across
         // lines; the first clear position (nearest first) wins.
         let mut best: Option<(Score, (f64, f64))> = None;
@@ -172,7 +198,7 @@ impl Placer {
             let markers = self
                 .markers
                 .iter()
-                .filter(|m| **m != own && m.overlaps(&b, 1.0))
+                .filter(|m| !own.contains(m) && m.overlaps(&b, 1.0))
                 .count();
             let crossings = self
                 .segments
@@ -258,6 +284,35 @@ mod tests {
             .place((395.0, 295.0), 5.0, (60.0, 12.0), Need::Required)
             .expect("placed");
         assert!(at.0 >= 0.0 && at.0 + 60.0 <= 400.0 && at.1 >= 0.0 && at.1 + 12.0 <= 300.0);
+    }
+
+    /// Along a line, a label goes to the nearest clear position beside any of its points, not
+    /// far from the first point: here the first point is boxed in by markers, the second is
+    /// clear.
+    #[test]
+    fn a_label_along_a_line_goes_beside_the_nearest_clear_point() {
+        let mut p = Placer::new(area());
+        for dx in [-30.0, -15.0, 0.0, 15.0, 30.0] {
+            for dy in [-30.0, -15.0, 0.0, 15.0, 30.0] {
+                if dx != 0.0 || dy != 0.0 {
+                    p.add_marker(Rect::around(100.0 + dx, 100.0 + dy, 6.0));
+                }
+            }
+        }
+        let at = p
+            .place_near(
+                &[(100.0, 100.0), (300.0, 200.0)],
+                3.0,
+                (40.0, 12.0),
+                Need::Required,
+                &NEAR_RINGS,
+            )
+            .expect("placed");
+        let d = ((at.0 - 300.0).powi(2) + (at.1 + 6.0 - 200.0).powi(2)).sqrt();
+        assert!(
+            d < 3.0 + 18.0 + 40.0,
+            "{at:?} is {d:.0} px from the clear point"
+        );
     }
 
     #[test]
