@@ -23,6 +23,26 @@ pub fn run_in(dir: &Path, args: &[&str]) -> Output {
         .expect("the binary runs")
 }
 
+/// `pair new NAME` (an aa6061-t6 flyer of 1 mm on cu-c11000) in the library folder `dir`.
+pub fn new_pair(dir: &Path, name: &str) -> Output {
+    run_in(
+        dir,
+        &[
+            "--library",
+            ".",
+            "pair",
+            "new",
+            name,
+            "--flyer",
+            "aa6061-t6",
+            "--parent",
+            "cu-c11000",
+            "--flyer-thickness",
+            "1mm",
+        ],
+    )
+}
+
 pub fn run(args: &[&str]) -> Output {
     run_in(Path::new(env!("CARGO_MANIFEST_DIR")), args)
 }

@@ -704,19 +704,7 @@ fn pair_export_prints_the_file_so_a_built_in_pair_can_be_copied_and_changed() {
 fn importing_the_same_file_twice_warns_of_each_repeated_shot_and_keeps_both() {
     let dir = tempfile::tempdir().expect("temp dir");
     let lib = dir.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "t",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(dir.path(), "t");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let csv = dir.path().join("s.csv");
     std::fs::write(

@@ -4,25 +4,6 @@
 use super::*;
 use std::path::Path;
 
-fn new_pair(dir: &Path, name: &str) -> std::process::Output {
-    run_in(
-        dir,
-        &[
-            "--library",
-            ".",
-            "pair",
-            "new",
-            name,
-            "--flyer",
-            "aa6061-t6",
-            "--parent",
-            "cu-c11000",
-            "--flyer-thickness",
-            "1mm",
-        ],
-    )
-}
-
 fn observe(dir: &Path, name: &str, source: &str) -> std::process::Output {
     run_in(
         dir,
