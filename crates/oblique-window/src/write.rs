@@ -824,6 +824,110 @@ pub fn append_boundary(
     )
 }
 
+/// The text of `text` without element `index` of the top-level list field `list`, and the
+/// removed text (to show the user, who can add it back). Every other byte is kept in order: an
+/// element on lines of its own goes with those whole lines; one sharing a line with others goes
+/// alone, up to the next element (the last keeps the comma before it, a trailing comma RON
+/// accepts). Comments before the element stay.
+///
+/// # Errors
+/// [`WriteError::Structure`] when the list or the element is not where the scanner looks.
+pub fn remove_top_list_item(
+    path: &Path,
+    text: &str,
+    list: &str,
+    index: usize,
+) -> Result<(String, String), WriteError> {
+    let (bom, body) = match text.strip_prefix('\u{feff}') {
+        Some(rest) => ("\u{feff}", rest),
+        None => ("", text),
+    };
+    let ix = RonIndex::scan(body);
+    let missing = || WriteError::Structure {
+        path: path.to_path_buf(),
+        message: format!("no element {} in the list `{list}`", index + 1),
+    };
+    let start = ix.start(&format!("{list}[{index}]")).ok_or_else(missing)?;
+    let line_start = |at: usize| body[..at].rfind('\n').map_or(0, |i| i + 1);
+    let alone_before = |at: usize| body[line_start(at)..at].trim().is_empty();
+    let from = if alone_before(start) {
+        line_start(start)
+    } else {
+        start
+    };
+    let to = match ix.start(&format!("{list}[{}]", index + 1)) {
+        Some(next) if alone_before(next) => line_start(next),
+        Some(next) => next,
+        None => {
+            let end = ix.tail(list).ok_or_else(missing)?.code_end;
+            // The rest of the last element's line, when only blank space is left on it.
+            match body[end..].find('\n') {
+                Some(nl) if body[end..end + nl].trim().is_empty() && from != start => end + nl + 1,
+                _ => end,
+            }
+        }
+    };
+    if to <= from {
+        return Err(missing());
+    }
+    let mut out = String::with_capacity(text.len());
+    out.push_str(bom);
+    out.push_str(&body[..from]);
+    out.push_str(&body[to..]);
+    Ok((out, body[from..to].to_string()))
+}
+
+/// Remove the user boundary at `index` (in file order) from the pair file at `path`, as
+/// [`append_boundary`] adds one: validated with the whole file, under the folder's lock, every
+/// other byte kept, refused when the file is no longer `expected_sha256`. Returns the window
+/// after the change and the removed text.
+///
+/// # Errors
+/// [`WriteError`]; the file is untouched on every error.
+pub fn remove_boundary(
+    path: &Path,
+    index: usize,
+    materials: &BTreeMap<String, MaterialRecord>,
+    expected_sha256: Option<&str>,
+) -> Result<(PairWindow, String), WriteError> {
+    remove_item(path, "boundaries", index, materials, expected_sha256)
+}
+
+/// Remove the observation at `index` (0-based; shot #index+1) from the pair file at `path`, as
+/// [`remove_boundary`] does; the shots after it move up by one.
+///
+/// # Errors
+/// [`WriteError`]; the file is untouched on every error.
+pub fn remove_observation(
+    path: &Path,
+    index: usize,
+    materials: &BTreeMap<String, MaterialRecord>,
+    expected_sha256: Option<&str>,
+) -> Result<(PairWindow, String), WriteError> {
+    remove_item(path, "observations", index, materials, expected_sha256)
+}
+
+fn remove_item(
+    path: &Path,
+    list: &str,
+    index: usize,
+    materials: &BTreeMap<String, MaterialRecord>,
+    expected_sha256: Option<&str>,
+) -> Result<(PairWindow, String), WriteError> {
+    let mut removed = String::new();
+    let w = update_file(
+        path,
+        expected_sha256,
+        |text| {
+            let (out, cut) = remove_top_list_item(path, text, list, index)?;
+            removed = cut;
+            Ok(out)
+        },
+        |origin, text| parse_pair_file(origin, text, materials).map(|(_, w)| w),
+    )?;
+    Ok((w, removed))
+}
+
 /// What a new pair window file starts with.
 #[derive(Debug, Clone)]
 pub struct NewPair<'a> {

@@ -237,6 +237,25 @@ pub enum PairCommand {
         after_help = "Example:\n  oblique --library ./shop pair observe al-on-cu --velocity 320m/s --angle 9deg --outcome welded --source \"shot log 2026-11-30 #4\""
     )]
     Observe(ObserveArgs),
+    /// Remove one recorded shot (a mistyped or repeated one) from a pair window; the removed
+    /// text is printed, so it can be added back, and the shots after it move up by one.
+    #[command(
+        name = "remove-shot",
+        after_help = "Example:\n  oblique --library ./shop pair remove-shot al-on-cu --shot 7"
+    )]
+    RemoveShot {
+        /// Pair name.
+        name: String,
+        /// The shot's number, as `pair show` and `pair agreement` print it (#1 is the first).
+        #[arg(long, value_name = "N")]
+        shot: usize,
+        /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
+        #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
+        if_unchanged: Option<String>,
+        /// Print JSON.
+        #[arg(long)]
+        json: bool,
+    },
     /// Import many shots from a CSV file (all rows are checked before anything is written).
     #[command(
         after_help = "CSV header (units in brackets; velocity in m/s or km/s, angle in deg or rad):
@@ -357,6 +376,12 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
         PairCommand::Validate { files, json } => validate(dirs, &files, json),
         PairCommand::Boundary(c) => run_boundary(dirs, c),
         PairCommand::Export { name } => export(dirs, &name),
+        PairCommand::RemoveShot {
+            name,
+            shot,
+            if_unchanged,
+            json,
+        } => remove_shot(dirs, &name, shot, if_unchanged.as_deref(), json),
         PairCommand::Fit(a) => fit::run_fit(dirs, a),
         PairCommand::NextShot(a) => fit::run_next_shot(dirs, a),
         PairCommand::Agreement { name, json } => {
@@ -432,6 +457,61 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
         text.push_str(&format!("  (a disagreement is evidence against the window's constants or boundaries where the shot lies: `oblique pair fit {}` fits the Deribas and Wittman constants to every trial, with intervals; `oblique pair agreement` shows every trial)\n", w.name));
     }
     emit(&text)
+}
+
+/// `pair remove-shot`: shot #`shot` out of the pair's file.
+fn remove_shot(
+    dirs: &[PathBuf],
+    name: &str,
+    shot: usize,
+    if_unchanged: Option<&str>,
+    json: bool,
+) -> CmdResult {
+    let lib = load_library(dirs)?;
+    let w = lib.pair(name).map_err(Fail::input)?;
+    let path = user_file(w)?;
+    let n = w.observations.len();
+    if shot == 0 || shot > n {
+        return Err(Fail::input(format!(
+            "--shot: pair '{}' has {n} shot(s), numbered from #1 to #{n}; `oblique pair show {}` lists them",
+            w.name, w.name
+        )));
+    }
+    let o = &w.observations[shot - 1];
+    let what = format!(
+        "shot #{shot} ({:.0} m/s, {:.2} deg, {}, source \"{}\")",
+        o.velocity.si(),
+        o.angle.degrees(),
+        o.outcome.as_str(),
+        oblique_window::text::one_line(&o.source)
+    );
+    // The file must still be the one whose shots were just numbered (or --if-unchanged).
+    let expected = if_unchanged.unwrap_or(&w.origin.sha256);
+    note_target(&path);
+    let (updated, cut) =
+        oblique_window::write::remove_observation(&path, shot - 1, &lib.materials, Some(expected))
+            .map_err(write_fail)?;
+    let agr = agreement(&updated)?;
+    if json {
+        return emit_json(&json!({
+            "name": updated.name,
+            "file": path.display().to_string(),
+            "removed_shot": shot,
+            "removed_text": cut,
+            "observations": updated.observations.len(),
+            "agreement": {"observations": agr.observations, "agreeing": agr.agreeing},
+            "sha256": updated.origin.sha256,
+        }));
+    }
+    emit(&format!(
+        "removed {what} from '{}' ({}); it now holds {} shot(s), the ones after it renumbered from #{shot}\nagreement with its {} trial(s) now: {} agree\nthe removed text (to add it back, paste it into the observations list):\n{}",
+        updated.name,
+        path.display(),
+        updated.observations.len(),
+        agr.observations,
+        agr.agreeing,
+        cut
+    ))
 }
 
 /// What the window says of one newly recorded shot.

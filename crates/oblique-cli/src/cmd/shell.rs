@@ -84,8 +84,8 @@ _oblique_dynamic() {
         return 0
     fi
     if [[ "$cur" != -* && "${sub[0]}" == "pair" ]] && {
-        [[ ${#sub[@]} -eq 2 && "${sub[1]}" =~ ^(show|observe|import|agreement|fit|next-shot|export|validate)$ ]] ||
-        [[ ${#sub[@]} -eq 3 && "${sub[1]}" == "boundary" && "${sub[2]}" == "add" ]]
+        [[ ${#sub[@]} -eq 2 && "${sub[1]}" =~ ^(show|observe|import|agreement|fit|next-shot|export|validate|remove-shot)$ ]] ||
+        [[ ${#sub[@]} -eq 3 && "${sub[1]}" == "boundary" && "${sub[2]}" =~ ^(add|remove)$ ]]
     }; then
         COMPREPLY=( $(compgen -W "$(oblique "${libs[@]}" pair list --names 2>/dev/null)" -- "$cur") )
         return 0
@@ -114,8 +114,8 @@ complete -c oblique -l flyer -f -a '(__oblique_ask material list --ids)'
 complete -c oblique -l parent -f -a '(__oblique_ask material list --ids)'
 complete -c oblique -l pair -f -a '(__oblique_ask pair list --names)'
 complete -c oblique -n '__fish_seen_subcommand_from material; and __fish_seen_subcommand_from show' -f -a '(__oblique_ask material list --ids)'
-complete -c oblique -n '__fish_seen_subcommand_from pair; and __fish_seen_subcommand_from show observe import agreement fit next-shot export validate' -f -a '(__oblique_ask pair list --names)'
-complete -c oblique -n '__fish_seen_subcommand_from boundary; and __fish_seen_subcommand_from add' -f -a '(__oblique_ask pair list --names)'
+complete -c oblique -n '__fish_seen_subcommand_from pair; and __fish_seen_subcommand_from show observe import agreement fit next-shot export validate remove-shot' -f -a '(__oblique_ask pair list --names)'
+complete -c oblique -n '__fish_seen_subcommand_from boundary; and __fish_seen_subcommand_from add remove' -f -a '(__oblique_ask pair list --names)'
 "#;
 
 /// The completion script for `shell`, from the top-level command `cmd`.

@@ -724,3 +724,108 @@ fn importing_the_same_file_twice_warns_of_each_repeated_shot_and_keeps_both() {
     let text = std::fs::read_to_string(dir.path().join("t.ron")).expect("pair");
     assert_eq!(text.matches("source:").count(), 4, "both kept");
 }
+
+#[test]
+fn a_shot_and_a_boundary_are_removed_without_opening_the_file_every_other_line_kept() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let lib = dir.path().to_str().expect("utf-8");
+    let o = run(&["pair", "export", "demo-al6061-on-cu"]);
+    let file = dir.path().join("demo-al6061-on-cu.ron");
+    std::fs::write(&file, &o.stdout).expect("copy");
+    let before = String::from_utf8(o.stdout).expect("utf-8");
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "remove-shot",
+        "demo-al6061-on-cu",
+        "--shot",
+        "10",
+        "--json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: Value = serde_json::from_slice(&o.stdout).expect("json");
+    assert_eq!(v["observations"], 15);
+    let cut = v["removed_text"].as_str().expect("removed text");
+    assert!(cut.contains("HBW-2026 shot 10,"), "{cut}");
+    let after = std::fs::read_to_string(&file).expect("pair");
+    // The file is the old one without exactly the removed lines.
+    assert_eq!(before.replacen(cut, "", 1), after);
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "boundary",
+        "remove",
+        "demo-al6061-on-cu",
+        "--label",
+        "tip bounce-back angle (HBW-2026)",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        stdout(&o).contains("it now has 1 boundary"),
+        "{}",
+        stdout(&o)
+    );
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "show",
+        "demo-al6061-on-cu",
+        "--json",
+    ]);
+    let v: Value = serde_json::from_slice(&o.stdout).expect("json");
+    assert_eq!(v["boundaries"], 1);
+    // Wrong numbers and labels name the flag; a stale --if-unchanged is refused.
+    fails_with(
+        &[
+            "--library",
+            lib,
+            "pair",
+            "remove-shot",
+            "demo-al6061-on-cu",
+            "--shot",
+            "16",
+        ],
+        &["--shot", "#1 to #15"],
+    );
+    fails_with(
+        &[
+            "--library",
+            lib,
+            "pair",
+            "boundary",
+            "remove",
+            "demo-al6061-on-cu",
+            "--label",
+            "x",
+        ],
+        &["--label", "lowest welding velocity seen (HBW-2026)"],
+    );
+    let stale = "0".repeat(64);
+    let o = run(&[
+        "--library",
+        lib,
+        "pair",
+        "remove-shot",
+        "demo-al6061-on-cu",
+        "--shot",
+        "1",
+        "--if-unchanged",
+        &stale,
+    ]);
+    assert_ne!(o.status.code(), Some(0));
+    assert_eq!(
+        std::fs::read_to_string(&file)
+            .expect("pair")
+            .matches("(velocity:")
+            .count(),
+        15
+    );
+    // Built-in pairs stay read-only.
+    fails_with(
+        &["pair", "remove-shot", "demo-al6061-on-cu", "--shot", "1"],
+        &["built in and read-only"],
+    );
+}

@@ -189,3 +189,64 @@ fn set_top_field_inserts_and_replaces_keeping_the_rest() {
     assert!(!out.replace("\r\n", "").contains('\n'), "{out:?}");
     assert!(out.contains("observations: [\r\n        (velocity: \"1 m/s\"), // keep\r\n    ],"));
 }
+
+#[test]
+fn removing_an_appended_shot_gives_the_file_without_it_byte_for_byte() {
+    let text = new_pair_text(&NewPair {
+        name: "p",
+        description: "",
+        flyer: "a",
+        parent: "b",
+        flyer_thickness: "1 mm",
+        parent_thickness: None,
+        convention: Convention::NormalToFlyer,
+        process: "magnetic-pulse",
+        maintainer: "me",
+        date: "2026-12-01",
+    });
+    let p = Path::new("p.ron");
+    let all =
+        append_observation_text(p, &text, &[obs("1 m/s"), obs("2 m/s"), obs("3 m/s")]).unwrap();
+    for (i, kept) in [
+        (0, ["2 m/s", "3 m/s"]),
+        (1, ["1 m/s", "3 m/s"]),
+        (2, ["1 m/s", "2 m/s"]),
+    ] {
+        let (out, cut) = remove_top_list_item(p, &all, "observations", i).unwrap();
+        let expected = append_observation_text(p, &text, &[obs(kept[0]), obs(kept[1])]).unwrap();
+        assert_eq!(out, expected, "removing #{}", i + 1);
+        assert_eq!(
+            cut,
+            render_observation(&obs(["1 m/s", "2 m/s", "3 m/s"][i]))
+        );
+    }
+    // No such element: refused.
+    assert!(remove_top_list_item(p, &all, "observations", 3).is_err());
+    assert!(remove_top_list_item(p, &all, "boundaries", 0).is_err());
+}
+
+#[test]
+fn removing_keeps_every_other_byte_on_the_corpus() {
+    for text in CORPUS.iter().filter(|t| t.contains("(velocity")) {
+        let two = append_observation_text(Path::new("p.ron"), text, &[obs("2 m/s")]).unwrap();
+        // Remove the first (hand-written) element: the appended one stays whole.
+        let (out, cut) = remove_top_list_item(Path::new("p.ron"), &two, "observations", 0)
+            .unwrap_or_else(|e| panic!("{e}\n{two}"));
+        assert!(
+            cut.contains("1 m/s") && !cut.contains("2 m/s"),
+            "{cut:?}\n{two}"
+        );
+        let at = two.find(&cut).expect("the cut is a piece of the text");
+        assert_eq!(format!("{}{}", &two[..at], &two[at + cut.len()..]), out);
+        let body = out.trim_start_matches('\u{feff}');
+        let v: ron::Value = ron::from_str(body).unwrap_or_else(|e| panic!("{e}\n{out}"));
+        let dump = format!("{v:?}");
+        assert!(dump.contains("2 m/s") && !dump.contains("1 m/s"), "{out}");
+        // And the last one: the hand-written one stays.
+        let (out, cut) = remove_top_list_item(Path::new("p.ron"), &two, "observations", 1).unwrap();
+        assert!(cut.contains("2 m/s") && !cut.contains("1 m/s"), "{cut:?}");
+        let v: ron::Value = ron::from_str(out.trim_start_matches('\u{feff}'))
+            .unwrap_or_else(|e| panic!("{e}\n{out}"));
+        assert!(format!("{v:?}").contains("1 m/s"), "{out}");
+    }
+}

@@ -1,5 +1,6 @@
-//! `oblique pair boundary add`: a user boundary from the command line, through the safe-write
-//! path (validated with the whole file, under the folder's lock, every other byte kept).
+//! `oblique pair boundary add` and `remove`: a user boundary from the command line, or out of
+//! the file, through the safe-write path (validated with the whole file, under the folder's
+//! lock, every other byte kept).
 
 use super::*;
 
@@ -36,6 +37,27 @@ pub enum BoundaryCommand {
 The points are velocity,angle pairs along the line, in the plane's velocity (Vp in the pair's
 convention, or Vc); the side is where welds lie. The file keeps every other byte.")]
     Add(BoundaryAddArgs),
+    /// Remove a user boundary, named by its label, from a pair window (the removed text is
+    /// printed, so it can be added back; every other byte of the file is kept).
+    #[command(after_help = "Example:
+  oblique --library ./shop pair boundary remove al-on-cu --label \"lowest welding velocity (series S-11)\"")]
+    Remove(BoundaryRemoveArgs),
+}
+
+/// Flags of `oblique pair boundary remove`.
+#[derive(Debug, Args)]
+pub struct BoundaryRemoveArgs {
+    /// Pair name.
+    pub name: String,
+    /// The boundary's label (`oblique pair show NAME` lists them).
+    #[arg(long, value_name = "TEXT")]
+    pub label: String,
+    /// Refuse to write unless the file still has this SHA-256 (from `pair show --json`).
+    #[arg(long = "if-unchanged", value_name = "SHA256", value_parser = crate::qarg::sha256)]
+    pub if_unchanged: Option<String>,
+    /// Print JSON.
+    #[arg(long)]
+    pub json: bool,
 }
 
 /// Flags of `oblique pair boundary add`.
@@ -68,7 +90,10 @@ pub struct BoundaryAddArgs {
 
 /// Run `oblique pair boundary ...`.
 pub(super) fn run_boundary(dirs: &[PathBuf], c: BoundaryCommand) -> CmdResult {
-    let BoundaryCommand::Add(a) = c;
+    let a = match c {
+        BoundaryCommand::Add(a) => a,
+        BoundaryCommand::Remove(r) => return remove(dirs, r),
+    };
     let lib = load_library(dirs)?;
     let w = lib.pair(&a.name).map_err(Fail::input)?;
     let path = user_file(w)?;
@@ -137,5 +162,57 @@ pub(super) fn run_boundary(dirs: &[PathBuf], c: BoundaryCommand) -> CmdResult {
         updated.boundaries.len(),
         agr.observations,
         agr.agreeing
+    ))
+}
+
+/// `pair boundary remove`: the boundary with that label out of the file.
+fn remove(dirs: &[PathBuf], r: BoundaryRemoveArgs) -> CmdResult {
+    let lib = load_library(dirs)?;
+    let w = lib.pair(&r.name).map_err(Fail::input)?;
+    let path = user_file(w)?;
+    let Some(index) = w.boundaries.iter().position(|b| b.label == r.label.trim()) else {
+        let labels: Vec<String> = w
+            .boundaries
+            .iter()
+            .map(|b| format!("\"{}\"", oblique_window::text::one_line(&b.label)))
+            .collect();
+        return Err(Fail::input(format!(
+            "--label: pair '{}' has no boundary labelled \"{}\"; its boundaries: {}",
+            w.name,
+            oblique_window::text::one_line(&r.label),
+            if labels.is_empty() {
+                "none".to_string()
+            } else {
+                labels.join(", ")
+            }
+        )));
+    };
+    // The file must still be the one whose boundary list was just read (or --if-unchanged).
+    let expected = r.if_unchanged.as_deref().unwrap_or(&w.origin.sha256);
+    note_target(&path);
+    let (updated, cut) =
+        oblique_window::write::remove_boundary(&path, index, &lib.materials, Some(expected))
+            .map_err(write_fail)?;
+    let agr = agreement(&updated)?;
+    if r.json {
+        return emit_json(&json!({
+            "name": updated.name,
+            "file": path.display().to_string(),
+            "removed": r.label.trim(),
+            "removed_text": cut,
+            "boundaries": updated.boundaries.len(),
+            "agreement": {"observations": agr.observations, "agreeing": agr.agreeing},
+            "sha256": updated.origin.sha256,
+        }));
+    }
+    emit(&format!(
+        "removed boundary \"{}\" from '{}' ({}); it now has {} boundary(ies)\nagreement with its {} trial(s) now: {} agree\nthe removed text (to add it back, paste it into the boundaries list):\n{}",
+        oblique_window::text::one_line(r.label.trim()),
+        updated.name,
+        path.display(),
+        updated.boundaries.len(),
+        agr.observations,
+        agr.agreeing,
+        cut
     ))
 }
