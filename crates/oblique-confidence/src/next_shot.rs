@@ -72,6 +72,11 @@ pub struct Shot {
     pub not_welded: f64,
     /// See `welded`.
     pub melted: f64,
+    /// On an end of the velocity or angle range searched: the information may keep growing
+    /// beyond it, so the range should be what the set-up can reach.
+    pub at_range_edge: bool,
+    /// Beyond the region the trials cover (as `check` says "outside the trial data").
+    pub beyond_trials: bool,
 }
 
 /// The proposal.
@@ -218,6 +223,7 @@ pub fn next_shots(window: &PairWindow, settings: &NextShotSettings) -> Confidenc
             }
         }
         let (v, b, t) = &candidates[x];
+        let (i, j) = (x / GRID, x % GRID);
         shots.push(Shot {
             velocity_m_s: *v,
             angle_deg: *b,
@@ -226,6 +232,9 @@ pub fn next_shots(window: &PairWindow, settings: &NextShotSettings) -> Confidenc
             welded: mean[0],
             not_welded: mean[1],
             melted: mean[2],
+            at_range_edge: i == 0 || i == GRID - 1 || j == 0 || j == GRID - 1,
+            beyond_trials: oblique_window::trials::trials_near(window, *v, *b, window.convention)
+                .is_some_and(|t| t.beyond_trials),
         });
         // Branch on the outcome of the chosen shot.
         let mut next = Vec::new();
@@ -342,6 +351,12 @@ impl NextShots {
                 100.0 * sh.melted,
                 sh.reason
             ));
+            if sh.at_range_edge {
+                s.push_str("     on an end of the range searched: the information may keep growing beyond it (optimal shots often lie at the extremes); give --velocity-range and --angle-range what the set-up can reach\n");
+            }
+            if sh.beyond_trials {
+                s.push_str("     outside the trial data: no trial was fired near it; plan it where the set-up is known to be safe\n");
+            }
         }
         s.push_str("\n  The fit these shots start from:\n");
         for c in &self.fit.constants {
@@ -383,6 +398,17 @@ mod tests {
             assert!((4.0..=20.0).contains(&sh.angle_deg));
             assert!(sh.information_bits > 0.0);
             assert!((sh.welded + sh.not_welded + sh.melted - 1.0).abs() < 1e-9);
+            let edge = [350.0, 700.0].contains(&sh.velocity_m_s)
+                || [4.0, 20.0].iter().any(|e| (sh.angle_deg - e).abs() < 1e-9);
+            assert_eq!(sh.at_range_edge, edge, "{sh:?}");
+            let beyond = oblique_window::trials::trials_near(
+                &w,
+                sh.velocity_m_s,
+                sh.angle_deg,
+                w.convention,
+            )
+            .is_some_and(|t| t.beyond_trials);
+            assert_eq!(sh.beyond_trials, beyond, "{sh:?}");
         }
         assert_ne!(
             (r.shots[0].velocity_m_s, r.shots[0].angle_deg),
