@@ -544,7 +544,13 @@ fn write_record(
     let provenance =
         crate::common::record_provenance(files, r.prepared_by.clone(), r.checked_by.clone())?;
     let agreement = oblique_window::agreement(window)?;
-    let probability = crate::common::chosen_probability(window, decision, &r.scatter, false)?;
+    // A process set-up's record states its weld probability as `estimate` does, under the
+    // scatter its efficiency's provenance implies; a point's needs the scatter flags.
+    let process = matches!(
+        decision.chosen.produced,
+        oblique_setup::decision::Produced::Magnetic(_)
+    );
+    let probability = crate::common::chosen_probability(window, decision, &r.scatter, process)?;
     let references = References::builtin().map_err(Fail::other)?;
     let input = ReportInput {
         window,

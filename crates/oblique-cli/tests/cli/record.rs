@@ -560,4 +560,14 @@ fn a_record_states_the_weld_probability_and_the_scatter_when_asked() {
     let v: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(&out).expect("record")).expect("JSON");
     assert!(v["probability"].is_null());
+    // A process set-up's record states one without the flags, as estimate does, under the
+    // scatter its efficiency implies (uncalibrated here: 25 %).
+    let shop = shop();
+    let lib = shop.path().to_str().expect("utf-8");
+    let o = run(&tube_record(lib, out.to_str().expect("utf-8"), &[]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&out).expect("record")).expect("JSON");
+    let method = v["probability"]["method"].as_str().expect("a probability");
+    assert!(method.contains("velocity sd 25 %"), "{method}");
 }

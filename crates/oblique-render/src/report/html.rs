@@ -208,7 +208,7 @@ fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
                 esc(&p.method)
             );
         }
-        None => h.push_str("<p class=\"probability small\">No weld probability was asked for: give the scatter of the set-up (--velocity-sd, --angle-sd) to have one stated here.</p>\n"),
+        None => h.push_str("<p class=\"probability small\">No weld probability was asked for: give the scatter of the point (--velocity-sd, --angle-sd) to have one stated here (a process set-up's record states one by default, under the scatter its efficiency implies).</p>\n"),
     }
     let _ = writeln!(
         h,
