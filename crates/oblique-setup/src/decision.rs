@@ -271,7 +271,7 @@ pub fn why_not(
             if ka < kc {
                 format!("inside the window, but less velocity headroom: {a}, against {c} for the chosen set-up")
             } else if rule == ChoiceRule::Given {
-                format!("inside the window with at least as much velocity headroom ({a}; chosen set-up: {c}); not chosen by the person preparing this record")
+                format!("inside the window with at least as much velocity headroom ({a}; chosen set-up: {c}); not chosen by the person preparing this record, who gives no reason for it here: a reviewer should ask for one")
             } else {
                 format!("inside the window with as much velocity headroom ({a}) as the chosen set-up; listed after it")
             }
