@@ -364,10 +364,23 @@ fn run_process(
     };
     let mut notes = Vec::new();
     let mut candidates: Vec<Candidate<'_>> = Vec::new();
+    // The settings already listed (label, voltage V, standoff m, angle rad): a sweep setting
+    // equal to one of them is not listed twice.
+    let mut listed: Vec<(String, f64, f64, Option<f64>)> = Vec::new();
+    let key = |req: &EstimateRequest| match req.charge {
+        Charge::Voltage(u) => u.si(),
+        Charge::Energy(_) => f64::NAN,
+    };
     if chosen_given {
         let c = magnetic_candidate(&catalog, &r.label, &base, &mut notes);
         print_notes(&notes);
         candidates.push(c?);
+        listed.push((
+            r.label.clone(),
+            key(&base),
+            base.standoff.si(),
+            base.angle.map(|a| a.radians()),
+        ));
     }
     for (n, spec) in r.alternative.iter().enumerate() {
         spec.check_kind(Kind::Magnetic)
@@ -397,6 +410,12 @@ fn run_process(
             .map_err(|e| Fail::input(format!("--alternative {}: {e}", alt_label(spec, n))))?;
         c.given_reason.clone_from(&spec.because);
         candidates.push(c);
+        listed.push((
+            alt_label(spec, n),
+            key(&req),
+            req.standoff.si(),
+            req.angle.map(|a| a.radians()),
+        ));
     }
     let mut sweep_file = None;
     if let Some((path, bytes, sf)) = &sweep {
@@ -404,7 +423,7 @@ fn run_process(
             || path.display().to_string(),
             |n| n.to_string_lossy().into_owned(),
         );
-        sweep_candidates(&catalog, &base, (sf, &name), chosen_given, &mut candidates)?;
+        sweep_candidates(&catalog, &base, (sf, &name), &listed, &mut candidates)?;
         sweep_file = Some(FileUse {
             role: "sweep (--from-sweep)".into(),
             file: path.display().to_string(),
@@ -455,33 +474,31 @@ fn read_sweep(path: &Path, model: &str, pair: &str) -> CmdResult<(PathBuf, Vec<u
     Ok((path.to_path_buf(), bytes, sf))
 }
 
-/// The settings of a sweep file as candidates (the chosen one left out when it is among them),
-/// each recomputed; a velocity that differs from the file's is a warning.
+/// The settings of a sweep file as candidates (one already listed, the chosen set-up or an
+/// --alternative, is left out with a note), each recomputed; a velocity that differs from the
+/// file's is a warning.
 fn sweep_candidates<'a>(
     catalog: &'a Catalog,
     base: &EstimateRequest,
     (sf, sf_name): (&SweepFile, &str),
-    chosen_given: bool,
+    listed: &[(String, f64, f64, Option<f64>)],
     candidates: &mut Vec<Candidate<'a>>,
 ) -> CmdResult {
-    let chosen_key = chosen_given.then(|| {
-        let u = match base.charge {
-            Charge::Voltage(u) => u.si(),
-            Charge::Energy(_) => f64::NAN,
-        };
-        (u, base.standoff.si(), base.angle.map(|a| a.radians()))
-    });
     for (n, st) in sf.settings.iter().enumerate() {
-        if let Some((u, g, a)) = chosen_key {
-            let same = (st.voltage - u).abs() <= 1e-6 * u
+        let same = listed.iter().find(|(_, u, g, a)| {
+            (st.voltage - u).abs() <= 1e-6 * u
                 && (st.standoff - g).abs() <= 1e-9
                 && match (st.angle, a) {
                     (Some(x), Some(y)) => (x - y).abs() <= 1e-9,
                     _ => true,
-                };
-            if same {
-                continue;
-            }
+                }
+        });
+        if let Some((label, ..)) = same {
+            errln!(
+                "note: --from-sweep setting S{} is the set-up '{label}' already listed: the record lists it once",
+                n + 1
+            );
+            continue;
         }
         let req = sf.request(base, st);
         let mut notes = Vec::new();

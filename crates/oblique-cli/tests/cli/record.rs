@@ -235,6 +235,46 @@ fn from_sweep_chooses_the_best_setting_and_lists_the_others() {
         sw["sha256"].as_str().unwrap(),
         sha(&std::fs::read(&sweep).unwrap())
     );
+    // A sweep setting equal to the chosen set-up or to an --alternative is listed once.
+    let o = run(&[
+        "report",
+        "mpw-tube",
+        "--machine",
+        BANK,
+        "--coil",
+        COIL,
+        "--pair",
+        PAIR,
+        "--tube-outer-radius",
+        "20mm",
+        "--charge-voltage",
+        "7kV",
+        "--standoff",
+        "2mm",
+        "--angle",
+        "10deg",
+        "--alternative",
+        "B: charge-voltage=8kV, standoff=1mm, angle=6deg",
+        "--from-sweep",
+        sweep.to_str().unwrap(),
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("is the set-up 'B' already listed"),
+        "{}",
+        stderr(&o)
+    );
+    let v: Value = serde_json::from_slice(&std::fs::read(&out).unwrap()).unwrap();
+    let labels: Vec<&str> = v["alternatives"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter_map(|a| a["label"].as_str())
+        .collect();
+    assert_eq!(labels.len(), 14, "{labels:?}");
+    assert!(labels.contains(&"B"), "{labels:?}");
 }
 
 /// One margin, the same digits everywhere: 8 kV, 2 mm, 10 deg on the demo bank and coil.
