@@ -877,40 +877,78 @@ pub fn remove_top_list_item(
     Ok((out, body[from..to].to_string()))
 }
 
-/// Remove the user boundary at `index` (in file order) from the pair file at `path`, as
-/// [`append_boundary`] adds one: validated with the whole file, under the folder's lock, every
-/// other byte kept, refused when the file is no longer `expected_sha256`. Returns the window
-/// after the change and the removed text.
+/// Remove the user boundary labelled `label` from the pair file at `path`, as
+/// [`append_boundary`] adds one: found in the file as it is under the folder's lock (other
+/// writers may have appended meanwhile), validated with the whole file, every other byte kept.
+/// Returns the window after the change and the removed text.
 ///
 /// # Errors
-/// [`WriteError`]; the file is untouched on every error.
+/// [`WriteError`] (`Structure` when no boundary has that label); the file is untouched on
+/// every error.
 pub fn remove_boundary(
     path: &Path,
-    index: usize,
+    label: &str,
     materials: &BTreeMap<String, MaterialRecord>,
     expected_sha256: Option<&str>,
 ) -> Result<(PairWindow, String), WriteError> {
-    remove_item(path, "boundaries", index, materials, expected_sha256)
+    remove_item(
+        path,
+        "boundaries",
+        |w| {
+            w.boundaries
+                .iter()
+                .position(|b| b.label == label)
+                .ok_or_else(|| format!("no boundary is labelled \"{label}\" (any more)"))
+        },
+        materials,
+        expected_sha256,
+    )
 }
 
 /// Remove the observation at `index` (0-based; shot #index+1) from the pair file at `path`, as
-/// [`remove_boundary`] does; the shots after it move up by one.
+/// [`remove_boundary`] does, provided it is still `expected` (velocity, angle, outcome and
+/// source as the caller showed them: a concurrent append never shifts it, a concurrent removal
+/// may); the shots after it move up by one.
 ///
 /// # Errors
-/// [`WriteError`]; the file is untouched on every error.
+/// [`WriteError`] (`Structure` when the shot at that number is no longer the one expected); the
+/// file is untouched on every error.
 pub fn remove_observation(
     path: &Path,
     index: usize,
+    expected: &crate::pair::Observation,
     materials: &BTreeMap<String, MaterialRecord>,
     expected_sha256: Option<&str>,
 ) -> Result<(PairWindow, String), WriteError> {
-    remove_item(path, "observations", index, materials, expected_sha256)
+    remove_item(
+        path,
+        "observations",
+        |w| {
+            match w.observations.get(index) {
+            Some(o)
+                if o.velocity.si() == expected.velocity.si()
+                    && o.angle.degrees() == expected.angle.degrees()
+                    && o.outcome == expected.outcome
+                    && o.source == expected.source =>
+            {
+                Ok(index)
+            }
+            _ => Err(format!(
+                "shot #{} is no longer the one shown (another writer changed the list); nothing was removed: look again with `pair show`",
+                index + 1
+            )),
+        }
+        },
+        materials,
+        expected_sha256,
+    )
 }
 
+/// Remove the element of `list` that `pick` finds in the file as read under the lock.
 fn remove_item(
     path: &Path,
     list: &str,
-    index: usize,
+    pick: impl FnOnce(&PairWindow) -> Result<usize, String>,
     materials: &BTreeMap<String, MaterialRecord>,
     expected_sha256: Option<&str>,
 ) -> Result<(PairWindow, String), WriteError> {
@@ -919,6 +957,16 @@ fn remove_item(
         path,
         expected_sha256,
         |text| {
+            let origin = Origin {
+                display: path.display().to_string(),
+                path: Some(path.to_path_buf()),
+                sha256: sha256_hex(text.as_bytes()),
+            };
+            let (_, now) = parse_pair_file(origin, text, materials).map_err(WriteError::Invalid)?;
+            let index = pick(&now).map_err(|message| WriteError::Structure {
+                path: path.to_path_buf(),
+                message,
+            })?;
             let (out, cut) = remove_top_list_item(path, text, list, index)?;
             removed = cut;
             Ok(out)

@@ -485,11 +485,11 @@ fn remove_shot(
         o.outcome.as_str(),
         oblique_window::text::one_line(&o.source)
     );
-    // The file must still be the one whose shots were just numbered (or --if-unchanged).
-    let expected = if_unchanged.unwrap_or(&w.origin.sha256);
+    // Under the folder's lock the shot at that number must still be this one (a concurrent
+    // append never shifts it; a concurrent removal may).
     note_target(&path);
     let (updated, cut) =
-        oblique_window::write::remove_observation(&path, shot - 1, &lib.materials, Some(expected))
+        oblique_window::write::remove_observation(&path, shot - 1, o, &lib.materials, if_unchanged)
             .map_err(write_fail)?;
     let agr = agreement(&updated)?;
     if json {

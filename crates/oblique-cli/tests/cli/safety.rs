@@ -1203,3 +1203,57 @@ fn a_closed_standard_error_keeps_the_exit_code() {
         }
     }
 }
+
+/// Removing shots while another shell records them: no removal is refused for the other's
+/// appends (they never shift a number), no acknowledged shot is lost, none removed twice.
+#[test]
+fn removals_and_appends_at_once_lose_nothing_and_wait_for_each_other() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "mix").status.code(), Some(0));
+    const N: usize = 25;
+    for i in 0..N {
+        assert_eq!(
+            observe(dir.path(), "mix", &format!("old {i}"))
+                .status
+                .code(),
+            Some(0)
+        );
+    }
+    let d = dir.path().to_path_buf();
+    let appender = std::thread::spawn(move || {
+        (0..N)
+            .filter(|i| observe(&d, "mix", &format!("new {i}")).status.code() == Some(0))
+            .count()
+    });
+    let mut removed = 0;
+    for _ in 0..N {
+        let o = run_in(
+            dir.path(),
+            &[
+                "--library",
+                ".",
+                "pair",
+                "remove-shot",
+                "mix",
+                "--shot",
+                "1",
+            ],
+        );
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        removed += 1;
+    }
+    let added = appender.join().expect("appender");
+    assert_eq!(added, N);
+    let text = std::fs::read_to_string(dir.path().join("mix.ron")).expect("pair");
+    assert_eq!(text.matches("source:").count(), N + added - removed);
+    for i in 0..N {
+        assert!(
+            text.contains(&format!("\"new {i}\"")),
+            "acknowledged shot 'new {i}' lost"
+        );
+        assert!(
+            !text.contains(&format!("\"old {i}\"")),
+            "'old {i}' was to be removed"
+        );
+    }
+}

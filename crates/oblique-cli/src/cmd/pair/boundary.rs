@@ -170,7 +170,7 @@ fn remove(dirs: &[PathBuf], r: BoundaryRemoveArgs) -> CmdResult {
     let lib = load_library(dirs)?;
     let w = lib.pair(&r.name).map_err(Fail::input)?;
     let path = user_file(w)?;
-    let Some(index) = w.boundaries.iter().position(|b| b.label == r.label.trim()) else {
+    if !w.boundaries.iter().any(|b| b.label == r.label.trim()) {
         let labels: Vec<String> = w
             .boundaries
             .iter()
@@ -186,13 +186,16 @@ fn remove(dirs: &[PathBuf], r: BoundaryRemoveArgs) -> CmdResult {
                 labels.join(", ")
             }
         )));
-    };
-    // The file must still be the one whose boundary list was just read (or --if-unchanged).
-    let expected = r.if_unchanged.as_deref().unwrap_or(&w.origin.sha256);
+    }
+    // The label is looked up again under the folder's lock (other writers may append meanwhile).
     note_target(&path);
-    let (updated, cut) =
-        oblique_window::write::remove_boundary(&path, index, &lib.materials, Some(expected))
-            .map_err(write_fail)?;
+    let (updated, cut) = oblique_window::write::remove_boundary(
+        &path,
+        r.label.trim(),
+        &lib.materials,
+        r.if_unchanged.as_deref(),
+    )
+    .map_err(write_fail)?;
     let agr = agreement(&updated)?;
     if r.json {
         return emit_json(&json!({
