@@ -618,17 +618,74 @@ pub fn explain_velocity(
 /// velocity) that lie inside the window, nearest to the point, within the validity domain:
 /// found by scanning 240 velocities and 180 angles across the domain's stretch on each axis,
 /// then bisecting the ends. `None` on an axis where no scanned value is inside.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct InsideStretch {
-    /// Lowest and highest inside impact velocity (m/s) at this angle, in the user's convention.
+    /// Lowest and highest inside impact velocity (m/s) at this angle, in the user's convention:
+    /// the stretch nearest to the point.
     pub velocity_m_s: Option<(f64, f64)>,
-    /// Lowest and highest inside angle (deg) at this impact velocity.
+    /// Lowest and highest inside angle (deg) at this impact velocity: the stretch nearest to
+    /// the point.
     pub angle_deg: Option<(f64, f64)>,
+    /// Every inside stretch of impact velocity at this angle, in order (the window can be
+    /// inside on two separate stretches).
+    pub velocity_runs: Vec<Run>,
+    /// Every inside stretch of angle at this impact velocity, in order.
+    pub angle_runs: Vec<Run>,
+}
+
+/// One stretch of a control inside the window.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Run {
+    /// Lowest inside value.
+    pub from: f64,
+    /// Highest inside value.
+    pub to: f64,
+    /// Inside the model limits and the boundaries that reach it, but outside the trial data (a
+    /// user boundary does not span it, or no trial was fired near it): at every one of nine
+    /// points spread along it.
+    pub outside_trial_data: bool,
+    /// As `outside_trial_data`, at some of the nine points only.
+    pub partly_outside_trial_data: bool,
+}
+
+/// Whether a stretch lies outside the trial data, judged at nine points spread along it:
+/// (everywhere, somewhere).
+fn trial_cover(from: f64, to: f64, beyond: impl Fn(f64) -> bool) -> (bool, bool) {
+    let n = (0..9)
+        .filter(|&i| beyond(from + (to - from) * f64::from(i) / 8.0))
+        .count();
+    (n == 9, n > 0 && n < 9)
 }
 
 /// The stretch of the inside region along one axis nearest to `x0`: scan `grid`, pick the run of
 /// inside values nearest to x0, bisect both of its ends against their outside neighbours.
 fn inside_stretch(x0: f64, grid: &[f64], inside: impl Fn(f64) -> bool) -> Option<(f64, f64)> {
+    nearest_run(x0, &inside_runs(grid, inside, Some(x0)))
+}
+
+/// The run nearest to `x0` (0 when `x0` lies in it).
+fn nearest_run(x0: f64, runs: &[(f64, f64)]) -> Option<(f64, f64)> {
+    let dist = |r: &(f64, f64)| {
+        if x0 < r.0 {
+            r.0 - x0
+        } else if x0 > r.1 {
+            x0 - r.1
+        } else {
+            0.0
+        }
+    };
+    runs.iter()
+        .copied()
+        .min_by(|a, b| dist(a).total_cmp(&dist(b)))
+}
+
+/// The runs of inside values of `grid`, each end bisected against its outside neighbour; with
+/// `only_near`, only the run nearest to that value is refined and returned.
+fn inside_runs(
+    grid: &[f64],
+    inside: impl Fn(f64) -> bool,
+    only_near: Option<f64>,
+) -> Vec<(f64, f64)> {
     let flags: Vec<bool> = grid.iter().map(|&x| inside(x)).collect();
     let mut runs: Vec<(usize, usize)> = Vec::new();
     let mut k = 0;
@@ -643,18 +700,22 @@ fn inside_stretch(x0: f64, grid: &[f64], inside: impl Fn(f64) -> bool) -> Option
             k += 1;
         }
     }
-    let dist = |r: &(usize, usize)| {
-        if x0 < grid[r.0] {
-            grid[r.0] - x0
-        } else if x0 > grid[r.1] {
-            x0 - grid[r.1]
-        } else {
-            0.0
-        }
-    };
-    let run = runs
-        .into_iter()
-        .min_by(|a, b| dist(a).total_cmp(&dist(b)))?;
+    if let Some(x0) = only_near {
+        let dist = |r: &(usize, usize)| {
+            if x0 < grid[r.0] {
+                grid[r.0] - x0
+            } else if x0 > grid[r.1] {
+                x0 - grid[r.1]
+            } else {
+                0.0
+            }
+        };
+        runs = runs
+            .into_iter()
+            .min_by(|a, b| dist(a).total_cmp(&dist(b)))
+            .into_iter()
+            .collect();
+    }
     let refine = |mut a: f64, mut b: f64| {
         // a inside, b outside
         for _ in 0..40 {
@@ -667,17 +728,21 @@ fn inside_stretch(x0: f64, grid: &[f64], inside: impl Fn(f64) -> bool) -> Option
         }
         a
     };
-    let lo = if run.0 > 0 {
-        refine(grid[run.0], grid[run.0 - 1])
-    } else {
-        grid[run.0]
-    };
-    let hi = if run.1 + 1 < grid.len() {
-        refine(grid[run.1], grid[run.1 + 1])
-    } else {
-        grid[run.1]
-    };
-    Some((lo, hi))
+    runs.into_iter()
+        .map(|run| {
+            let lo = if run.0 > 0 {
+                refine(grid[run.0], grid[run.0 - 1])
+            } else {
+                grid[run.0]
+            };
+            let hi = if run.1 + 1 < grid.len() {
+                refine(grid[run.1], grid[run.1 + 1])
+            } else {
+                grid[run.1]
+            };
+            (lo, hi)
+        })
+        .collect()
 }
 
 /// The validity domain along the two controls at the point (see [`DomainSpan`]).
@@ -721,15 +786,21 @@ pub fn inside_stretch_of(
         .impact_velocity
         .si();
     let beta = c.evaluation.collision.angle;
-    let inside_at = |v: f64, b: Angle| -> bool {
+    let at = |v: f64, b: Angle| {
         Collision::from_impact(convention, Velocity::from_m_s(v), b)
             .ok()
             .and_then(|col| classify(window, setup, &col).ok())
-            .is_some_and(|k| k.inside)
     };
-    let velocity_m_s = span.velocity_m_s.and_then(|(lo, hi)| {
+    let inside_at = |v: f64, b: Angle| -> bool { at(v, b).is_some_and(|k| k.inside) };
+    // A point is outside the trial data when a user boundary does not span it or no trial was
+    // fired near it.
+    let beyond = |v: f64, b: Angle| -> bool {
+        at(v, b).is_some_and(|k| k.outside_trial_data)
+            || crate::trials::trials_near(window, v, b.degrees(), convention)
+                .is_some_and(|t| t.beyond_trials)
+    };
+    let velocity_runs: Vec<Run> = span.velocity_m_s.map_or_else(Vec::new, |(lo, hi)| {
         let n = 240;
-        // The ends exactly the domain's, so a span reaching them reads as the domain's edge.
         let vgrid: Vec<f64> = (0..n)
             .map(|i| {
                 if i + 1 == n {
@@ -739,9 +810,20 @@ pub fn inside_stretch_of(
                 }
             })
             .collect();
-        inside_stretch(vp, &vgrid, |v| inside_at(v, beta))
+        inside_runs(&vgrid, |v| inside_at(v, beta), None)
+            .into_iter()
+            .map(|(from, to)| {
+                let (all, some) = trial_cover(from, to, |v| beyond(v, beta));
+                Run {
+                    from,
+                    to,
+                    outside_trial_data: all,
+                    partly_outside_trial_data: some,
+                }
+            })
+            .collect()
     });
-    let angle_deg = span.angle_deg.and_then(|(lo, hi)| {
+    let angle_runs: Vec<Run> = span.angle_deg.map_or_else(Vec::new, |(lo, hi)| {
         let n = 180;
         let agrid: Vec<f64> = (0..n)
             .map(|i| {
@@ -752,13 +834,25 @@ pub fn inside_stretch_of(
                 }
             })
             .collect();
-        inside_stretch(beta.degrees(), &agrid, |a| {
-            inside_at(vp, Angle::from_degrees(a))
-        })
+        inside_runs(&agrid, |a| inside_at(vp, Angle::from_degrees(a)), None)
+            .into_iter()
+            .map(|(from, to)| {
+                let (all, some) = trial_cover(from, to, |a| beyond(vp, Angle::from_degrees(a)));
+                Run {
+                    from,
+                    to,
+                    outside_trial_data: all,
+                    partly_outside_trial_data: some,
+                }
+            })
+            .collect()
     });
+    let pairs = |runs: &[Run]| runs.iter().map(|r| (r.from, r.to)).collect::<Vec<_>>();
     InsideStretch {
-        velocity_m_s,
-        angle_deg,
+        velocity_m_s: nearest_run(vp, &pairs(&velocity_runs)),
+        angle_deg: nearest_run(beta.degrees(), &pairs(&angle_runs)),
+        velocity_runs,
+        angle_runs,
     }
 }
 
@@ -1021,37 +1115,56 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
 /// none inside the validity domain. Advice for one limit can cross another; this line says
 /// where the window really is.
 pub fn inside_stretch_text(c: &Classification) -> Option<String> {
-    let st = c.inside_stretch?;
+    let st = c.inside_stretch.as_ref()?;
     let span = c.domain_span.unwrap_or(DomainSpan {
         velocity_m_s: None,
         angle_deg: None,
     });
     let conv = c.headroom_convention;
-    let v = match (st.velocity_m_s, span.velocity_m_s) {
-        (Some((a, b)), _) => format!(
-            "at this angle the window spans Vp ({conv}) from {:.0} to {:.0} m/s",
-            a.ceil(),
-            b.floor()
+    // Each stretch rounded inwards (by the margins' rule: a value within the searches'
+    // tolerance of a step is that step), marked when outside the trial data.
+    let runs = |runs: &[Run], unit: f64, fmt: &dyn Fn(f64) -> String| -> String {
+        runs.iter()
+            .map(|r| {
+                format!(
+                    "from {} to {}{}",
+                    fmt(crate::margin::round_directed(r.from, unit, true)),
+                    fmt(crate::margin::round_directed(r.to, unit, false)),
+                    if r.outside_trial_data {
+                        " (outside the trial data)"
+                    } else if r.partly_outside_trial_data {
+                        " (partly outside the trial data)"
+                    } else {
+                        ""
+                    }
+                )
+            })
+            .collect::<Vec<_>>()
+            .join(" and ")
+    };
+    let v = match (st.velocity_runs.is_empty(), span.velocity_m_s) {
+        (false, _) => format!(
+            "at this angle the window spans Vp ({conv}) {}",
+            runs(&st.velocity_runs, 1.0, &|x| format!("{x:.0} m/s"))
         ),
-        (None, Some((a, b))) => format!(
+        (true, Some((a, b))) => format!(
             "at this angle no impact velocity in the validity domain ({:.0}-{:.0} m/s) is inside the window",
             a.ceil(),
             b.floor()
         ),
-        (None, None) => {
+        (true, None) => {
             "at this angle no impact velocity lies in the validity domain".to_string()
         }
     };
-    let a = match (st.angle_deg, span.angle_deg) {
-        (Some((lo, hi)), _) => format!(
-            "at this velocity it spans the angle from {:.2} to {:.2} deg",
-            (lo * 100.0).ceil() / 100.0,
-            (hi * 100.0).floor() / 100.0
+    let a = match (st.angle_runs.is_empty(), span.angle_deg) {
+        (false, _) => format!(
+            "at this velocity it spans the angle {}",
+            runs(&st.angle_runs, 0.01, &|x| format!("{x:.2} deg"))
         ),
-        (None, Some((lo, hi))) => format!(
+        (true, Some((lo, hi))) => format!(
             "at this velocity no angle in the validity domain ({lo:.2}-{hi:.2} deg) is inside"
         ),
-        (None, None) => "at this velocity no angle lies in the validity domain".to_string(),
+        (true, None) => "at this velocity no angle lies in the validity domain".to_string(),
     };
     Some(format!("{v}; {a}"))
 }
@@ -1432,7 +1545,11 @@ mod edge_tests {
         );
         let ok = explained(&w, 420.0, 11.0);
         assert!(ok.inside, "{}", ok.reason);
-        let (lo, hi) = ok.inside_stretch.and_then(|s| s.angle_deg).expect("span");
+        let (lo, hi) = ok
+            .inside_stretch
+            .as_ref()
+            .and_then(|s| s.angle_deg)
+            .expect("span");
         assert!(hi <= 30.0 && lo > 0.0, "{lo} {hi}");
         assert!(!inside_stretch_text(&ok)
             .unwrap_or_default()
@@ -1457,6 +1574,7 @@ mod edge_tests {
         assert!((550.0..650.0).contains(&v), "{v}");
         let (a, b) = c
             .inside_stretch
+            .as_ref()
             .and_then(|s| s.velocity_m_s)
             .expect("the window at 12 deg");
         assert!(

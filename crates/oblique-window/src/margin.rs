@@ -58,6 +58,13 @@ fn round_to(x: f64, unit: f64, up: bool) -> f64 {
     }
 }
 
+/// Round `x` to `unit`, up or down, except that a value within the searches' tolerance of a step
+/// is that step (the rounding of every margin and stretch figure).
+#[must_use]
+pub fn round_directed(x: f64, unit: f64, up: bool) -> f64 {
+    round_to(x, unit, up)
+}
+
 /// Round `target` (where a limit is reached) to `unit`, to the safe side as seen from `from`:
 /// towards `from` when the limit holds at `from` (`holds`), past the limit when it does not.
 #[must_use]

@@ -256,9 +256,15 @@ pub fn domain_json(window: &PairWindow, c: &Classification) -> Value {
             "impact_velocity_m_s": pair(s.velocity_m_s),
             "collision_angle_deg": pair(s.angle_deg),
         })),
-        "window_span": c.inside_stretch.map_or(Value::Null, |s| json!({
+        "window_span": c.inside_stretch.as_ref().map_or(Value::Null, |s| json!({
             "impact_velocity_m_s": pair(s.velocity_m_s),
             "collision_angle_deg": pair(s.angle_deg),
+            "impact_velocity_stretches": s.velocity_runs.iter().map(|r| json!({
+                "from_m_s": sig(r.from), "to_m_s": sig(r.to), "outside_trial_data": r.outside_trial_data, "partly_outside_trial_data": r.partly_outside_trial_data,
+            })).collect::<Vec<_>>(),
+            "collision_angle_stretches": s.angle_runs.iter().map(|r| json!({
+                "from_deg": sig(r.from), "to_deg": sig(r.to), "outside_trial_data": r.outside_trial_data, "partly_outside_trial_data": r.partly_outside_trial_data,
+            })).collect::<Vec<_>>(),
         })),
     })
 }

@@ -1,6 +1,6 @@
 //! The trade as a table for people, as CSV and as JSON.
 
-use super::{Control, Trade};
+use super::{Control, Row, Trade};
 use oblique_core::criteria::format_in_unit;
 use oblique_core::{CriterionId, LimitKind};
 use oblique_window::classify::LimitRef;
@@ -306,8 +306,16 @@ impl Trade<'_> {
                 Control::Velocity { .. } => format!("{:.0} m/s", x.unwrap_or(end)),
             };
             let (lo, hi) = self.control.ends();
+            // The rows of the stretch that are welded* (a user boundary does not span them).
+            let (from, to) = (a.unwrap_or(lo), b.unwrap_or(hi));
+            let rows: Vec<&Row> = self
+                .rows
+                .iter()
+                .filter(|r| r.check.inside && r.at >= from && r.at <= to)
+                .collect();
+            let untried = rows.iter().filter(|r| r.check.outside_trial_data).count();
             s.push_str(&format!(
-                "inside the window from {}{} to {}{}\n",
+                "inside the window from {}{} to {}{}{}\n",
                 f(a, lo),
                 if a.is_none() {
                     " (the range's start)"
@@ -317,6 +325,13 @@ impl Trade<'_> {
                 f(b, hi),
                 if b.is_none() {
                     " (the range's end)"
+                } else {
+                    ""
+                },
+                if untried > 0 && untried == rows.len() {
+                    ": the model limits only, outside the trial data (its rows are welded*)"
+                } else if untried > 0 {
+                    ": partly outside the trial data (some rows welded*)"
                 } else {
                     ""
                 },

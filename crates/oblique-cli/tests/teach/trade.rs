@@ -340,3 +340,59 @@ fn bad_trade_input_exits_2_naming_the_flag() {
     let o = run(&with(&["--velocity", "450m/s"]));
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
 }
+
+/// Where the window is inside on two stretches, check names both and marks the one no trial
+/// supports; trade marks it too; the same end has the same digits in both and in the headroom.
+#[test]
+fn every_inside_stretch_is_named_and_one_outside_the_trial_data_says_so() {
+    let o = run(&[
+        "check",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "382m/s",
+        "--angle",
+        "5deg",
+    ]);
+    let out = stdout(&o);
+    let line = out
+        .lines()
+        .find(|l| l.starts_with("where the window is"))
+        .expect("the line");
+    assert!(
+        line.contains(
+            "from 4.45 deg to 5.00 deg (outside the trial data) and from 8.96 deg to 23.76 deg"
+        ),
+        "{line}"
+    );
+    let o = run(&[
+        "trade",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "380m/s",
+        "--angle-range",
+        "1deg..40deg",
+        "--steps",
+        "400",
+    ]);
+    let out = stdout(&o);
+    assert!(
+        out.contains("inside the window from 4.40 deg to 5.00 deg: the model limits only, outside the trial data"),
+        "{out}"
+    );
+    // The tip bounce-back boundary at 25 deg: 25.00 in the stretch and in the headroom column.
+    let o = run(&[
+        "check",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "450m/s",
+        "--angle",
+        "10deg",
+    ]);
+    let out = stdout(&o);
+    assert!(out.contains("25.00 deg (+15.00 deg)"), "{out}");
+    assert!(out.contains("to 25.00 deg"), "{out}");
+    assert!(!out.contains("24.99"), "{out}");
+}
