@@ -285,6 +285,27 @@ fn closer(open: char) -> char {
 /// would (with `,` or its last value), while the brackets opened on later lines all closed: the
 /// likely place of a missing closing bracket. Strings, raw strings and comments are skipped.
 fn unclosed_before(text: &str, upto: usize) -> Option<(char, usize, usize)> {
+    let &(ch, at, l) = open_brackets(text, upto).last()?;
+    // Only a bracket that is open to the end of the text (one closed later is not the cause:
+    // `(name: "x",` on line 1 with its `)` on the last line and a bad value between).
+    if !open_brackets(text, text.len()).iter().any(|o| o.1 == at) {
+        return None;
+    }
+    // Only a bracket whose line holds more after it and ends like a finished item.
+    let line_end = text[at..].find('\n').map_or(text.len(), |e| at + e);
+    let rest = text[at + 1..line_end].trim_end();
+    let rest = rest.split("//").next().unwrap_or(rest).trim_end();
+    if rest.is_empty() || !(rest.ends_with(',') || rest.ends_with('"')) {
+        return None;
+    }
+    let line_start = text[..at].rfind('\n').map_or(0, |p| p + 1);
+    let col = text[line_start..at].chars().count() + 1;
+    Some((ch, l, col))
+}
+
+/// The brackets open at byte `upto` (bracket, byte, line), outermost first; strings and
+/// comments skipped.
+fn open_brackets(text: &str, upto: usize) -> Vec<(char, usize, usize)> {
     let b = text.as_bytes();
     let mut stack: Vec<(char, usize, usize)> = Vec::new(); // (bracket, byte, line)
     let (mut i, mut line) = (0usize, 1usize);
@@ -339,17 +360,7 @@ fn unclosed_before(text: &str, upto: usize) -> Option<(char, usize, usize)> {
         }
         i += 1;
     }
-    let &(ch, at, l) = stack.last()?;
-    // Only a bracket whose line holds more after it and ends like a finished item.
-    let line_end = text[at..].find('\n').map_or(text.len(), |e| at + e);
-    let rest = text[at + 1..line_end].trim_end();
-    let rest = rest.split("//").next().unwrap_or(rest).trim_end();
-    if rest.is_empty() || !(rest.ends_with(',') || rest.ends_with('"')) {
-        return None;
-    }
-    let line_start = text[..at].rfind('\n').map_or(0, |p| p + 1);
-    let col = text[line_start..at].chars().count() + 1;
-    Some((ch, l, col))
+    stack
 }
 
 fn lowercase_first(s: &str) -> String {

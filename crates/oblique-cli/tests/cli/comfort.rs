@@ -233,6 +233,16 @@ fn a_missing_bracket_is_reported_at_its_line() {
         )),
         "{err}"
     );
+    // A bracket closed later is not blamed: a wrong value inside it is reported where it is.
+    std::fs::write(
+        &path,
+        "(format: \"oblique-window/1\", name: \"b\",\n  flyer: 12,\n)",
+    )
+    .expect("write");
+    let o = run(&["--library", lib, "pair", "validate"]);
+    let err = format!("{}{}", stdout(&o), stderr(&o));
+    assert!(err.contains("b.ron:2:9: expected string"), "{err}");
+    assert!(!err.contains("never closed"), "{err}");
 }
 
 #[test]
