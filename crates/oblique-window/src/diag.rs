@@ -286,9 +286,11 @@ fn closer(open: char) -> char {
 /// likely place of a missing closing bracket. Strings, raw strings and comments are skipped.
 fn unclosed_before(text: &str, upto: usize) -> Option<(char, usize, usize)> {
     let &(ch, at, l) = open_brackets(text, upto).last()?;
-    // Only a bracket that is open to the end of the text (one closed later is not the cause:
-    // `(name: "x",` on line 1 with its `)` on the last line and a bad value between).
-    if !open_brackets(text, text.len()).iter().any(|o| o.1 == at) {
+    // Only when some bracket is left open at the end of the text (in a text whose brackets all
+    // close, `(name: "x",` on line 1 with its `)` on the last line, a bad value between is the
+    // cause, not the bracket; with one missing, a later closer pairs with the wrong opener, so
+    // which one is open at the end says nothing of which was left open).
+    if open_brackets(text, text.len()).is_empty() {
         return None;
     }
     // Only a bracket whose line holds more after it and ends like a finished item.
