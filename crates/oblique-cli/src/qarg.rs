@@ -119,6 +119,43 @@ pub fn positive_velocity(s: &str) -> Result<f64, String> {
     )
 }
 
+/// A shot's velocity uncertainty: zero (exact) or above, up to 10 km/s (the bound of an
+/// observed velocity; the pair file checks the same).
+pub fn velocity_uncertainty(s: &str) -> Result<f64, String> {
+    let v = velocity(s)?;
+    if !(v >= 0.0) {
+        return Err(format!(
+            "a velocity uncertainty must be zero (exact) or above, got {}",
+            short_text(s)
+        ));
+    }
+    if v > 1e4 {
+        return Err(format!(
+            "{} is larger than any observed velocity (10 km/s): check the unit",
+            short_text(s)
+        ));
+    }
+    Ok(v)
+}
+
+/// A shot's angle uncertainty: zero (exact) or above, below 90 deg.
+pub fn angle_uncertainty(s: &str) -> Result<f64, String> {
+    let rad = parse_quantity(s, QuantityKind::Angle).map_err(|e| e.to_string())?;
+    if !(rad >= 0.0) {
+        return Err(format!(
+            "an angle uncertainty must be zero (exact) or above, got {}",
+            short_text(s)
+        ));
+    }
+    if rad.to_degrees() >= 90.0 {
+        return Err(format!(
+            "an angle uncertainty of {} is larger than any collision angle: check the unit",
+            short_text(s)
+        ));
+    }
+    Ok(rad)
+}
+
 /// A strictly positive length within [`LENGTH_RANGE_M`].
 pub fn positive_length(s: &str) -> Result<f64, String> {
     let v = positive(length(s)?, "length")?;
@@ -223,7 +260,10 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
             ));
         }
         if v < 0.0 {
-            return Err(format!("'{}' must be zero or above", short_text(p)));
+            return Err(format!(
+                "a standard deviation cannot be negative ('{} %')",
+                short_text(p.trim())
+            ));
         }
         if v > 100.0 * MAX_RELATIVE_VELOCITY_SD {
             return Err(format!(
@@ -237,7 +277,8 @@ pub fn velocity_sd(s: &str) -> Result<oblique_confidence::VelocitySpread, String
     let v = velocity(t).map_err(|e| format!("{e} (or a percentage such as 5%)"))?;
     if !(v >= 0.0) {
         return Err(format!(
-            "a standard deviation must be zero or above, got {v} m/s"
+            "a standard deviation cannot be negative ('{}')",
+            short_text(t)
         ));
     }
     if v > MAX_ABSOLUTE_VELOCITY_SD_M_S {
@@ -259,7 +300,8 @@ pub fn angle_sd(s: &str) -> Result<f64, String> {
     let deg = rad.to_degrees();
     if !(deg >= 0.0) {
         return Err(format!(
-            "a standard deviation must be zero or above, got {deg} deg"
+            "a standard deviation cannot be negative ('{}')",
+            short_text(s)
         ));
     }
     if deg > oblique_confidence::scatter::MAX_ANGLE_SD_DEG {

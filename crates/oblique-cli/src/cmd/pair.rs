@@ -174,11 +174,11 @@ pub struct ObserveArgs {
     /// How velocity and angle were obtained.
     #[arg(long, value_enum, ignore_case = true, default_value = "measured")]
     pub method: MethodArg,
-    /// Standard uncertainty of the velocity, e.g. 15m/s.
-    #[arg(long = "velocity-uncertainty", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::positive_velocity)]
+    /// Standard uncertainty of the velocity, e.g. 15m/s (0m/s: exact, as in the pair file).
+    #[arg(long = "velocity-uncertainty", value_name = "SPEED", allow_hyphen_values = true, value_parser = qarg::velocity_uncertainty)]
     pub velocity_uncertainty: Option<f64>,
-    /// Standard uncertainty of the angle, e.g. 1deg.
-    #[arg(long = "angle-uncertainty", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle)]
+    /// Standard uncertainty of the angle, e.g. 1deg (0deg: exact).
+    #[arg(long = "angle-uncertainty", value_name = "ANGLE", allow_hyphen_values = true, value_parser = qarg::angle_uncertainty)]
     pub angle_uncertainty: Option<f64>,
     /// Date of the shot, YYYY-MM-DD (default: today).
     #[arg(long, value_name = "DATE", value_parser = qarg::date)]

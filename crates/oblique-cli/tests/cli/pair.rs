@@ -829,3 +829,49 @@ fn a_shot_and_a_boundary_are_removed_without_opening_the_file_every_other_line_k
         &["built in and read-only"],
     );
 }
+
+#[test]
+fn observe_takes_a_zero_uncertainty_as_the_file_does_and_names_the_quantity_when_wrong() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "z").status.code(), Some(0));
+    let observe = |extra: &[&str]| {
+        let mut a = vec![
+            "--library",
+            ".",
+            "pair",
+            "observe",
+            "z",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+            "--outcome",
+            "welded",
+            "--source",
+            "s",
+        ];
+        a.extend_from_slice(extra);
+        run_in(dir.path(), &a)
+    };
+    let o = observe(&[
+        "--velocity-uncertainty",
+        "0m/s",
+        "--angle-uncertainty",
+        "0deg",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let o = observe(&["--angle-uncertainty", "-1deg"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("an angle uncertainty must be zero (exact) or above"),
+        "{}",
+        stderr(&o)
+    );
+    let o = observe(&["--velocity-uncertainty", "-1m/s"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("a velocity uncertainty must be zero"),
+        "{}",
+        stderr(&o)
+    );
+}
