@@ -875,3 +875,30 @@ fn observe_takes_a_zero_uncertainty_as_the_file_does_and_names_the_quantity_when
         stderr(&o)
     );
 }
+
+#[test]
+fn import_names_the_column_of_a_cell_that_is_not_utf8_and_a_row_of_the_wrong_length() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    assert_eq!(new_pair(dir.path(), "u").status.code(), Some(0));
+    let csv = dir.path().join("s.csv");
+    std::fs::write(
+        &csv,
+        b"velocity[m/s],angle[deg],outcome,source\n400,10,welded,ab\xff\n410,10,welded,a,b\n",
+    )
+    .expect("csv");
+    let o = run_in(
+        dir.path(),
+        &["--library", ".", "pair", "import", "u", "s.csv"],
+    );
+    assert_eq!(o.status.code(), Some(2));
+    let err = stderr(&o);
+    assert!(
+        err.contains("s.csv:2: field 'source' (column 4) is not UTF-8 text"),
+        "{err}"
+    );
+    assert!(
+        err.contains("s.csv:3: the row has 5 field(s), the header 4"),
+        "{err}"
+    );
+    assert!(err.contains("nothing was written"), "{err}");
+}

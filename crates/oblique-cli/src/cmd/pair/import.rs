@@ -102,6 +102,38 @@ pub(super) fn line_of(bytes: &[u8], offset: u64) -> u64 {
     1 + bytes[..end].iter().filter(|&&b| b == b'\n').count() as u64
 }
 
+/// A record the CSV reader refused, in words: the line and the column's name.
+fn csv_problem(
+    display: &str,
+    bytes: &[u8],
+    headers: &csv::StringRecord,
+    row: u64,
+    e: &csv::Error,
+) -> String {
+    match e.kind() {
+        csv::ErrorKind::Utf8 { pos, err } => {
+            let line = pos.as_ref().map_or(row, |p| line_of(bytes, p.byte()));
+            let name = headers.get(err.field()).unwrap_or("?");
+            format!(
+                "{display}:{line}: field '{name}' (column {}) is not UTF-8 text (valid for its first {} byte(s)): save the file as UTF-8",
+                err.field() + 1,
+                err.valid_up_to()
+            )
+        }
+        csv::ErrorKind::UnequalLengths {
+            pos,
+            expected_len,
+            len,
+        } => {
+            let line = pos.as_ref().map_or(row, |p| line_of(bytes, p.byte()));
+            format!(
+                "{display}:{line}: the row has {len} field(s), the header {expected_len}: a comma too many or too few (quote a text holding a comma: \"a, b\")"
+            )
+        }
+        _ => format!("{display}:{row}: {e}"),
+    }
+}
+
 pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEntry)>> {
     let display = file.display().to_string();
     let bytes = crate::common::read_input(file)?;
@@ -127,7 +159,7 @@ pub(super) fn read_import_csv(file: &Path) -> CmdResult<Vec<(u64, ObservationEnt
         let rec = match rec {
             Ok(r) => r,
             Err(e) => {
-                problems.push(format!("{display}:{row}: {e}"));
+                problems.push(csv_problem(&display, &bytes, &headers, row, &e));
                 continue;
             }
         };
