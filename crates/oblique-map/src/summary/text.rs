@@ -113,7 +113,7 @@ impl Summary {
             ));
             if self.length_unclassified > 0.0 {
                 s.push_str(&format!(
-                    "no verdict over {:.3} mm where rows were rejected (counted in the interface, never as welded)\n",
+                    "no verdict over {:.3} mm where rows were rejected: a rejected row owns nothing, so the whole stretch between the classified rows around it has no verdict (counted in the interface, never as welded)\n",
                     self.length_unclassified * 1e3
                 ));
             }
