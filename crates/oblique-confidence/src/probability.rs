@@ -344,11 +344,13 @@ impl WeldProbability {
                     key: "probability.inside".into(),
                     value: Some(self.inside),
                     text: percent(self.inside),
+                    ..oblique_window::explain::Figure::default()
                 },
                 oblique_window::explain::Figure {
                     key: "probability.standard_error".into(),
                     value: Some(self.standard_error),
                     text: percent(self.standard_error),
+                    ..oblique_window::explain::Figure::default()
                 },
             ],
             source: "docs/theory.md §15 (sampling, the distribution and basis of every input)".into(),

@@ -18,6 +18,7 @@ use oblique_window::classify::LimitRef;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
+use std::fmt::Write as _;
 
 const WIDTH: u32 = 1100;
 const LEGEND_W: u32 = 300;
@@ -324,6 +325,29 @@ fn runs(l: &Line, (lo, hi): (f64, f64)) -> Vec<Vec<(f64, f64)>> {
     out
 }
 
+/// The text drawn where a panel's lines go (replaced by them, see `put_lines`).
+const LINES_MARK: &str = "@@oblique-trade-lines@@";
+
+/// Replace each marker text element, in order, by its panel's lines (`lines`, SVG elements).
+fn put_lines(svg: &str, lines: &[String]) -> String {
+    let mut out = String::with_capacity(svg.len() + lines.iter().map(String::len).sum::<usize>());
+    let mut rest = svg;
+    for l in lines {
+        let Some(m) = rest.find(LINES_MARK) else {
+            break;
+        };
+        let (Some(open), Some(close)) = (rest[..m].rfind("<text"), rest[m..].find("</text>"))
+        else {
+            break;
+        };
+        out.push_str(&rest[..open]);
+        out.push_str(l);
+        rest = rest[m + close + "</text>".len()..].trim_start_matches('\n');
+    }
+    out.push_str(rest);
+    out
+}
+
 /// Render the trade's plot as SVG.
 ///
 /// # Errors
@@ -333,12 +357,14 @@ pub fn render_svg(t: &Trade<'_>) -> RenderResult<String> {
     let panels = panels(t);
     let height = TITLE_H + PANEL_H * panels.len() as u32 + AXIS_H + FOOTER_H;
     let mut svg = String::new();
+    let mut lines = Vec::new();
     {
         let root = SVGBackend::with_string(&mut svg, (WIDTH, height)).into_drawing_area();
         root.fill(&WHITE).map_err(err)?;
-        draw(&root, t, &panels, height)?;
+        draw(&root, t, &panels, height, &mut lines)?;
         root.present().map_err(err)?;
     }
+    let svg = put_lines(&svg, &lines);
     Ok(oblique_window::present::xml_safe(&svg).into_owned())
 }
 
@@ -372,7 +398,13 @@ fn title(t: &Trade<'_>) -> String {
     )
 }
 
-fn draw(root: &Area<'_>, t: &Trade<'_>, panels: &[Panel], height: u32) -> RenderResult {
+fn draw(
+    root: &Area<'_>,
+    t: &Trade<'_>,
+    panels: &[Panel],
+    height: u32,
+    lines: &mut Vec<String>,
+) -> RenderResult {
     let (top, rest) = root.split_vertically(TITLE_H);
     top.draw(&Text::new(
         title(t),
@@ -392,7 +424,7 @@ fn draw(root: &Area<'_>, t: &Trade<'_>, panels: &[Panel], height: u32) -> Render
         let h = PANEL_H + if k + 1 == n { AXIS_H } else { 0 };
         let area = charts.clone().shrink((0, y0), (WIDTH - LEGEND_W, h));
         y0 += h;
-        draw_panel(&area, t, p, (lo, hi), k + 1 == n, k == 0)?;
+        draw_panel(&area, t, p, (lo, hi), (k + 1 == n, k == 0), lines)?;
     }
     // As low as it has always gone (the legend reaches 630 px below the title at most).
     draw_legend(&legend, &legend_sections(t, panels), 630).map_err(err)?;
@@ -420,8 +452,8 @@ fn draw_panel(
     t: &Trade<'_>,
     p: &Panel,
     (lo, hi): (f64, f64),
-    bottom: bool,
-    first: bool,
+    (bottom, first): (bool, bool),
+    lines: &mut Vec<String>,
 ) -> RenderResult {
     let (ylo, yhi) = y_range(p);
     let mut chart = ChartBuilder::on(area)
@@ -478,21 +510,47 @@ fn draw_panel(
         mesh.x_labels(0);
     }
     mesh.draw().map_err(err)?;
+    // The lines go in with sub-pixel vertices: the backend rounds every vertex to a whole
+    // pixel, which bends a straight rise of a few pixels per row into visible steps. A marker
+    // text drawn here, at the lines' place in the drawing order, is replaced by them afterwards
+    // (`put_lines`).
+    let (c0, c1) = (
+        chart.backend_coord(&(lo, ylo)),
+        chart.backend_coord(&(hi, yhi)),
+    );
+    let to_px = |(x, y): (f64, f64)| {
+        (
+            f64::from(c0.0) + (x - lo) / (hi - lo) * f64::from(c1.0 - c0.0),
+            f64::from(c0.1) + (y - ylo) / (yhi - ylo) * f64::from(c1.1 - c0.1),
+        )
+    };
+    let mut svg_lines = String::new();
     for l in &p.lines {
-        let style = l.colour.stroke_width(l.width);
         for run in runs(l, (ylo, yhi)) {
-            match l.dash {
-                Some((d, g)) => chart
-                    .draw_series(DashedLineSeries::new(run, d, g, style))
-                    .map(|_| ())
-                    .map_err(err)?,
-                None => chart
-                    .draw_series(LineSeries::new(run, style))
-                    .map(|_| ())
-                    .map_err(err)?,
-            }
+            let pts: Vec<String> = run
+                .into_iter()
+                .map(|q| {
+                    let (x, y) = to_px(q);
+                    format!("{x:.2},{y:.2}")
+                })
+                .collect();
+            let dash = l.dash.map_or(String::new(), |(d, g)| {
+                format!(" stroke-dasharray=\"{d} {g}\"")
+            });
+            let _ = writeln!(
+                svg_lines,
+                "<polyline fill=\"none\" opacity=\"1\" stroke=\"#{:02X}{:02X}{:02X}\" stroke-width=\"{}\"{dash} points=\"{}\"/>",
+                l.colour.0,
+                l.colour.1,
+                l.colour.2,
+                l.width,
+                pts.join(" ")
+            );
         }
     }
+    lines.push(svg_lines);
+    area.draw(&Text::new(LINES_MARK, (0, 0), ("sans-serif", 1)))
+        .map_err(err)?;
     for (k, c) in t.crossings.iter().enumerate() {
         chart
             .draw_series(DashedLineSeries::new(

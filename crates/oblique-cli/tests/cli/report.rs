@@ -130,6 +130,57 @@ fn report_json_twin() {
     assert_eq!(v["check"]["inside"], true);
 }
 
+/// The HTML record states, in its verdict, every warning its JSON twin carries (the mixed
+/// jetting regime at 382 m/s, 5 deg: the parent plate supersonic, the flyer subsonic).
+#[test]
+fn report_html_verdict_shows_the_json_warnings() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("r.html");
+    let args = [
+        "report",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--velocity",
+        "382m/s",
+        "--angle",
+        "5deg",
+        "-o",
+        out.to_str().unwrap(),
+    ];
+    let o = run(&[&args[..], &["--json"]].concat());
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let warnings: Vec<&str> = v["check"]["warnings"]
+        .as_array()
+        .expect("warnings")
+        .iter()
+        .map(|w| w.as_str().expect("a warning is text"))
+        .collect();
+    assert!(
+        warnings.iter().any(|w| w.contains("mixed regime")),
+        "{warnings:?}"
+    );
+    let o = run(&args);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let html = std::fs::read_to_string(&out).unwrap();
+    parse_xml(&html);
+    let start = html.find("id=\"verdict\"").expect("verdict");
+    let end = html.find("id=\"chosen\"").expect("chosen set-up");
+    let verdict = &html[start..end];
+    for w in &warnings {
+        let escaped = w
+            .replace('&', "&amp;")
+            .replace('<', "&lt;")
+            .replace('>', "&gt;")
+            .replace('"', "&quot;")
+            .replace('\'', "&#39;");
+        assert!(
+            verdict.contains(&escaped),
+            "{w} not in the verdict: {verdict}"
+        );
+    }
+}
+
 #[test]
 fn plots_are_well_formed_deterministic_and_escaped() {
     let d = hostile_library();

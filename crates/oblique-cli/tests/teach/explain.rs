@@ -136,6 +136,7 @@ fn explain_and_check_agree_on_every_shared_number_in_json() {
         let check = json(&with("check", &args, true));
         let explain = json(&with("explain", &args, true));
         let mut compared = 0;
+        let mut flags = 0;
         for step in explain["steps"].as_array().expect("steps") {
             let key = step["key"].as_str().unwrap_or_default();
             let results = step["results"].as_object().expect("results");
@@ -172,20 +173,44 @@ fn explain_and_check_agree_on_every_shared_number_in_json() {
                     } else if let Some(f) = k.strip_prefix("velocity_headroom.") {
                         &check["velocity_headroom"][f]
                     } else if key == "boundary" {
-                        continue;
+                        // The boundary's own object in the check, by the label in the title.
+                        let title = step["title"].as_str().unwrap_or_default();
+                        let b = check["boundaries"]
+                            .as_array()
+                            .into_iter()
+                            .flatten()
+                            .find(|b| {
+                                title
+                                    == format!("Boundary \"{}\"", b["label"].as_str().unwrap_or(""))
+                            })
+                            .unwrap_or_else(|| panic!("{args:?}: {title} not in check"));
+                        &b[k.as_str()]
+                    } else if k == "domain_inside" {
+                        &check["domain"]["inside"]
                     } else if let Some(x) = check.get(k.as_str()) {
                         x
                     } else {
                         continue;
                     };
-                if v.is_string() && !expected.is_string() {
+                // A word where check has a number (e.g. "none below 90 deg") or nothing; a
+                // yes/no fact is a boolean in both.
+                if v.is_string() && !expected.is_string() && !expected.is_boolean() {
                     continue;
                 }
                 assert_eq!(v, expected, "{args:?}: step {key}, {k}");
                 compared += 1;
+                if expected.is_boolean() {
+                    flags += 1;
+                }
             }
         }
         assert!(compared >= 15, "{args:?}: only {compared} numbers compared");
+        // Every criterion's `satisfied`, the domain's and the verdict's `inside` at least.
+        let criteria = check["criteria"].as_array().map_or(0, Vec::len);
+        assert!(
+            flags >= criteria + 2,
+            "{args:?}: only {flags} yes/no facts compared"
+        );
         assert_eq!(explain["prediction"], check["prediction"], "{args:?}");
         assert_eq!(explain["inside"], check["inside"], "{args:?}");
         assert_eq!(explain["binding"], check["binding"], "{args:?}");

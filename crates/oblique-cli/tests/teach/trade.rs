@@ -396,3 +396,56 @@ fn every_inside_stretch_is_named_and_one_outside_the_trial_data_says_so() {
     assert!(out.contains("to 25.00 deg"), "{out}");
     assert!(!out.contains("24.99"), "{out}");
 }
+
+/// The plot's lines keep their sub-pixel vertices: the point's own impact velocity, a straight
+/// line in the Vp panel of a trade along the velocity, is drawn straight (every vertex within
+/// 0.05 px of the chord of its neighbours). The backend had rounded each vertex to a whole
+/// pixel, bending the rows' straight or gently curved values into visible steps.
+#[test]
+fn trade_plot_lines_are_not_stair_stepped() {
+    let dir = tempfile::tempdir().expect("tmp");
+    let o = run_in(
+        dir.path(),
+        &[
+            "trade",
+            "--pair",
+            "demo-al6061-on-cu",
+            "--angle",
+            "10deg",
+            "--velocity-range",
+            "200m/s..800m/s",
+            "--steps",
+            "50",
+            "--plot",
+            "tv.svg",
+        ],
+    );
+    assert!(o.status.success(), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(dir.path().join("tv.svg")).expect("svg");
+    roxmltree::Document::parse(&svg).expect("well-formed SVG");
+    let straight = svg
+        .lines()
+        .filter(|l| l.starts_with("<polyline") && l.contains("stroke=\"#141414\""))
+        .filter_map(|l| {
+            let pts: Vec<(f64, f64)> = l
+                .split("points=\"")
+                .nth(1)?
+                .split('"')
+                .next()?
+                .split_whitespace()
+                .filter_map(|p| {
+                    let (x, y) = p.split_once(',')?;
+                    Some((x.parse().ok()?, y.parse().ok()?))
+                })
+                .collect();
+            (pts.len() >= 10 && (pts[0].1 - pts[pts.len() - 1].1).abs() > 50.0).then_some(pts)
+        })
+        .any(|pts| {
+            pts.windows(3).all(|w| {
+                let (a, b, c) = (w[0], w[1], w[2]);
+                let t = (b.0 - a.0) / (c.0 - a.0);
+                (a.1 + t * (c.1 - a.1) - b.1).abs() < 0.05
+            })
+        });
+    assert!(straight, "no straight rising line drawn straight");
+}

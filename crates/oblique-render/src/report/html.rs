@@ -191,6 +191,11 @@ fn verdict(input: &ReportInput<'_>, c: &Classification) -> String {
     if let Some(t) = inside_stretch_text(c) {
         let _ = writeln!(h, "<p>Where the window is: {}.</p>", esc(&t));
     }
+    // The same warnings as the JSON twin's `check.warnings` (what the physics does not know
+    // at this point: the mixed jetting regime, an implausible input, ...).
+    for wn in &c.warnings {
+        let _ = writeln!(h, "<p class=\"warning\"><b>Warning:</b> {}</p>", esc(wn));
+    }
     if c.outside_trial_data {
         h.push_str("<p class=\"fail\">The point lies outside the span of at least one user boundary (outside the trial data); that boundary was not extrapolated, so the verdict rests on the model criteria there.</p>\n");
     }

@@ -30,6 +30,7 @@ code.hash { font-size: 0.74em; background: none; white-space: nowrap; }
 .caution { border-left: 6px solid #b35806; background: #fff6ec; padding: 0.5em 1em; break-inside: avoid; page-break-inside: avoid; }
 .keep { break-inside: avoid; page-break-inside: avoid; }
 .invented { border-left: 6px solid #a50f15; background: #fdf0f0; padding: 0.5em 1em; font-weight: bold; }
+.warning { border-left: 6px solid #b35806; background: #fff6ec; padding: 0.4em 0.8em; }
 .fail { color: #a50f15; font-weight: bold; }
 .ok { color: #1b5e20; }
 .chosen td { background: #f2f7fc; }

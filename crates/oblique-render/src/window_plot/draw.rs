@@ -82,6 +82,8 @@ struct Label {
     size: u32,
     colour: RGBColor,
     need: Need,
+    /// A proposed point's label: kept beside its marker, its start (the name) near it.
+    point: bool,
 }
 
 /// What the layers leave for the labels and the legend.
@@ -214,6 +216,7 @@ fn draw_probability(
                 size: 13,
                 colour: C_PROBABILITY,
                 need: Need::Optional,
+                point: false,
             });
         }
         section.push(Entry::new(
@@ -543,6 +546,7 @@ fn draw_boundaries(
                 size: 12,
                 colour: C_LABEL,
                 need: Need::Required,
+                point: true,
             });
         }
         layers.sections[0].push(Entry::new(
@@ -617,6 +621,7 @@ fn draw_curves(
                     size: 11,
                     colour,
                     need: Need::Optional,
+                    point: false,
                 };
                 if idx == 0 || idx + 1 == n {
                     end_labels.push(label);
@@ -690,6 +695,7 @@ fn draw_trials(
                 size: 10,
                 colour: C_SHOT,
                 need: Need::Optional,
+                point: false,
             });
         }
     }
@@ -729,6 +735,7 @@ fn draw_points(
 ) -> RenderResult {
     let w = req.window;
     let mut roles = [false; 3];
+    let mut any_mixed = false;
     let mut labels = Vec::new();
     for (n, p) in req.points.iter().enumerate() {
         let Some(x) = x_of(w, req.plane, p.velocity_m_s, p.angle_rad) else {
@@ -754,23 +761,22 @@ fn draw_points(
             shapes.push(EmptyElement::at((x, y)) + Polygon::new(diamond(r - 2.5), WHITE.filled()));
         }
         chart.draw_series(shapes).map_err(plot_err)?;
-        layers.placer.add_marker(Rect::around(q.0, q.1, r + 1.0));
+        layers.placer.add_point_marker(q, r + 1.0);
         // Name-only labels are small: up to 40 of them.
         let short = req.points.len() > SHORT_LABELS_ABOVE;
         if n < MAX_LABELLED_POINTS || (short && n < 40) {
+            // Many points: their labels only (the verdicts go in a table of the caller's).
+            let (text, mixed) = point_text(w, p, short);
+            any_mixed |= mixed;
             labels.push(Label {
-                // Many points: their labels only (the verdicts go in a table of the caller's).
-                text: if short {
-                    p.label.clone()
-                } else {
-                    point_text(w, p)
-                },
+                text,
                 anchor: q,
                 along: Vec::new(),
                 radius: r,
                 size: 12,
                 colour: C_LABEL,
                 need: Need::Required,
+                point: true,
             });
         }
     }
@@ -792,6 +798,15 @@ fn draw_points(
             section.push(Entry::new(text.clone(), Mark::Diamond { filled: i != 2 }));
         }
     }
+    if any_mixed {
+        section.push(Entry::new(
+            format!(
+                "point supersonic in one plate only: its jetting limit rests on the pair's mixed-case rule ({}), which no source covers (docs/theory.md §4.3)",
+                w.criteria.mixed_jetting.as_str()
+            ),
+            Mark::Glyph(MIXED_MARK),
+        ));
+    }
     if !section.is_empty() {
         layers.sections.push(section);
     }
@@ -809,9 +824,26 @@ fn role_index(r: PointRole) -> usize {
     }
 }
 
-/// A point's label with its verdict.
-fn point_text(w: &PairWindow, p: &ProposedPoint) -> String {
-    let verdict = classify_point(w, p.velocity_m_s, p.angle_rad)
+/// The mark, in a point's label and in the legend, of a point whose jetting limit rests on the
+/// pair's mixed-case rule (the collision supersonic in one plate only; docs/theory.md §4.3).
+pub(super) const MIXED_MARK: &str = "~";
+
+/// A point's label with its verdict, and whether its jetting limit rests on the pair's
+/// mixed-case rule (as `check` warns: jetting judged, one plate supersonic, the other not).
+fn point_text(w: &PairWindow, p: &ProposedPoint, short: bool) -> (String, bool) {
+    let c = classify_point(w, p.velocity_m_s, p.angle_rad);
+    let mixed = c.as_ref().is_ok_and(|c| {
+        c.domain.inside() && w.criteria.jetting_enabled && c.evaluation.jetting.is_mixed()
+    });
+    if short {
+        let text = if mixed {
+            format!("{} {MIXED_MARK}", p.label)
+        } else {
+            p.label.clone()
+        };
+        return (text, mixed);
+    }
+    let verdict = c
         .map(|c| {
             if !c.domain.inside() {
                 // No limit's word is claimed where the relations are not claimed to hold.
@@ -823,7 +855,12 @@ fn point_text(w: &PairWindow, p: &ProposedPoint) -> String {
             }
         })
         .unwrap_or_else(|e| e.to_string());
-    format!("{} ({verdict})", p.label)
+    let note = if mixed {
+        format!("; jetting: mixed-case rule {MIXED_MARK}")
+    } else {
+        String::new()
+    };
+    (format!("{} ({verdict}{note})", p.label), mixed)
 }
 
 /// Place and draw every label, in order.
@@ -832,7 +869,9 @@ fn place_labels(root: &Root<'_>, mut placer: Placer, labels: Vec<Label>) -> Rend
         let font = TextStyle::from(("sans-serif", l.size).into_font());
         let (tw, th) = root.estimate_text_size(&l.text, &font).map_err(plot_err)?;
         let size = (f64::from(tw) + 2.0, f64::from(th) + 2.0);
-        let at = if l.along.is_empty() {
+        let at = if l.point {
+            Some(placer.place_point(l.anchor, l.radius, size))
+        } else if l.along.is_empty() {
             placer.place(l.anchor, l.radius, size, l.need)
         } else {
             placer.place_near(&l.along, l.radius, size, l.need, &NEAR_RINGS)

@@ -25,6 +25,8 @@ pub(crate) enum Mark {
     Dot { colour: RGBColor },
     /// A point diamond, filled (proposed, chosen) or open (alternative).
     Diamond { filled: bool },
+    /// A character written in labels (a note's key).
+    Glyph(&'static str),
 }
 
 /// One legend entry.
@@ -177,6 +179,12 @@ fn draw_mark(area: &Area<'_>, mark: Mark, y: i32) -> RenderResult {
             }
             Ok(())
         }
+        Mark::Glyph(g) => area.draw(&Text::new(
+            g,
+            (22, y),
+            TextStyle::from(("sans-serif", 16).into_font())
+                .pos(Pos::new(HPos::Center, VPos::Center)),
+        )),
     }
     .map_err(plot_err)
 }

@@ -408,6 +408,145 @@ mod tests {
         }
     }
 
+    /// The box (x0, y0, x1, y1) of the label of the point named `name` (the label is the name
+    /// alone or the name, a space and more): the halo drawn just before its text.
+    fn label_box(svg: &str, name: &str) -> Option<(f64, f64, f64, f64)> {
+        let lines: Vec<&str> = svg.lines().collect();
+        let k = (2..lines.len()).find(|&k| {
+            (lines[k] == name || lines[k].starts_with(&format!("{name} ")))
+                && lines[k - 1].starts_with("<text")
+        })?;
+        let rect = lines[k - 2];
+        let attr = |a: &str| -> Option<f64> {
+            rect.split(&format!(" {a}=\""))
+                .nth(1)?
+                .split('"')
+                .next()?
+                .parse()
+                .ok()
+        };
+        let (x, y) = (attr("x")?, attr("y")?);
+        Some((x, y, x + attr("width")?, y + attr("height")?))
+    }
+
+    /// The centres of the proposed points' diamonds, in the order of the points.
+    fn diamond_centres(svg: &str, n: usize) -> Vec<(f64, f64)> {
+        polygons(svg, "#000000")
+            .iter()
+            .filter(|p| p.len() == 4)
+            .map(|p| {
+                (
+                    p.iter().map(|q| q.0).sum::<f64>() / 4.0,
+                    p.iter().map(|q| q.1).sum::<f64>() / 4.0,
+                )
+            })
+            .take(n)
+            .collect()
+    }
+
+    /// Every point's label sits beside its own marker: its box within 18 px of the marker
+    /// (as a boundary's label is within 18 px of its line), and its start, where the point's
+    /// name is read, near the marker too. Before, a long label could be set to the left of its
+    /// marker with its name some 290 px (250 m/s) away (the layout of the first case).
+    #[test]
+    fn point_labels_sit_beside_their_markers() {
+        let l = lib();
+        let w = l
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair (invented data)");
+        let layouts: [&[(f64, f64)]; 4] = [
+            &[(382.0, 5.0), (420.0, 85.0)],
+            &[(382.0, 5.0), (600.0, 20.0), (450.0, 10.0)],
+            &[(450.0, 10.0)],
+            &[
+                (382.0, 5.0),
+                (390.0, 6.0),
+                (450.0, 10.0),
+                (360.0, 18.0),
+                (780.0, 12.0),
+            ],
+        ];
+        for pts in layouts {
+            let mut req = PlotRequest::new(w, Plane::AngleImpactVelocity);
+            for (i, (v, a)) in pts.iter().enumerate() {
+                req.points.push(ProposedPoint::new(
+                    format!("P{}", i + 1),
+                    *v,
+                    a.to_radians(),
+                ));
+            }
+            let svg = render_svg(&req).expect("plot");
+            let centres = diamond_centres(&svg, pts.len());
+            assert_eq!(centres.len(), pts.len());
+            for (i, &(x, y)) in centres.iter().enumerate() {
+                let name = format!("P{}", i + 1);
+                let (x0, y0, x1, y1) = label_box(&svg, &name).expect("label drawn");
+                // Nearest point of the box to the marker's centre.
+                let gap = (x0 - x)
+                    .max(x - x1)
+                    .max(0.0)
+                    .hypot((y0 - y).max(y - y1).max(0.0));
+                assert!(
+                    gap <= 7.0 + 18.0 + 2.0,
+                    "{pts:?}: {name} is {gap:.0} px from its marker"
+                );
+                // Nearer its own marker than any other point's.
+                for (j, &(u, v)) in centres.iter().enumerate() {
+                    let other = (x0 - u)
+                        .max(u - x1)
+                        .max(0.0)
+                        .hypot((y0 - v).max(v - y1).max(0.0));
+                    assert!(
+                        j == i || other > gap,
+                        "{pts:?}: {name} is nearer P{} ({other:.0} px) than its own marker ({gap:.0} px)",
+                        j + 1
+                    );
+                }
+                // Where the label fits to the right of its marker, it starts near it.
+                if x + (x1 - x0) < 1100.0 - 300.0 - 30.0 {
+                    let start = (x0 - x).hypot(y.clamp(y0, y1) - y);
+                    assert!(
+                        start <= 7.0 + place::START_NEAR + 24.0,
+                        "{pts:?}: {name} starts {start:.0} px from its marker"
+                    );
+                }
+            }
+        }
+    }
+
+    /// A point where the collision is supersonic in one plate only (the mixed jetting case,
+    /// docs/theory.md §4.3) says so in its label, with a legend note naming the pair's rule; a
+    /// point outside that regime does not.
+    #[test]
+    fn a_point_in_the_mixed_jetting_regime_says_so() {
+        let l = lib();
+        let w = l
+            .pair("demo-al6061-on-cu")
+            .expect("demo pair (invented data)");
+        let c = classify_point(w, 382.0, 5f64.to_radians()).expect("classify");
+        assert!(
+            c.evaluation.jetting.is_mixed(),
+            "the probe point is in the mixed regime"
+        );
+        let mut req = PlotRequest::new(w, Plane::AngleImpactVelocity);
+        req.points
+            .push(ProposedPoint::new("P1", 382.0, 5f64.to_radians()));
+        let svg = render_svg(&req).expect("plot");
+        assert!(
+            svg.contains("; jetting: mixed-case rule ~)"),
+            "the point's label"
+        );
+        assert!(
+            svg.contains("mixed-case rule (supersonic-side-polar)"),
+            "the legend note"
+        );
+        let mut req = PlotRequest::new(w, Plane::AngleImpactVelocity);
+        req.points
+            .push(ProposedPoint::new("P1", 450.0, 10f64.to_radians()));
+        let svg = render_svg(&req).expect("plot");
+        assert!(svg.contains("P1 (inside)") && !svg.contains("mixed-case"));
+    }
+
     /// The polygons of one fill colour in an SVG, in pixels.
     fn polygons(svg: &str, fill: &str) -> Vec<Vec<(f64, f64)>> {
         svg.lines()

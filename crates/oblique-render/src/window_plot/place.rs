@@ -33,6 +33,13 @@ impl Rect {
         self.x0 < o.x1 + gap && o.x0 < self.x1 + gap && self.y0 < o.y1 + gap && o.y0 < self.y1 + gap
     }
 
+    /// The distance from `p` to the nearest point of the box (0 inside it).
+    fn distance_to(&self, p: (f64, f64)) -> f64 {
+        let dx = (self.x0 - p.0).max(p.0 - self.x1).max(0.0);
+        let dy = (self.y0 - p.1).max(p.1 - self.y1).max(0.0);
+        dx.hypot(dy)
+    }
+
     fn contains(&self, p: (f64, f64)) -> bool {
         p.0 >= self.x0 && p.0 <= self.x1 && p.1 >= self.y0 && p.1 <= self.y1
     }
@@ -85,8 +92,15 @@ pub const RINGS: [f64; 5] = [3.0, 9.0, 18.0, 30.0, 45.0];
 /// only, crossing another line under its halo rather than floating away from its own.
 pub const NEAR_RINGS: [f64; 3] = [3.0, 9.0, 18.0];
 
-/// How crowded a label position is: (outside the area, labels hit, markers hit, lines crossed).
-type Score = (usize, usize, usize, usize);
+/// How far (px beyond the marker) the start of a point's label may lie from its marker and
+/// still count as beside it: the name that begins the label is read there, so a long label
+/// set to the left of its marker, its name hundreds of pixels away, is a last resort.
+pub const START_NEAR: f64 = 18.0 + 24.0;
+
+/// How crowded a label position is: (outside the area, labels hit, markers hit, nearer another
+/// point's marker than its own (point labels only), start far from the marker (point labels
+/// only), lines crossed).
+type Score = (usize, usize, usize, usize, usize, usize);
 
 /// Where labels may go and what they must avoid.
 #[derive(Debug, Clone)]
@@ -94,6 +108,8 @@ pub struct Placer {
     /// The plotting area: labels stay inside it.
     pub area: Rect,
     markers: Vec<Rect>,
+    /// The centres of the proposed points' markers (also in `markers`).
+    points: Vec<(f64, f64)>,
     labels: Vec<Rect>,
     segments: Vec<((f64, f64), (f64, f64))>,
 }
@@ -114,6 +130,7 @@ impl Placer {
         Placer {
             area,
             markers: Vec::new(),
+            points: Vec::new(),
             labels: Vec::new(),
             segments: Vec::new(),
         }
@@ -122,6 +139,13 @@ impl Placer {
     /// A marker labels must not cover.
     pub fn add_marker(&mut self, r: Rect) {
         self.markers.push(r);
+    }
+
+    /// A proposed point's marker of radius `r` at `at`: labels must not cover it, and a point's
+    /// label goes nearer its own marker than any other point's.
+    pub fn add_point_marker(&mut self, at: (f64, f64), r: f64) {
+        self.markers.push(Rect::around(at.0, at.1, r));
+        self.points.push(at);
     }
 
     /// A drawn polyline labels should not cross.
@@ -144,6 +168,17 @@ impl Placer {
         self.place_near(&[anchor], r, size, need, &RINGS)
     }
 
+    /// Place the label of a point (its name first, then its verdict) beside its marker of
+    /// radius `r` at `anchor`: within [`NEAR_RINGS`] of it, crossing a line under its halo
+    /// rather than going further, and where the label's start (its name) lies within
+    /// [`START_NEAR`] of the marker when any clear position allows (otherwise, e.g. at the
+    /// right edge of the plot, the label ends beside the marker). Always placed.
+    pub fn place_point(&mut self, anchor: (f64, f64), r: f64, size: (f64, f64)) -> (f64, f64) {
+        let at = self.place_scored(&[anchor], r, size, Need::Required, &NEAR_RINGS, true);
+        // A required label is always placed (there is always a candidate).
+        at.unwrap_or((anchor.0 + r, anchor.1))
+    }
+
     /// As [`Placer::place`], beside any of `anchors` (points of one thing, e.g. the vertices of a
     /// line, in order of preference) at the gaps `rings` (px beyond `r`): nearer positions come
     /// first whichever anchor they are beside, so that the label stays close to its own thing
@@ -156,6 +191,18 @@ impl Placer {
         size: (f64, f64),
         need: Need,
         rings: &[f64],
+    ) -> Option<(f64, f64)> {
+        self.place_scored(anchors, r, size, need, rings, false)
+    }
+
+    fn place_scored(
+        &mut self,
+        anchors: &[(f64, f64)],
+        r: f64,
+        size: (f64, f64),
+        need: Need,
+        rings: &[f64],
+        start_near: bool,
     ) -> Option<(f64, f64)> {
         let (w, h) = size;
         let mut candidates = Vec::with_capacity(8 * rings.len() * anchors.len());
@@ -172,6 +219,17 @@ impl Placer {
                     (x - w / 2.0, y - g - h),
                     (x - w / 2.0, y + g),
                 ]);
+                if start_near {
+                    // Above and below, starting at the marker (or as near it as the plot's
+                    // right edge allows), and ending at it.
+                    let x0 = (x - r).min(self.area.x1 - w).max(self.area.x0);
+                    candidates.extend([
+                        (x0, y - g - h),
+                        (x0, y + g),
+                        (x + r - w, y - g - h),
+                        (x + r - w, y + g),
+                    ]);
+                }
             }
         }
         let own: Vec<Rect> = anchors
@@ -205,8 +263,35 @@ impl Placer {
                 .iter()
                 .filter(|(p, q)| b.crossed_by(*p, *q))
                 .count();
-            let score = (outside, labels, markers, crossings);
-            if score == (0, 0, 0, 0) {
+            // The label's start (its left edge, level with the anchor where the box allows):
+            // how far beyond START_NEAR, in steps of 12 px, so that the nearest start wins
+            // when none is near.
+            let far = if start_near {
+                anchors
+                    .iter()
+                    .map(|&(x, y)| {
+                        let beyond = (b.x0 - x).hypot(y.clamp(b.y0, b.y1) - y) - r - START_NEAR;
+                        // Bounded: the plot is at most a few thousand px wide.
+                        (beyond / 12.0).ceil().clamp(0.0, 1e4) as usize
+                    })
+                    .min()
+                    .unwrap_or(0)
+            } else {
+                0
+            };
+            // Nearer another point's marker than its own: the label would be read as that
+            // point's.
+            let other = start_near && {
+                let own = anchors
+                    .iter()
+                    .map(|&a| b.distance_to(a))
+                    .fold(f64::INFINITY, f64::min);
+                self.points
+                    .iter()
+                    .any(|&q| !anchors.contains(&q) && b.distance_to(q) < own)
+            };
+            let score = (outside, labels, markers, usize::from(other), far, crossings);
+            if score == (0, 0, 0, 0, 0, 0) {
                 best = Some((score, (cx, cy)));
                 break;
             }
@@ -214,7 +299,7 @@ impl Placer {
                 best = Some((score, (cx, cy)));
             }
         }
-        let ((outside, labels, markers, _), at) = best?;
+        let ((outside, labels, markers, _, _, _), at) = best?;
         if (outside + labels + markers) > 0 && need == Need::Optional {
             return None;
         }

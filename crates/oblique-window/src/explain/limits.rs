@@ -203,7 +203,9 @@ pub(super) fn criterion(window: &PairWindow, c: &Classification, r: &CriterionRe
         s.results
             .push(Figure::new("limit_parent", lp, format_in_unit(lp, r.unit)));
     }
-    s.results.push(Figure::word("satisfied", verdict));
+    // As `check --json` has it: true for an informational criterion, which never fails.
+    s.results
+        .push(Figure::flag("satisfied", r.satisfied, verdict));
     if c.domain.extrapolated.contains(&id) {
         s.notes.push(
             "evaluated outside its validity domain: an extrapolation (marked * in `check`)".into(),
@@ -291,6 +293,12 @@ pub(super) fn boundary(window: &PairWindow, c: &Classification, i: usize, b: &Bo
                 .push(Figure::new("limit", limit, fmt_value(limit, r.unit)));
             s.results
                 .push(Figure::new("margin", margin, fmt_margin(margin, r.unit)));
+            let holds = r.satisfied.unwrap_or(margin >= 0.0);
+            s.results.push(Figure::flag(
+                "satisfied",
+                holds,
+                if holds { "holds" } else { "FAILS" },
+            ));
         }
         None => {
             s.numbers.push(format!(
@@ -436,8 +444,9 @@ pub(super) fn verdict(window: &PairWindow, c: &Classification) -> Step {
         .filter(|l| *l != crate::present::CAUTION)
         .map(str::to_string)
         .collect();
-    s.results.push(Figure::word(
+    s.results.push(Figure::flag(
         "inside",
+        c.inside,
         if c.inside { "true" } else { "false" },
     ));
     s.results

@@ -32,13 +32,16 @@ pub enum GivenVelocity {
 }
 
 /// One number a step produces: its key (as in `check --json`: SI, unit suffix), its value in
-/// SI (`None` for a word such as "none below 90 deg") and the text `check` prints for it.
-#[derive(Debug, Clone, PartialEq)]
+/// SI (`None` for a word such as "none below 90 deg"), or a yes/no fact (`satisfied`, `inside`:
+/// a boolean in the JSON, as in `check --json`), and the text `check` prints for it.
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct Figure {
     /// The key.
     pub key: String,
     /// The value, SI.
     pub value: Option<f64>,
+    /// A yes/no fact (its JSON value is this boolean, not the text).
+    pub flag: Option<bool>,
     /// As printed.
     pub text: String,
 }
@@ -48,6 +51,7 @@ impl Figure {
         Figure {
             key: key.into(),
             value: Some(value),
+            flag: None,
             text: text.into(),
         }
     }
@@ -56,7 +60,28 @@ impl Figure {
         Figure {
             key: key.into(),
             value: None,
+            flag: None,
             text: text.into(),
+        }
+    }
+
+    /// A yes/no fact, printed as `text` (e.g. "holds", "FAILS").
+    fn flag(key: impl Into<String>, flag: bool, text: impl Into<String>) -> Self {
+        Figure {
+            key: key.into(),
+            value: None,
+            flag: Some(flag),
+            text: text.into(),
+        }
+    }
+
+    /// Its JSON value: the boolean of a yes/no fact, the SI number, or else the text.
+    #[must_use]
+    pub fn json(&self) -> Value {
+        match (self.flag, self.value) {
+            (Some(b), _) => json!(b),
+            (None, Some(v)) => sig(v),
+            (None, None) => json!(self.text),
         }
     }
 }
@@ -145,7 +170,7 @@ impl Step {
         let results: Map<String, Value> = self
             .results
             .iter()
-            .map(|f| (f.key.clone(), f.value.map_or_else(|| json!(f.text), sig)))
+            .map(|f| (f.key.clone(), f.json()))
             .collect();
         let texts: Map<String, Value> = self
             .results

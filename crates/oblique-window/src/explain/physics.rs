@@ -441,8 +441,9 @@ pub(super) fn domain(window: &PairWindow, setup: &PairSetup, c: &Classification)
             c.domain.exits_text()
         )
     });
-    s.results.push(Figure::word(
+    s.results.push(Figure::flag(
         "domain_inside",
+        c.domain.inside(),
         if c.domain.inside() { "yes" } else { "no" },
     ));
     for src in sources {
