@@ -17,9 +17,9 @@ fn obs(v: &str) -> ObservationEntry {
     }
 }
 
-#[test]
-fn append_keeps_every_other_byte() {
-    let text = new_pair_text(&NewPair {
+/// A new pair file's text, as `pair new` writes it.
+fn small_pair() -> String {
+    new_pair_text(&NewPair {
         name: "p",
         description: "",
         flyer: "a",
@@ -30,7 +30,12 @@ fn append_keeps_every_other_byte() {
         process: "magnetic-pulse",
         maintainer: "me",
         date: "2026-12-01",
-    });
+    })
+}
+
+#[test]
+fn append_keeps_every_other_byte() {
+    let text = small_pair();
     let once = append_observation_text(Path::new("p.ron"), &text, &[obs("300 m/s")]).unwrap();
     let twice = append_observation_text(Path::new("p.ron"), &once, &[obs("310 m/s")]).unwrap();
     assert!(twice.starts_with(&text[..text.find("observations: [").unwrap()]));
@@ -192,18 +197,7 @@ fn set_top_field_inserts_and_replaces_keeping_the_rest() {
 
 #[test]
 fn removing_an_appended_shot_gives_the_file_without_it_byte_for_byte() {
-    let text = new_pair_text(&NewPair {
-        name: "p",
-        description: "",
-        flyer: "a",
-        parent: "b",
-        flyer_thickness: "1 mm",
-        parent_thickness: None,
-        convention: Convention::NormalToFlyer,
-        process: "magnetic-pulse",
-        maintainer: "me",
-        date: "2026-12-01",
-    });
+    let text = small_pair();
     let p = Path::new("p.ron");
     let all =
         append_observation_text(p, &text, &[obs("1 m/s"), obs("2 m/s"), obs("3 m/s")]).unwrap();
