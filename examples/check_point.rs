@@ -10,7 +10,8 @@
 
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::Collision;
-use oblique_window::classify::{classify_explained, limit_label};
+use oblique_window::advice::classify_explained;
+use oblique_window::classify::limit_label;
 use oblique_window::present::CAUTION;
 use oblique_window::Library;
 use std::path::PathBuf;

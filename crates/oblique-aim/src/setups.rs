@@ -485,7 +485,7 @@ fn finish_listed(
             Angle::from_degrees(r.chamfer_deg),
         )?;
         r.check = oblique_window::classify::classify(w, setup, &col)?;
-        oblique_window::classify::explain_in(w, setup, &mut r.check, Convention::NormalToFlyer);
+        oblique_window::advice::explain_in(w, setup, &mut r.check, Convention::NormalToFlyer);
         r.room = room(
             w,
             setup,

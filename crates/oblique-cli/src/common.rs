@@ -111,7 +111,7 @@ pub fn refuse_empty_window(window: &PairWindow, c: &crate::args::ConstantArgs) -
     if !c.any() {
         return Ok(());
     }
-    match oblique_window::classify::empty_window(window) {
+    match oblique_window::pair::empty_window(window) {
         None => Ok(()),
         Some(why) => {
             let flags: Vec<&str> = [
@@ -147,7 +147,7 @@ pub fn classify_given(
     let point = collision(convention, v.velocity, v.collision_velocity, angle)?;
     let setup = window.setup()?;
     let mut c = oblique_window::classify::classify(window, &setup, &point)?;
-    oblique_window::classify::explain_in(window, &setup, &mut c, point.convention);
+    oblique_window::advice::explain_in(window, &setup, &mut c, point.convention);
     Ok((point, c))
 }
 

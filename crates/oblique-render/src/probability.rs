@@ -5,7 +5,8 @@
 
 use crate::error::RenderResult;
 use crate::window_plot::{plot_ranges, render_svg_overlay, PlotRequest};
-use oblique_confidence::{probability_grid, ProbabilityGrid, Sampling, Scatter};
+pub use crate::window_plot::{Contours, Polyline};
+use oblique_confidence::{probability_grid, Sampling, Scatter};
 
 /// Nodes per axis of the probability grid.
 pub const NODES: usize = 200;
@@ -34,18 +35,6 @@ impl ProbabilityOverlay {
             levels: vec![0.1, 0.5, 0.9],
         }
     }
-}
-
-/// A polyline in the plot's coordinates (velocity m/s, angle deg).
-pub type Polyline = Vec<(f64, f64)>;
-
-/// The grid and its contour lines, in the plot's coordinates.
-#[derive(Debug, Clone)]
-pub struct Contours {
-    /// The probability grid (typed, for reports and tests).
-    pub grid: ProbabilityGrid,
-    /// Per level: the level and its polylines (velocity m/s, angle deg).
-    pub lines: Vec<(f64, Vec<Polyline>)>,
 }
 
 /// Bilinear interpolation of a node field at (x, y), `None` outside the grid.

@@ -9,7 +9,8 @@ use crate::resolve::{standoff_input, Catalog, MagneticModel};
 use oblique_core::process::{estimate, IntegrationOptions, PulseEstimate, PulseSetup};
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::{Collision, Convention, PhysicsError};
-use oblique_window::classify::{classify, explain_in, Classification};
+use oblique_window::advice::explain_in;
+use oblique_window::classify::{classify, Classification};
 use oblique_window::PairWindow;
 
 /// A magnetic set-up resolved from a request: the model's input and where each value came

@@ -7,7 +7,8 @@ use crate::request::{field, ExplosiveRequest};
 use crate::resolve::Catalog;
 use oblique_core::process::{explosive_estimate, ExplosiveEstimate, ExplosiveSetup, MassRatio};
 use oblique_core::units::{Angle, Velocity};
-use oblique_window::classify::{classify_explained, Classification};
+use oblique_window::advice::classify_explained;
+use oblique_window::classify::Classification;
 use oblique_window::machine::{MachineRecord, Valued};
 use oblique_window::PairWindow;
 

@@ -119,6 +119,21 @@ impl Setting {
     }
 }
 
+/// A sweep's weld probabilities.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SweepProbability {
+    /// The probability of every setting (`None`: no impact).
+    pub per_setting: Vec<Option<f64>>,
+    /// The scatter assumed.
+    pub scatter: oblique_confidence::Scatter,
+    /// Draws per setting (the same for every setting).
+    pub samples: usize,
+    /// Seed.
+    pub seed: u64,
+    /// Why the velocity spread is what it is.
+    pub basis: String,
+}
+
 /// A sweep's outcome: every setting with its velocity and verdict, and the settings inside
 /// the window ranked by their velocity headroom, largest first.
 #[derive(Debug, Clone)]
@@ -140,8 +155,8 @@ pub struct SweepRanking<'a> {
     /// Indices into `settings` of those inside the window, best first.
     pub ranked: Vec<usize>,
     /// The weld probability of every setting, once computed by
-    /// [`crate::uncertainty::rank_by_probability`] (which then re-ranks `ranked` by it).
-    pub probability: Option<crate::uncertainty::SweepProbability>,
+    /// `uncertainty::rank_by_probability` (which then re-ranks `ranked` by it).
+    pub probability: Option<SweepProbability>,
 }
 
 impl SweepRanking<'_> {

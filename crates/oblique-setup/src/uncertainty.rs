@@ -11,7 +11,7 @@
 use crate::error::{SetupError, SetupResult};
 use crate::estimate::PulseReport;
 use crate::inputs::{Inputs, Provenance};
-use crate::sweep::SweepRanking;
+use crate::sweep::{SweepProbability, SweepRanking};
 use oblique_confidence::priors::{
     CALIBRATED_VELOCITY_SPREAD, PROCESS_ANGLE_SPREAD_DEG, UNCALIBRATED_VELOCITY_SPREAD,
 };
@@ -143,21 +143,6 @@ pub fn estimate_probability(
     let p = weld_probability(w, &point, &s, &scatter.sampling(ESTIMATE_SAMPLES))
         .map_err(setup_error)?;
     Ok(Some((p, basis)))
-}
-
-/// A sweep's weld probabilities.
-#[derive(Debug, Clone, PartialEq)]
-pub struct SweepProbability {
-    /// The probability of every setting (`None`: no impact).
-    pub per_setting: Vec<Option<f64>>,
-    /// The scatter assumed.
-    pub scatter: Scatter,
-    /// Draws per setting (the same for every setting).
-    pub samples: usize,
-    /// Seed.
-    pub seed: u64,
-    /// Why the velocity spread is what it is.
-    pub basis: String,
 }
 
 /// The probabilities rounded for ranking: settings whose probabilities agree to 0.01 tie.

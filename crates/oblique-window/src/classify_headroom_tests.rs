@@ -1,6 +1,7 @@
 //! Headroom tests of `classify` (kept apart so that classify.rs stays short).
 
 use super::*;
+use crate::advice::*;
 use crate::library::Library;
 
 fn demo() -> PairWindow {

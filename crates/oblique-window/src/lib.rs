@@ -31,6 +31,7 @@
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 #![deny(missing_docs)]
 
+pub mod advice;
 pub mod agreement;
 pub mod boundary;
 pub mod classify;

@@ -268,7 +268,7 @@ impl Along {
                 "reached_at_impact_velocity_m_s": self.reached_at,
                 "headroom_m_s": self.change,
                 "headroom_percent": self.percent,
-                "reached_at_unrounded_m_s": crate::present::sig(self.unrounded),
+                "reached_at_unrounded_m_s": crate::text::sig(self.unrounded),
                 "reached_at_domain_edge": self.at_domain_edge,
             })
         } else {
@@ -277,7 +277,7 @@ impl Along {
                 "holds": self.holds,
                 "reached_at_angle_deg": self.reached_at,
                 "headroom_deg": self.change,
-                "reached_at_unrounded_deg": crate::present::sig(self.unrounded),
+                "reached_at_unrounded_deg": crate::text::sig(self.unrounded),
                 "reached_at_domain_edge": self.at_domain_edge,
             })
         }

@@ -637,6 +637,7 @@ pub struct PairWindow {
 }
 
 pub use crate::diag::is_iso_date;
+pub use validate::empty_window;
 
 /// Resolve a material id against the library, falling back to the file's inline materials.
 fn resolve(
@@ -763,7 +764,7 @@ pub fn parse_pair_file(
         if !PROCESSES.contains(&p.as_str()) {
             c.push(
                 "process",
-                format!("unknown process '{}'", crate::present::short(p, 40)),
+                format!("unknown process '{}'", crate::text::short(p, 40)),
                 Some(format!("use one of {}", PROCESSES.join(", "))),
             );
         }
@@ -815,7 +816,7 @@ pub fn parse_pair_file(
     // Constants changed from their defaults must leave a window: refuse, with the reason,
     // those that leave no point of the validity domain inside the model limits.
     if problems == 0 && validate::constants_changed(&parsed) {
-        if let Some(why) = crate::classify::empty_window(&window) {
+        if let Some(why) = validate::empty_window(&window) {
             c.push(
                 &validate::changed_constant_field(&parsed),
                 format!("with these criterion constants the window is empty: {why}"),

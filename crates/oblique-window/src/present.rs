@@ -2,28 +2,16 @@
 //! materials, criteria and classifications (SI values, keys with unit suffixes), plain text
 //! tables and numbers in their criterion's unit. Pure functions: nothing here writes anywhere.
 
-use crate::classify::{limit_advice, limit_label, Classification, HeadOn, LimitRef};
+use crate::advice::limit_advice;
+use crate::classify::{limit_label, Classification, HeadOn, LimitRef};
 use crate::{MaterialRecord, PairWindow};
 use oblique_core::{CriterionResult, PointEvaluation};
 use serde_json::{json, Map, Value};
 
-pub use crate::text::{short, terminal_safe, xml_safe};
+pub use crate::text::{short, sig, terminal_safe, xml_safe};
 
 /// The one-line caution printed with every verdict and estimate.
 pub const CAUTION: &str = "caution: screening estimate from published relations, not a guarantee of a weld; capacitor banks store lethal energy, explosives and flying parts kill: follow local codes and licensed practice before any shot";
-
-/// Round to a sensible number of significant digits for JSON (keeps output stable and readable).
-pub fn sig(x: f64) -> Value {
-    if !x.is_finite() {
-        return Value::Null;
-    }
-    if x == 0.0 {
-        return json!(0.0);
-    }
-    let digits = 10 - x.abs().log10().floor() as i32;
-    let factor = 10f64.powi(digits.clamp(-300, 300));
-    json!((x * factor).round() / factor)
-}
 
 /// The material object shared by `check --json` (`flyer`, `parent`) and `material show --json`.
 pub fn material_json(rec: &MaterialRecord, with_sources: bool) -> Value {
@@ -169,7 +157,7 @@ fn add_headroom(v: &mut Value, window: &PairWindow, c: &Classification, limit: &
     ) {
         o.insert(
             "advice".into(),
-            json!(crate::classify::limit_advice(window, c, limit)),
+            json!(crate::advice::limit_advice(window, c, limit)),
         );
         // The same rounded figures as the text (crate::margin::ROUNDING_RULE).
         let v = crate::margin::velocity_headroom(window, c, limit);
@@ -799,7 +787,7 @@ pub fn verdict_text(window: &PairWindow, c: &Classification) -> String {
             limit_advice(window, c, f)
         ));
     }
-    if let Some(t) = crate::classify::inside_stretch_text(c) {
+    if let Some(t) = crate::advice::inside_stretch_text(c) {
         s.push_str(&format!("where the window is: {t}\n"));
     }
     if c.outside_trial_data {

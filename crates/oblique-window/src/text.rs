@@ -91,6 +91,19 @@ pub fn xml_safe(s: &str) -> std::borrow::Cow<'_, str> {
     )
 }
 
+/// Round to a sensible number of significant digits for JSON (keeps output stable and readable).
+pub fn sig(x: f64) -> serde_json::Value {
+    if !x.is_finite() {
+        return serde_json::Value::Null;
+    }
+    if x == 0.0 {
+        return serde_json::json!(0.0);
+    }
+    let digits = 10 - x.abs().log10().floor() as i32;
+    let factor = 10f64.powi(digits.clamp(-300, 300));
+    serde_json::json!((x * factor).round() / factor)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -3,7 +3,8 @@
 use super::{Aim, Candidate};
 use crate::measure::{Kind, LimitRoom, Room};
 use oblique_core::criteria::format_in_unit;
-use oblique_window::classify::{inside_stretch_text, limit_label, LimitRef};
+use oblique_window::advice::inside_stretch_text;
+use oblique_window::classify::{limit_label, LimitRef};
 use oblique_window::margin::{angle_headroom, velocity_headroom, verdict_velocity_headroom, Along};
 use oblique_window::present::{fmt_margin, sig, table, CAUTION};
 use serde_json::{json, Value};

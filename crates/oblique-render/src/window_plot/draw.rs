@@ -19,22 +19,15 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
+use super::palette::{C_MELTED, C_NOT, C_PARTIAL, C_WELDED, REGION, REGION_UNTRIED};
+
 type Root<'b> = DrawingArea<SVGBackend<'b>, Shift>;
 type Chart<'a, 'b> = ChartContext<'a, SVGBackend<'b>, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
 
-pub(super) const REGION: RGBColor = RGBColor(214, 229, 244);
-/// Predicted welded (model limits and the boundaries that span the point), but where some user
-/// boundary does not span (outside the trial data).
-pub(super) const REGION_UNTRIED: RGBColor = RGBColor(224, 229, 235);
-pub(super) const C_WELDED: RGBColor = RGBColor(27, 79, 138);
-pub(super) const C_NOT: RGBColor = RGBColor(224, 138, 0);
-pub(super) const C_PARTIAL: RGBColor = RGBColor(123, 50, 148);
-pub(super) const C_MELTED: RGBColor = RGBColor(165, 15, 21);
 /// More points than this are labelled by name only, without their verdicts.
 const SHORT_LABELS_ABOVE: usize = 4;
 /// Height of the caution strip under the plot.
 const FOOTER: u32 = 40;
-pub(super) const C_INFO: RGBColor = RGBColor(120, 120, 120);
 const C_SONIC_PARENT: RGBColor = RGBColor(60, 60, 60);
 const C_SONIC_FLYER: RGBColor = RGBColor(150, 150, 150);
 const C_LABEL: RGBColor = RGBColor(20, 20, 20);
@@ -105,7 +98,7 @@ pub(super) fn draw(
     req: &PlotRequest<'_>,
     field: &Field<'_>,
     (x_max, y_max): (f64, f64),
-    overlay: Option<&crate::probability::Contours>,
+    overlay: Option<&super::contours::Contours>,
 ) -> RenderResult<u32> {
     let w = req.window;
     root.fill(&WHITE).map_err(plot_err)?;
@@ -180,7 +173,7 @@ const C_PROBABILITY: RGBColor = RGBColor(0, 110, 110);
 /// rest like every label), and a legend section stating the scatter assumed.
 fn draw_probability(
     chart: &mut Chart<'_, '_>,
-    c: &crate::probability::Contours,
+    c: &super::contours::Contours,
     layers: &mut Layers<'_>,
 ) -> RenderResult {
     let mut section = Section::new("Weld probability");

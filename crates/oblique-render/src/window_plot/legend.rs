@@ -1,7 +1,7 @@
 //! The legend panel beside the plot: sections with a title and one entry per thing drawn (no
 //! section without entries), each entry a sample of its mark and its text wrapped to the panel.
 
-use super::draw::{C_MELTED, C_NOT, C_PARTIAL, C_WELDED};
+use super::palette::{C_MELTED, C_NOT, C_PARTIAL, C_WELDED};
 use super::{plot_err, wrap_words};
 use crate::error::RenderResult;
 use plotters::coord::Shift;

@@ -7,10 +7,14 @@
 //! sub-grid resolution, [`place`] keeps labels clear of markers, lines and each other, `draw`
 //! draws the layers and `legend` the legend panel.
 
+mod contours;
 mod draw;
 pub mod field;
 pub(crate) mod legend;
+mod palette;
 pub mod place;
+
+pub use contours::{Contours, Polyline};
 
 use crate::error::{RenderError, RenderResult};
 use oblique_core::units::{Angle, Velocity};
@@ -122,7 +126,7 @@ pub(crate) fn criterion_colour(id: CriterionId) -> RGBColor {
         CriterionId::PressureLower => RGBColor(179, 88, 6),
         CriterionId::MeltingUpper => RGBColor(178, 24, 43),
         CriterionId::Jetting => RGBColor(33, 102, 172),
-        CriterionId::WavyTransition => draw::C_INFO,
+        CriterionId::WavyTransition => palette::C_INFO,
     }
 }
 
@@ -257,7 +261,7 @@ pub fn render_svg(req: &PlotRequest<'_>) -> RenderResult<String> {
 /// The window plot as SVG, with weld-probability contours over it when given.
 pub(crate) fn render_svg_overlay(
     req: &PlotRequest<'_>,
-    overlay: Option<&crate::probability::Contours>,
+    overlay: Option<&contours::Contours>,
 ) -> RenderResult<String> {
     register_fonts();
     let (x_max, y_max) = plot_ranges(req);

@@ -4,7 +4,7 @@
 //! kinematics it also says what the other two velocity conventions give for the same geometry.
 //!
 //! The steps are read off a [`Classification`] that [`crate::classify::classify`] and
-//! [`crate::classify::explain_in`] produced, the same evaluation `oblique check` prints: every
+//! [`crate::advice::explain_in`] produced, the same evaluation `oblique check` prints: every
 //! result shown is a value of that evaluation, formatted as `check` formats it, so the two agree
 //! digit for digit. The substituted numbers are the inputs of each relation as the evaluation
 //! used them; nothing here evaluates a criterion a second time.
@@ -289,7 +289,7 @@ impl Derivation {
     }
 }
 
-/// The worked example of classification `c` (after [`crate::classify::explain_in`]) of the
+/// The worked example of classification `c` (after [`crate::advice::explain_in`]) of the
 /// point `given` (as the user gave it, in its convention; `how` says which velocity was typed)
 /// against `window`. `is_pair` is false for a window made on the command line.
 ///

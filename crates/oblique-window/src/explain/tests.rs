@@ -1,5 +1,6 @@
 use super::*;
-use crate::classify::{classify, explain_in};
+use crate::advice::explain_in;
+use crate::classify::classify;
 use oblique_core::units::{Angle, Velocity};
 use oblique_core::Convention;
 

@@ -2,6 +2,8 @@
 //! its field path (the collector turns it into file:line:col).
 
 use super::*;
+use oblique_core::jetting::JettingAssessment;
+use oblique_core::{evaluate_with_jetting, Collision};
 
 /// The criteria section: constants checked, switches and reasons for every changed value.
 pub(super) fn criteria(
@@ -27,7 +29,7 @@ pub(super) fn criteria(
         other => {
             c.push(
                 "criteria.melting_upper.form",
-                format!("unknown form '{}'", crate::present::short(other, 40)),
+                format!("unknown form '{}'", crate::text::short(other, 40)),
                 Some("use \"a\" (form b has no source and is kept only for comparison; see docs/theory.md §5.6)".into()),
             );
             WittmanForm::A
@@ -40,7 +42,7 @@ pub(super) fn criteria(
                 "criteria.jetting.mixed",
                 format!(
                     "unknown rule '{}' for the mixed jetting case",
-                    crate::present::short(&cs.jetting.mixed, 40)
+                    crate::text::short(&cs.jetting.mixed, 40)
                 ),
                 Some(
                     "use \"supersonic-side-polar\" (the default) or \"either-subsonic\" (docs/theory.md §4.3)"
@@ -484,4 +486,90 @@ pub(super) fn fitted(c: &mut Collector, parsed: &PairFile) -> Option<Fitted> {
         }
     }
     (c.problems.len() == before).then(|| f.clone())
+}
+
+/// Whether a criterion whose constant can be changed (Deribas k, the HEL multiple m, Wittman's
+/// N) fails at every point of the validity domain, which leaves the window empty whatever the
+/// other limits say. `None` when each holds somewhere; otherwise the reason in words, naming
+/// the limit, its closest approach and the constant. A scan of 60 angles (0.5 to 30 deg) by 60
+/// impact velocities (50 to 2000 m/s, geometric) over the domain, edges included: each of these
+/// limits is monotonic in the impact velocity, so a limit satisfied anywhere in the domain is
+/// satisfied at a scanned point near the domain's edge. (A window whose limits each hold
+/// somewhere but never together is not refused: every point is then reported outside, with
+/// the advice of each limit.)
+pub fn empty_window(window: &PairWindow) -> Option<String> {
+    let setup = window.setup().ok()?;
+    let top = window
+        .domain
+        .bound(oblique_core::DomainQuantity::CollisionAngle)
+        .map_or(30.0, |b| b.max);
+    let (vlo, vhi) = window
+        .domain
+        .bound(oblique_core::DomainQuantity::ImpactVelocity)
+        .map_or((50.0, 2000.0), |b| (b.min, b.max));
+    let angles: Vec<f64> = (1..=60).map(|i| top * i as f64 / 60.0).collect();
+    let speeds: Vec<f64> = (0..60)
+        .map(|i| vlo * (vhi / vlo).powf(i as f64 / 59.0))
+        .collect();
+    let watched = [
+        CriterionId::DeribasLower,
+        CriterionId::PressureLower,
+        CriterionId::MeltingUpper,
+    ];
+    // Per limit: satisfied somewhere, and its best relative margin with where.
+    let mut best: std::collections::BTreeMap<CriterionId, (bool, f64, f64, f64)> =
+        std::collections::BTreeMap::new();
+    // None of these limits uses the jetting assessment.
+    let jet = JettingAssessment::any_angle(
+        oblique_core::jetting::JettingRegime::SubsonicParent,
+        false,
+        false,
+    );
+    for &deg in &angles {
+        for &v in &speeds {
+            let Ok(col) = Collision::from_impact(
+                window.convention,
+                Velocity::from_m_s(v),
+                Angle::from_degrees(deg),
+            ) else {
+                continue;
+            };
+            if !window.domain.contains(&setup, &col) {
+                continue;
+            }
+            let Ok(e) = evaluate_with_jetting(&setup, &col, &window.criteria, jet) else {
+                continue;
+            };
+            for r in e.criteria.iter().filter(|r| watched.contains(&r.id)) {
+                let rel = r.relative_margin();
+                let entry = best
+                    .entry(r.id)
+                    .or_insert((false, f64::NEG_INFINITY, v, deg));
+                entry.0 |= r.satisfied;
+                if rel > entry.1 {
+                    *entry = (entry.0, rel, v, deg);
+                }
+            }
+        }
+    }
+    let constant = |id: CriterionId| -> String {
+        let c = &window.criteria;
+        match id {
+            CriterionId::DeribasLower => format!("k = {}", c.deribas_k),
+            CriterionId::PressureLower => format!("m = {}", c.hel_multiple),
+            _ => format!("N = {}", c.wittman_n),
+        }
+    };
+    let never: Vec<String> = best
+        .iter()
+        .filter(|(_, (sat, ..))| !sat)
+        .map(|(id, (_, rel, v, deg))| {
+            format!(
+                "{id} with {} fails at every point of the validity domain (Vp {vlo:.0}-{vhi:.0} m/s, angle up to {top:.0} deg; closest at Vp {v:.0} m/s, {deg:.1} deg, {:.0} % short)",
+                constant(*id),
+                -100.0 * rel
+            )
+        })
+        .collect();
+    (!never.is_empty()).then(|| never.join("; "))
 }
