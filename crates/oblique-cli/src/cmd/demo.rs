@@ -136,9 +136,16 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
             alt.candidate.label, alt.reason
         ));
     }
+    let outside = agreement.outside_domain.len();
     s.push_str(&format!(
-        "The window agrees with {} of its {} trials.\n\n",
-        agreement.agreeing, agreement.observations
+        "The window agrees with {} of its {} trials{}.\n\n",
+        agreement.agreeing,
+        agreement.observations,
+        if outside > 0 {
+            format!(" ({outside} of them outside the validity domain, where it claims no verdict)")
+        } else {
+            String::new()
+        }
     ));
     let p1 = a.out.join("window-angle-velocity.svg");
     let p2 = a.out.join("window-angle-collision-velocity.svg");
