@@ -259,6 +259,15 @@ pub fn said_where(path: &Path, text: &str) -> CmdResult {
     }
 }
 
+/// Say so when a file is written through a symbolic link (to its target, the link kept).
+pub fn note_target(path: &Path) {
+    if let Ok(t) = oblique_window::write::resolve_target(path) {
+        if let Some(n) = t.note(path) {
+            errln!("note: {n}");
+        }
+    }
+}
+
 /// Write a file the user asked for, atomically.
 pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
     use oblique_window::write::WriteError;
@@ -275,6 +284,7 @@ pub fn write_output(path: &Path, bytes: &[u8]) -> CmdResult {
             Err(e) => Err(Fail::other(format!("cannot write to standard output: {e}"))),
         };
     }
+    note_target(path);
     oblique_window::write::atomic_write(path, bytes, None).map_err(|e| match e {
         WriteError::Io { source, .. } => Fail::other(format!(
             "{}: cannot write: {source}\n  hint: check that the folder exists and is writable",

@@ -400,14 +400,7 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
     }
 }
 
-/// Say so when a library file is written through a symbolic link.
-fn note_target(path: &Path) {
-    if let Ok(t) = oblique_window::write::resolve_target(path) {
-        if let Some(n) = t.note(path) {
-            errln!("note: {n}");
-        }
-    }
-}
+use crate::common::note_target;
 
 /// Degrees kept to a sensible precision for a file (no binary noise such as 8.999999999).
 fn round_deg(d: f64) -> f64 {

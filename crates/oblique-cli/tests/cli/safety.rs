@@ -867,6 +867,12 @@ fn every_output_writer_writes_through_a_link_and_keeps_it() {
         let a: Vec<&str> = args.iter().map(String::as_str).collect();
         let o = run(&a);
         assert_eq!(o.status.code(), Some(0), "{a:?}: {}", stderr(&o));
+        // Each says it wrote through the link, as the library writes do.
+        assert!(
+            stderr(&o).contains("is a symbolic link: wrote through it"),
+            "{a:?}: {}",
+            stderr(&o)
+        );
     }
     for (l, t) in [
         (plot, plot_t),

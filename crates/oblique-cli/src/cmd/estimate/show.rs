@@ -78,6 +78,7 @@ fn run_pulse(
     let setup = resolved?;
     let estimate = setup.estimate()?;
     if let Some(path) = &common.history {
+        crate::common::note_target(path);
         oblique_window::write::atomic_write(path, history_csv(&estimate).as_bytes(), None)
             .map_err(|e| Fail::input(format!("--history: cannot write {}: {e}", path.display())))?;
     }
