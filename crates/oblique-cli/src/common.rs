@@ -550,7 +550,7 @@ pub fn fitted_note(window: &PairWindow, flags: &crate::args::ConstantArgs) -> Op
     }
     s.pop();
     s.push('\n');
-    for c in f.cautions(window.observations.len()) {
+    for c in f.cautions(&window.name, window.observations.len()) {
         s.push_str(&format!("  caution: {c}\n"));
     }
     Some(s)

@@ -396,11 +396,11 @@ impl Fitted {
     /// is not measured); a Deribas k outside 0.6 to 1.2, the published range (from memory,
     /// docs/theory.md).
     #[must_use]
-    pub fn cautions(&self, observations_now: usize) -> Vec<String> {
+    pub fn cautions(&self, pair: &str, observations_now: usize) -> Vec<String> {
         let mut out = Vec::new();
         if observations_now != self.observations {
             out.push(format!(
-                "the constants were fitted to {} trials, the file now holds {observations_now}: run `oblique pair fit NAME --save` again",
+                "the constants were fitted to {} trials, the file now holds {observations_now}: run `oblique pair fit {pair} --save` again",
                 self.observations
             ));
         }
@@ -888,8 +888,8 @@ mod tests {
             }),
             hel_multiple: None,
         };
-        assert!(f.cautions(10).iter().all(|c| !c.contains("now holds")));
-        let c = f.cautions(12);
+        assert!(f.cautions("p", 10).iter().all(|c| !c.contains("now holds")));
+        let c = f.cautions("p", 12);
         assert!(c
             .iter()
             .any(|c| c.contains("fitted to 10 trials, the file now holds 12")));

@@ -87,7 +87,7 @@ pub fn run(dirs: &[PathBuf], a: CheckArgs) -> CmdResult {
                             "value": v.value, "low": v.low, "high": v.high,
                         }))).collect::<serde_json::Map<_, _>>(),
                         "overridden_by_flags": fitted_note.as_ref().is_some_and(|n| n.contains("overrides")),
-                        "cautions": f.cautions(window.observations.len()),
+                        "cautions": f.cautions(&window.name, window.observations.len()),
                     }),
                 );
             }

@@ -138,11 +138,11 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
     }
     let outside = agreement.outside_domain.len();
     s.push_str(&format!(
-        "The window agrees with {} of its {} trials{}.\n\n",
+        "The window agrees with {} of the {} trials inside its validity domain{}.\n\n",
         agreement.agreeing,
-        agreement.observations,
+        agreement.observations - outside,
         if outside > 0 {
-            format!(" ({outside} of them outside the validity domain, where it claims no verdict)")
+            format!("; {outside} more lie(s) outside it, where no verdict is claimed")
         } else {
             String::new()
         }

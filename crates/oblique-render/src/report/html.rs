@@ -678,9 +678,22 @@ fn part_trials(input: &ReportInput<'_>) -> String {
     let w = input.window;
     let a = input.agreement;
     let mut h = format!(
-        "<div class=\"part\" id=\"trials\">\n<h2>Trials and agreement</h2>\n<p>{} trial(s); the window agrees with {} of them. {}</p>\n",
+        "<div class=\"part\" id=\"trials\">\n<h2>Trials and agreement</h2>\n<p>{} trial(s); the window agrees with {} of the {} inside its validity domain{}. {}</p>\n",
         a.observations,
         a.agreeing,
+        a.observations - a.outside_domain.len(),
+        if a.outside_domain.is_empty() {
+            String::new()
+        } else {
+            format!(
+                "; outside it, where no verdict is claimed and the table below does not count them: {}",
+                a.outside_domain
+                    .iter()
+                    .map(|t| format!("#{}", t.index + 1))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            )
+        },
         esc(&a.partial_rule)
     );
     h.push_str("<table><thead><tr><th>predicted \\ observed</th><th>welded</th><th>not-welded</th><th>partial</th><th>melted</th></tr></thead><tbody>\n");

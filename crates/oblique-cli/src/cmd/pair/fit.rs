@@ -106,7 +106,7 @@ pub fn run_fit(dirs: &[PathBuf], a: FitArgs) -> CmdResult {
         }
         oblique_window::write::save_fitted(&path, &fitted, &lib.materials, Some(&w.origin.sha256))
             .map_err(write_fail)?;
-        saved = Some((path, fitted.cautions(w.observations.len())));
+        saved = Some((path, fitted.cautions(&w.name, w.observations.len())));
     }
     if a.json {
         let mut v = r.json();
