@@ -693,3 +693,41 @@ fn record_layout_on_screen_and_on_paper() {
         assert!(text.matches('\u{c}').count() >= 8, "{name}: too few pages");
     }
 }
+
+/// A boundary drawn in the impact-velocity plane is a curve in the collision-velocity plane:
+/// drawn through points taken along each of its segments (32 a segment), not as chords
+/// between its converted corners, which put an inside point on the wrong side of it.
+#[test]
+fn a_boundary_is_drawn_as_a_curve_in_the_other_plane() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("vc.svg");
+    let o = run(&[
+        "plot",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--plane",
+        "angle-collision-velocity",
+        "-o",
+        out.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).expect("svg");
+    // The solid boundary (the demo's lowest welding velocity line, 4 corners: 3 segments).
+    let most = svg
+        .split("<polyline ")
+        .filter(|p| p.contains("stroke=\"#000000\" stroke-width=\"3\""))
+        .filter_map(|p| p.split("points=\"").nth(1))
+        .map(|pts| {
+            pts.split('"')
+                .next()
+                .unwrap_or("")
+                .split_whitespace()
+                .count()
+        })
+        .max()
+        .expect("a boundary line");
+    assert!(
+        most > 3 * 16,
+        "the longest boundary line has only {most} vertices"
+    );
+}

@@ -489,35 +489,60 @@ fn draw_boundaries(
     layers: &mut Layers<'_>,
 ) -> RenderResult {
     let w = req.window;
+    // A point of a boundary (velocity in its own plane, m/s; angle, rad) in this plane.
+    let to_plot = |plane: Plane, v: f64, a: f64| -> Option<P> {
+        let vp = match plane {
+            Plane::AngleImpactVelocity => v,
+            Plane::AngleCollisionVelocity => oblique_core::Collision::from_collision_velocity(
+                w.convention,
+                oblique_core::units::Velocity::from_m_s(v),
+                oblique_core::units::Angle::from_radians(a),
+            )
+            .ok()?
+            .impact_velocity
+            .si(),
+        };
+        Some((x_of(w, req.plane, vp, a)?, a.to_degrees()))
+    };
     for (k, b) in w.boundaries.iter().enumerate() {
         let pts: Vec<P> = b
             .points
             .iter()
-            .filter_map(|(v, a)| {
-                let vp = match b.plane {
-                    Plane::AngleImpactVelocity => v.si(),
-                    Plane::AngleCollisionVelocity => {
-                        oblique_core::Collision::from_collision_velocity(w.convention, *v, *a)
-                            .ok()?
-                            .impact_velocity
-                            .si()
-                    }
-                };
-                Some((x_of(w, req.plane, vp, a.radians())?, a.degrees()))
+            .filter_map(|(v, a)| to_plot(b.plane, v.si(), a.radians()))
+            .collect();
+        // The line is straight between its points in its own plane; in the other plane it
+        // curves (Vc = Vp / sin beta, or its convention's form), so each segment is drawn
+        // through points taken along it in its own plane, not as a chord between the ends.
+        const STEPS: usize = 32;
+        let line: Vec<P> = b
+            .points
+            .windows(2)
+            .flat_map(|s| {
+                let ((v0, a0), (v1, a1)) = (
+                    (s[0].0.si(), s[0].1.radians()),
+                    (s[1].0.si(), s[1].1.radians()),
+                );
+                (0..STEPS).map(move |i| {
+                    let t = i as f64 / STEPS as f64;
+                    (v0 + t * (v1 - v0), a0 + t * (a1 - a0))
+                })
             })
+            .chain(b.points.last().map(|(v, a)| (v.si(), a.radians())))
+            .filter_map(|(v, a)| to_plot(b.plane, v, a))
             .collect();
         let dash = boundary_dash(k);
         let style = BLACK.stroke_width(3);
         match dash {
-            None => chart.draw_series(LineSeries::new(pts.clone(), style)),
-            Some((d, g)) => chart.draw_series(DashedLineSeries::new(pts.clone(), d, g, style)),
+            None => chart.draw_series(LineSeries::new(line.clone(), style)),
+            Some((d, g)) => chart.draw_series(DashedLineSeries::new(line.clone(), d, g, style)),
         }
         .map_err(plot_err)?;
         chart
             .draw_series(pts.iter().map(|p| Circle::new(*p, 3, BLACK.filled())))
             .map_err(plot_err)?;
         let pix: Vec<(f64, f64)> = pts.iter().map(|p| px(chart, *p)).collect();
-        layers.placer.add_line(&pix);
+        let line_pix: Vec<(f64, f64)> = line.iter().map(|p| px(chart, *p)).collect();
+        layers.placer.add_line(&line_pix);
         for p in &pix {
             layers.placer.add_marker(Rect::around(p.0, p.1, 3.0));
         }
