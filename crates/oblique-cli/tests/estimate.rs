@@ -981,3 +981,42 @@ fn sweep_marks_the_mixed_jetting_case_and_the_domain() {
     assert!(s.contains(" dom"), "{s}");
     assert!(s.contains("~ jetting in the mixed regime"), "{s}");
 }
+
+/// The sweep plot marks a setting inside the model limits but outside the trial data pale, as
+/// the sweep's table marks it "in?": in the README's sweep, 8 kV at 3 mm and 14 deg.
+#[test]
+fn a_setting_outside_the_trial_data_is_pale_on_the_sweep_plot() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let svg = dir.path().join("s.svg");
+    let o = run(&[
+        "sweep",
+        "mpw-tube",
+        "--machine",
+        "harbourside-bank-300uf",
+        "--coil",
+        "harbourside-coil-42mm",
+        "--pair",
+        "demo-al6061-on-cu",
+        "--tube-outer-radius",
+        "20mm",
+        "--charge-voltage",
+        "6kV..10kV",
+        "--steps",
+        "5",
+        "--standoff",
+        "1mm,2mm,3mm",
+        "--angle-per-standoff",
+        "6deg,10deg,14deg",
+        "--plot",
+        svg.to_str().expect("utf-8"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).contains("578 in?"), "{}", stdout(&o));
+    let text = std::fs::read_to_string(&svg).expect("svg");
+    let pale = text
+        .split("<circle ")
+        .filter(|c| c.contains("opacity=\"0.3\""))
+        .count();
+    assert_eq!(pale, 1, "one pale marker");
+    assert!(text.contains("pale:"), "the legend says what pale means");
+}

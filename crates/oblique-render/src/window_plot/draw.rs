@@ -513,7 +513,9 @@ fn draw_boundaries(
         // The line is straight between its points in its own plane; in the other plane it
         // curves (Vc = Vp / sin beta, or its convention's form), so each segment is drawn
         // through points taken along it in its own plane, not as a chord between the ends.
-        const STEPS: usize = 32;
+        // In its own plane the chords are exact (and more vertices, each rounded to a pixel by
+        // the backend, would only make a steep line wobble).
+        let steps: usize = if b.plane == req.plane { 1 } else { 32 };
         let line: Vec<P> = b
             .points
             .windows(2)
@@ -522,8 +524,8 @@ fn draw_boundaries(
                     (s[0].0.si(), s[0].1.radians()),
                     (s[1].0.si(), s[1].1.radians()),
                 );
-                (0..STEPS).map(move |i| {
-                    let t = i as f64 / STEPS as f64;
+                (0..steps).map(move |i| {
+                    let t = i as f64 / steps as f64;
                     (v0 + t * (v1 - v0), a0 + t * (a1 - a0))
                 })
             })
@@ -616,8 +618,17 @@ fn draw_curves(
         layers.placer.add_line(&pix);
         let n = c.points.len();
         for (idx, ((v, a, lab), p)) in c.points.iter().zip(&pts).enumerate() {
-            let inside = classify_point(w, *v, *a).is_ok_and(|k| k.inside);
-            let fill = if inside {
+            let k = classify_point(w, *v, *a).ok();
+            let inside = k.as_ref().is_some_and(|k| k.inside);
+            // Inside the model limits but outside the trial data (as sweep's "in?" and check's
+            // words): a pale marker.
+            let untried = inside
+                && (k.as_ref().is_some_and(|k| k.outside_trial_data)
+                    || oblique_window::trials::trials_near(w, *v, a.to_degrees(), w.convention)
+                        .is_some_and(|t| t.beyond_trials));
+            let fill = if untried {
+                colour.mix(0.3).filled()
+            } else if inside {
                 colour.filled()
             } else {
                 WHITE.filled()
@@ -658,7 +669,7 @@ fn draw_curves(
         ));
     }
     section.push(Entry::new(
-        "filled marker: inside the window; open: outside",
+        "filled marker: inside the window; pale: inside the model limits, outside the trial data; open: outside",
         Mark::Dot {
             colour: CURVE_COLOURS[0],
         },
