@@ -7,6 +7,10 @@ use oblique_window::margin::verdict_velocity_headroom;
 use oblique_window::present::{sig, table, CAUTION};
 use serde_json::{json, Value};
 
+/// A set-up using at least this share of a rating gets a caution (common practice: banks are
+/// run with a margin below the maker's ratings).
+const NEAR_RATING: f64 = 0.9;
+
 /// What the angle of every set-up is, and what that assumes.
 pub const ANGLE_NOTE: &str = "the collision angle is the rod's chamfer: the lumped tube model moves the wall inward as one ring, parallel to the axis, so it meets a rod chamfered at alpha at a collision angle of alpha (normal-to-flyer). The real wall bends at the coil ends and the dynamic angle grows along the joint, which the model does not compute (docs/process-models.md §11); the angle's scatter stands for that difference. The angle is never computed from the set-up: it is the chamfer you machine";
 
@@ -150,6 +154,23 @@ impl SetupSearchResult<'_> {
         if let Some(v) = verdict_velocity_headroom(w, &b.check) {
             s.push_str(&format!("  {}\n", v.sentence()));
         }
+        let uses = self.rating_use(b);
+        if !uses.is_empty() {
+            let words: Vec<String> = uses
+                .iter()
+                .map(|(what, frac)| format!("{what} {:.0} %", 100.0 * frac))
+                .collect();
+            s.push_str(&format!(
+                "  of the bank's ratings it uses: {}\n",
+                words.join(", ")
+            ));
+            if uses.iter().any(|(_, f)| *f >= NEAR_RATING) {
+                s.push_str(&format!(
+                    "  caution: within {:.0} % of a rating; pulsed-power practice keeps a margin below the maker's ratings (common practice): confirm with the bank's maker and your site's rules before firing it\n",
+                    100.0 * (1.0 - NEAR_RATING)
+                ));
+            }
+        }
         if let Some(cmd) = self.estimate_command(b) {
             s.push_str(&format!("  the same set-up on its own: {cmd}\n"));
         }
@@ -160,6 +181,23 @@ impl SetupSearchResult<'_> {
         s.push_str(CAUTION);
         s.push('\n');
         s
+    }
+
+    /// How much of each known rating a set-up uses: (what, fraction), for the rated voltage, the
+    /// current rating (first peak with the workpiece held still) and the energy rating.
+    #[must_use]
+    pub fn rating_use(&self, r: &SetupResult) -> Vec<(&'static str, f64)> {
+        let mut out = Vec::new();
+        if let Some((u, _)) = &self.rating {
+            out.push(("charging voltage", r.voltage / u));
+        }
+        if let Some((i, _)) = &self.ratings.current {
+            out.push(("peak current (held still)", r.peak_current / i));
+        }
+        if let Some((e, _)) = &self.ratings.energy {
+            out.push(("stored energy", r.energy / e));
+        }
+        out
     }
 
     /// The `oblique estimate` command line of a listed set-up (when the bank is a file): the
@@ -232,6 +270,8 @@ impl SetupSearchResult<'_> {
                 "first_order_probability": sig(r.room.p1()),
                 "weld_probability": r.probability,
                 "peak_current_held_a": sig(r.peak_current),
+                "rating_use": self.rating_use(r).iter().map(|(what, f)| json!({"rating": what, "fraction": sig(*f)})).collect::<Vec<_>>(),
+                "near_a_rating": self.rating_use(r).iter().any(|(_, f)| *f >= NEAR_RATING),
                 "velocity_headroom": verdict_velocity_headroom(w, &r.check).map_or(Value::Null, |x| x.json()),
                 "margins": r.room.limits.iter().map(|l| json!({
                     "limit": l.label, "margin": sig(l.margin), "unit": l.unit, "sd": sig(l.sd),

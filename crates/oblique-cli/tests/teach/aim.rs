@@ -149,6 +149,19 @@ fn the_set_up_search_respects_the_rating_and_its_best_velocity_is_estimates() {
         assert!(num(&r["peak_current_held_a"]) <= 600e3, "{r}");
         assert_eq!(r["inside"], true);
         assert_eq!(num(&r["collision_angle_deg"]), num(&r["chamfer_deg"]));
+        // The share of each rating used, and whether it comes within 10 % of one.
+        let uses = r["rating_use"].as_array().expect("rating_use");
+        let current = uses
+            .iter()
+            .find(|u| u["rating"] == "peak current (held still)")
+            .expect("the current rating");
+        let f = num(&current["fraction"]);
+        assert!(
+            (f - num(&r["peak_current_held_a"]) / 600e3).abs() < 1e-6,
+            "{r}"
+        );
+        let near = uses.iter().any(|u| num(&u["fraction"]) >= 0.9);
+        assert_eq!(r["near_a_rating"], near, "{r}");
     }
     let best = &j["best"];
     assert_eq!(best, &ranked[0]);
