@@ -655,14 +655,46 @@ pub fn chosen_probability(
     a: &crate::args::ScatterArgs,
     always: bool,
 ) -> CmdResult<Option<oblique_render::report::Probability>> {
+    candidate_probability(window, &decision.chosen, a, always)
+}
+
+/// The weld probability of every alternative of a record, as [`chosen_probability`] computes
+/// the chosen set-up's (the same scatter rule, draws and seed), in the order of
+/// `decision.alternatives`; empty when no probability is asked for.
+///
+/// # Errors
+/// As [`chosen_probability`].
+pub fn alternative_probabilities(
+    window: &oblique_window::PairWindow,
+    decision: &oblique_setup::decision::Decision<'_>,
+    a: &crate::args::ScatterArgs,
+    always: bool,
+) -> CmdResult<Vec<Option<f64>>> {
+    if !a.asked() && !always {
+        return Ok(Vec::new());
+    }
+    decision
+        .alternatives
+        .iter()
+        .map(|alt| Ok(candidate_probability(window, &alt.candidate, a, always)?.map(|p| p.value)))
+        .collect()
+}
+
+/// The weld probability of one candidate of a record (see [`chosen_probability`]).
+fn candidate_probability(
+    window: &oblique_window::PairWindow,
+    candidate: &oblique_setup::decision::Candidate<'_>,
+    a: &crate::args::ScatterArgs,
+    always: bool,
+) -> CmdResult<Option<oblique_render::report::Probability>> {
     if !a.asked() && !always {
         return Ok(None);
     }
-    let Some(check) = &decision.chosen.check else {
+    let Some(check) = &candidate.check else {
         return Ok(None);
     };
     let col = &check.evaluation.collision;
-    let (scatter, basis) = match &decision.chosen.produced {
+    let (scatter, basis) = match &candidate.produced {
         oblique_setup::decision::Produced::Magnetic(r) => a.process().resolve(&r.setup.inputs),
         _ => (a.scatter(), "as stated".to_string()),
     };

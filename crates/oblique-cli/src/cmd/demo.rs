@@ -188,6 +188,12 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
             &crate::args::ScatterArgs::default(),
             true,
         )?,
+        alternative_probabilities: crate::common::alternative_probabilities(
+            window,
+            &decision,
+            &crate::args::ScatterArgs::default(),
+            true,
+        )?,
         references: &references,
     };
     if let Some(p) = &input.probability {

@@ -568,6 +568,8 @@ fn write_record(
         oblique_setup::decision::Produced::Magnetic(_)
     );
     let probability = crate::common::chosen_probability(window, decision, &r.scatter, process)?;
+    let alternative_probabilities =
+        crate::common::alternative_probabilities(window, decision, &r.scatter, process)?;
     let references = References::builtin().map_err(Fail::other)?;
     let input = ReportInput {
         window,
@@ -577,6 +579,7 @@ fn write_record(
         curves,
         provenance,
         probability,
+        alternative_probabilities,
         references: &references,
     };
     let bytes = if format == FileFormat::Json {

@@ -610,4 +610,17 @@ fn a_record_states_the_weld_probability_and_the_scatter_when_asked() {
         serde_json::from_str(&std::fs::read_to_string(&out).expect("record")).expect("JSON");
     let method = v["probability"]["method"].as_str().expect("a probability");
     assert!(method.contains("velocity sd 25 %"), "{method}");
+    // And every alternative's, under the same rule, so a reviewer can compare them.
+    for a in v["alternatives"].as_array().expect("alternatives") {
+        let p = a["weld_probability"].as_f64().expect("a probability");
+        assert!((0.0..=1.0).contains(&p), "{a}");
+    }
+    let html_out = dir.path().join("r.html");
+    let o = run(&tube_record(lib, html_out.to_str().expect("utf-8"), &[]));
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let html = std::fs::read_to_string(&html_out).expect("record");
+    assert!(
+        html.contains("<th>P(weld)</th>"),
+        "the alternatives table has the column"
+    );
 }

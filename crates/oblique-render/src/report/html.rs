@@ -388,22 +388,40 @@ fn alternatives(input: &ReportInput<'_>) -> String {
         );
         return h;
     }
+    // P(weld) beside each candidate when the record computed them (the same scatter rule,
+    // draws and seed as the chosen set-up's).
+    let with_p = input.probability.is_some() && !input.alternative_probabilities.is_empty();
     let _ = writeln!(
         h,
-        "<p>{} alternative(s), each evaluated as the chosen set-up was.</p>\n<table><thead><tr><th>candidate</th><th>settings</th><th>Vp, angle</th><th>verdict</th><th>why it was not chosen</th></tr></thead><tbody>",
-        d.alternatives.len()
+        "<p>{} alternative(s), each evaluated as the chosen set-up was{}.</p>\n<table><thead><tr><th>candidate</th><th>settings</th><th>Vp, angle</th><th>verdict</th>{}<th>why it was not chosen</th></tr></thead><tbody>",
+        d.alternatives.len(),
+        if with_p {
+            "; P(weld): the weld probability under the scatter stated in the verdict"
+        } else {
+            ""
+        },
+        if with_p { "<th>P(weld)</th>" } else { "" }
     );
-    let row = |c: &Candidate<'_>, why: &str, chosen: bool| -> String {
+    let row = |c: &Candidate<'_>, why: &str, chosen: bool, p: Option<f64>| -> String {
         let at = c.point().map_or("-".into(), |(v, a)| {
             format!("{} m/s, {} deg", fmt(v, 0), fmt(a.to_degrees(), 2))
         });
+        let pcell = if with_p {
+            format!(
+                "<td class=\"num\">{}</td>",
+                p.map_or("-".into(), |x| format!("{:.0} %", 100.0 * x))
+            )
+        } else {
+            String::new()
+        };
         format!(
-            "<tr{}><td>{}</td><td>{}</td><td class=\"num\">{}</td><td>{}</td><td>{}</td></tr>\n",
+            "<tr{}><td>{}</td><td>{}</td><td class=\"num\">{}</td><td>{}</td>{}<td>{}</td></tr>\n",
             if chosen { " class=\"chosen\"" } else { "" },
             esc(&c.label),
             settings_html(c),
             esc(&at),
             esc(&c.verdict(w)),
+            pcell,
             esc(why)
         )
     };
@@ -411,9 +429,19 @@ fn alternatives(input: &ReportInput<'_>) -> String {
         || "chosen".to_string(),
         |a| format!("chosen; {}", a.sentence()),
     );
-    h.push_str(&row(&d.chosen, &chosen_why, true));
-    for a in &d.alternatives {
-        h.push_str(&row(&a.candidate, &a.reason, false));
+    h.push_str(&row(
+        &d.chosen,
+        &chosen_why,
+        true,
+        input.probability.as_ref().map(|p| p.value),
+    ));
+    for (k, a) in d.alternatives.iter().enumerate() {
+        h.push_str(&row(
+            &a.candidate,
+            &a.reason,
+            false,
+            input.alternative_probabilities.get(k).copied().flatten(),
+        ));
     }
     h.push_str("</tbody></table>\n");
     h

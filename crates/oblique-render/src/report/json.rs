@@ -85,7 +85,13 @@ pub fn json(input: &ReportInput<'_>) -> Value {
         })),
         "choice_rule": d.rule.text(),
         "chosen": candidate_json(w, &d.chosen, None),
-        "alternatives": d.alternatives.iter().map(|a| candidate_json(w, &a.candidate, Some(&a.reason))).collect::<Vec<_>>(),
+        "alternatives": d.alternatives.iter().enumerate().map(|(k, a)| {
+            let mut v = candidate_json(w, &a.candidate, Some(&a.reason));
+            if let Value::Object(o) = &mut v {
+                o.insert("weld_probability".into(), json!(input.alternative_probabilities.get(k).copied().flatten()));
+            }
+            v
+        }).collect::<Vec<_>>(),
         "setup": setup,
         "window_file": {"file": w.origin.display, "sha256": w.origin.sha256},
         "check": check,

@@ -83,6 +83,9 @@ pub struct ReportInput<'a> {
     pub provenance: Provenance,
     /// The weld probability of the chosen set-up, when computed.
     pub probability: Option<Probability>,
+    /// The weld probability of each alternative (the order of `decision.alternatives`), under
+    /// the chosen set-up's scatter rule; empty when none was computed.
+    pub alternative_probabilities: Vec<Option<f64>>,
     /// The project's reference list.
     pub references: &'a References,
 }
