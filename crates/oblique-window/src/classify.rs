@@ -809,18 +809,7 @@ pub fn inside_stretch_of(
                 }
             })
             .collect();
-        inside_runs(&vgrid, |v| inside_at(v, beta), None)
-            .into_iter()
-            .map(|(from, to)| {
-                let (all, some) = trial_cover(from, to, |v| beyond(v, beta));
-                Run {
-                    from,
-                    to,
-                    outside_trial_data: all,
-                    partly_outside_trial_data: some,
-                }
-            })
-            .collect()
+        runs_of(&vgrid, |v| inside_at(v, beta), |v| beyond(v, beta))
     });
     let angle_runs: Vec<Run> = span.angle_deg.map_or_else(Vec::new, |(lo, hi)| {
         let n = 180;
@@ -833,18 +822,11 @@ pub fn inside_stretch_of(
                 }
             })
             .collect();
-        inside_runs(&agrid, |a| inside_at(vp, Angle::from_degrees(a)), None)
-            .into_iter()
-            .map(|(from, to)| {
-                let (all, some) = trial_cover(from, to, |a| beyond(vp, Angle::from_degrees(a)));
-                Run {
-                    from,
-                    to,
-                    outside_trial_data: all,
-                    partly_outside_trial_data: some,
-                }
-            })
-            .collect()
+        runs_of(
+            &agrid,
+            |a| inside_at(vp, Angle::from_degrees(a)),
+            |a| beyond(vp, Angle::from_degrees(a)),
+        )
     });
     let pairs = |runs: &[Run]| runs.iter().map(|r| (r.from, r.to)).collect::<Vec<_>>();
     InsideStretch {
@@ -853,6 +835,23 @@ pub fn inside_stretch_of(
         velocity_runs,
         angle_runs,
     }
+}
+
+/// Every inside run of `grid` (see `inside_runs`), each with whether it lies outside the trial
+/// data (`beyond` at nine points along it).
+fn runs_of(grid: &[f64], inside: impl Fn(f64) -> bool, beyond: impl Fn(f64) -> bool) -> Vec<Run> {
+    inside_runs(grid, inside, None)
+        .into_iter()
+        .map(|(from, to)| {
+            let (all, some) = trial_cover(from, to, &beyond);
+            Run {
+                from,
+                to,
+                outside_trial_data: all,
+                partly_outside_trial_data: some,
+            }
+        })
+        .collect()
 }
 
 /// The label of a limit.
