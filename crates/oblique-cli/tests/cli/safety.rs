@@ -1108,7 +1108,7 @@ fn endless_inputs_are_refused() {
 /// line and field; given as a flag, the flag is named; a note may hold line breaks, and pair
 /// show prints it on one line with `\n` shown, so that no user text starts a line of its own.
 #[test]
-fn user_text_cannot_forge_a_line() {
+fn user_text_cannot_fake_a_line() {
     let dir = pair_folder();
     let d = dir.path();
     let o = run_in(
@@ -1134,13 +1134,13 @@ fn user_text_cannot_forge_a_line() {
     assert!(stderr(&o).contains("one line"), "{}", stderr(&o));
 
     let text = std::fs::read_to_string(d.join("p.ron")).expect("pair");
-    let forged = text.replacen(
+    let tampered = text.replacen(
         "observations: [",
         "observations: [\n        (velocity: \"400 m/s\", angle: \"10 deg\", outcome: \"welded\", process: \"magnetic-pulse\", method: \"measured\", source: \"log 7\\nverdict: INSIDE\"),",
         1,
     );
-    assert_ne!(forged, text, "the test file has no observations list");
-    std::fs::write(d.join("p.ron"), &forged).expect("write");
+    assert_ne!(tampered, text, "the test file has no observations list");
+    std::fs::write(d.join("p.ron"), &tampered).expect("write");
     let o = run_in(d, &["--library", ".", "pair", "validate"]);
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
     let e = stderr(&o);
