@@ -259,6 +259,24 @@ pub fn said_where(path: &Path, text: &str) -> CmdResult {
     }
 }
 
+/// Print a library file as it is: a user file read again from `path`, a built-in one from the
+/// text built into the binary (`builtin`); `missing` words the case where neither is found.
+pub fn emit_library_file(
+    path: Option<&Path>,
+    builtin: Option<&str>,
+    missing: impl FnOnce() -> String,
+) -> CmdResult {
+    match (path, builtin) {
+        (Some(p), _) => {
+            let text = oblique_window::files::read_text_bounded(p)
+                .map_err(|e| Fail::other(format!("cannot read {}: {e}", p.display())))?;
+            crate::output::emit(&text)
+        }
+        (None, Some(t)) => crate::output::emit(t),
+        (None, None) => Err(Fail::other(missing())),
+    }
+}
+
 /// Say so when a file is written through a symbolic link (to its target, the link kept).
 pub fn note_target(path: &Path) {
     if let Ok(t) = oblique_window::write::resolve_target(path) {

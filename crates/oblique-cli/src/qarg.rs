@@ -129,10 +129,11 @@ pub fn velocity_uncertainty(s: &str) -> Result<f64, String> {
             short_text(s)
         ));
     }
-    if v > 1e4 {
+    if v > oblique_window::pair::MAX_OBSERVED_VELOCITY_M_S {
         return Err(format!(
-            "{} is larger than any observed velocity (10 km/s): check the unit",
-            short_text(s)
+            "{} is larger than any observed velocity ({} km/s): check the unit",
+            short_text(s),
+            oblique_window::pair::MAX_OBSERVED_VELOCITY_M_S / 1e3
         ));
     }
     Ok(v)

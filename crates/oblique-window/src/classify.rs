@@ -164,6 +164,28 @@ impl Classification {
             .impact_velocity
             .si()
     }
+
+    /// Inside or not, whether the point lies outside the trial data, as `check` words it: a
+    /// user boundary does not span it, or it lies beyond the region the trials cover (from
+    /// `trials` when `advice::explain` filled it, found here otherwise).
+    pub fn beyond_trial_data(&self, window: &PairWindow) -> bool {
+        if self.outside_trial_data {
+            return true;
+        }
+        match &self.trials {
+            Some(t) => t.beyond_trials,
+            None => {
+                let col = self.evaluation.collision.with_convention(window.convention);
+                crate::trials::trials_near(
+                    window,
+                    col.impact_velocity.si(),
+                    col.angle.degrees(),
+                    window.convention,
+                )
+                .is_some_and(|t| t.beyond_trials)
+            }
+        }
+    }
 }
 
 /// Classify `collision` against `window` (the collision is re-expressed in the window's
@@ -662,20 +684,16 @@ fn inside_stretch(x0: f64, grid: &[f64], inside: impl Fn(f64) -> bool) -> Option
     nearest_run(x0, &inside_runs(grid, inside, Some(x0)))
 }
 
+/// The distance from `x0` to the stretch `lo..=hi` (0 inside it).
+fn distance_to(x0: f64, lo: f64, hi: f64) -> f64 {
+    (lo - x0).max(x0 - hi).max(0.0)
+}
+
 /// The run nearest to `x0` (0 when `x0` lies in it).
 fn nearest_run(x0: f64, runs: &[(f64, f64)]) -> Option<(f64, f64)> {
-    let dist = |r: &(f64, f64)| {
-        if x0 < r.0 {
-            r.0 - x0
-        } else if x0 > r.1 {
-            x0 - r.1
-        } else {
-            0.0
-        }
-    };
     runs.iter()
         .copied()
-        .min_by(|a, b| dist(a).total_cmp(&dist(b)))
+        .min_by(|a, b| distance_to(x0, a.0, a.1).total_cmp(&distance_to(x0, b.0, b.1)))
 }
 
 /// The runs of inside values of `grid`, each end bisected against its outside neighbour; with
@@ -700,15 +718,7 @@ fn inside_runs(
         }
     }
     if let Some(x0) = only_near {
-        let dist = |r: &(usize, usize)| {
-            if x0 < grid[r.0] {
-                grid[r.0] - x0
-            } else if x0 > grid[r.1] {
-                x0 - grid[r.1]
-            } else {
-                0.0
-            }
-        };
+        let dist = |r: &(usize, usize)| distance_to(x0, grid[r.0], grid[r.1]);
         runs = runs
             .into_iter()
             .min_by(|a, b| dist(a).total_cmp(&dist(b)))
@@ -793,11 +803,8 @@ pub fn inside_stretch_of(
     let inside_at = |v: f64, b: Angle| -> bool { at(v, b).is_some_and(|k| k.inside) };
     // A point is outside the trial data when a user boundary does not span it or no trial was
     // fired near it.
-    let beyond = |v: f64, b: Angle| -> bool {
-        at(v, b).is_some_and(|k| k.outside_trial_data)
-            || crate::trials::trials_near(window, v, b.degrees(), convention)
-                .is_some_and(|t| t.beyond_trials)
-    };
+    let beyond =
+        |v: f64, b: Angle| -> bool { at(v, b).is_some_and(|k| k.beyond_trial_data(window)) };
     let velocity_runs: Vec<Run> = span.velocity_m_s.map_or_else(Vec::new, |(lo, hi)| {
         let n = 240;
         let vgrid: Vec<f64> = (0..n)

@@ -583,6 +583,18 @@ pub struct Observation {
     pub note: Option<String>,
 }
 
+impl Observation {
+    /// The same shot as far as a record can tell: the same velocity, angle, outcome and source
+    /// (a repeated import; the shot a removal was asked for).
+    #[must_use]
+    pub fn same_shot(&self, other: &Observation) -> bool {
+        self.velocity.si() == other.velocity.si()
+            && self.angle.degrees() == other.angle.degrees()
+            && self.outcome == other.outcome
+            && self.source == other.source
+    }
+}
+
 /// Where a pair window was loaded from.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Origin {

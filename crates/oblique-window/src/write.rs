@@ -925,14 +925,7 @@ pub fn remove_observation(
         "observations",
         |w| {
             match w.observations.get(index) {
-            Some(o)
-                if o.velocity.si() == expected.velocity.si()
-                    && o.angle.degrees() == expected.angle.degrees()
-                    && o.outcome == expected.outcome
-                    && o.source == expected.source =>
-            {
-                Ok(index)
-            }
+            Some(o) if o.same_shot(expected) => Ok(index),
             _ => Err(format!(
                 "shot #{} is no longer the one shown (another writer changed the list); nothing was removed: look again with `pair show`",
                 index + 1

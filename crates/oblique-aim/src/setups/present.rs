@@ -252,6 +252,7 @@ impl SetupSearchResult<'_> {
     pub fn json(&self) -> Value {
         let w = self.window;
         let one = |r: &SetupResult| {
+            let uses = self.rating_use(r);
             json!({
                 "coil_bore_radius_m": sig(r.bore),
                 "coil_length_m": sig(r.length),
@@ -270,8 +271,8 @@ impl SetupSearchResult<'_> {
                 "first_order_probability": sig(r.room.p1()),
                 "weld_probability": r.probability,
                 "peak_current_held_a": sig(r.peak_current),
-                "rating_use": self.rating_use(r).iter().map(|(what, f)| json!({"rating": what, "fraction": sig(*f)})).collect::<Vec<_>>(),
-                "near_a_rating": self.rating_use(r).iter().any(|(_, f)| *f >= NEAR_RATING),
+                "rating_use": uses.iter().map(|(what, f)| json!({"rating": what, "fraction": sig(*f)})).collect::<Vec<_>>(),
+                "near_a_rating": uses.iter().any(|(_, f)| *f >= NEAR_RATING),
                 "velocity_headroom": verdict_velocity_headroom(w, &r.check).map_or(Value::Null, |x| x.json()),
                 "margins": r.room.limits.iter().map(|l| json!({
                     "limit": l.label, "margin": sig(l.margin), "unit": l.unit, "sd": sig(l.sd),

@@ -63,30 +63,21 @@ fn user_file(w: &PairWindow) -> CmdResult<PathBuf> {
 fn export(dirs: &[PathBuf], name: &str) -> CmdResult {
     let lib = load_library(dirs)?;
     let w = lib.pair(name).map_err(Fail::input)?;
-    match &w.origin.path {
-        Some(p) => {
-            let text = oblique_window::files::read_text_bounded(p)
-                .map_err(|e| Fail::other(format!("cannot read {}: {e}", p.display())))?;
-            emit(&text)
-        }
-        None => {
-            let rel = w
-                .origin
-                .display
-                .strip_prefix("built-in:windows/")
-                .unwrap_or(&w.origin.display);
-            match oblique_window::library::BUILTIN_FILES
-                .iter()
-                .find(|(r, _)| *r == rel)
-            {
-                Some((_, text)) => emit(text),
-                None => Err(Fail::other(format!(
-                    "the built-in file of pair '{name}' ({}) is not in this binary",
-                    w.origin.display
-                ))),
-            }
-        }
-    }
+    let rel = w
+        .origin
+        .display
+        .strip_prefix("built-in:windows/")
+        .unwrap_or(&w.origin.display);
+    let builtin = oblique_window::library::BUILTIN_FILES
+        .iter()
+        .find(|(r, _)| *r == rel)
+        .map(|(_, t)| *t);
+    crate::common::emit_library_file(w.origin.path.as_deref(), builtin, || {
+        format!(
+            "the built-in file of pair '{name}' ({}) is not in this binary",
+            w.origin.display
+        )
+    })
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -432,7 +423,7 @@ fn finish_append(w: &PairWindow, path: &Path, added: usize, json: bool) -> CmdRe
                 "observed": v.observed,
                 "predicted": v.predicted,
                 "agrees": v.agrees,
-                "outside_domain": v.outside_domain,
+                "outside_domain": v.agrees.is_none(),
                 "misjudged_by": v.misjudged_by,
             })).collect::<Vec<_>>(),
         }));
@@ -516,13 +507,12 @@ struct ShotVerdict {
     predicted: &'static str,
     /// `None` outside the validity domain, where the window claims no verdict.
     agrees: Option<bool>,
-    outside_domain: bool,
     misjudged_by: Vec<String>,
 }
 
 impl ShotVerdict {
     fn line(&self) -> String {
-        if self.outside_domain {
+        if self.agrees.is_none() {
             format!(
                 "  shot #{} ({:.0} m/s, {:.2} deg, {}): outside the window's validity domain: no verdict claimed, so neither agreement nor disagreement (counted apart by `pair agreement`)\n",
                 self.index + 1,
@@ -577,7 +567,6 @@ fn new_shot_verdicts(w: &PairWindow, added: usize) -> Vec<ShotVerdict> {
                 predicted: c.prediction.as_str(),
                 agrees: (c.prediction != oblique_window::Prediction::OutsideDomain)
                     .then_some(dis.is_none()),
-                outside_domain: c.prediction == oblique_window::Prediction::OutsideDomain,
                 misjudged_by: dis.map(|d| d.misjudged_by.clone()).unwrap_or_default(),
             })
         })

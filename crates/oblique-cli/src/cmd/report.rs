@@ -367,20 +367,18 @@ fn run_process(
     // The settings already listed (label, voltage V, standoff m, angle rad): a sweep setting
     // equal to one of them is not listed twice.
     let mut listed: Vec<(String, f64, f64, Option<f64>)> = Vec::new();
-    let key = |req: &EstimateRequest| match req.charge {
-        Charge::Voltage(u) => u.si(),
-        Charge::Energy(_) => f64::NAN,
+    let setting = |label: String, req: &EstimateRequest| {
+        let u = match req.charge {
+            Charge::Voltage(u) => u.si(),
+            Charge::Energy(_) => f64::NAN,
+        };
+        (label, u, req.standoff.si(), req.angle.map(|a| a.radians()))
     };
     if chosen_given {
         let c = magnetic_candidate(&catalog, &r.label, &base, &mut notes);
         print_notes(&notes);
         candidates.push(c?);
-        listed.push((
-            r.label.clone(),
-            key(&base),
-            base.standoff.si(),
-            base.angle.map(|a| a.radians()),
-        ));
+        listed.push(setting(r.label.clone(), &base));
     }
     for (n, spec) in r.alternative.iter().enumerate() {
         spec.check_kind(Kind::Magnetic)
@@ -410,12 +408,7 @@ fn run_process(
             .map_err(|e| Fail::input(format!("--alternative {}: {e}", alt_label(spec, n))))?;
         c.given_reason.clone_from(&spec.because);
         candidates.push(c);
-        listed.push((
-            alt_label(spec, n),
-            key(&req),
-            req.standoff.si(),
-            req.angle.map(|a| a.radians()),
-        ));
+        listed.push(setting(alt_label(spec, n), &req));
     }
     let mut sweep_file = None;
     if let Some((path, bytes, sf)) = &sweep {

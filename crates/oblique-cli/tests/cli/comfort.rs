@@ -90,19 +90,7 @@ fn range_errors_name_the_end_that_is_wrong() {
 fn outcome_process_and_method_words_match_in_any_case_and_are_stored_canonically() {
     let dir = tempfile::tempdir().expect("temp dir");
     let lib = dir.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "w",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(dir.path(), "w");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let o = run(&[
         "--library",
@@ -193,19 +181,7 @@ fn outcome_process_and_method_words_match_in_any_case_and_are_stored_canonically
 fn a_missing_bracket_is_reported_at_its_line() {
     let dir = tempfile::tempdir().expect("temp dir");
     let lib = dir.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "b",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(dir.path(), "b");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let path = dir.path().join("b.ron");
     let text = std::fs::read_to_string(&path).expect("pair");
@@ -381,19 +357,7 @@ fn json_lines_input_keeps_its_column_order_in_a_csv_map() {
 fn a_boundary_is_added_from_the_command_line_and_every_new_shot_says_if_the_window_agrees() {
     let dir = tempfile::tempdir().expect("temp dir");
     let lib = dir.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "bd",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(dir.path(), "bd");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let before = std::fs::read_to_string(dir.path().join("bd.ron")).expect("pair");
     let o = run(&[
@@ -520,19 +484,7 @@ fn a_boundary_is_added_from_the_command_line_and_every_new_shot_says_if_the_wind
 fn check_names_the_nearest_trials_and_a_point_beyond_them_is_outside_the_trial_data() {
     let dir = tempfile::tempdir().expect("temp dir");
     let lib = dir.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "narrow",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(dir.path(), "narrow");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     // Every trial between 7 and 14 deg.
     for (v, a) in [
@@ -627,19 +579,7 @@ fn a_dash_is_standard_input_or_output() {
     // Shots from standard input.
     let dir = tempfile::tempdir().expect("temp dir");
     let lib = dir.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "stdin",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(dir.path(), "stdin");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_oblique"))
         .args(["--library", lib, "pair", "import", "stdin", "-"])

@@ -53,19 +53,7 @@ fn bash_completion_completes_subcommands_material_ids_and_pairs() {
     // that takes a name.
     let shop = tempfile::tempdir().expect("shop");
     let lib = shop.path().to_str().expect("utf-8");
-    let o = run(&[
-        "--library",
-        lib,
-        "pair",
-        "new",
-        "shop-al-on-cu",
-        "--flyer",
-        "aa6061-t6",
-        "--parent",
-        "cu-c11000",
-        "--flyer-thickness",
-        "1mm",
-    ]);
+    let o = new_pair(shop.path(), "shop-al-on-cu");
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     for words in [
         vec!["oblique", "--library", lib, "check", "--pair", "sho"],

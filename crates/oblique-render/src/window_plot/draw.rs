@@ -622,10 +622,7 @@ fn draw_curves(
             let inside = k.as_ref().is_some_and(|k| k.inside);
             // Inside the model limits but outside the trial data (as sweep's "in?" and check's
             // words): a pale marker.
-            let untried = inside
-                && (k.as_ref().is_some_and(|k| k.outside_trial_data)
-                    || oblique_window::trials::trials_near(w, *v, a.to_degrees(), w.convention)
-                        .is_some_and(|t| t.beyond_trials));
+            let untried = inside && k.as_ref().is_some_and(|k| k.beyond_trial_data(w));
             let fill = if untried {
                 colour.mix(0.3).filled()
             } else if inside {

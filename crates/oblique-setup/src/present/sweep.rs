@@ -65,7 +65,7 @@ fn point_json(r: &SweepRanking<'_>, s: &Setting) -> Value {
     match (&s.check, r.window) {
         (Some(k), Some(w)) => {
             p.insert("inside".into(), json!(k.inside));
-            p.insert("outside_trial_data".into(), json!(outside_trials(k)));
+            p.insert("outside_trial_data".into(), json!(k.beyond_trial_data(w)));
             p.insert("prediction".into(), json!(k.prediction.as_str()));
             p.insert(
                 "binding".into(),
@@ -207,7 +207,9 @@ fn velocity_grid(r: &SweepRanking<'_>) -> String {
                 }) => {
                     let check = r.setting(i, j).check.as_ref();
                     let mark = match check {
-                        Some(k) if k.inside && outside_trials(k) => " in?",
+                        Some(k) if k.inside && r.window.is_some_and(|w| k.beyond_trial_data(w)) => {
+                            " in?"
+                        }
                         Some(k) if k.inside => " in",
                         Some(k) if !k.domain.inside() => " dom",
                         Some(_) => " out",
@@ -262,7 +264,7 @@ fn ranking_table(r: &SweepRanking<'_>, w: &PairWindow, top: usize) -> String {
     );
     let beyond = r
         .inside_ranked()
-        .filter(|s| s.check.as_ref().is_some_and(outside_trials))
+        .filter(|s| s.check.as_ref().is_some_and(|k| k.beyond_trial_data(w)))
         .count();
     if beyond > 0 {
         out.push_str(&format!(
@@ -408,10 +410,4 @@ pub fn curve_csvs(r: &SweepRanking<'_>) -> Vec<(String, String)> {
         files.push((format!("standoff-{}mm.csv", human::g(g * 1e3)), s));
     }
     files
-}
-
-/// Inside the model limits but outside the trial data: a user boundary does not span the point,
-/// or it lies beyond the region the trials cover (as `check` words it).
-fn outside_trials(k: &oblique_window::Classification) -> bool {
-    k.outside_trial_data || k.trials.as_ref().is_some_and(|t| t.beyond_trials)
 }

@@ -121,15 +121,13 @@ fn save_bank(
 pub fn run_export(dirs: &[PathBuf], name: &str) -> CmdResult {
     let machines = crate::common::load_machines(dirs)?;
     let rec = machines.get(name).map_err(Fail::input)?;
-    match &rec.origin.path {
-        Some(p) => {
-            let text = oblique_window::files::read_text_bounded(p)
-                .map_err(|e| Fail::other(format!("cannot read {}: {e}", p.display())))?;
-            emit(&text)
-        }
-        None => match builtin_text(name) {
-            Some(t) => emit(t),
-            None => Err(Fail::other(format!("built-in file for '{name}' not found"))),
-        },
-    }
+    let builtin = rec
+        .origin
+        .path
+        .is_none()
+        .then(|| builtin_text(name))
+        .flatten();
+    crate::common::emit_library_file(rec.origin.path.as_deref(), builtin, || {
+        format!("built-in file for '{name}' not found")
+    })
 }

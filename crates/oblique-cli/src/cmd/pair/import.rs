@@ -396,12 +396,7 @@ fn warn_repeats(w: &PairWindow, csv: &Path, lines: &[u64]) {
     let obs = &w.observations;
     let first = obs.len().saturating_sub(lines.len());
     for (k, o) in obs.iter().enumerate().skip(first) {
-        let same = obs[..k].iter().find(|e| {
-            e.velocity.si() == o.velocity.si()
-                && e.angle.degrees() == o.angle.degrees()
-                && e.outcome == o.outcome
-                && e.source == o.source
-        });
+        let same = obs[..k].iter().find(|e| e.same_shot(o));
         if let Some(e) = same {
             errln!(
                 "warning: {}:{}: shot #{} repeats shot #{} (same velocity, angle, outcome and source): was this file imported before? Both are kept; `oblique pair show {}` lists the shots",
