@@ -1,6 +1,7 @@
 //! Tests of the parent module.
 
 use super::*;
+use oblique_core::Convention;
 
 fn obs(v: &str) -> ObservationEntry {
     ObservationEntry {
