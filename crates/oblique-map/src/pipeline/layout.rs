@@ -3,7 +3,7 @@
 
 use crate::classifier::{Classifier, LimitInfo, MarginUnit, VelocityKind};
 use crate::format::{push_csv_field, push_json_string, Word, NUMBER_MAX, WORD};
-use crate::input::Header;
+use crate::input::{Header, PlainRow};
 use crate::options::{BadRows, ColumnSelection, Format};
 use oblique_window::classify::Prediction;
 
@@ -59,6 +59,9 @@ pub struct Ctx<'a> {
     pub binding_words: Option<Vec<Word>>,
     /// `,true` and `,false`, padded.
     pub outside_words: Vec<Word>,
+    /// The one-pass reader of plain CSV records, when the input and the map are both CSV (a
+    /// JSON-lines map needs every field's range).
+    pub plain_row: Option<PlainRow>,
 }
 
 /// One computed output column.
@@ -335,6 +338,8 @@ impl<'a> Ctx<'a> {
             Vec::new()
         };
         Self {
+            plain_row: (in_format == Format::Csv && out_format == Format::Csv)
+                .then(|| PlainRow::new(header)),
             failing_texts,
             margin_units: margin_units(classifier),
             unit_words: [

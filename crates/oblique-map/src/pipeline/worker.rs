@@ -20,7 +20,7 @@ use crate::format::{
 };
 use crate::input::{
     is_number, json_object, json_reason, next_record, number_reason, parse_number, scan_plain,
-    split_cell, split_fields, split_plain_record, trim_spaces, Column, Fields,
+    split_cell, split_fields, split_plain_record, trim_spaces, Column, Fields, PlainRecord,
 };
 use crate::options::{BadRows, Format};
 use crate::record::{Lite, Rejected};
@@ -223,7 +223,39 @@ impl Worker {
         };
         let mut pos = 0;
         let mut line_no = slot.first_line;
+        // Plain CSV records in a chunk without quotes: read in one pass, straight to the
+        // classification; any other record goes the general way below.
+        let one_pass = ctx
+            .plain_row
+            .as_ref()
+            .filter(|_| ctx.in_format == Format::Csv && !slot.has_quote);
         while pos < data.len() {
+            if let Some(reader) = one_pass {
+                if let Some(r) = reader.read(data, pos).filter(in_bounds) {
+                    let rec = &data[pos..r.end];
+                    let row = line_no;
+                    line_no += 1;
+                    pos = r.next;
+                    slot.stats.rows_read += 1;
+                    let [position, velocity, angle] = r.values;
+                    let v = RowValues {
+                        position,
+                        velocity,
+                        angle,
+                    };
+                    let cells = Cells::Csv {
+                        line: rec,
+                        fields: &self.fields,
+                    };
+                    let res = classify_and_write(ctx, &mut self.margins, slot, row, &cells, &v);
+                    if let Err(bad) = res {
+                        if reject(ctx, slot, row, rec, false, bad) {
+                            break;
+                        }
+                    }
+                    continue;
+                }
+            }
             let mut plain = false;
             let (end, next, inside_nl, quoted) = match ctx.in_format {
                 Format::Csv if !slot.has_quote => {
@@ -264,20 +296,8 @@ impl Worker {
                 continue;
             }
             slot.stats.rows_read += 1;
-            if let Err((field, reason)) = self.row(ctx, slot, row, rec, quoted, plain) {
-                slot.stats.rejected += 1;
-                if ctx.policy == BadRows::Save {
-                    write_bad(ctx, &mut slot.bad_out, row, &field, &reason, rec);
-                }
-                let pos = rejected_position(ctx, rec, quoted);
-                slot.bad.push(Rejected {
-                    row,
-                    field,
-                    reason,
-                    pos,
-                });
-                if ctx.policy == BadRows::Stop {
-                    slot.stopped = true;
+            if let Err(bad) = self.row(ctx, slot, row, rec, quoted, plain) {
+                if reject(ctx, slot, row, rec, quoted, bad) {
                     break;
                 }
             }
@@ -317,23 +337,7 @@ impl Worker {
             Some(v) => v,
             None => self.values(ctx, &cells)?,
         };
-        let p = if v.angle.to_degrees() < HEAD_ON_DEG {
-            ctx.classifier.head_on(v.velocity, &mut self.margins)
-        } else {
-            ctx.classifier
-                .classify(v.velocity, v.angle, &mut self.margins)
-        }
-        .map_err(|e| ("(classification)".to_string(), e.to_string()))?;
-        let out = &mut slot.out;
-        let out_start = out.len();
-        match ctx.out_format {
-            Format::Csv => csv_row(ctx, &self.margins, out, row, &cells, &p),
-            Format::Jsonl => {
-                slot.stats.non_utf8_cells += json_row(ctx, &self.margins, out, row, &cells, &p);
-            }
-        }
-        record(slot, &self.margins, row, v.position, out_start, &p);
-        Ok(())
+        classify_and_write(ctx, &mut self.margins, slot, row, &cells, &v)
     }
 
     /// Split a CSV record (unless the fast path did) and check its field count.
@@ -373,6 +377,70 @@ impl Worker {
         }
         Ok(())
     }
+}
+
+/// Whether a record's values pass the checks of [`Worker::plain_values`] (anything out of
+/// bounds takes the general path, which words the fault or reads a head-on row).
+#[inline(always)]
+fn in_bounds(r: &PlainRecord) -> bool {
+    let [position, velocity, angle] = r.values;
+    let deg = angle.to_degrees();
+    position.abs() <= MAX_POSITION_M
+        && velocity > 0.0
+        && velocity <= MAX_VELOCITY_M_S
+        && (HEAD_ON_DEG..90.0).contains(&deg)
+}
+
+/// Classify a row's values and write its output row and its record for the summary.
+#[inline(always)]
+fn classify_and_write(
+    ctx: &Ctx<'_>,
+    margins: &mut Vec<f64>,
+    slot: &mut Slot,
+    row: u64,
+    cells: &Cells<'_>,
+    v: &RowValues,
+) -> Result<(), Bad> {
+    let p = if v.angle.to_degrees() < HEAD_ON_DEG {
+        ctx.classifier.head_on(v.velocity, margins)
+    } else {
+        ctx.classifier.classify(v.velocity, v.angle, margins)
+    }
+    .map_err(|e| ("(classification)".to_string(), e.to_string()))?;
+    let out = &mut slot.out;
+    let out_start = out.len();
+    match ctx.out_format {
+        Format::Csv => csv_row(ctx, margins, out, row, cells, &p),
+        Format::Jsonl => {
+            slot.stats.non_utf8_cells += json_row(ctx, margins, out, row, cells, &p);
+        }
+    }
+    record(slot, margins, row, v.position, out_start, &p);
+    Ok(())
+}
+
+/// Count a rejected row, keep it (and save it under `--bad-rows save`); whether the map
+/// stops here (`--bad-rows stop`).
+#[cold]
+#[inline(never)]
+fn reject(ctx: &Ctx<'_>, slot: &mut Slot, row: u64, rec: &[u8], quoted: bool, bad: Bad) -> bool {
+    let (field, reason) = bad;
+    slot.stats.rejected += 1;
+    if ctx.policy == BadRows::Save {
+        write_bad(ctx, &mut slot.bad_out, row, &field, &reason, rec);
+    }
+    let pos = rejected_position(ctx, rec, quoted);
+    slot.bad.push(Rejected {
+        row,
+        field,
+        reason,
+        pos,
+    });
+    if ctx.policy == BadRows::Stop {
+        slot.stopped = true;
+        return true;
+    }
+    false
 }
 
 /// The value of column `col` of an unquoted CSV line split into `ranges`, in SI.
