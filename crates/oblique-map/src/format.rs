@@ -2,7 +2,9 @@
 //! messages and summaries.
 
 const POW10: [f64; 10] = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
-const POW10_U64: [u64; 10] = [
+/// Powers of ten that fit a `u64` exactly, up to 10^16 (the decimals of a fixed number here,
+/// the digit runs of a number read in `input::plain_row`).
+pub(crate) const POW10_U64: [u64; 17] = [
     1,
     10,
     100,
@@ -13,6 +15,13 @@ const POW10_U64: [u64; 10] = [
     10_000_000,
     100_000_000,
     1_000_000_000,
+    10_000_000_000,
+    100_000_000_000,
+    1_000_000_000_000,
+    10_000_000_000_000,
+    100_000_000_000_000,
+    1_000_000_000_000_000,
+    10_000_000_000_000_000,
 ];
 
 /// Append an unsigned integer in decimal (the `itoa` crate).

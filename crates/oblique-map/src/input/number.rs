@@ -70,7 +70,8 @@ fn trim_blank_ends(b: &[u8]) -> &[u8] {
     &b[s..e]
 }
 
-const EXACT_POW10: [f64; 23] = [
+/// Powers of ten that are exact doubles (Clinger's fast path; `plain_row` divides by the same).
+pub(super) const EXACT_POW10: [f64; 23] = [
     1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
     1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
 ];

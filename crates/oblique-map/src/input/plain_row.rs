@@ -24,30 +24,13 @@
 //! record".
 
 use super::header::Header;
+use super::number::EXACT_POW10;
+use crate::format::POW10_U64;
 
 /// Eight copies of a byte.
 const fn splat(b: u8) -> u64 {
     0x0101_0101_0101_0101 * b as u64
 }
-
-/// Powers of ten for appending a run of at most eight digits.
-const POW10_U64: [u64; 9] = [
-    1,
-    10,
-    100,
-    1_000,
-    10_000,
-    100_000,
-    1_000_000,
-    10_000_000,
-    100_000_000,
-];
-
-/// Exact powers of ten, as [`super::number`]'s plain decimals use them (the same division).
-const EXACT_POW10: [f64; 23] = [
-    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
-    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
-];
 
 /// What the reader does with a field.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -344,7 +327,7 @@ fn decimal_from_masks(data: &[u8], start: usize, s: usize, t: usize, digits: u64
     ) else {
         return Blocks3::Unsure;
     };
-    let mant = i.wrapping_mul(POW10_U64_16[frac]).wrapping_add(f);
+    let mant = i.wrapping_mul(POW10_U64[frac]).wrapping_add(f);
     if mant > (1u64 << 53) {
         return Blocks3::NotPlain;
     }
@@ -381,27 +364,6 @@ fn plain_shape_from_masks(data: &[u8], start: usize, s: usize, t: usize, digits:
     (1..=19).contains(&n)
 }
 
-/// Powers of ten up to 10^16.
-const POW10_U64_16: [u64; 17] = [
-    1,
-    10,
-    100,
-    1_000,
-    10_000,
-    100_000,
-    1_000_000,
-    10_000_000,
-    100_000_000,
-    1_000_000_000,
-    10_000_000_000,
-    100_000_000_000,
-    1_000_000_000_000,
-    10_000_000_000_000,
-    100_000_000_000_000,
-    1_000_000_000_000_000,
-    10_000_000_000_000_000,
-];
-
 /// The value of the `k` (at most 16) ASCII digits at `p`, known to be digits; `None` when the
 /// eight-byte reads would run past the data.
 #[inline(always)]
@@ -413,23 +375,27 @@ fn digits_value(data: &[u8], p: usize, k: usize) -> Option<u64> {
     }
 }
 
-/// The first `k` (1 to 8) bytes at `p`, digits, as a number: moved to the top of a word (the
-/// bytes below are zeros, leading zeros of an eight-digit number) and combined by three
-/// multiplications.
+/// The first `k` (1 to 8) bytes at `p`, digits, as a number; `None` when fewer than eight
+/// bytes remain.
 #[inline(always)]
 fn eight_digits(data: &[u8], p: usize, k: usize) -> Option<u64> {
     let w = data.get(p..p + 8)?;
     let mut word = [0u8; 8];
     word.copy_from_slice(w);
-    let x = u64::from_le_bytes(word);
-    // Borrows arise only in the bytes after the k digits and run upwards, out of the word.
+    Some(leading_digits(u64::from_le_bytes(word), k))
+}
+
+/// The value of the first `k` (1 to 8) bytes of the little-endian word `x`, digits: moved to
+/// the top of the word (the bytes below become zeros, leading zeros of an eight-digit number)
+/// and combined by three multiplications. Borrows of the subtraction arise only in the bytes
+/// after the k digits and run upwards, out of the shifted word.
+#[inline(always)]
+fn leading_digits(x: u64, k: usize) -> u64 {
     let d = x.wrapping_sub(splat(b'0')) << (8 * (8 - k));
     let d = d.wrapping_mul(10).wrapping_add(d >> 8);
-    Some(
-        ((d & 0x0000_00FF_0000_00FF).wrapping_mul(100 + (1_000_000 << 32)))
-            .wrapping_add(((d >> 16) & 0x0000_00FF_0000_00FF).wrapping_mul(1 + (10_000 << 32)))
-            >> 32,
-    )
+    ((d & 0x0000_00FF_0000_00FF).wrapping_mul(100 + (1_000_000 << 32)))
+        .wrapping_add(((d >> 16) & 0x0000_00FF_0000_00FF).wrapping_mul(1 + (10_000 << 32)))
+        >> 32
 }
 
 /// Bit masks of sixteen bytes (bit i for byte i): commas, ASCII digits, line breaks. SSE2
@@ -569,11 +535,7 @@ fn digit_count(data: &[u8], start: usize) -> usize {
     while let Some(w) = data.get(p..p + 8) {
         let mut word = [0u8; 8];
         word.copy_from_slice(w);
-        let x = u64::from_le_bytes(word);
-        let hi = x & splat(0xF0);
-        let hi6 = x.wrapping_add(splat(0x06)) & splat(0xF0);
-        let not_digit = (hi ^ splat(0x30)) | (hi6 ^ splat(0x30));
-        let k = (not_digit.trailing_zeros() / 8) as usize;
+        let k = leading_digit_count(u64::from_le_bytes(word));
         p += k;
         if k < 8 {
             return p - start;
@@ -583,6 +545,17 @@ fn digit_count(data: &[u8], start: usize) -> usize {
         p += 1;
     }
     p - start
+}
+
+/// How many of the little-endian word's bytes, from the first, are ASCII digits (0 to 8). A
+/// byte is a digit when its high nibble is 3 and adding 6 keeps it so; a carry out of a byte
+/// (0xFA and above, no digit) can only spoil the bytes after it, which the count never reaches.
+#[inline(always)]
+fn leading_digit_count(x: u64) -> usize {
+    let hi = x & splat(0xF0);
+    let hi6 = x.wrapping_add(splat(0x06)) & splat(0xF0);
+    let not_digit = (hi ^ splat(0x30)) | (hi6 ^ splat(0x30));
+    (not_digit.trailing_zeros() / 8) as usize
 }
 
 /// The run of ASCII digits at `p`, appended to `acc`: (value, digit count, index after the
@@ -596,25 +569,13 @@ fn digit_run(data: &[u8], mut p: usize, mut acc: u64) -> (u64, usize, usize) {
         let mut word = [0u8; 8];
         word.copy_from_slice(w);
         let x = u64::from_le_bytes(word);
-        // A byte is a digit when its high nibble is 3 and adding 6 keeps it so. A carry out
-        // of a byte (0xFA and above, no digit) can only spoil the bytes after it, which the
-        // count below never reaches.
-        let hi = x & splat(0xF0);
-        let hi6 = x.wrapping_add(splat(0x06)) & splat(0xF0);
-        let not_digit = (hi ^ splat(0x30)) | (hi6 ^ splat(0x30));
-        let k = (not_digit.trailing_zeros() / 8) as usize;
+        let k = leading_digit_count(x);
         if k == 0 {
             return (acc, p - start, p);
         }
-        // The k digits as values 0-9 (borrows only arise at or after the first non-digit and
-        // run upwards, out of the shifted word), moved to the top: the bytes below are zeros,
-        // that is, leading zeros of an eight-digit number.
-        let d = x.wrapping_sub(splat(b'0')) << (8 * (8 - k));
-        let d = d.wrapping_mul(10).wrapping_add(d >> 8);
-        let d = ((d & 0x0000_00FF_0000_00FF).wrapping_mul(100 + (1_000_000 << 32)))
-            .wrapping_add(((d >> 16) & 0x0000_00FF_0000_00FF).wrapping_mul(1 + (10_000 << 32)))
-            >> 32;
-        acc = acc.wrapping_mul(POW10_U64[k]).wrapping_add(d);
+        acc = acc
+            .wrapping_mul(POW10_U64[k])
+            .wrapping_add(leading_digits(x, k));
         p += k;
         if k < 8 {
             return (acc, p - start, p);
