@@ -132,11 +132,12 @@ impl PlainRow {
         }
     }
 
-    /// The record classified sixteen bytes at a time (commas, line breaks and non-digits as
-    /// bit masks, [`block_masks`]), then each field cut and each number read from the masks:
-    /// one pass of compares over the line and a few bit operations per field. `Unsure` where
-    /// the masks cannot decide (a record longer than 128 bytes, or too near the end of the
-    /// data for whole blocks, or a digit run longer than 16): [`Self::read_words`] decides.
+    /// The record classified sixteen bytes at a time (commas, digits and line breaks as bit
+    /// masks, [`block_masks`]), then each field cut and each number read from the masks: one
+    /// pass of compares over the line and a few bit operations per field. `Unsure` where the
+    /// masks cannot decide (a record of 64 bytes or more with its line break, a record too near
+    /// the end of the data for whole blocks, a digit run longer than 16):
+    /// [`Self::read_words`] decides.
     #[inline(always)]
     fn read_blocks(&self, data: &[u8], start: usize) -> Blocks {
         // A blank line, a comment, or leading spaces: the general path.
