@@ -100,3 +100,61 @@ fn in_memory_and_streamed_maps_are_the_same() {
         }
     }
 }
+
+/// A CSV map copies each input record without its line break: with CRLF line ends and a
+/// pass-through text column last, records short and long (the one-pass reader's two tiers,
+/// and the last record of every chunk) keep no `\r` in the map, and the last record of a file
+/// that ends in `\r` without a line break loses it too; streamed and in memory alike.
+#[test]
+fn a_pass_through_last_column_keeps_no_carriage_return() {
+    let lib = Library::load(&[]).expect("built-in library");
+    let window = lib
+        .pair("demo-al6061-on-cu")
+        .expect("demo pair (invented data)");
+    let mut text = String::from("position[mm],velocity[m/s],angle[deg],note\r\n");
+    let rows = 30_000;
+    for i in 0..rows {
+        // Notes of 0 to 80 characters: records from 16 to about 100 bytes.
+        let note = "n".repeat(i % 81);
+        text.push_str(&format!(
+            "{:.6},{},{:.2},{note}\r\n",
+            i as f64 * 40.0 / rows as f64,
+            250 + (i * 7) % 500,
+            2.0 + (i % 260) as f64 * 0.1
+        ));
+    }
+    text.push_str("40.5,400,10,last\r");
+    let bytes = text.into_bytes();
+    let opts = MapOptions {
+        threads: 2,
+        ..MapOptions::default()
+    };
+    let mut streamed = Vec::new();
+    let mut m = WeldMap::open(window, &bytes[..], &opts).expect("header");
+    m.run(&mut streamed, None, &mut |_| {}).expect("map");
+    let input = InMemory {
+        bytes: &bytes,
+        release: Box::new(|_| {}),
+    };
+    let mut in_memory = Vec::new();
+    let mut m = WeldMap::open_in_memory(window, input, &opts).expect("header");
+    m.run(&mut in_memory, None, &mut |_| {}).expect("map");
+    drop(m);
+    for map in [&streamed, &in_memory] {
+        assert!(!map.contains(&b'\r'), "a carriage return in the map");
+        let text = String::from_utf8_lossy(map);
+        let lines: Vec<&str> = text.lines().collect();
+        assert_eq!(lines.len(), rows + 2, "header and every record");
+        // Each row: row number, the record as written, the computed columns.
+        let input_lines: Vec<&str> = std::str::from_utf8(&bytes)
+            .expect("ascii")
+            .split("\r\n")
+            .skip(1)
+            .collect();
+        for (row, rec) in lines[1..].iter().zip(&input_lines) {
+            let rec = rec.trim_end_matches('\r');
+            let (_, rest) = row.split_once(',').expect("row number");
+            assert!(rest.starts_with(&format!("{rec},")), "{row:?} from {rec:?}");
+        }
+    }
+}

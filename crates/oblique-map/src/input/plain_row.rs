@@ -259,9 +259,16 @@ impl PlainRow {
                 },
                 Some(_) => return None,
             };
+            // A pass-through last field runs up to the line break: one `\r` before it is not
+            // part of the record, as the general path has it (a number stops before it).
+            let end = if role == Role::Skip && term > start && data[term - 1] == b'\r' {
+                term - 1
+            } else {
+                term
+            };
             return Some(PlainRecord {
                 values: values.array(),
-                end: term,
+                end,
                 next,
             });
         }
@@ -666,6 +673,36 @@ mod tests {
         }
     }
 
+    /// A pass-through last column: the record ends before a `\r` ahead of its line break (or
+    /// at the end of the data), in both tiers, as the general path has it.
+    #[test]
+    fn pass_through_last_field_loses_its_carriage_return() {
+        let h = header("position[mm],velocity[m/s],angle[deg],note");
+        let r = PlainRow::new(&h);
+        let long = format!("1,400,10,{}", "x".repeat(70));
+        for (text, content, next) in [
+            ("1,400,10,x\r\n2,400,10,x\r\n", "1,400,10,x", 12),
+            ("1,400,10,x\r", "1,400,10,x", 11),
+            ("1,400,10,\r\n", "1,400,10,", 11),
+            ("1,400,10,x\n", "1,400,10,x", 11),
+            ("1,400,10,x", "1,400,10,x", 10),
+            (&format!("{long}\r\n"), long.as_str(), long.len() + 2),
+            (
+                "0.00000000000000001,400,10,x\r\n",
+                "0.00000000000000001,400,10,x",
+                30,
+            ),
+        ] {
+            let rec = r.read(text.as_bytes(), 0).expect("a plain record");
+            assert_eq!(&text.as_bytes()[..rec.end], content.as_bytes(), "{text:?}");
+            assert_eq!(rec.next, next, "{text:?}");
+            let words = r
+                .read_words(text.as_bytes(), 0)
+                .expect("the word tier reads it");
+            assert_eq!((words.end, words.next), (rec.end, rec.next), "{text:?}");
+        }
+    }
+
     #[test]
     fn block_masks_agree() {
         let mut block = [0u8; 16];
@@ -693,8 +730,15 @@ mod tests {
     proptest! {
         /// The block reader and the word reader agree wherever the block reader decides.
         #[test]
-        fn blocks_agree_with_words(line in "[-+0-9.,\r#e ]{0,60}\n?[0-9,.\n]{0,40}") {
-            let h = header("a,position[m],velocity[m/s],angle[rad]");
+        fn blocks_agree_with_words(
+            line in "[-+0-9.,\r#e ]{0,60}\n?[0-9,.\n]{0,40}",
+            last_passes in any::<bool>(),
+        ) {
+            let h = if last_passes {
+                header("position[m],velocity[m/s],angle[rad],a")
+            } else {
+                header("a,position[m],velocity[m/s],angle[rad]")
+            };
             let r = PlainRow::new(&h);
             let data = line.as_bytes();
             let words = r.read_words(data, 0);
@@ -738,13 +782,56 @@ mod tests {
         /// Any line of number-like bytes: accepted only with the values the general path
         /// reads from the same fields.
         #[test]
-        fn only_what_the_general_path_reads(line in "[-+0-9., \r#e]{0,40}\n?") {
-            let h = header("a,position[m],velocity[m/s],angle[rad]");
+        fn records_end_where_the_general_path_ends(
+            numbers in proptest::collection::vec("[-+]?[0-9]{0,20}(\\.[0-9]{0,20})?", 3),
+            text in "[a-z\r ]{0,3}",
+            pad in 0usize..80,
+            ending in "(\r\n|\n|\r|)",
+            text_last in any::<bool>(),
+        ) {
+            let fields = if text_last {
+                format!("{},{},{},{}{}", numbers[0], numbers[1], numbers[2], "p".repeat(pad), text)
+            } else {
+                format!("{}{},{},{},{}", "p".repeat(pad), text, numbers[0], numbers[1], numbers[2])
+            };
+            let line = format!("{fields}{ending}1,1,1,1\n");
+            let h = if text_last {
+                header("position[m],velocity[m/s],angle[rad],a")
+            } else {
+                header("a,position[m],velocity[m/s],angle[rad]")
+            };
+            let data = line.as_bytes();
+            let mut split = crate::input::Fields::default();
+            let brk = crate::input::split_plain_record(data, 0, &mut split);
+            let end = if brk > 0 && data[brk - 1] == b'\r' { brk - 1 } else { brk };
+            let next = (brk + 1).min(data.len());
+            let r = PlainRow::new(&h);
+            for got in [r.read(data, 0), r.read_words(data, 0)].into_iter().flatten() {
+                prop_assert_eq!((got.end, got.next), (end, next), "{:?}", line);
+            }
+        }
+
+        #[test]
+        fn only_what_the_general_path_reads(
+            line in "[-+0-9., \r#e]{0,40}\n?[0-9,]{0,8}",
+            last_passes in any::<bool>(),
+        ) {
+            let (h, numbers) = if last_passes {
+                (header("position[m],velocity[m/s],angle[rad],a"), 0..3)
+            } else {
+                (header("a,position[m],velocity[m/s],angle[rad]"), 1..4)
+            };
             if let Some(rec) = PlainRow::new(&h).read(line.as_bytes(), 0) {
-                let content = &line.as_bytes()[..rec.end];
-                let fields: Vec<&[u8]> = content.split(|&b| b == b',').collect();
+                // Where the general path puts the record: up to the line break, one `\r`
+                // before it cut.
+                let data = line.as_bytes();
+                let mut fields = crate::input::Fields::default();
+                let brk = crate::input::split_plain_record(data, 0, &mut fields);
+                let end = if brk > 0 && data[brk - 1] == b'\r' { brk - 1 } else { brk };
+                prop_assert_eq!((rec.end, rec.next), (end, (brk + 1).min(data.len())), "{:?}", line);
+                let fields: Vec<&[u8]> = data[..end].split(|&b| b == b',').collect();
                 prop_assert_eq!(fields.len(), 4);
-                for (k, f) in fields[1..].iter().enumerate() {
+                for (k, f) in fields[numbers].iter().enumerate() {
                     prop_assert_eq!(parse_number(f).map(f64::to_bits), Some(rec.values[k].to_bits()));
                 }
             }
