@@ -62,6 +62,29 @@ fn fixed_itoa<const DEC: usize>(out: &mut Vec<u8>, x: f64) {
     }
 }
 
+/// Every record of `input` read by `csv-core`'s reader (records end at `\n`): `f` sees the
+/// record's fields copied into `out`, and their ends.
+fn csv_core_records(
+    input: &[u8],
+    out: &mut [u8],
+    ends: &mut [usize],
+    mut f: impl FnMut(&[u8], &[usize]),
+) {
+    let mut rdr = csv_core::ReaderBuilder::new()
+        .terminator(csv_core::Terminator::Any(b'\n'))
+        .build();
+    let mut pos = 0;
+    loop {
+        let (res, nin, _, nend) = rdr.read_record(&input[pos..], out, ends);
+        pos += nin;
+        match res {
+            csv_core::ReadRecordResult::Record => f(out, &ends[..nend]),
+            csv_core::ReadRecordResult::End => break,
+            _ => {}
+        }
+    }
+}
+
 fn main() {
     let path = std::env::args()
         .nth(1)
@@ -205,19 +228,7 @@ fn main() {
     let mut out = vec![0u8; 4096];
     let mut ends = vec![0usize; 256];
     let t = best(|| {
-        let mut rdr = csv_core::ReaderBuilder::new()
-            .terminator(csv_core::Terminator::Any(b'\n'))
-            .build();
-        let mut pos = 0;
-        loop {
-            let (res, nin, _, nend) = rdr.read_record(&body[pos..], &mut out, &mut ends);
-            pos += nin;
-            match res {
-                csv_core::ReadRecordResult::Record => total += nend,
-                csv_core::ReadRecordResult::End => break,
-                _ => {}
-            }
-        }
+        csv_core_records(body, &mut out, &mut ends, |_, e| total += e.len());
     });
     println!(
         "  {:42} {:6.2} ns a line",
@@ -251,19 +262,7 @@ fn main() {
         t * 1e9 / rows as f64
     );
     let t = best(|| {
-        let mut rdr = csv_core::ReaderBuilder::new()
-            .terminator(csv_core::Terminator::Any(b'\n'))
-            .build();
-        let mut pos = 0;
-        loop {
-            let (res, nin, _, nend) = rdr.read_record(&quoted[pos..], &mut out, &mut ends);
-            pos += nin;
-            match res {
-                csv_core::ReadRecordResult::Record => total += nend,
-                csv_core::ReadRecordResult::End => break,
-                _ => {}
-            }
-        }
+        csv_core_records(&quoted, &mut out, &mut ends, |_, e| total += e.len());
     });
     println!(
         "  {:42} {:6.2} ns a line",
@@ -342,26 +341,14 @@ fn main() {
     );
     let t = best(|| {
         let mut acc = 0.0;
-        let mut rdr = csv_core::ReaderBuilder::new()
-            .terminator(csv_core::Terminator::Any(b'\n'))
-            .build();
-        let mut pos = 0;
-        loop {
-            let (res, nin, _, nend) = rdr.read_record(&body[pos..], &mut out, &mut ends);
-            pos += nin;
-            match res {
-                csv_core::ReadRecordResult::Record => {
-                    let field = |i: usize| {
-                        let s = if i == 0 { 0 } else { ends[i - 1] };
-                        fast_float2::parse::<f64, _>(&out[s..ends[i]]).expect("a number")
-                    };
-                    assert!(nend == 5 && field(2).is_finite());
-                    acc += field(1) * 1e-3 + field(3) + field(4) * (std::f64::consts::PI / 180.0);
-                }
-                csv_core::ReadRecordResult::End => break,
-                _ => {}
-            }
-        }
+        csv_core_records(body, &mut out, &mut ends, |out, ends| {
+            let field = |i: usize| {
+                let s = if i == 0 { 0 } else { ends[i - 1] };
+                fast_float2::parse::<f64, _>(&out[s..ends[i]]).expect("a number")
+            };
+            assert!(ends.len() == 5 && field(2).is_finite());
+            acc += field(1) * 1e-3 + field(3) + field(4) * (std::f64::consts::PI / 180.0);
+        });
         sums.push(acc);
     });
     println!(

@@ -151,17 +151,10 @@ pub fn limit_advice(window: &PairWindow, c: &Classification, limit: &LimitRef) -
     }
     let v = crate::margin::velocity_headroom(window, c, limit);
     let a = crate::margin::angle_headroom(window, c, limit);
-    let holds = v.as_ref().or(a.as_ref()).map_or_else(
-        || match limit {
-            LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),
-            LimitRef::Boundary(i) => c
-                .boundaries
-                .get(*i)
-                .and_then(|b| b.satisfied)
-                .unwrap_or(true),
-        },
-        |x| x.holds,
-    );
+    let holds = v
+        .as_ref()
+        .or(a.as_ref())
+        .map_or_else(|| crate::margin::holds(c, limit), |x| x.holds);
     let conv = c.headroom_convention;
     let vnote = if conv == c.evaluation.collision.convention {
         String::new()

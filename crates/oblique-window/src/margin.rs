@@ -106,7 +106,8 @@ pub struct Along {
     pub at_domain_edge: bool,
 }
 
-fn holds(c: &Classification, limit: &LimitRef) -> bool {
+/// Whether `limit` holds at the point of `c` (a limit without a result holds).
+pub(crate) fn holds(c: &Classification, limit: &LimitRef) -> bool {
     match limit {
         LimitRef::Criterion(id) => c.evaluation.criterion(*id).is_none_or(|r| r.satisfied),
         LimitRef::Boundary(i) => c

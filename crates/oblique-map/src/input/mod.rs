@@ -11,7 +11,7 @@ mod source;
 pub use fields::{next_record, scan_plain, split_fields, split_plain_record, Fields};
 pub use header::{json_object, json_reason, parse_header, split_cell, Column, Header, Wanted};
 pub use number::{is_number, number_reason, parse_number, trim_spaces};
-pub use plain_row::{PlainRecord, PlainRow};
+pub use plain_row::PlainRow;
 pub use source::{cut_chunk, ChunkInfo, Source, MAX_RECORD};
 
 use crate::error::MapError;

@@ -189,9 +189,9 @@ impl PlainRow {
                 Role::Skip => {}
                 Role::Position | Role::Velocity | Role::Angle => {
                     match decimal_from_masks(data, start, s, t, digits) {
-                        Blocks3::Value(v) => values.set(role, v, self),
-                        Blocks3::NotPlain => return Blocks::NotPlain,
-                        Blocks3::Unsure => return Blocks::Unsure,
+                        BlockNumber::Value(v) => values.set(role, v, self),
+                        BlockNumber::NotPlain => return Blocks::NotPlain,
+                        BlockNumber::Unsure => return Blocks::Unsure,
                     }
                 }
                 Role::Check => {
@@ -287,7 +287,7 @@ enum Blocks {
 }
 
 /// What the block reader found for one number.
-enum Blocks3 {
+enum BlockNumber {
     Value(f64),
     NotPlain,
     Unsure,
@@ -298,9 +298,9 @@ enum Blocks3 {
 /// conditions and the same division as `number::plain_decimal`. Digit runs longer than 16
 /// are left to the word reader.
 #[inline(always)]
-fn decimal_from_masks(data: &[u8], start: usize, s: usize, t: usize, digits: u64) -> Blocks3 {
+fn decimal_from_masks(data: &[u8], start: usize, s: usize, t: usize, digits: u64) -> BlockNumber {
     if t <= s {
-        return Blocks3::NotPlain;
+        return BlockNumber::NotPlain;
     }
     let (neg, s) = match data[start + s] {
         b'-' => (true, s + 1),
@@ -308,7 +308,7 @@ fn decimal_from_masks(data: &[u8], start: usize, s: usize, t: usize, digits: u64
         _ => (false, s),
     };
     if t <= s {
-        return Blocks3::NotPlain;
+        return BlockNumber::NotPlain;
     }
     let len = t - s;
     // The field's bytes that are not digits: none, or one point.
@@ -318,29 +318,29 @@ fn decimal_from_masks(data: &[u8], start: usize, s: usize, t: usize, digits: u64
     } else {
         let k = others.trailing_zeros() as usize;
         if others & others.wrapping_sub(1) != 0 || data[start + s + k] != b'.' {
-            return Blocks3::NotPlain;
+            return BlockNumber::NotPlain;
         }
         (k, len - k - 1)
     };
     let n = int + frac;
     if n == 0 || n > 19 {
-        return Blocks3::NotPlain;
+        return BlockNumber::NotPlain;
     }
     if int > 16 || frac > 16 {
-        return Blocks3::Unsure;
+        return BlockNumber::Unsure;
     }
     let (Some(i), Some(f)) = (
         digits_value(data, start + s, int),
         digits_value(data, start + s + int + 1, frac),
     ) else {
-        return Blocks3::Unsure;
+        return BlockNumber::Unsure;
     };
     let mant = i.wrapping_mul(POW10_U64[frac]).wrapping_add(f);
     if mant > (1u64 << 53) {
-        return Blocks3::NotPlain;
+        return BlockNumber::NotPlain;
     }
     let v = mant as f64 / EXACT_POW10[frac];
-    Blocks3::Value(if neg { -v } else { v })
+    BlockNumber::Value(if neg { -v } else { v })
 }
 
 /// Whether the field `[s, t)` of the record at `start` has the plain shape with 1 to 19

@@ -20,7 +20,7 @@ use crate::format::{
 };
 use crate::input::{
     is_number, json_object, json_reason, next_record, number_reason, parse_number, scan_plain,
-    split_cell, split_fields, split_plain_record, trim_spaces, Column, Fields, PlainRecord,
+    split_cell, split_fields, split_plain_record, trim_spaces, Column, Fields,
 };
 use crate::options::{BadRows, Format};
 use crate::record::{Lite, Rejected};
@@ -31,6 +31,19 @@ struct RowValues {
     position: f64,
     velocity: f64,
     angle: f64,
+}
+
+impl RowValues {
+    /// Whether the values are within the bounds both fast reads accept (anything else takes
+    /// the general path, which words the fault or reads a head-on row).
+    #[inline(always)]
+    fn in_bounds(&self) -> bool {
+        let deg = self.angle.to_degrees();
+        self.position.abs() <= MAX_POSITION_M
+            && self.velocity > 0.0
+            && self.velocity <= MAX_VELOCITY_M_S
+            && (HEAD_ON_DEG..90.0).contains(&deg)
+    }
 }
 
 enum Cells<'r> {
@@ -82,17 +95,12 @@ impl Worker {
                 return None;
             }
         }
-        let deg = angle.to_degrees();
-        // Anything out of bounds takes the general path, which words the fault.
-        (position.abs() <= MAX_POSITION_M
-            && velocity > 0.0
-            && velocity <= MAX_VELOCITY_M_S
-            && (HEAD_ON_DEG..90.0).contains(&deg))
-        .then_some(RowValues {
+        let v = RowValues {
             position,
             velocity,
             angle,
-        })
+        };
+        v.in_bounds().then_some(v)
     }
 
     fn values(&self, ctx: &Ctx<'_>, cells: &Cells<'_>) -> Result<RowValues, Bad> {
@@ -225,24 +233,22 @@ impl Worker {
         let mut line_no = slot.first_line;
         // Plain CSV records in a chunk without quotes: read in one pass, straight to the
         // classification; any other record goes the general way below.
-        let one_pass = ctx
-            .plain_row
-            .as_ref()
-            .filter(|_| ctx.in_format == Format::Csv && !slot.has_quote);
+        // (The reader exists only for a CSV input and map.)
+        let one_pass = ctx.plain_row.as_ref().filter(|_| !slot.has_quote);
         while pos < data.len() {
-            if let Some(reader) = one_pass {
-                if let Some(r) = reader.read(data, pos).filter(in_bounds) {
+            if let Some(r) = one_pass.and_then(|reader| reader.read(data, pos)) {
+                let [position, velocity, angle] = r.values;
+                let v = RowValues {
+                    position,
+                    velocity,
+                    angle,
+                };
+                if v.in_bounds() {
                     let rec = &data[pos..r.end];
                     let row = line_no;
                     line_no += 1;
                     pos = r.next;
                     slot.stats.rows_read += 1;
-                    let [position, velocity, angle] = r.values;
-                    let v = RowValues {
-                        position,
-                        velocity,
-                        angle,
-                    };
                     let cells = Cells::Csv {
                         line: rec,
                         fields: &self.fields,
@@ -377,18 +383,6 @@ impl Worker {
         }
         Ok(())
     }
-}
-
-/// Whether a record's values pass the checks of [`Worker::plain_values`] (anything out of
-/// bounds takes the general path, which words the fault or reads a head-on row).
-#[inline(always)]
-fn in_bounds(r: &PlainRecord) -> bool {
-    let [position, velocity, angle] = r.values;
-    let deg = angle.to_degrees();
-    position.abs() <= MAX_POSITION_M
-        && velocity > 0.0
-        && velocity <= MAX_VELOCITY_M_S
-        && (HEAD_ON_DEG..90.0).contains(&deg)
 }
 
 /// Classify a row's values and write its output row and its record for the summary.
