@@ -707,3 +707,98 @@ fn domain_and_mixed_jetting_rows_are_counted() {
         "{err}"
     );
 }
+
+/// A window whose jetting criterion is off: the critical angle is not solved for any row (it
+/// was solved directly for every supersonic row, about 20 times the cost of the whole map), the
+/// summary counts no direct solves, and the map is the one of the same window with jetting on,
+/// less the jetting verdicts: here the rows the jetting limit alone decides are the only ones
+/// that differ.
+#[test]
+fn jetting_off_is_not_solved() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let lib = dir.path().join("lib");
+    std::fs::create_dir(&lib).expect("library dir");
+    let base = std::fs::read_to_string(data("map-lib/map-test-al-on-cu.ron")).expect("fixture");
+    let off = base
+        .replace(
+            "name: \"map-test-al-on-cu\"",
+            "name: \"map-test-al-on-cu-nojet\"",
+        )
+        .replace(
+            "    boundaries: [",
+            "    criteria: (jetting: (enabled: false, reason: \"test: jetting criterion off\")),\n    boundaries: [",
+        );
+    assert_ne!(off, base);
+    std::fs::write(lib.join("nojet.ron"), off).expect("write window");
+    std::fs::write(lib.join("base.ron"), &base).expect("write window");
+    // Supersonic in both plates (small angles), the mixed case and subsonic rows.
+    let mut body = String::from("position[mm],velocity[m/s],angle[deg]\n");
+    for i in 0..400 {
+        let angle = 1.0 + f64::from(i % 40) * 0.5;
+        let velocity = 300.0 + f64::from(i / 40) * 40.0;
+        body.push_str(&format!("{i},{velocity},{angle}\n"));
+    }
+    let input = write_input(&dir, "sweep.csv", &body);
+    let map_of = |pair: &str| {
+        let out = dir.path().join(format!("{pair}.csv"));
+        let o = run(&[
+            "map",
+            path_str(&input),
+            "--pair",
+            pair,
+            "--library",
+            path_str(&lib),
+            "-o",
+            path_str(&out),
+            "--json",
+            "--all-columns",
+        ]);
+        assert!(o.status.success(), "{}", text(&o.stderr));
+        let v: Value = serde_json::from_slice(&o.stdout).expect("summary JSON");
+        (v, std::fs::read_to_string(&out).expect("map"))
+    };
+    let (on, map_on) = map_of(PAIR);
+    let (off, map_off) = map_of("map-test-al-on-cu-nojet");
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        "map-test-al-on-cu-nojet",
+        "--library",
+        path_str(&lib),
+        "-o",
+        path_str(&dir.path().join("text.csv")),
+    ]);
+    // The map goes to a file, so the summary is on standard output.
+    let err = text(&o.stdout);
+    assert!(err.contains("the criterion is off in this window"), "{err}");
+    assert!(!err.contains("rests on the shock-polar"), "{err}");
+    assert_eq!(off["jetting"]["method"], "disabled");
+    assert_eq!(off["jetting"]["rows_solved_directly"], 0, "{off}");
+    assert!(on["jetting"]["supersonic_rows"]
+        .as_u64()
+        .is_some_and(|n| n > 50));
+    assert!(on["jetting"]["mixed_rows"].as_u64().is_some_and(|n| n > 0));
+    // The regimes are still decided exactly.
+    for key in ["supersonic_rows", "mixed_rows"] {
+        assert_eq!(off["jetting"][key], on["jetting"][key], "{key}");
+    }
+    // The same impact pressures and every other limit's margins, row by row.
+    for col in [
+        "collision_velocity[m/s]",
+        "impact_pressure[GPa]",
+        "margin_deribas_lower[deg]",
+        "margin_boundary_1[m/s]",
+    ] {
+        assert_eq!(column(&map_on, col), column(&map_off, col), "{col}");
+    }
+    assert!(!map_off.lines().next().unwrap_or("").contains("jetting"));
+    // Where jetting is not what fails, the verdicts agree.
+    let (v_on, v_off) = (column(&map_on, "verdict"), column(&map_off, "verdict"));
+    let failing = column(&map_on, "failing_limits");
+    for ((a, b), f) in v_on.iter().zip(&v_off).zip(&failing) {
+        if !f.contains("jetting") {
+            assert_eq!(a, b, "failing: {f}");
+        }
+    }
+}

@@ -283,7 +283,13 @@ impl Summary {
                 self.outside_trial_data, self.welded_outside_trial_data
             ));
         }
-        if self.supersonic_rows > 0 {
+        if self.supersonic_rows > 0 && self.info.jetting == "disabled" {
+            // No jetting limit to rest on anything: the counts only.
+            s.push_str(&format!(
+                "jetting: {} row(s) supersonic in at least one plate, {} of them in one plate only (the criterion is off in this window, so neither decides a verdict)\n",
+                self.supersonic_rows, self.mixed_rows
+            ));
+        } else if self.supersonic_rows > 0 {
             s.push_str(&format!(
                 "jetting: {} row(s) supersonic in at least one plate (the limit rests on the shock-polar criterion there), {} of them in one plate only (the mixed case, which no source covers; rule: {})\n",
                 self.supersonic_rows, self.mixed_rows, self.info.mixed_rule
