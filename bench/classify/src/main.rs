@@ -141,7 +141,9 @@ fn main() {
         let cl = Classifier::new(&w, VelocityKind::Impact, JettingMode::Table).expect("classifier");
         let (mut sonic, mut mixed, mut direct) = (0u64, 0u64, 0u64);
         for i in 0..n {
-            let p = cl.classify(v[i], a[i], &mut margins).expect("in the domain");
+            let p = cl
+                .classify(v[i], a[i], &mut margins)
+                .expect("in the domain");
             sonic += u64::from(p.sonic != 0);
             mixed += u64::from(p.sonic == 1 || p.sonic == 2);
             direct += u64::from(p.jetting_direct);
@@ -219,7 +221,9 @@ fn main() {
         batched(&k, black_box(&v), black_box(&a), &mut out);
     });
     assert!(
-        out.iter().zip(&scalar).all(|(x, y)| x.to_bits() == y.to_bits()),
+        out.iter()
+            .zip(&scalar)
+            .all(|(x, y)| x.to_bits() == y.to_bits()),
         "batched bits differ"
     );
     println!("4. the criteria's arithmetic with the sine and cosine (stand-in):");
@@ -232,7 +236,9 @@ fn main() {
             unsafe { batched_avx2(&k, black_box(&v), black_box(&a), &mut out) };
         });
         assert!(
-            out.iter().zip(&scalar).all(|(x, y)| x.to_bits() == y.to_bits()),
+            out.iter()
+                .zip(&scalar)
+                .all(|(x, y)| x.to_bits() == y.to_bits()),
             "AVX2 bits differ"
         );
         println!("   batched, AVX2 (four rows a register)     {t:6.1} ns a row (same bits)");
