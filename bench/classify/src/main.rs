@@ -97,6 +97,11 @@ fn batched_avx2(k: &Consts, v: &[f64], a: &[f64], out: &mut [f64]) {
     batched(k, v, a, out);
 }
 
+/// Whether two results are the same bits, value by value.
+fn same_bits(a: &[f64], b: &[f64]) -> bool {
+    a.len() == b.len() && a.iter().zip(b).all(|(x, y)| x.to_bits() == y.to_bits())
+}
+
 fn window_without(w: &PairWindow, boundaries: bool, jetting: bool) -> PairWindow {
     let mut w = w.clone();
     if !boundaries {
@@ -220,12 +225,7 @@ fn main() {
     let t_sse2 = best_ns(n, || {
         batched(&k, black_box(&v), black_box(&a), &mut out);
     });
-    assert!(
-        out.iter()
-            .zip(&scalar)
-            .all(|(x, y)| x.to_bits() == y.to_bits()),
-        "batched bits differ"
-    );
+    assert!(same_bits(&out, &scalar), "batched bits differ");
     println!("4. the criteria's arithmetic with the sine and cosine (stand-in):");
     println!("   one row at a time                        {t_scalar:6.1} ns a row");
     println!("   batched, SSE2 (two rows a register)      {t_sse2:6.1} ns a row (same bits)");
@@ -235,12 +235,7 @@ fn main() {
             // SAFETY: the CPU has AVX2 (checked just above).
             unsafe { batched_avx2(&k, black_box(&v), black_box(&a), &mut out) };
         });
-        assert!(
-            out.iter()
-                .zip(&scalar)
-                .all(|(x, y)| x.to_bits() == y.to_bits()),
-            "AVX2 bits differ"
-        );
+        assert!(same_bits(&out, &scalar), "AVX2 bits differ");
         println!("   batched, AVX2 (four rows a register)     {t:6.1} ns a row (same bits)");
     }
 }
