@@ -479,14 +479,29 @@ impl Library {
         }
         self.pairs.get(name).ok_or_else(|| {
             let near = crate::diag::close_matches(name, self.pairs.keys().map(String::as_str));
-            if near.is_empty() {
+            let mut m = if near.is_empty() {
                 format!("unknown pair '{name}'\n  hint: `oblique pair list` shows the pairs")
             } else {
                 format!(
                     "unknown pair '{name}'\n  hint: did you mean {}?",
                     near.join(", ")
                 )
+            };
+            // A pair file is found by the name inside it, which a file that could not be
+            // loaded does not give: name every such file, with its problems, since the pair
+            // may be in one of them (a file named otherwise than its pair, `w.ron` holding
+            // `name: "shop-al-cu"`, is allowed).
+            for p in self
+                .problems
+                .iter()
+                .filter(|p| !p.materials && p.pair_name.as_deref().is_none_or(|n| !self.pairs.contains_key(n)))
+            {
+                m.push_str(&format!(
+                    "\n  hint: the window file {} could not be loaded, so a pair it defines is missing:\n{}",
+                    p.display, p.diagnostics
+                ));
             }
+            m
         })
     }
 }

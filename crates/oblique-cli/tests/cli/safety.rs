@@ -1263,3 +1263,54 @@ fn removals_and_appends_at_once_lose_nothing_and_wait_for_each_other() {
         );
     }
 }
+
+/// A window file named otherwise than its pair (`w.ron` holding `name: "shop-al-cu"`, which the
+/// format allows) that cannot be loaded: asking for the pair names the file and its problems,
+/// not just "unknown pair", whether the file does not parse or parses and fails validation.
+#[test]
+fn a_broken_window_file_is_named_when_its_pair_is_asked_for() {
+    let fixture = std::fs::read_to_string(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/map-lib/map-test-al-on-cu.ron"),
+    )
+    .expect("fixture");
+    let renamed = fixture.replace("name: \"map-test-al-on-cu\"", "name: \"shop-al-cu\"");
+    assert_ne!(renamed, fixture);
+    for (case, criteria, needle) in [
+        (
+            "no reason",
+            "    criteria: (jetting: (enabled: false)),\n",
+            "gives no reason",
+        ),
+        (
+            "not a boolean",
+            "    criteria: (jetting: (enabled: maybe, reason: \"test\")),\n",
+            "expected boolean",
+        ),
+    ] {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let body = renamed.replace("    boundaries: [", &format!("{criteria}    boundaries: ["));
+        std::fs::write(dir.path().join("w.ron"), body).expect("write window");
+        let lib = dir.path().to_str().expect("utf-8 path");
+        let o = run(&[
+            "--library",
+            lib,
+            "check",
+            "--pair",
+            "shop-al-cu",
+            "--velocity",
+            "400m/s",
+            "--angle",
+            "10deg",
+        ]);
+        assert_eq!(o.status.code(), Some(2), "{case}");
+        let err = stderr(&o);
+        assert!(err.contains("unknown pair 'shop-al-cu'"), "{case}: {err}");
+        assert!(
+            err.contains("the window file")
+                && err.contains("w.ron")
+                && err.contains("could not be loaded"),
+            "{case}: {err}"
+        );
+        assert!(err.contains(needle), "{case}: {err}");
+    }
+}
