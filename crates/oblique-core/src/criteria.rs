@@ -201,7 +201,8 @@ impl CriteriaConfig {
         Ok(())
     }
 
-    fn enabled(&self, id: CriterionId) -> bool {
+    /// Whether criterion `id` is on.
+    pub fn is_enabled(&self, id: CriterionId) -> bool {
         match id {
             CriterionId::DeribasLower => self.deribas_enabled,
             CriterionId::StrengthLower => self.strength_enabled,
@@ -608,7 +609,7 @@ pub fn evaluate_with_jetting(
     let mut criteria = Vec::with_capacity(6);
 
     for id in CriterionId::ALL {
-        if !config.enabled(id) {
+        if !config.is_enabled(id) {
             continue;
         }
         let result = match id {

@@ -2,7 +2,7 @@
 //! its chunks back in file order (the summary, the outputs, a bad row or a position out of
 //! order that ends the map), and finish the summary.
 
-use crate::classifier::{Classifier, VelocityKind};
+use crate::classifier::{Classifier, JettingMode, VelocityKind};
 use crate::error::{MapError, Output};
 use crate::format::fmt_short;
 use crate::input::{read_header, Header, Source, Wanted};
@@ -104,13 +104,37 @@ impl<'a> WeldMap<'a> {
         let read = read_header(&mut source, opts.input_format, &opts.input_name, &wanted)?;
         let classifier = Classifier::new(window, opts.velocity_kind, opts.jetting)?;
         let stems: Vec<String> = classifier.limits.iter().map(|l| l.column.clone()).collect();
-        let unknown = opts.selected_columns().unknown_margins(&stems).join(", ");
+        let selected = opts.selected_columns();
+        let unknown = selected.unknown_margins(&stems);
         if !unknown.is_empty() {
-            return Err(MapError::Input(format!(
-                "--columns: {unknown}: not a limit of pair '{}', whose margins are {}",
+            let mut m = format!(
+                "--columns: {}: not a limit of pair '{}', whose margins are {}",
+                unknown.join(", "),
                 window.name,
                 stems.join(", ")
-            )));
+            );
+            // A criterion the window turns off: say so, with the window's reason.
+            for id in CriterionId::ALL {
+                let stem = format!("margin_{}", id.as_str().replace('-', "_"));
+                if !unknown.contains(&stem.as_str()) {
+                    continue;
+                }
+                if id == CriterionId::WavyTransition {
+                    m.push_str(&format!(
+                        "\n  hint: {stem}: the wavy transition is not a weld limit, so the map has no margin for it"
+                    ));
+                } else if !window.criteria.is_enabled(id) {
+                    m.push_str(&format!(
+                        "\n  hint: {stem}: the window turns its {} criterion off{}",
+                        id.as_str(),
+                        window
+                            .criteria_reasons
+                            .get(&id)
+                            .map_or(String::new(), |r| format!(" (reason: {r})"))
+                    ));
+                }
+            }
+            return Err(MapError::Input(m));
         }
         Ok(Self {
             window,
@@ -233,6 +257,11 @@ impl<'a> WeldMap<'a> {
         self.check_rows(&summary)?;
         summary.check_plausibility(&self.header.velocity.cell, &self.header.angle.cell);
         summary.info = self.run_info();
+        if self.opts.jetting == JettingMode::Direct && !self.classifier.jetting_enabled() {
+            summary.warnings.push(
+                "--exact-jetting has no effect: the window turns its jetting criterion off, so no critical angle is solved".into(),
+            );
+        }
         Ok(summary)
     }
 
@@ -330,6 +359,11 @@ impl<'a> WeldMap<'a> {
                 window.parent.material.id
             ),
             mixed_rule: window.criteria.mixed_jetting.as_str(),
+            jetting_off_reason: if c.jetting_enabled() {
+                None
+            } else {
+                window.criteria_reasons.get(&CriterionId::Jetting).cloned()
+            },
             domain: window
                 .domain
                 .bounds

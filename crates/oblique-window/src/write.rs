@@ -333,7 +333,8 @@ fn create_temp(dir: &Path, name: &str) -> Result<(PathBuf, std::fs::File), Write
                 return Ok((tmp, f));
             }
             Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => last_err = Some(e),
-            Err(e) => return Err(io(&tmp)(e)),
+            // Name the folder: the temporary name means nothing to the user.
+            Err(e) => return Err(io(dir)(e)),
         }
     }
     Err(io(dir)(last_err.unwrap_or_else(|| {

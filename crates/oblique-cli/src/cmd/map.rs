@@ -151,7 +151,8 @@ pub struct MapArgs {
     /// Worker threads (default: the number of cores).
     #[arg(long, value_name = "N", value_parser = clap::value_parser!(u16).range(1..=256))]
     pub threads: Option<u16>,
-    /// Solve the jetting test directly for every row instead of using the table (slow).
+    /// Solve the jetting test directly for every row with a supersonic stream instead of using
+    /// the table (slow; no effect when the window's jetting criterion is off).
     #[arg(long = "exact-jetting")]
     pub exact_jetting: bool,
     /// Add Vp, the jetting critical angle and the margin of every limit to the output (the

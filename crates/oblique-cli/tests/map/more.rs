@@ -771,9 +771,60 @@ fn jetting_off_is_not_solved() {
     ]);
     // The map goes to a file, so the summary is on standard output.
     let err = text(&o.stdout);
-    assert!(err.contains("the criterion is off in this window"), "{err}");
+    assert!(
+        err.contains("jetting: criterion off in this window (reason: test: jetting criterion off): no verdict rests on it; "),
+        "{err}"
+    );
+    assert_eq!(err.matches("jetting:").count(), 1, "{err}");
     assert!(!err.contains("rests on the shock-polar"), "{err}");
+    // --exact-jetting has nothing to solve there, and says so.
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        "map-test-al-on-cu-nojet",
+        "--library",
+        path_str(&lib),
+        "-o",
+        path_str(&dir.path().join("exact.csv")),
+        "--exact-jetting",
+        "--json",
+    ]);
+    assert!(o.status.success(), "{}", text(&o.stderr));
+    let v: Value = serde_json::from_slice(&o.stdout).expect("summary JSON");
+    assert_eq!(v["jetting"]["rows_solved_directly"], 0);
+    assert!(
+        v["warnings"].as_array().is_some_and(|w| w.iter().any(|m| m
+            .as_str()
+            .is_some_and(|m| m.starts_with("--exact-jetting has no effect")))),
+        "{v}"
+    );
+    // Asking for the jetting margin of such a window says why there is none.
+    let o = run(&[
+        "map",
+        path_str(&input),
+        "--pair",
+        "map-test-al-on-cu-nojet",
+        "--library",
+        path_str(&lib),
+        "-o",
+        path_str(&dir.path().join("refused.csv")),
+        "--columns",
+        "row,margin_jetting",
+    ]);
+    assert_fails_with(&o, "--columns: margin_jetting: not a limit of pair");
+    assert!(
+        text(&o.stderr).contains(
+            "hint: margin_jetting: the window turns its jetting criterion off (reason: test: jetting criterion off)"
+        ),
+        "{}",
+        text(&o.stderr)
+    );
     assert_eq!(off["jetting"]["method"], "disabled");
+    assert_eq!(off["jetting"]["enabled"], false);
+    assert_eq!(off["jetting"]["off_reason"], "test: jetting criterion off");
+    assert_eq!(on["jetting"]["enabled"], true);
+    assert!(on["jetting"]["off_reason"].is_null());
     assert_eq!(off["jetting"]["rows_solved_directly"], 0, "{off}");
     assert!(on["jetting"]["supersonic_rows"]
         .as_u64()
@@ -801,4 +852,26 @@ fn jetting_off_is_not_solved() {
             assert_eq!(a, b, "failing: {f}");
         }
     }
+}
+
+/// An output in a folder that does not exist: exit 1 (a file that cannot be created, as for
+/// every command's files), the message names the flag, the file and the folder, never the
+/// temporary name the map writes under.
+#[test]
+fn an_output_in_a_missing_folder_names_the_folder() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let target = dir.path().join("no-such-folder").join("map.csv");
+    let o = run(&[
+        "map",
+        path_str(&data("map-basic.csv")),
+        "--pair",
+        PAIR,
+        "-o",
+        path_str(&target),
+    ]);
+    assert_eq!(o.status.code(), Some(1), "{}", text(&o.stderr));
+    let err = text(&o.stderr);
+    assert!(err.contains("-o: cannot create"), "{err}");
+    assert!(err.contains("no-such-folder"), "{err}");
+    assert!(!err.contains(".tmp-"), "{err}");
 }

@@ -287,6 +287,8 @@ impl Summary {
             "jetting".into(),
             json!({
                 "method": self.info.jetting,
+                "enabled": self.info.jetting != "disabled",
+                "off_reason": self.info.jetting_off_reason,
                 "table_nodes": self.info.table.map(|t| t.0),
                 "table_max_inflow_m_s": self.info.table.map(|t| t.1),
                 "error_bound_deg": self.info.table.map(|_| JettingTable::ERROR_BOUND_DEG),

@@ -215,6 +215,9 @@ pub struct RunInfo {
     pub pair_line: String,
     /// The window's rule for the mixed jetting case.
     pub mixed_rule: &'static str,
+    /// Why the window turns its jetting criterion off (`jetting` is `disabled`), as written
+    /// in the window.
+    pub jetting_off_reason: Option<String>,
     /// The validity domain's bounds in words (`quantity: range`), for the summary.
     pub domain: Vec<String>,
 }

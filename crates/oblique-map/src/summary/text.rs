@@ -283,13 +283,7 @@ impl Summary {
                 self.outside_trial_data, self.welded_outside_trial_data
             ));
         }
-        if self.supersonic_rows > 0 && self.info.jetting == "disabled" {
-            // No jetting limit to rest on anything: the counts only.
-            s.push_str(&format!(
-                "jetting: {} row(s) supersonic in at least one plate, {} of them in one plate only (the criterion is off in this window, so neither decides a verdict)\n",
-                self.supersonic_rows, self.mixed_rows
-            ));
-        } else if self.supersonic_rows > 0 {
+        if self.supersonic_rows > 0 && self.info.jetting != "disabled" {
             s.push_str(&format!(
                 "jetting: {} row(s) supersonic in at least one plate (the limit rests on the shock-polar criterion there), {} of them in one plate only (the mixed case, which no source covers; rule: {})\n",
                 self.supersonic_rows, self.mixed_rows, self.info.mixed_rule
@@ -324,7 +318,21 @@ impl Summary {
                 "jetting: solved directly for every row with supersonic inflow (--exact-jetting): {} row(s); the subsonic ones need no solve\n",
                 self.jetting_direct
             )),
-            _ => s.push_str("jetting: criterion disabled in the window\n"),
+            _ => {
+                // One line: the criterion is off, why, and the regimes counted all the same.
+                s.push_str("jetting: criterion off in this window");
+                if let Some(r) = &self.info.jetting_off_reason {
+                    s.push_str(&format!(" (reason: {r})"));
+                }
+                s.push_str(": no verdict rests on it");
+                if self.supersonic_rows > 0 {
+                    s.push_str(&format!(
+                        "; {} row(s) supersonic in at least one plate, {} of them in one plate only",
+                        self.supersonic_rows, self.mixed_rows
+                    ));
+                }
+                s.push('\n');
+            }
         }
         if !self.constants.is_empty() {
             let parts: Vec<String> = self
