@@ -318,6 +318,14 @@ mod edge_tests {
             "{e}"
         );
         let e = parse(&format!(
+            "{HEAD}\n criteria: (jetting: (mixed: \"either-subsonic\", reason: \"   \")),\n)"
+        ))
+        .expect_err("blank reason");
+        assert!(
+            e.contains("criteria.jetting") && e.contains("its reason is blank"),
+            "{e}"
+        );
+        let e = parse(&format!(
             "{HEAD}\n criteria: (jetting: (mixed: \"always\", reason: \"x\")),\n)"
         ))
         .expect_err("unknown rule");

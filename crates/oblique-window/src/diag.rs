@@ -211,7 +211,35 @@ fn offset_of(text: &str, line: usize, col: usize) -> usize {
 
 /// Turn a ron deserialisation error into a diagnostic, with a suggestion for misspelt keys.
 pub(crate) fn from_ron(file: &str, text: &str, err: &ron::error::SpannedError) -> Diagnostic {
-    let message = err.code.to_string();
+    // ron names the program's own type (`in `JettingEntry``): say what the user can act on.
+    let allowed = |expected: &[&str]| {
+        expected
+            .iter()
+            .map(|e| format!("`{e}`"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    let message = match &err.code {
+        ron::Error::NoSuchStructField {
+            expected, found, ..
+        } => format!(
+            "unexpected field `{found}` here; the fields allowed here are {}",
+            allowed(expected)
+        ),
+        ron::Error::NoSuchEnumVariant {
+            expected, found, ..
+        } => format!(
+            "unexpected value `{found}` here; the values allowed here are {}",
+            allowed(expected)
+        ),
+        ron::Error::MissingStructField { field, .. } => {
+            format!("missing field `{field}` in the block that ends here")
+        }
+        ron::Error::DuplicateStructField { field, .. } => {
+            format!("field `{field}` is given twice here")
+        }
+        code => code.to_string(),
+    };
     let hint = match &err.code {
         ron::Error::NoSuchStructField {
             expected, found, ..
@@ -474,5 +502,38 @@ mod tests {
             vec!["aa6061-t6"]
         );
         assert_eq!(edit_distance("kitten", "sitting"), 3);
+    }
+
+    /// ron's messages name the program's own types (`in `Entry``); ours name only what the
+    /// file holds.
+    #[test]
+    fn messages_name_no_internal_type() {
+        #[derive(serde::Deserialize, Debug)]
+        #[serde(deny_unknown_fields)]
+        #[allow(dead_code)]
+        struct InternalEntry {
+            enabled: bool,
+            reason: String,
+        }
+        let e = parse_ron::<InternalEntry>("f.ron", "(enabled: true, reasn: \"x\")").unwrap_err();
+        let d = &e.0[0];
+        assert_eq!(
+            d.message,
+            "unexpected field `reasn` here; the fields allowed here are `enabled`, `reason`"
+        );
+        assert_eq!(d.hint.as_deref(), Some("did you mean `reason`?"));
+        let e = parse_ron::<InternalEntry>("f.ron", "(enabled: true)").unwrap_err();
+        assert_eq!(
+            e.0[0].message,
+            "missing field `reason` in the block that ends here"
+        );
+        for e in [
+            parse_ron::<InternalEntry>("f.ron", "(enabled: true, reasn: \"x\")"),
+            parse_ron::<InternalEntry>("f.ron", "(enabled: true)"),
+            parse_ron::<InternalEntry>("f.ron", "(enabled: true, enabled: false, reason: \"x\")"),
+        ] {
+            let text = e.unwrap_err().to_string();
+            assert!(!text.contains("InternalEntry"), "{text}");
+        }
     }
 }

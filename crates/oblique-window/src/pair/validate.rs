@@ -131,7 +131,11 @@ pub(super) fn criteria(
             }
             _ if is_changed => c.push(
                 &format!("criteria.{key}"),
-                format!("{key} differs from the default but gives no reason"),
+                if reason.is_some() {
+                    format!("{key} differs from the default but its reason is blank")
+                } else {
+                    format!("{key} differs from the default but gives no reason")
+                },
                 Some("add `reason: \"...\"` saying why (a trial series, a paper)".into()),
             ),
             _ => {}
