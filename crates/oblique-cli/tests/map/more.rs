@@ -875,3 +875,15 @@ fn an_output_in_a_missing_folder_names_the_folder() {
     assert!(err.contains("no-such-folder"), "{err}");
     assert!(!err.contains(".tmp-"), "{err}");
 }
+
+/// JSON lines have no header row: a key without its unit is placed on the first object's line,
+/// named as such.
+#[test]
+fn json_lines_without_units_name_the_first_objects_keys() {
+    let o = run_stdin(
+        &["map", "-", "--pair", PAIR, "--format", "jsonl"],
+        b"{\"position\": 0, \"velocity\": 450, \"angle\": 12}\n",
+    );
+    assert_fails_with(&o, "<stdin>: line 1 (the keys of the first object): ");
+    assert!(!text(&o.stderr).contains("(header)"), "{}", text(&o.stderr));
+}

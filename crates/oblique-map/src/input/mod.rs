@@ -50,6 +50,14 @@ pub fn read_header(
             MapError::Input(format!(
                 "{m}\n  hint: the first line looks like a JSON object: read the file as JSON lines with --format jsonl"
             ))
+        } else if format == Format::Jsonl {
+            // JSON lines have no header row: the columns are the first object's keys.
+            let row = 1 + comment_lines;
+            MapError::Input(m.replacen(
+                &format!("row {row} (header)"),
+                &format!("line {row} (the keys of the first object)"),
+                1,
+            ))
         } else {
             MapError::Input(m)
         }
