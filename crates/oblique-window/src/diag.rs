@@ -291,14 +291,47 @@ pub(crate) fn from_ron(file: &str, text: &str, err: &ron::error::SpannedError) -
             };
         }
     }
+    // A value of the wrong kind (`enabled: maybe`): ron does not say whose value it is; the
+    // key just before it on its line does.
+    let wrong_value = matches!(
+        err.code,
+        ron::Error::ExpectedBoolean
+            | ron::Error::ExpectedString
+            | ron::Error::ExpectedInteger
+            | ron::Error::ExpectedFloat
+            | ron::Error::ExpectedArray
+            | ron::Error::ExpectedStructLike
+    );
+    let field = if wrong_value {
+        key_before(text, here).unwrap_or_default()
+    } else {
+        String::new()
+    };
     Diagnostic {
         file: file.to_string(),
         line,
         col,
-        field: String::new(),
+        field,
         message: lowercase_first(&message),
         hint,
     }
+}
+
+/// The key of the `key: value` whose value starts at byte `at`, when the key is on the same
+/// line just before it.
+fn key_before(text: &str, at: usize) -> Option<String> {
+    let line_start = text[..at].rfind('\n').map_or(0, |p| p + 1);
+    let before = text[line_start..at].trim_end();
+    let before = before.strip_suffix(':')?.trim_end();
+    let key: String = before
+        .chars()
+        .rev()
+        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_')
+        .collect::<Vec<_>>()
+        .into_iter()
+        .rev()
+        .collect();
+    (!key.is_empty() && !key.starts_with(|c: char| c.is_ascii_digit())).then_some(key)
 }
 
 fn closer(open: char) -> char {
@@ -527,6 +560,10 @@ mod tests {
             e.0[0].message,
             "missing field `reason` in the block that ends here"
         );
+        // A value of the wrong kind names its key.
+        let e = parse_ron::<InternalEntry>("f.ron", "(reason: \"x\", enabled: maybe)").unwrap_err();
+        assert_eq!(e.0[0].field, "enabled", "{e}");
+        assert_eq!(e.0[0].message, "expected boolean");
         for e in [
             parse_ron::<InternalEntry>("f.ron", "(enabled: true, reasn: \"x\")"),
             parse_ron::<InternalEntry>("f.ron", "(enabled: true)"),

@@ -217,7 +217,10 @@ fn a_missing_bracket_is_reported_at_its_line() {
     .expect("write");
     let o = run(&["--library", lib, "pair", "validate"]);
     let err = format!("{}{}", stdout(&o), stderr(&o));
-    assert!(err.contains("b.ron:2:9: expected string"), "{err}");
+    assert!(
+        err.contains("b.ron:2:9: field `flyer`: expected string"),
+        "{err}"
+    );
     assert!(!err.contains("never closed"), "{err}");
 }
 
