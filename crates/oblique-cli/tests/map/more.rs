@@ -739,9 +739,10 @@ fn jetting_off_is_not_solved() {
         body.push_str(&format!("{i},{velocity},{angle}\n"));
     }
     let input = write_input(&dir, "sweep.csv", &body);
-    let map_of = |pair: &str| {
-        let out = dir.path().join(format!("{pair}.csv"));
-        let o = run(&[
+    // `oblique map` of the sweep against `pair` of this library, the map to `out`.
+    let map_with = |pair: &str, out: &str, extra: &[&str]| {
+        let out = dir.path().join(out);
+        let mut args = vec![
             "map",
             path_str(&input),
             "--pair",
@@ -750,25 +751,20 @@ fn jetting_off_is_not_solved() {
             path_str(&lib),
             "-o",
             path_str(&out),
-            "--json",
-            "--all-columns",
-        ]);
+        ];
+        args.extend_from_slice(extra);
+        (run(&args), out)
+    };
+    let map_of = |pair: &str| {
+        let (o, out) = map_with(pair, &format!("{pair}.csv"), &["--json", "--all-columns"]);
         assert!(o.status.success(), "{}", text(&o.stderr));
         let v: Value = serde_json::from_slice(&o.stdout).expect("summary JSON");
         (v, std::fs::read_to_string(&out).expect("map"))
     };
+    const NOJET: &str = "map-test-al-on-cu-nojet";
     let (on, map_on) = map_of(PAIR);
-    let (off, map_off) = map_of("map-test-al-on-cu-nojet");
-    let o = run(&[
-        "map",
-        path_str(&input),
-        "--pair",
-        "map-test-al-on-cu-nojet",
-        "--library",
-        path_str(&lib),
-        "-o",
-        path_str(&dir.path().join("text.csv")),
-    ]);
+    let (off, map_off) = map_of(NOJET);
+    let (o, _) = map_with(NOJET, "text.csv", &[]);
     // The map goes to a file, so the summary is on standard output.
     let err = text(&o.stdout);
     assert!(
@@ -778,18 +774,7 @@ fn jetting_off_is_not_solved() {
     assert_eq!(err.matches("jetting:").count(), 1, "{err}");
     assert!(!err.contains("rests on the shock-polar"), "{err}");
     // --exact-jetting has nothing to solve there, and says so.
-    let o = run(&[
-        "map",
-        path_str(&input),
-        "--pair",
-        "map-test-al-on-cu-nojet",
-        "--library",
-        path_str(&lib),
-        "-o",
-        path_str(&dir.path().join("exact.csv")),
-        "--exact-jetting",
-        "--json",
-    ]);
+    let (o, _) = map_with(NOJET, "exact.csv", &["--exact-jetting", "--json"]);
     assert!(o.status.success(), "{}", text(&o.stderr));
     let v: Value = serde_json::from_slice(&o.stdout).expect("summary JSON");
     assert_eq!(v["jetting"]["rows_solved_directly"], 0);
@@ -800,18 +785,7 @@ fn jetting_off_is_not_solved() {
         "{v}"
     );
     // Asking for the jetting margin of such a window says why there is none.
-    let o = run(&[
-        "map",
-        path_str(&input),
-        "--pair",
-        "map-test-al-on-cu-nojet",
-        "--library",
-        path_str(&lib),
-        "-o",
-        path_str(&dir.path().join("refused.csv")),
-        "--columns",
-        "row,margin_jetting",
-    ]);
+    let (o, _) = map_with(NOJET, "refused.csv", &["--columns", "row,margin_jetting"]);
     assert_fails_with(&o, "--columns: margin_jetting: not a limit of pair");
     assert!(
         text(&o.stderr).contains(
