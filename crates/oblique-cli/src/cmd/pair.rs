@@ -332,8 +332,10 @@ pub fn run(dirs: &[PathBuf], c: PairCommand) -> CmdResult {
                         format!("{:.2}", w.flyer_thickness.mm()),
                         w.convention.to_string(),
                         w.observations.len().to_string(),
+                        // Where it comes from, so that a user's copy of the demo is told
+                        // apart from the built-in one; invented data says so.
                         if w.invented.is_some() {
-                            "invented demo".into()
+                            format!("{} (invented data)", w.origin.display)
                         } else {
                             w.origin.display.clone()
                         },

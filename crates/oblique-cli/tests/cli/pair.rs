@@ -586,6 +586,12 @@ fn shadowing_a_built_in_pair_warns() {
     let o = in_lib(p, &["pair", "list"]);
     assert_eq!(o.status.code(), Some(0));
     assert!(stderr(&o).contains("shadows"), "{}", stderr(&o));
+    // The list names the user's file (invented data, so marked), not just "invented".
+    assert!(
+        stdout(&o).contains("mine.ron (invented data)"),
+        "{}",
+        stdout(&o)
+    );
 }
 
 /// Two files in one folder that define the same pair name make the name ambiguous: a command
