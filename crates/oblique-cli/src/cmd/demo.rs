@@ -198,7 +198,7 @@ pub fn run(dirs: &[PathBuf], a: DemoArgs) -> CmdResult {
     };
     if let Some(p) = &input.probability {
         s.push_str(&format!(
-            "weld probability of the chosen set-up under the scatter it implies: {:.0} % (the record says what it assumes and what dominates the doubt)\n",
+            "weld probability of the chosen set-up: {:.0} %, with the wide velocity scatter of a bank whose efficiency is not calibrated, 1 deg of scatter on the angle and the model's own uncertainty (the choice above is by headroom, not by this number; the record says what it assumes and what dominates the doubt)\n",
             100.0 * p.value
         ));
     }

@@ -407,6 +407,12 @@ fn demo_writes_plots_and_report_and_names_the_paths() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let s = stdout(&o);
     assert!(s.contains("INVENTED"));
+    // The probability line says what it assumes and that it did not make the choice.
+    assert!(
+        s.contains("weld probability of the chosen set-up: ")
+            && s.contains("the choice above is by headroom, not by this number"),
+        "{s}"
+    );
     for f in [
         "window-angle-velocity.svg",
         "window-angle-collision-velocity.svg",
