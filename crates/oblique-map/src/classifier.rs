@@ -108,6 +108,11 @@ impl LimitInfo {
     }
 }
 
+/// The margin column stem of a criterion (`margin_deribas_lower`): what `--columns` names it.
+pub(crate) fn criterion_column(id: CriterionId) -> String {
+    format!("margin_{}", id.as_str().replace('-', "_"))
+}
+
 struct FastBoundary {
     plane: Plane,
     side: WeldSide,
@@ -256,7 +261,7 @@ impl Classifier {
                 limit: LimitRef::Criterion(*id),
                 label: id.as_str().to_string(),
                 id: id.as_str().to_string(),
-                column: format!("margin_{}", id.as_str().replace('-', "_")),
+                column: criterion_column(*id),
                 unit: match id {
                     CriterionId::DeribasLower | CriterionId::Jetting => "deg",
                     CriterionId::PressureLower => "Pa",

@@ -2,7 +2,7 @@
 //! its chunks back in file order (the summary, the outputs, a bad row or a position out of
 //! order that ends the map), and finish the summary.
 
-use crate::classifier::{Classifier, JettingMode, VelocityKind};
+use crate::classifier::{criterion_column, Classifier, JettingMode, VelocityKind};
 use crate::error::{MapError, Output};
 use crate::format::fmt_short;
 use crate::input::{read_header, Header, Source, Wanted};
@@ -115,7 +115,7 @@ impl<'a> WeldMap<'a> {
             );
             // A criterion the window turns off: say so, with the window's reason.
             for id in CriterionId::ALL {
-                let stem = format!("margin_{}", id.as_str().replace('-', "_"));
+                let stem = criterion_column(id);
                 if !unknown.contains(&stem.as_str()) {
                     continue;
                 }
