@@ -323,15 +323,9 @@ fn key_before(text: &str, at: usize) -> Option<String> {
     let line_start = text[..at].rfind('\n').map_or(0, |p| p + 1);
     let before = text[line_start..at].trim_end();
     let before = before.strip_suffix(':')?.trim_end();
-    let key: String = before
-        .chars()
-        .rev()
-        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_')
-        .collect::<Vec<_>>()
-        .into_iter()
-        .rev()
-        .collect();
-    (!key.is_empty() && !key.starts_with(|c: char| c.is_ascii_digit())).then_some(key)
+    let rest = before.trim_end_matches(|c: char| c.is_ascii_alphanumeric() || c == '_');
+    let key = &before[rest.len()..];
+    (!key.is_empty() && !key.starts_with(|c: char| c.is_ascii_digit())).then(|| key.to_string())
 }
 
 fn closer(open: char) -> char {
